@@ -1,0 +1,36 @@
+import type { Metadata } from "next";
+import { notFound } from "next/navigation";
+import { SWRConfig } from "swr";
+import { getFarm } from "@/db/queries/farms";
+import { getToday } from "@/db/queries/today";
+import { TodayBoard } from "@/components/today/today-board";
+import { requireMember } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { todayKey } from "@/lib/hooks/use-today";
+
+export const metadata: Metadata = { title: "Today" };
+
+export default async function TodayPage({ params }: { params: Promise<{ farmId: string }> }) {
+  const { farmId } = await params;
+  try {
+    await requireMember({ farmId }, "read");
+  } catch (e) {
+    if (e instanceof AppError) notFound();
+    throw e;
+  }
+  const farm = await getFarm(farmId);
+  if (!farm) notFound();
+  // Prime SWR with the server's answer so the phone paints values at once.
+  const today = JSON.parse(JSON.stringify(await getToday(farmId)));
+  return (
+    <main>
+      <div className="px-4 pt-4">
+        <p className="text-sm text-soil-500">{farm.name}</p>
+        <h1 className="text-3xl font-bold">Today</h1>
+      </div>
+      <SWRConfig value={{ fallback: { [todayKey(farmId)!]: today } }}>
+        <TodayBoard farmId={farmId} units={farm.unitSystem} />
+      </SWRConfig>
+    </main>
+  );
+}

@@ -1,0 +1,24 @@
+import { redirect } from "next/navigation";
+import { getUser } from "@/db/queries/users";
+import { SignOutButton } from "@/components/auth/sign-out-button";
+import { currentUserId } from "@/lib/auth/session";
+
+export default async function FarmShell({ children }: { children: React.ReactNode }) {
+  const userId = await currentUserId();
+  const user = userId ? await getUser(userId) : null;
+  if (!user) redirect("/sign-in");
+  return (
+    <div className="mx-auto min-h-dvh max-w-3xl">
+      <header className="sticky top-0 z-10 flex items-center justify-between bg-soil-800 px-4 py-2 text-soil-100">
+        <a href="/" className="flex min-h-11 items-center gap-2 font-bold">
+          <img src="/icon.svg" alt="" width={28} height={28} /> Wormward
+        </a>
+        <div className="flex items-center gap-1 text-sm">
+          <span className="hidden sm:inline">{user.name}</span>
+          <SignOutButton />
+        </div>
+      </header>
+      {children}
+    </div>
+  );
+}

@@ -1,0 +1,22 @@
+import { addZone, getBin } from "@/db/queries/bins";
+import { route } from "@/lib/api/route";
+import { requireMember } from "@/lib/auth/session";
+import { readJson } from "@/lib/errors";
+import { zoneCreate } from "@/lib/validation/farm";
+
+type Ctx = { params: Promise<{ binId: string }> };
+
+// GET /api/bins/[binId]/zones — a bin's zones from the feeding side to the harvest side
+export const GET = route(async (_req, { params }: Ctx) => {
+  const { binId } = await params;
+  await requireMember({ binId }, "read");
+  return Response.json({ zones: (await getBin(binId))?.zones ?? [] });
+});
+
+// POST /api/bins/[binId]/zones — owners add a zone at the harvest end
+export const POST = route(async (req, { params }: Ctx) => {
+  const { binId } = await params;
+  await requireMember({ binId }, "manage");
+  const input = zoneCreate.parse(await readJson(req));
+  return Response.json({ zone: await addZone(binId, input) }, { status: 201 });
+});

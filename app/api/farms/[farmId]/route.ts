@@ -1,0 +1,22 @@
+import { getFarm, updateFarm } from "@/db/queries/farms";
+import { route } from "@/lib/api/route";
+import { requireMember } from "@/lib/auth/session";
+import { readJson } from "@/lib/errors";
+import { farmUpdate } from "@/lib/validation/farm";
+
+type Ctx = { params: Promise<{ farmId: string }> };
+
+// GET /api/farms/[farmId] — the farm and the caller's role on it
+export const GET = route(async (_req, { params }: Ctx) => {
+  const { farmId } = await params;
+  const who = await requireMember({ farmId }, "read");
+  return Response.json({ farm: await getFarm(who.farmId), role: who.role });
+});
+
+// PATCH /api/farms/[farmId] — owners rename the farm or change its units and timezone
+export const PATCH = route(async (req, { params }: Ctx) => {
+  const { farmId } = await params;
+  const who = await requireMember({ farmId }, "manage");
+  const patch = farmUpdate.parse(await readJson(req));
+  return Response.json({ farm: await updateFarm(who.farmId, patch) });
+});

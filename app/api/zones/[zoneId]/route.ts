@@ -1,0 +1,29 @@
+import { archiveZone, getZone, updateZone } from "@/db/queries/bins";
+import { route } from "@/lib/api/route";
+import { requireMember } from "@/lib/auth/session";
+import { readJson } from "@/lib/errors";
+import { zoneUpdate } from "@/lib/validation/farm";
+
+type Ctx = { params: Promise<{ zoneId: string }> };
+
+// GET /api/zones/[zoneId] — one zone
+export const GET = route(async (_req, { params }: Ctx) => {
+  const { zoneId } = await params;
+  await requireMember({ zoneId }, "read");
+  return Response.json({ zone: await getZone(zoneId) });
+});
+
+// PATCH /api/zones/[zoneId] — owners rename a zone, change its kind or position
+export const PATCH = route(async (req, { params }: Ctx) => {
+  const { zoneId } = await params;
+  await requireMember({ zoneId }, "manage");
+  const patch = zoneUpdate.parse(await readJson(req));
+  return Response.json({ zone: await updateZone(zoneId, patch) });
+});
+
+// DELETE /api/zones/[zoneId] — owners archive a zone (its readings stay)
+export const DELETE = route(async (_req, { params }: Ctx) => {
+  const { zoneId } = await params;
+  await requireMember({ zoneId }, "manage");
+  return Response.json({ zone: await archiveZone(zoneId) });
+});

@@ -1,0 +1,30 @@
+import type { Metadata, Viewport } from "next";
+import localFont from "next/font/local";
+import "./globals.css";
+
+// Atkinson Hyperlegible (SIL OFL 1.1, shipped in app/fonts): clear digits for a glance in a dim shed.
+const atkinson = localFont({
+  src: [
+    { path: "./fonts/atkinson-hyperlegible-latin-400-normal.woff2", weight: "400", style: "normal" },
+    { path: "./fonts/atkinson-hyperlegible-latin-700-normal.woff2", weight: "700", style: "normal" },
+  ],
+  variable: "--font-atkinson",
+  display: "swap",
+});
+
+export const metadata: Metadata = {
+  title: { default: "Wormward", template: "%s · Wormward" },
+  description: "Watches your worm bins: temperature, moisture and ammonia by zone, with alerts to your phone.",
+  manifest: "/manifest.webmanifest",
+  icons: { icon: "/icon.svg" },
+};
+
+export const viewport: Viewport = { themeColor: "#3f2e22", width: "device-width", initialScale: 1 };
+
+export default function RootLayout({ children }: { children: React.ReactNode }) {
+  return (
+    <html lang="en" className={atkinson.variable}>
+      <body className="min-h-dvh font-sans antialiased">{children}</body>
+    </html>
+  );
+}

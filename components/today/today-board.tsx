@@ -1,0 +1,129 @@
+"use client";
+
+import type { Today } from "@/db/queries/today";
+import { Sparkline } from "@/components/charts/sparkline";
+import { StatusMark } from "@/components/ui/status-mark";
+import { useToday } from "@/lib/hooks/use-today";
+import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/species";
+import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/units";
+
+type Zone = Today["bins"][number]["zones"][number];
+type Bin = Today["bins"][number];
+
+const ALERT_WORDS: Record<string, string> = {
+  heat: "Heat",
+  chill: "Chill",
+  drying: "Drying",
+  soggy: "Soggy",
+  ammonia: "Ammonia",
+  silent_probe: "Silent probe",
+  probe_fault: "Probe fault",
+};
+
+function ago(iso: string) {
+  const min = Math.round((Date.now() - Date.parse(iso)) / 60_000);
+  if (min < 1) return "just now";
+  if (min < 60) return `${min} min ago`;
+  const h = Math.round(min / 60);
+  return h < 48 ? `${h} h ago` : `${Math.round(h / 24)} days ago`;
+}
+
+function ZoneRow({ zone, bin, units }: { zone: Zone; bin: Bin; units: UnitSystem }) {
+  const species = getSpecies(bin.species);
+  const t = zone.latest.temperature;
+  const m = zone.latest.moisture;
+  const tBand = species && t ? classifyTemperature(species, t.value) : null;
+  const mBand = species && m ? classifyMoisture(species, m.value) : null;
+  const zoneName = zone.name ?? `${zone.kind[0]!.toUpperCase()}${zone.kind.slice(1)} zone`;
+  return (
+    <li className="border-t border-soil-100 py-3 first:border-t-0">
+      <div className="flex items-baseline justify-between gap-2">
+        <h3 className="font-bold">{zoneName}</h3>
+        <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
+      </div>
+      <div className="mt-2 grid grid-cols-2 gap-3">
+        <div>
+          <div className="text-xs uppercase tracking-wide text-soil-500">Temperature</div>
+          <div className="tabular text-2xl font-bold">{t ? formatTemperature(t.value, units) : "—"}</div>
+          <StatusMark band={tBand} />
+          {species && (
+            <Sparkline
+              points={zone.spark.temperature}
+              band={[species.temperatureC.comfortLow, species.temperatureC.comfortHigh]}
+              color="#b5523b"
+              label={`${bin.name}, ${zoneName}: temperature over the last 24 hours`}
+            />
+          )}
+        </div>
+        <div>
+          <div className="text-xs uppercase tracking-wide text-soil-500">Moisture</div>
+          <div className="tabular text-2xl font-bold">{m ? formatPercent(m.value) : "—"}</div>
+          <StatusMark band={mBand} />
+          {species && (
+            <Sparkline
+              points={zone.spark.moisture}
+              band={[species.moisturePct.comfortLow, species.moisturePct.comfortHigh]}
+              color="#4a6b85"
+              label={`${bin.name}, ${zoneName}: moisture over the last 24 hours`}
+            />
+          )}
+        </div>
+      </div>
+    </li>
+  );
+}
+
+export function TodayBoard({ farmId, units }: { farmId: string; units: UnitSystem }) {
+  const { data, error } = useToday(farmId);
+  if (!data) return <p className="p-4 text-soil-700">{error ? error.message : "Loading…"}</p>;
+  return (
+    <div className="space-y-4 p-3">
+      <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+        <h2 id="alerts-h" className="text-lg font-bold">Open alerts</h2>
+        {data.alerts.length === 0 ? (
+          <p className="mt-1 text-soil-700">None. Every bin is quiet.</p>
+        ) : (
+          <ul className="mt-2 space-y-2">
+            {data.alerts.map((a) => (
+              <li key={a.id} className={`rounded-xl p-3 ring-1 ${a.level === "act_now" ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}>
+                <div className="flex justify-between gap-2 font-bold">
+                  <span>{a.level === "act_now" ? "Act now" : "Heads-up"} · {ALERT_WORDS[a.kind] ?? a.kind}</span>
+                  <span className="text-sm font-normal">{a.state === "claimed" ? "claimed" : "raised"}</span>
+                </div>
+                <p className="text-sm">{a.message}</p>
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
+      {data.bins.length === 0 && (
+        <p className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+          No bins yet. An owner adds bins and their zones; probes then report here.
+        </p>
+      )}
+      {data.bins.map((bin) => {
+        const species = getSpecies(bin.species);
+        return (
+          <section key={bin.id} aria-label={bin.name} className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+            <header className="mb-1">
+              <h2 className="text-xl font-bold">{bin.name}</h2>
+              <p className="text-sm text-soil-700">
+                {bin.style} · <i>{species?.name ?? bin.species}</i>
+                {species ? ` · comfortable ${formatTemperature(species.temperatureC.comfortLow, units, { digits: 0 })}–${formatTemperature(species.temperatureC.comfortHigh, units, { digits: 0 })}` : ""}
+              </p>
+            </header>
+            {bin.zones.length === 0 ? (
+              <p className="text-soil-700">This bin has no zones.</p>
+            ) : (
+              <ul>
+                {bin.zones.map((z) => (
+                  <ZoneRow key={z.id} zone={z} bin={bin} units={units} />
+                ))}
+              </ul>
+            )}
+          </section>
+        );
+      })}
+    </div>
+  );
+}

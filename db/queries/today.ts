@@ -1,0 +1,73 @@
+import { and, desc, eq, inArray } from "drizzle-orm";
+import { db } from "@/db";
+import { alerts } from "@/db/schema";
+import { sql } from "drizzle-orm";
+import { listBins } from "./bins";
+
+export type ZoneLatest = { zoneId: string; metric: string; ts: string; value: number };
+export type SparkPoint = { zoneId: string; metric: string; t: string; v: number };
+
+// Latest temperature, moisture and ammonia of every zone of a farm: one lateral lookup per probe
+// and metric through the readings key, newest probe reading wins when a zone has several.
+async function latestByZone(farmId: string): Promise<ZoneLatest[]> {
+  const r = await db().execute(sql`
+    select distinct on (p.zone_id, m.metric) p.zone_id as "zoneId", m.metric::text as metric, r.ts, r.value
+    from probes p
+    cross join unnest(array['temperature','moisture','ammonia']::metric[]) as m(metric)
+    join lateral (
+      select ts, value from readings
+      where probe_id = p.id and metric = m.metric
+      order by ts desc limit 1
+    ) r on true
+    where p.farm_id = ${farmId} and p.zone_id is not null and p.archived_at is null
+    order by p.zone_id, m.metric, r.ts desc`);
+  return (r.rows as { zoneId: string; metric: string; ts: Date; value: number }[]).map((x) => ({
+    ...x,
+    ts: new Date(x.ts).toISOString(),
+  }));
+}
+
+// 24 h of temperature and moisture per zone in 15-minute means (date_bin has no Drizzle word):
+// 96 points a series is plenty for a phone-sized chart.
+async function sparklines(farmId: string, hours = 24): Promise<SparkPoint[]> {
+  const r = await db().execute(sql`
+    select p.zone_id as "zoneId", r.metric::text as metric,
+           date_bin('15 minutes', r.ts, timestamptz '2000-01-01') as t, avg(r.value)::float8 as v
+    from readings r join probes p on p.id = r.probe_id
+    where p.farm_id = ${farmId} and p.zone_id is not null
+      and r.metric in ('temperature', 'moisture')
+      and r.ts > now() - make_interval(hours => ${hours})
+    group by 1, 2, 3 order by 1, 2, 3`);
+  return (r.rows as { zoneId: string; metric: string; t: Date; v: number }[]).map((x) => ({
+    ...x,
+    t: new Date(x.t).toISOString(),
+  }));
+}
+
+export async function getToday(farmId: string) {
+  const [binList, latest, spark, open] = await Promise.all([
+    listBins(farmId),
+    latestByZone(farmId),
+    sparklines(farmId),
+    db()
+      .select()
+      .from(alerts)
+      .where(and(eq(alerts.farmId, farmId), inArray(alerts.state, ["raised", "claimed"])))
+      .orderBy(desc(alerts.raisedAt)),
+  ]);
+  return {
+    bins: binList.map((b) => ({
+      ...b,
+      zones: b.zones.map((z) => ({
+        ...z,
+        latest: Object.fromEntries(latest.filter((l) => l.zoneId === z.id).map((l) => [l.metric, { ts: l.ts, value: l.value }])),
+        spark: {
+          temperature: spark.filter((s) => s.zoneId === z.id && s.metric === "temperature").map((s) => [s.t, s.v] as const),
+          moisture: spark.filter((s) => s.zoneId === z.id && s.metric === "moisture").map((s) => [s.t, s.v] as const),
+        },
+      })),
+    })),
+    alerts: open,
+  };
+}
+export type Today = Awaited<ReturnType<typeof getToday>>;

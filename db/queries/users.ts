@@ -1,0 +1,25 @@
+import { eq, sql } from "drizzle-orm";
+import { db } from "@/db";
+import { farms, memberships, users } from "@/db/schema";
+
+export async function getUserByEmail(email: string) {
+  const [u] = await db()
+    .select()
+    .from(users)
+    .where(sql`lower(${users.email}) = lower(${email})`);
+  return u ?? null;
+}
+
+export async function getUser(id: string) {
+  const [u] = await db().select().from(users).where(eq(users.id, id));
+  return u ?? null;
+}
+
+export async function listMyFarms(userId: string) {
+  return db()
+    .select({ id: farms.id, name: farms.name, role: memberships.role, unitSystem: farms.unitSystem, timezone: farms.timezone })
+    .from(memberships)
+    .innerJoin(farms, eq(farms.id, memberships.farmId))
+    .where(eq(memberships.userId, userId))
+    .orderBy(farms.name);
+}

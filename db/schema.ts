@@ -1,0 +1,450 @@
+import { sql } from "drizzle-orm";
+import {
+  bigserial,
+  boolean,
+  doublePrecision,
+  index,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  real,
+  smallint,
+  text,
+  timestamp,
+  unique,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
+
+const ts = (name: string) => timestamp(name, { withTimezone: true });
+const createdAt = () => ts("created_at").notNull().defaultNow();
+
+export const roleEnum = pgEnum("role", ["owner", "keeper", "viewer"]);
+export const unitSystemEnum = pgEnum("unit_system", ["metric", "imperial"]);
+export const binStyleEnum = pgEnum("bin_style", ["flow-through", "tray stack", "tote", "bed", "windrow"]);
+export const zoneKindEnum = pgEnum("zone_kind", ["fresh", "working", "curing"]);
+export const metricEnum = pgEnum("metric", [
+  "temperature",
+  "moisture",
+  "moisture_raw",
+  "ammonia",
+  "battery",
+  "signal",
+]);
+export const alertKindEnum = pgEnum("alert_kind", [
+  "heat",
+  "chill",
+  "drying",
+  "soggy",
+  "ammonia",
+  "silent_probe",
+  "probe_fault",
+]);
+export const alertLevelEnum = pgEnum("alert_level", ["heads_up", "act_now"]);
+export const alertStateEnum = pgEnum("alert_state", ["raised", "claimed", "settled"]);
+export const ingredientKindEnum = pgEnum("ingredient_kind", ["bedding", "feedstock", "water"]);
+export const rejectSourceEnum = pgEnum("reject_source", ["mqtt", "http", "csv"]);
+
+export const farms = pgTable("farms", {
+  id: uuid("id").primaryKey().defaultRandom(),
+  name: text("name").notNull(),
+  unitSystem: unitSystemEnum("unit_system").notNull().default("metric"),
+  timezone: text("timezone").notNull().default("UTC"),
+  createdAt: createdAt(),
+});
+
+export const users = pgTable(
+  "users",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    email: text("email").notNull(),
+    name: text("name").notNull(),
+    passwordHash: text("password_hash").notNull(),
+    // Quiet hours hold back heads-ups only; "HH:MM" in the user's timezone.
+    quietFrom: text("quiet_from"),
+    quietTo: text("quiet_to"),
+    timezone: text("timezone").notNull().default("UTC"),
+    createdAt: createdAt(),
+  },
+  // Sign-in looks users up by e-mail, case-insensitively.
+  (t) => [uniqueIndex("users_email_lower_uq").on(sql`lower(${t.email})`)],
+);
+
+export const memberships = pgTable(
+  "memberships",
+  {
+    userId: uuid("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    role: roleEnum("role").notNull(),
+    createdAt: createdAt(),
+  },
+  // Every authorized request asks "which role has this user on this farm": the key answers it;
+  // the farm index lists a farm's team.
+  (t) => [primaryKey({ columns: [t.userId, t.farmId] }), index("memberships_farm_idx").on(t.farmId)],
+);
+
+export const invitations = pgTable(
+  "invitations",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    email: text("email").notNull(),
+    role: roleEnum("role").notNull(),
+    tokenHash: text("token_hash").notNull(),
+    invitedBy: uuid("invited_by").references(() => users.id, { onDelete: "set null" }),
+    expiresAt: ts("expires_at").notNull(),
+    acceptedAt: ts("accepted_at"),
+    createdAt: createdAt(),
+  },
+  // Accepting an invitation finds it by its token hash.
+  (t) => [uniqueIndex("invitations_token_uq").on(t.tokenHash)],
+);
+
+export const bins = pgTable(
+  "bins",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    style: binStyleEnum("style").notNull(),
+    species: text("species").notNull(),
+    lengthCm: real("length_cm"),
+    widthCm: real("width_cm"),
+    depthCm: real("depth_cm"),
+    notes: text("notes"),
+    archivedAt: ts("archived_at"),
+    createdAt: createdAt(),
+  },
+  // Today lists a farm's bins.
+  (t) => [index("bins_farm_idx").on(t.farmId)],
+);
+
+export const zones = pgTable(
+  "zones",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    binId: uuid("bin_id")
+      .notNull()
+      .references(() => bins.id, { onDelete: "cascade" }),
+    position: smallint("position").notNull(),
+    kind: zoneKindEnum("kind").notNull(),
+    name: text("name"),
+    archivedAt: ts("archived_at"),
+    createdAt: createdAt(),
+  },
+  // Zones are ordered from the feeding side; one zone per position in a bin.
+  (t) => [uniqueIndex("zones_bin_position_uq").on(t.binId, t.position)],
+);
+
+export const probes = pgTable(
+  "probes",
+  {
+    id: integer("id").primaryKey().generatedAlwaysAsIdentity(),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    zoneId: uuid("zone_id").references(() => zones.id, { onDelete: "set null" }),
+    // The probe's MQTT user name and the segment of its topics.
+    code: text("code").notNull(),
+    label: text("label"),
+    tokenHash: text("token_hash").notNull(),
+    metrics: text("metrics").array().notNull().default(sql`'{}'::text[]`),
+    reportIntervalS: integer("report_interval_s").notNull().default(60),
+    calibration: jsonb("calibration").$type<{
+      slope: number;
+      intercept: number;
+      r2: number;
+      fittedAt: string;
+      points: number;
+    } | null>(),
+    lastSeenAt: ts("last_seen_at"),
+    online: boolean("online").notNull().default(false),
+    batteryV: real("battery_v"),
+    signalDbm: real("signal_dbm"),
+    firmware: text("firmware"),
+    archivedAt: ts("archived_at"),
+    createdAt: createdAt(),
+  },
+  // The broker authenticates by code; zone pages list their probes.
+  (t) => [uniqueIndex("probes_code_uq").on(t.code), index("probes_zone_idx").on(t.zoneId)],
+);
+
+// A repeated reading (same probe, metric, time) is a no-op by this key.
+export const readings = pgTable(
+  "readings",
+  {
+    probeId: integer("probe_id").notNull(),
+    metric: metricEnum("metric").notNull(),
+    ts: ts("ts").notNull(),
+    value: doublePrecision("value").notNull(),
+  },
+  // The key doubles as the index for one probe's series over a time range.
+  (t) => [primaryKey({ columns: [t.probeId, t.metric, t.ts] })],
+);
+
+export const readingRollups = pgTable(
+  "reading_rollups",
+  {
+    probeId: integer("probe_id").notNull(),
+    metric: metricEnum("metric").notNull(),
+    hour: ts("hour").notNull(),
+    min: doublePrecision("min").notNull(),
+    max: doublePrecision("max").notNull(),
+    sum: doublePrecision("sum").notNull(),
+    count: integer("count").notNull(),
+  },
+  // Long chart ranges read one row per hour through this key instead of every raw reading.
+  (t) => [primaryKey({ columns: [t.probeId, t.metric, t.hour] })],
+);
+
+export const rejectedMessages = pgTable(
+  "rejected_messages",
+  {
+    id: bigserial("id", { mode: "number" }).primaryKey(),
+    farmId: uuid("farm_id"),
+    probeId: integer("probe_id"),
+    source: rejectSourceEnum("source").notNull(),
+    topic: text("topic"),
+    receivedAt: ts("received_at").notNull().defaultNow(),
+    reason: text("reason").notNull(),
+    excerpt: text("excerpt"),
+  },
+  // An operator reads a probe's latest rejections first.
+  (t) => [index("rejected_probe_time_idx").on(t.probeId, t.receivedAt)],
+);
+
+export type RuleThresholds = Record<string, number>;
+
+export const rules = pgTable(
+  "rules",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    // null = every bin of the farm; a bin's own rule overrides the farm's.
+    binId: uuid("bin_id").references(() => bins.id, { onDelete: "cascade" }),
+    kind: alertKindEnum("kind").notNull(),
+    thresholds: jsonb("thresholds").$type<RuleThresholds>().notNull().default({}),
+    enabled: boolean("enabled").notNull().default(true),
+    updatedAt: ts("updated_at").notNull().defaultNow(),
+  },
+  // One override per kind per scope.
+  (t) => [unique("rules_scope_kind_uq").on(t.farmId, t.binId, t.kind).nullsNotDistinct()],
+);
+
+export const alerts = pgTable(
+  "alerts",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    binId: uuid("bin_id")
+      .notNull()
+      .references(() => bins.id, { onDelete: "cascade" }),
+    zoneId: uuid("zone_id").references(() => zones.id, { onDelete: "cascade" }),
+    probeId: integer("probe_id").references(() => probes.id, { onDelete: "set null" }),
+    kind: alertKindEnum("kind").notNull(),
+    level: alertLevelEnum("level").notNull(),
+    state: alertStateEnum("state").notNull().default("raised"),
+    // What the alert is about (zone + kind, or probe + kind); one open alert per subject.
+    subject: text("subject").notNull(),
+    value: doublePrecision("value"),
+    message: text("message").notNull(),
+    details: jsonb("details").$type<Record<string, unknown>>().notNull().default({}),
+    raisedAt: ts("raised_at").notNull().defaultNow(),
+    claimedAt: ts("claimed_at"),
+    claimedBy: uuid("claimed_by").references(() => users.id, { onDelete: "set null" }),
+    settledAt: ts("settled_at"),
+    lastSentAt: ts("last_sent_at"),
+    escalatedAt: ts("escalated_at"),
+  },
+  (t) => [
+    // Two ingest nodes racing to raise the same alert: the second insert conflicts here.
+    uniqueIndex("alerts_open_subject_uq").on(t.subject).where(sql`state <> 'settled'`),
+    // Today shows a farm's open alerts, newest first.
+    index("alerts_farm_state_idx").on(t.farmId, t.state, t.raisedAt),
+  ],
+);
+
+export const alertEvents = pgTable(
+  "alert_events",
+  {
+    id: bigserial("id", { mode: "number" }).primaryKey(),
+    alertId: uuid("alert_id")
+      .notNull()
+      .references(() => alerts.id, { onDelete: "cascade" }),
+    at: ts("at").notNull().defaultNow(),
+    type: text("type").notNull(),
+    userId: uuid("user_id").references(() => users.id, { onDelete: "set null" }),
+    channel: text("channel"),
+    detail: jsonb("detail").$type<Record<string, unknown>>().notNull().default({}),
+  },
+  // An alert's history is read in order.
+  (t) => [index("alert_events_alert_idx").on(t.alertId, t.at)],
+);
+
+export const pushSubscriptions = pgTable(
+  "push_subscriptions",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    userId: uuid("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    endpoint: text("endpoint").notNull(),
+    p256dh: text("p256dh").notNull(),
+    auth: text("auth").notNull(),
+    userAgent: text("user_agent"),
+    createdAt: createdAt(),
+  },
+  // A browser re-subscribing with the same endpoint updates its row; sending lists a user's.
+  (t) => [uniqueIndex("push_endpoint_uq").on(t.endpoint), index("push_user_idx").on(t.userId)],
+);
+
+export const ingredients = pgTable(
+  "ingredients",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    // null = the shared library seeded from published tables; otherwise a farm's own.
+    farmId: uuid("farm_id").references(() => farms.id, { onDelete: "cascade" }),
+    key: text("key").notNull(),
+    name: text("name").notNull(),
+    kind: ingredientKindEnum("kind").notNull(),
+    moisturePct: real("moisture_pct").notNull(),
+    carbonPct: real("carbon_pct"),
+    nitrogenPct: real("nitrogen_pct"),
+    cn: real("cn"),
+    source: text("source").notNull(),
+    createdAt: createdAt(),
+  },
+  // The mix check lists the library plus a farm's own by key.
+  (t) => [unique("ingredients_farm_key_uq").on(t.farmId, t.key).nullsNotDistinct()],
+);
+
+const logColumns = () => ({
+  id: uuid("id").primaryKey().defaultRandom(),
+  farmId: uuid("farm_id")
+    .notNull()
+    .references(() => farms.id, { onDelete: "cascade" }),
+  binId: uuid("bin_id")
+    .notNull()
+    .references(() => bins.id, { onDelete: "cascade" }),
+  zoneId: uuid("zone_id").references(() => zones.id, { onDelete: "set null" }),
+  at: ts("at").notNull().defaultNow(),
+  byUserId: uuid("by_user_id").references(() => users.id, { onDelete: "set null" }),
+  notes: text("notes"),
+  createdAt: createdAt(),
+});
+
+export const feedings = pgTable(
+  "feedings",
+  {
+    ...logColumns(),
+    mixMoisturePct: real("mix_moisture_pct"),
+    mixCn: real("mix_cn"),
+    totalKg: real("total_kg"),
+  },
+  // The logbook and the heat rule read a bin's recent feedings.
+  (t) => [index("feedings_bin_at_idx").on(t.binId, t.at)],
+);
+
+export const feedingItems = pgTable(
+  "feeding_items",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    feedingId: uuid("feeding_id")
+      .notNull()
+      .references(() => feedings.id, { onDelete: "cascade" }),
+    ingredientId: uuid("ingredient_id").references(() => ingredients.id, { onDelete: "set null" }),
+    name: text("name").notNull(),
+    massKg: real("mass_kg").notNull(),
+    moisturePct: real("moisture_pct").notNull(),
+    carbonPct: real("carbon_pct"),
+    nitrogenPct: real("nitrogen_pct"),
+  },
+  // A feeding's items are read with it.
+  (t) => [index("feeding_items_feeding_idx").on(t.feedingId)],
+);
+
+export const waterings = pgTable(
+  "waterings",
+  { ...logColumns(), litres: real("litres").notNull() },
+  // The logbook reads a bin's entries by time.
+  (t) => [index("waterings_bin_at_idx").on(t.binId, t.at)],
+);
+
+export const harvests = pgTable(
+  "harvests",
+  { ...logColumns(), massKg: real("mass_kg").notNull() },
+  // The logbook reads a bin's entries by time.
+  (t) => [index("harvests_bin_at_idx").on(t.binId, t.at)],
+);
+
+export const logNotes = pgTable(
+  "log_notes",
+  { ...logColumns(), text: text("text").notNull() },
+  // The logbook reads a bin's entries by time.
+  (t) => [index("log_notes_bin_at_idx").on(t.binId, t.at)],
+);
+
+export const ovenDrySamples = pgTable(
+  "oven_dry_samples",
+  {
+    ...logColumns(),
+    probeId: integer("probe_id").references(() => probes.id, { onDelete: "set null" }),
+    wetMassG: real("wet_mass_g").notNull(),
+    dryMassG: real("dry_mass_g").notNull(),
+    tareG: real("tare_g").notNull().default(0),
+    ovenTempC: real("oven_temp_c"),
+    rawReading: doublePrecision("raw_reading"),
+    moistureWbPct: real("moisture_wb_pct").notNull(),
+  },
+  // Calibration fits a probe's samples.
+  (t) => [index("samples_probe_idx").on(t.probeId, t.at)],
+);
+
+export const imports = pgTable(
+  "imports",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    farmId: uuid("farm_id")
+      .notNull()
+      .references(() => farms.id, { onDelete: "cascade" }),
+    byUserId: uuid("by_user_id").references(() => users.id, { onDelete: "set null" }),
+    fileName: text("file_name").notNull(),
+    fileSha256: text("file_sha256").notNull(),
+    mapping: jsonb("mapping").$type<Record<string, string>>().notNull().default({}),
+    rowsTotal: integer("rows_total").notNull().default(0),
+    rowsStored: integer("rows_stored").notNull().default(0),
+    rowsRejected: integer("rows_rejected").notNull().default(0),
+    report: jsonb("report").$type<{ line: number; reason: string }[]>().notNull().default([]),
+    createdAt: createdAt(),
+  },
+  // A farm's import history, newest first.
+  (t) => [index("imports_farm_idx").on(t.farmId, t.createdAt)],
+);
+
+export type Farm = typeof farms.$inferSelect;
+export type User = typeof users.$inferSelect;
+export type Membership = typeof memberships.$inferSelect;
+export type Role = (typeof roleEnum.enumValues)[number];
+export type Bin = typeof bins.$inferSelect;
+export type Zone = typeof zones.$inferSelect;
+export type Probe = typeof probes.$inferSelect;
+export type Reading = typeof readings.$inferInsert;
+export type Metric = (typeof metricEnum.enumValues)[number];
+export type AlertKind = (typeof alertKindEnum.enumValues)[number];
+export type Alert = typeof alerts.$inferSelect;
+export type BinStyle = (typeof binStyleEnum.enumValues)[number];
+export type ZoneKind = (typeof zoneKindEnum.enumValues)[number];

@@ -1,0 +1,15 @@
+"use client";
+
+import useSWR from "swr";
+import type { Today } from "@/db/queries/today";
+import { fetcher } from "@/lib/fetcher";
+
+export const todayKey = (farmId: string | null) => (farmId ? `/api/farms/${farmId}/today` : null);
+
+export function useToday(farmId: string | null) {
+  const { data, error, isLoading } = useSWR<Today>(todayKey(farmId), fetcher, {
+    refreshInterval: 30_000,
+    keepPreviousData: true,
+  });
+  return { data, error: error as Error | undefined, isLoading };
+}

@@ -1,0 +1,16 @@
+import { getToken } from "next-auth/jwt";
+import { NextResponse, type NextRequest } from "next/server";
+
+// Pages need a session; API routes answer 401 themselves (with the JSON envelope), so they pass.
+export async function proxy(req: NextRequest) {
+  const token = await getToken({ req, secret: process.env.NEXTAUTH_SECRET });
+  if (token) return NextResponse.next();
+  const url = new URL("/sign-in", req.url);
+  const back = req.nextUrl.pathname + req.nextUrl.search;
+  if (back !== "/") url.searchParams.set("next", back);
+  return NextResponse.redirect(url);
+}
+
+export const config = {
+  matcher: ["/((?!api/|sign-in|_next/|sw\\.js|manifest\\.webmanifest|icon\\.svg|favicon\\.ico).*)"],
+};

@@ -1,0 +1,56 @@
+import { inject } from "vitest";
+
+export function appUrl(): string {
+  const url = inject("appUrl");
+  if (!url) throw new Error("The app is not built; run `npm test`, which builds it first.");
+  return url;
+}
+
+export type Session = {
+  fetch: (path: string, init?: RequestInit & { json?: unknown }) => Promise<Response>;
+  cookie: string;
+};
+
+function mergeCookies(jar: Map<string, string>, res: Response) {
+  for (const c of res.headers.getSetCookie()) {
+    const [pair] = c.split(";");
+    const i = pair!.indexOf("=");
+    jar.set(pair!.slice(0, i), pair!.slice(i + 1));
+  }
+}
+
+const jarHeader = (jar: Map<string, string>) => [...jar].map(([k, v]) => `${k}=${v}`).join("; ");
+
+// Signs in through next-auth's own credentials flow (CSRF token, then the callback), like a browser.
+export async function signIn(email: string, password: string): Promise<Session> {
+  const base = appUrl();
+  const jar = new Map<string, string>();
+  const csrfRes = await fetch(`${base}/api/auth/csrf`);
+  mergeCookies(jar, csrfRes);
+  const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
+  const res = await fetch(`${base}/api/auth/callback/credentials`, {
+    method: "POST",
+    redirect: "manual",
+    headers: { "content-type": "application/x-www-form-urlencoded", cookie: jarHeader(jar) },
+    body: new URLSearchParams({ csrfToken, email, password, json: "true" }),
+  });
+  mergeCookies(jar, res);
+  if (![...jar.keys()].some((k) => k.includes("session-token"))) {
+    throw new Error(`sign-in failed for ${email} (${res.status})`);
+  }
+  return anonymous(jar);
+}
+
+export function anonymous(jar = new Map<string, string>()): Session {
+  const base = appUrl();
+  return {
+    cookie: jarHeader(jar),
+    fetch: (path, init = {}) => {
+      const { json, ...rest } = init;
+      const headers = new Headers(rest.headers);
+      if (jar.size) headers.set("cookie", jarHeader(jar));
+      if (json !== undefined) headers.set("content-type", "application/json");
+      return fetch(`${base}${path}`, { ...rest, headers, redirect: "manual", body: json !== undefined ? JSON.stringify(json) : rest.body });
+    },
+  };
+}

@@ -1,0 +1,167 @@
+// Walks every route handler under app/api: each role allowed or refused as designed, signed out
+// gets 401, another farm's ids get 404. A route added without a row here fails the last test.
+import fs from "node:fs";
+import path from "node:path";
+import pg from "pg";
+import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
+import { anonymous, signIn, type Session } from "../../helpers/app";
+import { hashPassword } from "@/lib/auth/password";
+
+type Role = "owner" | "keeper" | "viewer";
+type Ids = { farm: string; bin: string; zone: string };
+type Row = {
+  method: "GET" | "POST" | "PATCH" | "DELETE";
+  route: string; // file path under app/api, e.g. "farms/[farmId]/bins"
+  path: (ids: Ids) => string;
+  body?: () => unknown;
+  allowed: Role[];
+  farmScoped: boolean;
+};
+
+const ALL: Role[] = ["owner", "keeper", "viewer"];
+const OWNER: Role[] = ["owner"];
+const newBin = () => ({ name: `Scratch ${Math.random().toString(36).slice(2, 7)}`, style: "tote", species: "eisenia-fetida", zoneCount: 2 });
+
+const rows: Row[] = [
+  { method: "GET", route: "me", path: () => "/api/me", allowed: ALL, farmScoped: false },
+  { method: "GET", route: "farms", path: () => "/api/farms", allowed: ALL, farmScoped: false },
+  { method: "POST", route: "farms", path: () => "/api/farms", body: () => ({ name: "A farm of my own" }), allowed: ALL, farmScoped: false },
+  { method: "GET", route: "farms/[farmId]", path: (i) => `/api/farms/${i.farm}`, allowed: ALL, farmScoped: true },
+  { method: "PATCH", route: "farms/[farmId]", path: (i) => `/api/farms/${i.farm}`, body: () => ({ timezone: "Europe/Dublin" }), allowed: OWNER, farmScoped: true },
+  { method: "GET", route: "farms/[farmId]/today", path: (i) => `/api/farms/${i.farm}/today`, allowed: ALL, farmScoped: true },
+  { method: "GET", route: "farms/[farmId]/bins", path: (i) => `/api/farms/${i.farm}/bins`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "farms/[farmId]/bins", path: (i) => `/api/farms/${i.farm}/bins`, body: newBin, allowed: OWNER, farmScoped: true },
+  { method: "GET", route: "bins/[binId]", path: (i) => `/api/bins/${i.bin}`, allowed: ALL, farmScoped: true },
+  { method: "PATCH", route: "bins/[binId]", path: (i) => `/api/bins/${i.bin}`, body: () => ({ notes: "checked" }), allowed: OWNER, farmScoped: true },
+  { method: "DELETE", route: "bins/[binId]", path: (i) => `/api/bins/${i.bin}`, allowed: OWNER, farmScoped: true },
+  { method: "GET", route: "bins/[binId]/zones", path: (i) => `/api/bins/${i.bin}/zones`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "bins/[binId]/zones", path: (i) => `/api/bins/${i.bin}/zones`, body: () => ({ kind: "working" }), allowed: OWNER, farmScoped: true },
+  { method: "GET", route: "zones/[zoneId]", path: (i) => `/api/zones/${i.zone}`, allowed: ALL, farmScoped: true },
+  { method: "PATCH", route: "zones/[zoneId]", path: (i) => `/api/zones/${i.zone}`, body: () => ({ name: "North end" }), allowed: OWNER, farmScoped: true },
+  { method: "DELETE", route: "zones/[zoneId]", path: (i) => `/api/zones/${i.zone}`, allowed: OWNER, farmScoped: true },
+];
+
+// Routes outside the farm model: next-auth's own handler.
+const EXEMPT = new Set(["auth/[...nextauth]"]);
+
+const sessions = {} as Record<Role, Session>;
+let db: pg.Client;
+let demoFarm: string;
+let other: Ids;
+
+async function scratch(owner: Session, farm: string): Promise<Ids> {
+  const res = await owner.fetch(`/api/farms/${farm}/bins`, { method: "POST", json: newBin() });
+  expect(res.status).toBe(201);
+  const { bin } = (await res.json()) as { bin: { id: string; zones: { id: string }[] } };
+  return { farm, bin: bin.id, zone: bin.zones[0]!.id };
+}
+
+beforeAll(async () => {
+  db = new pg.Client({ connectionString: inject("appDbUrl") });
+  await db.connect();
+  sessions.owner = await signIn("noor@alder-row.example", "alder-row-demo");
+  sessions.keeper = await signIn("tomas@alder-row.example", "alder-row-demo");
+  sessions.viewer = await signIn("class5b@alder-row.example", "alder-row-demo");
+  demoFarm = (await db.query(`select id from farms where name = 'Alder Row Worm Farm'`)).rows[0].id;
+  // A second farm whose owner is nobody of the demo farm.
+  const hash = await hashPassword("other-farm-pass");
+  const email = `other-${Date.now()}@example.org`;
+  const u = await db.query(`insert into users (email, name, password_hash) values ($1, 'Other Owner', $2) returning id`, [email, hash]);
+  const f = await db.query(`insert into farms (name) values ('Other Farm') returning id`);
+  await db.query(`insert into memberships (user_id, farm_id, role) values ($1, $2, 'owner')`, [u.rows[0].id, f.rows[0].id]);
+  other = await scratch(await signIn(email, "other-farm-pass"), f.rows[0].id);
+});
+
+afterAll(async () => {
+  await db?.end();
+});
+
+describe("every route handler checks the session and the role", () => {
+  for (const row of rows) {
+    describe(`${row.method} /api/${row.route}`, () => {
+      it("signed out gets 401", async () => {
+        const ids = await scratch(sessions.owner, demoFarm);
+        const res = await anonymous().fetch(row.path(ids), { method: row.method, json: row.body?.() });
+        expect(res.status).toBe(401);
+        expect(((await res.json()) as { error: { code: string } }).error.code).toBe("unauthenticated");
+      });
+
+      for (const role of ["viewer", "keeper", "owner"] as Role[]) {
+        const allowed = row.allowed.includes(role);
+        it(`${role} ${allowed ? "is allowed" : "gets 403"}`, async () => {
+          const ids = await scratch(sessions.owner, demoFarm);
+          const res = await sessions[role].fetch(row.path(ids), { method: row.method, json: row.body?.() });
+          if (allowed) expect(res.status, await res.clone().text()).toBeLessThan(300);
+          else {
+            expect(res.status).toBe(403);
+            expect(((await res.json()) as { error: { code: string } }).error.code).toBe("forbidden");
+          }
+        });
+      }
+
+      if (row.farmScoped) {
+        it("another farm's ids get 404, even for an owner", async () => {
+          for (const role of ALL) {
+            const res = await sessions[role].fetch(row.path(other), { method: row.method, json: row.body?.() });
+            expect(res.status, `${role}`).toBe(404);
+          }
+        });
+      }
+    });
+  }
+
+  it("a refused write changes nothing", async () => {
+    const ids = await scratch(sessions.owner, demoFarm);
+    await sessions.viewer.fetch(`/api/bins/${ids.bin}`, { method: "DELETE" });
+    await sessions.keeper.fetch(`/api/bins/${ids.bin}`, { method: "PATCH", json: { name: "renamed by keeper" } });
+    const r = await db.query(`select name, archived_at from bins where id = $1`, [ids.bin]);
+    expect(r.rows[0].archived_at).toBeNull();
+    expect(r.rows[0].name).not.toBe("renamed by keeper");
+  });
+
+  it("the table covers every route file and method under app/api", () => {
+    const apiDir = path.resolve(import.meta.dirname, "../../../app/api");
+    const found: string[] = [];
+    const walk = (dir: string) => {
+      for (const e of fs.readdirSync(dir, { withFileTypes: true })) {
+        const p = path.join(dir, e.name);
+        if (e.isDirectory()) walk(p);
+        else if (e.name === "route.ts") {
+          const rel = path.relative(apiDir, dir);
+          if (EXEMPT.has(rel)) continue;
+          const src = fs.readFileSync(p, "utf8");
+          for (const m of src.matchAll(/export const (GET|POST|PUT|PATCH|DELETE)\b/g)) found.push(`${m[1]} ${rel}`);
+        }
+      }
+    };
+    walk(apiDir);
+    const covered = new Set(rows.map((r) => `${r.method} ${r.route}`));
+    expect(found.filter((f) => !covered.has(f))).toEqual([]);
+  });
+});
+
+describe("input is validated and errors name the field", () => {
+  it("a bin with seven zones is refused with the field at fault", async () => {
+    const res = await sessions.owner.fetch(`/api/farms/${demoFarm}/bins`, { method: "POST", json: { ...newBin(), zoneCount: 7 } });
+    expect(res.status).toBe(422);
+    const body = (await res.json()) as { error: { code: string; field: string; message: string } };
+    expect(body.error).toMatchObject({ code: "invalid", field: "zoneCount" });
+    expect(body.error.message).toMatch(/at most 6/);
+  });
+
+  it("an unknown species is refused with the field at fault", async () => {
+    const res = await sessions.owner.fetch(`/api/farms/${demoFarm}/bins`, { method: "POST", json: { ...newBin(), species: "lumbricus-terrestris" } });
+    expect(res.status).toBe(422);
+    expect(((await res.json()) as { error: { field: string } }).error.field).toBe("species");
+  });
+
+  it("a body that is not JSON gets 400", async () => {
+    const res = await sessions.owner.fetch(`/api/farms/${demoFarm}/bins`, { method: "POST", body: "{not json", headers: { "content-type": "application/json" } });
+    expect(res.status).toBe(400);
+  });
+
+  it("a malformed id gets 404, not 500", async () => {
+    const res = await sessions.owner.fetch(`/api/bins/not-a-uuid`);
+    expect(res.status).toBe(404);
+  });
+});

@@ -1,0 +1,100 @@
+// One PostgreSQL cluster per test run, a migrated template database, and (when the app is built)
+// one production Next.js server over a seeded database for the API and browser tests.
+import { spawn, type ChildProcess } from "node:child_process";
+import fs from "node:fs";
+import net from "node:net";
+import path from "node:path";
+import pg from "pg";
+import type { TestProject } from "vitest/node";
+import { startCluster, stopCluster } from "../../db/local-pg";
+import { runMigrations } from "../../db/migrate";
+
+const root = path.resolve(import.meta.dirname, "../..");
+export const TEMPLATE = "wormward_template";
+export const APP_DB = "wormward_app";
+
+declare module "vitest" {
+  export interface ProvidedContext {
+    adminUrl: string;
+    appUrl: string | null;
+    appDbUrl: string;
+    nextauthSecret: string;
+  }
+}
+
+export async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = net.createServer();
+    s.listen(0, "127.0.0.1", () => {
+      const port = (s.address() as net.AddressInfo).port;
+      s.close(() => resolve(port));
+    });
+    s.on("error", reject);
+  });
+}
+
+async function admin(adminUrl: string, sqls: string[]) {
+  const c = new pg.Client({ connectionString: adminUrl });
+  await c.connect();
+  try {
+    for (const s of sqls) await c.query(s);
+  } finally {
+    await c.end();
+  }
+}
+
+let app: ChildProcess | null = null;
+
+export default async function setup(project: TestProject) {
+  const cluster = await startCluster({ name: "pg-test", port: 54339 });
+  const adminUrl = cluster.adminUrl;
+  const c = new pg.Client({ connectionString: adminUrl });
+  await c.connect();
+  const old = await c.query(`select datname from pg_database where datname like 'wormward_w%' or datname in ($1, $2)`, [TEMPLATE, APP_DB]);
+  for (const r of old.rows) await c.query(`drop database if exists "${r.datname}" with (force)`);
+  await c.end();
+  await admin(adminUrl, [`create database ${TEMPLATE}`]);
+  const templateUrl = adminUrl.replace(/\/postgres$/, `/${TEMPLATE}`);
+  await runMigrations(templateUrl);
+  await admin(adminUrl, [`create database ${APP_DB} template ${TEMPLATE}`]);
+  const appDbUrl = adminUrl.replace(/\/postgres$/, `/${APP_DB}`);
+
+  // Seed the app database in a child (the seed uses the app's module graph and its own pool).
+  const { seedIfEmpty } = await import("../../lib/stack/seed-demo");
+  await seedIfEmpty(appDbUrl, path.join(root, ".data", "test-demo-probes.json"));
+
+  const nextauthSecret = "test-secret-0123456789abcdef";
+  let appUrl: string | null = null;
+  if (fs.existsSync(path.join(root, ".next", "BUILD_ID"))) {
+    const port = await freePort();
+    appUrl = `http://127.0.0.1:${port}`;
+    const log = fs.openSync(path.join(root, ".data", "test-web.log"), "w");
+    app = spawn(path.join(root, "node_modules", ".bin", "next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
+      cwd: root,
+      env: { ...process.env, NODE_ENV: "production", DATABASE_URL: appDbUrl, NEXTAUTH_SECRET: nextauthSecret, NEXTAUTH_URL: appUrl, APP_URL: appUrl, NEXT_TELEMETRY_DISABLED: "1" },
+      stdio: ["ignore", log, log],
+    });
+    const until = Date.now() + 60_000;
+    for (;;) {
+      try {
+        if ((await fetch(`${appUrl}/sign-in`)).ok) break;
+      } catch {
+        /* starting */
+      }
+      if (Date.now() > until) throw new Error("next start did not come up; see .data/test-web.log");
+      await new Promise((r) => setTimeout(r, 250));
+    }
+  } else {
+    console.warn("No .next build: API and browser tests will fail. `npm test` builds first.");
+  }
+
+  project.provide("adminUrl", adminUrl);
+  project.provide("appUrl", appUrl);
+  project.provide("appDbUrl", appDbUrl);
+  project.provide("nextauthSecret", nextauthSecret);
+
+  return async () => {
+    app?.kill("SIGTERM");
+    stopCluster("pg-test");
+  };
+}
