@@ -3,6 +3,7 @@
 import { execFileSync, spawnSync } from "node:child_process";
 import { createHash, randomBytes } from "node:crypto";
 import fs from "node:fs";
+import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import createDebug from "debug";
@@ -75,6 +76,19 @@ function chownToPostgres(p: string) {
 
 type State = { port: number; password: string };
 
+// Our default port unless something else holds it (another clone, say); then the next free one.
+async function firstFreePort(from: number): Promise<number> {
+  for (let port = from; port < from + 100; port++) {
+    const free = await new Promise<boolean>((resolve) => {
+      const s = net.createServer();
+      s.once("error", () => resolve(false));
+      s.listen(port, "127.0.0.1", () => s.close(() => resolve(true)));
+    });
+    if (free) return port;
+  }
+  throw new Error(`no free port in ${from}–${from + 99}`);
+}
+
 export async function startCluster(opts: ClusterOptions = {}): Promise<Cluster> {
   const name = opts.name ?? "pg";
   const binDir = ensureServerBinaries();
@@ -84,7 +98,7 @@ export async function startCluster(opts: ClusterOptions = {}): Promise<Cluster> 
   const statePath = path.join(projectRoot, ".data", `${name}.json`);
   let state: State | null = fs.existsSync(statePath) ? JSON.parse(fs.readFileSync(statePath, "utf8")) : null;
   if (!fs.existsSync(path.join(dataDir, "PG_VERSION")) || !state) {
-    state = { port: opts.port ?? 54329, password: randomBytes(18).toString("base64url") };
+    state = { port: opts.port ?? (await firstFreePort(54329)), password: randomBytes(18).toString("base64url") };
     fs.rmSync(home, { recursive: true, force: true });
     fs.mkdirSync(home, { recursive: true, mode: 0o700 });
     const pwFile = path.join(home, "pw");

@@ -1,10 +1,7 @@
-"use client";
-
 import useSWR from "swr";
 import type { Today } from "@/db/queries/today";
 import { fetcher } from "@/lib/fetcher";
-
-export const todayKey = (farmId: string | null) => (farmId ? `/api/farms/${farmId}/today` : null);
+import { todayKey } from "@/lib/swr-keys";
 
 export function useToday(farmId: string | null) {
   const { data, error, isLoading } = useSWR<Today>(todayKey(farmId), fetcher, {

@@ -6,7 +6,7 @@ import { getToday } from "@/db/queries/today";
 import { TodayBoard } from "@/components/today/today-board";
 import { requireMember } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
-import { todayKey } from "@/lib/hooks/use-today";
+import { todayKey } from "@/lib/swr-keys";
 
 export const metadata: Metadata = { title: "Today" };
 
