@@ -25,12 +25,14 @@ export const roleEnum = pgEnum("role", ["owner", "keeper", "viewer"]);
 export const unitSystemEnum = pgEnum("unit_system", ["metric", "imperial"]);
 export const binStyleEnum = pgEnum("bin_style", ["flow-through", "tray stack", "tote", "bed", "windrow"]);
 export const zoneKindEnum = pgEnum("zone_kind", ["fresh", "working", "curing"]);
+// The numeric metrics of lib/metrics.ts (firmware is text and lives on the probe row).
 export const metricEnum = pgEnum("metric", [
   "temperature",
   "moisture",
-  "moisture_raw",
+  "moisture-raw",
   "ammonia",
-  "battery",
+  "battery-voltage",
+  "battery-level",
   "signal",
 ]);
 export const alertKindEnum = pgEnum("alert_kind", [

@@ -52,7 +52,7 @@ export async function seedDemo(d: Db, opts: { probesFile?: string; historyHours?
         n += 1;
         const code = `alder-${String(n).padStart(2, "0")}`;
         const token = randomBytes(18).toString("base64url");
-        const metrics = ["temperature", "moisture", "battery", "signal", ...(b.style === "flow-through" && kind === "fresh" ? ["ammonia"] : [])];
+        const metrics = ["temperature", "moisture", "battery-voltage", "signal", ...(b.style === "flow-through" && kind === "fresh" ? ["ammonia"] : [])];
         await tx.insert(probes).values({ farmId: farm!.id, zoneId: zone!.id, code, label: `${b.name} · ${kind}`, tokenHash: hashToken(token), metrics, lastSeenAt: new Date(), batteryV: 3.9, signalDbm: -67, firmware: "ww-0.4.2" });
         demoProbes.push({ code, token, bin: b.name, zone: kind, metrics });
       }

@@ -3,7 +3,7 @@ CREATE TYPE "public"."alert_level" AS ENUM('heads_up', 'act_now');--> statement-
 CREATE TYPE "public"."alert_state" AS ENUM('raised', 'claimed', 'settled');--> statement-breakpoint
 CREATE TYPE "public"."bin_style" AS ENUM('flow-through', 'tray stack', 'tote', 'bed', 'windrow');--> statement-breakpoint
 CREATE TYPE "public"."ingredient_kind" AS ENUM('bedding', 'feedstock', 'water');--> statement-breakpoint
-CREATE TYPE "public"."metric" AS ENUM('temperature', 'moisture', 'moisture_raw', 'ammonia', 'battery', 'signal');--> statement-breakpoint
+CREATE TYPE "public"."metric" AS ENUM('temperature', 'moisture', 'moisture-raw', 'ammonia', 'battery-voltage', 'battery-level', 'signal');--> statement-breakpoint
 CREATE TYPE "public"."reject_source" AS ENUM('mqtt', 'http', 'csv');--> statement-breakpoint
 CREATE TYPE "public"."role" AS ENUM('owner', 'keeper', 'viewer');--> statement-breakpoint
 CREATE TYPE "public"."unit_system" AS ENUM('metric', 'imperial');--> statement-breakpoint

@@ -1,0 +1,72 @@
+import { timingSafeEqual } from "node:crypto";
+import { eq, sql } from "drizzle-orm";
+import { db } from "@/db";
+import { probes, type Probe } from "@/db/schema";
+import { hashToken } from "@/db/seed";
+import type { Executor } from "./readings";
+
+export async function getProbeByCode(code: string, ex: Executor = db()): Promise<Probe | null> {
+  const [p] = await ex.select().from(probes).where(eq(probes.code, code));
+  return p ?? null;
+}
+
+// Compared against when the code is unknown, so a miss costs the same as a wrong token.
+const NO_HASH = Buffer.from(hashToken(""), "hex");
+
+/** The probe when the token matches its stored hash and it is not archived; otherwise null. */
+export async function verifyProbeToken(code: string, token: string, ex: Executor = db()): Promise<Probe | null> {
+  const probe = await getProbeByCode(code, ex);
+  const given = Buffer.from(hashToken(token), "hex");
+  const stored = probe && /^[0-9a-f]{64}$/.test(probe.tokenHash) ? Buffer.from(probe.tokenHash, "hex") : NO_HASH;
+  const same = timingSafeEqual(given, stored);
+  return probe && same && !probe.archivedAt ? probe : null;
+}
+
+export type ProbeStatusUpdate = {
+  probeId: number;
+  seenAt?: Date | null;
+  batteryV?: number | null;
+  signalDbm?: number | null;
+  firmware?: string | null;
+  online?: boolean | null;
+};
+
+/**
+ * Applies status updates in one statement. Several updates of one probe are merged in the order
+ * given (the last value of each field wins); last_seen_at never moves backwards.
+ */
+export async function updateProbeStatus(updates: readonly ProbeStatusUpdate[], ex: Executor = db()): Promise<void> {
+  const merged = new Map<number, ProbeStatusUpdate>();
+  for (const u of updates) {
+    const m = merged.get(u.probeId) ?? { probeId: u.probeId };
+    for (const k of ["batteryV", "signalDbm", "firmware", "online"] as const) {
+      if (u[k] != null) Object.assign(m, { [k]: u[k] });
+    }
+    if (u.seenAt && (!m.seenAt || u.seenAt > m.seenAt)) m.seenAt = u.seenAt;
+    merged.set(u.probeId, m);
+  }
+  const rows = [...merged.values()].sort((a, b) => a.probeId - b.probeId);
+  if (rows.length === 0) return;
+  const col = <T>(f: (u: ProbeStatusUpdate) => T | null | undefined) => sql.param(rows.map((u) => f(u) ?? null));
+  // greatest() skips NULLs in PostgreSQL, so a missing time or a first sighting both work.
+  await ex.execute(sql`
+    update probes p set
+      last_seen_at = greatest(p.last_seen_at, s.seen),
+      battery_v = coalesce(s.battery, p.battery_v),
+      signal_dbm = coalesce(s.signal, p.signal_dbm),
+      firmware = coalesce(s.firmware, p.firmware),
+      online = coalesce(s.online, p.online)
+    from unnest(
+      ${col((u) => u.probeId)}::int[],
+      ${col((u) => u.seenAt?.toISOString())}::timestamptz[],
+      ${col((u) => u.batteryV)}::real[],
+      ${col((u) => u.signalDbm)}::real[],
+      ${col((u) => u.firmware?.replace(/\u0000/g, ""))}::text[],
+      ${col((u) => u.online)}::boolean[]
+    ) as s(id, seen, battery, signal, firmware, online)
+    where p.id = s.id`);
+}
+
+export async function setProbeOnline(code: string, online: boolean, ex: Executor = db()): Promise<void> {
+  await ex.update(probes).set({ online }).where(eq(probes.code, code));
+}
