@@ -323,11 +323,15 @@ export const ingredients = pgTable(
     key: text("key").notNull(),
     name: text("name").notNull(),
     kind: ingredientKindEnum("kind").notNull(),
-    moisturePct: real("moisture_pct").notNull(),
+    // Published tables leave some values blank; a feeding item then asks the keeper for them.
+    moisturePct: real("moisture_pct"),
     carbonPct: real("carbon_pct"),
     nitrogenPct: real("nitrogen_pct"),
     cn: real("cn"),
     source: text("source").notNull(),
+    // V = read in the source, V-2nd = secondary copy, M = from memory, gap = no value found.
+    sourceStatus: text("source_status").notNull().default("V"),
+    note: text("note"),
     createdAt: createdAt(),
   },
   // The mix check lists the library plus a farm's own by key.

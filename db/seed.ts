@@ -5,7 +5,8 @@ import fs from "node:fs";
 import path from "node:path";
 import { sql } from "drizzle-orm";
 import type { Db } from "./index";
-import { bins, farms, memberships, probes, readings, users, zones, type BinStyle, type ZoneKind } from "./schema";
+import { bins, farms, ingredients, memberships, probes, readings, users, zones, type BinStyle, type ZoneKind } from "./schema";
+import { ingredients as library } from "@/lib/ingredients";
 import { hashPassword } from "@/lib/auth/password";
 
 export const DEMO_PASSWORD = "alder-row-demo";
@@ -26,6 +27,14 @@ const DEMO_BINS: DemoBin[] = [
 export type DemoProbe = { code: string; token: string; bin: string; zone: ZoneKind; metrics: string[] };
 export const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
+// The shared ingredient library (farmId null), each row with its published source.
+export async function seedIngredients(d: Db) {
+  await d
+    .insert(ingredients)
+    .values(library.map((i) => ({ key: i.key, name: i.name, kind: i.kind, moisturePct: i.moisturePct, carbonPct: i.carbonPct, nitrogenPct: i.nitrogenPct, cn: i.cn, source: i.source, sourceStatus: i.sourceStatus, note: i.note ?? null })))
+    .onConflictDoNothing();
+}
+
 export async function isEmpty(d: Db) {
   const r = await d.execute(sql`select count(*)::int as n from farms`);
   return (r.rows[0] as { n: number }).n === 0;
@@ -33,6 +42,7 @@ export async function isEmpty(d: Db) {
 
 // Seeds the demo farm with a day of history so charts are not empty before the probes report.
 export async function seedDemo(d: Db, opts: { probesFile?: string; historyHours?: number } = {}) {
+  await seedIngredients(d);
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const demoProbes: DemoProbe[] = [];
   await d.transaction(async (tx) => {

@@ -62,3 +62,14 @@ export async function readJson(req: Request): Promise<unknown> {
     throw new AppError("bad_request", "The request body is not valid JSON.");
   }
 }
+
+// For bodies that may be empty (a bare POST): empty → undefined, bad JSON → 400.
+export async function readOptionalJson(req: Request): Promise<unknown> {
+  const text = await req.text();
+  if (!text.trim()) return undefined;
+  try {
+    return JSON.parse(text);
+  } catch {
+    throw new AppError("bad_request", "The request body is not valid JSON.");
+  }
+}

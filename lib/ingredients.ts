@@ -104,7 +104,7 @@ export const ingredients: readonly Ingredient[] = [
     name: "Used horse bedding (shavings)",
     kind: "bedding",
     moisturePct: 40,
-    carbonPct: 55.5,
+    carbonPct: 55.537,
     nitrogenPct: 0.79,
     cn: 70.3,
     source: "University of Illinois Extension, 'Composting Horse Bedding'",

@@ -198,6 +198,7 @@ export function metricFromSenml(
   };
 }
 
+/** time is seconds since the epoch, as SenML resolves it; value is in the metric's stored unit. */
 export type Reading = { probeId: string; metric: MetricKey; time: number; value?: number; text?: string };
 
 /** A resolved SenML record as a reading in stored units, or why it is refused. */

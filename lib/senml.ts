@@ -159,7 +159,9 @@ export function parseSenml(input: unknown, opts: SenmlOptions = {}): SenmlParseR
   if (!version.ok) return version;
 
   const now = opts.now ?? Date.now() / 1000;
-  const base: BaseState = { bn: { state: "unset" }, bt: { state: "unset" }, bu: { state: "unset" }, bv: { state: "unset" }, bs: { state: "unset" } };
+  if (!isNumber(now)) return { ok: false, reason: "the time 'now' given to the parser is not a number" };
+  const unset: Base = { state: "unset" };
+  const base: BaseState = { bn: unset, bt: unset, bu: unset, bv: unset, bs: unset };
   const records: ResolvedRecord[] = [];
   const errors: SenmlRecordError[] = [];
 

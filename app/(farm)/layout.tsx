@@ -13,10 +13,11 @@ export default async function FarmShell({ children }: { children: React.ReactNod
         <a href="/" className="flex min-h-11 items-center gap-2 font-bold">
           <img src="/icon.svg" alt="" width={28} height={28} /> Wormward
         </a>
-        <div className="flex items-center gap-1 text-sm">
-          <span className="hidden sm:inline">{user.name}</span>
+        <nav aria-label="Main" className="flex items-center gap-1 text-sm">
+          <a href="/" className="flex min-h-11 items-center rounded-lg px-3 hover:underline">Today</a>
+          <a href="/me" className="flex min-h-11 items-center rounded-lg px-3 hover:underline">You</a>
           <SignOutButton />
-        </div>
+        </nav>
       </header>
       {children}
     </div>

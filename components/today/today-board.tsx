@@ -1,10 +1,13 @@
 "use client";
 
+import { useState } from "react";
+import { useSWRConfig } from "swr";
 import type { Today } from "@/db/queries/today";
 import { Sparkline } from "@/components/charts/sparkline";
 import { StatusMark } from "@/components/ui/status-mark";
 import { useToday } from "@/lib/hooks/use-today";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/species";
+import { todayKey } from "@/lib/swr-keys";
 import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/units";
 
 type Zone = Today["bins"][number]["zones"][number];
@@ -73,7 +76,24 @@ function ZoneRow({ zone, bin, units }: { zone: Zone; bin: Bin; units: UnitSystem
   );
 }
 
-export function TodayBoard({ farmId, units }: { farmId: string; units: UnitSystem }) {
+function ClaimButton({ alertId, farmId }: { alertId: string; farmId: string }) {
+  const { mutate } = useSWRConfig();
+  const [note, setNote] = useState<string | null>(null);
+  async function claim() {
+    const res = await fetch(`/api/alerts/${alertId}/claim`, { method: "POST" });
+    const body = await res.json().catch(() => null);
+    setNote(res.ok ? "Claimed: you are on it." : (body?.error?.message ?? "Could not claim it."));
+    await mutate(todayKey(farmId));
+  }
+  return (
+    <div className="mt-2">
+      <button onClick={claim} className="min-h-11 rounded-lg bg-soil-800 px-4 font-bold text-white">I&apos;m on it</button>
+      <span aria-live="polite" className="ml-2 text-sm">{note}</span>
+    </div>
+  );
+}
+
+export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: UnitSystem; canLog: boolean }) {
   const { data, error } = useToday(farmId);
   if (!data) return <p className="p-4 text-soil-700">{error ? error.message : "Loading…"}</p>;
   return (
@@ -91,6 +111,7 @@ export function TodayBoard({ farmId, units }: { farmId: string; units: UnitSyste
                   <span className="text-sm font-normal">{a.state === "claimed" ? "claimed" : "raised"}</span>
                 </div>
                 <p className="text-sm">{a.message}</p>
+                {canLog && a.state === "raised" && <ClaimButton alertId={a.id} farmId={farmId} />}
               </li>
             ))}
           </ul>

@@ -118,11 +118,13 @@ CREATE TABLE "ingredients" (
 	"key" text NOT NULL,
 	"name" text NOT NULL,
 	"kind" "ingredient_kind" NOT NULL,
-	"moisture_pct" real NOT NULL,
+	"moisture_pct" real,
 	"carbon_pct" real,
 	"nitrogen_pct" real,
 	"cn" real,
 	"source" text NOT NULL,
+	"source_status" text DEFAULT 'V' NOT NULL,
+	"note" text,
 	"created_at" timestamp with time zone DEFAULT now() NOT NULL,
 	CONSTRAINT "ingredients_farm_key_uq" UNIQUE NULLS NOT DISTINCT("farm_id","key")
 );

@@ -121,8 +121,10 @@ Logs are in .data/*.log. Press Ctrl-C to stop.`);
 async function test(extra: string[]) {
   ensureOsPackages(["chromium", "mosquitto-clients", "openssl"]);
   fs.mkdirSync(dataDir, { recursive: true });
+  console.log("Type-checking the whole repository (tsc --noEmit)…");
+  run(bin("tsc"), ["--noEmit", "-p", "tsconfig.json"]);
   console.log("Building the web app for the browser and API tests (next build)…");
-  run(bin("next"), ["build"], { ...process.env, NEXT_TELEMETRY_DISABLED: "1" });
+  run(bin("next"), ["build"], { ...process.env, NEXT_TELEMETRY_DISABLED: "1", WORMWARD_TYPECHECKED: "1" });
   const results = path.join(dataDir, "test-results.json");
   const r = spawnSync(
     bin("vitest"),

@@ -8,6 +8,9 @@ import pg from "pg";
 import type { TestProject } from "vitest/node";
 import { startCluster, stopCluster } from "../../db/local-pg";
 import { runMigrations } from "../../db/migrate";
+import { startMailbox } from "../../fakes/mailbox";
+import { startPushService } from "../../fakes/push-service";
+import { makeVapidKeys } from "../../lib/push";
 
 const root = path.resolve(import.meta.dirname, "../..");
 export const TEMPLATE = "wormward_template";
@@ -18,7 +21,13 @@ declare module "vitest" {
     adminUrl: string;
     appUrl: string | null;
     appDbUrl: string;
+    clusterName: string;
+    pushCaFile: string;
+    demoProbesFile: string;
     nextauthSecret: string;
+    pushServiceUrl: string;
+    mailboxUrl: string;
+    vapidPublicKey: string;
   }
 }
 
@@ -46,7 +55,9 @@ async function admin(adminUrl: string, sqls: string[]) {
 let app: ChildProcess | null = null;
 
 export default async function setup(project: TestProject) {
-  const cluster = await startCluster({ name: "pg-test", port: 54339 });
+  // WORMWARD_TEST_CLUSTER / _PORT let two runs on one machine keep apart (default pg-test:54339).
+  const clusterName = process.env.WORMWARD_TEST_CLUSTER ?? "pg-test";
+  const cluster = await startCluster({ name: clusterName, port: Number(process.env.WORMWARD_TEST_PG_PORT ?? 54339) });
   const adminUrl = cluster.adminUrl;
   const c = new pg.Client({ connectionString: adminUrl });
   await c.connect();
@@ -61,17 +72,35 @@ export default async function setup(project: TestProject) {
 
   // Seed the app database in a child (the seed uses the app's module graph and its own pool).
   const { seedIfEmpty } = await import("../../lib/stack/seed-demo");
-  await seedIfEmpty(appDbUrl, path.join(root, ".data", "test-demo-probes.json"));
+  await seedIfEmpty(appDbUrl, path.join(root, ".data", `${clusterName}-demo-probes.json`));
 
   const nextauthSecret = "test-secret-0123456789abcdef";
+  // Local stand-ins for the hosted push service and SMTP, shared by the app and the tests.
+  const push = await startPushService({ port: 0 });
+  const mailbox = await startMailbox({ smtpPort: 0, httpPort: 0 });
+  const caFile = path.join(root, ".data", `${clusterName}-push-ca.pem`);
+  fs.writeFileSync(caFile, push.ca);
+  const vapid = makeVapidKeys();
   let appUrl: string | null = null;
   if (fs.existsSync(path.join(root, ".next", "BUILD_ID"))) {
     const port = await freePort();
     appUrl = `http://127.0.0.1:${port}`;
-    const log = fs.openSync(path.join(root, ".data", "test-web.log"), "w");
+    const log = fs.openSync(path.join(root, ".data", `${clusterName}-web.log`), "w");
     app = spawn(path.join(root, "node_modules", ".bin", "next"), ["start", "-H", "127.0.0.1", "-p", String(port)], {
       cwd: root,
-      env: { ...process.env, NODE_ENV: "production", DATABASE_URL: appDbUrl, NEXTAUTH_SECRET: nextauthSecret, NEXTAUTH_URL: appUrl, APP_URL: appUrl, NEXT_TELEMETRY_DISABLED: "1" },
+      env: {
+        ...process.env,
+        NODE_ENV: "production",
+        DATABASE_URL: appDbUrl,
+        NEXTAUTH_SECRET: nextauthSecret,
+        NEXTAUTH_URL: appUrl,
+        APP_URL: appUrl,
+        NEXT_TELEMETRY_DISABLED: "1",
+        VAPID_PUBLIC_KEY: vapid.publicKey,
+        VAPID_PRIVATE_KEY: vapid.privateKey,
+        PUSH_CA_FILE: caFile,
+        SMTP_PORT: String(mailbox.smtpPort),
+      },
       stdio: ["ignore", log, log],
     });
     const until = Date.now() + 60_000;
@@ -91,10 +120,18 @@ export default async function setup(project: TestProject) {
   project.provide("adminUrl", adminUrl);
   project.provide("appUrl", appUrl);
   project.provide("appDbUrl", appDbUrl);
+  project.provide("clusterName", clusterName);
+  project.provide("pushCaFile", caFile);
+  project.provide("demoProbesFile", path.join(root, ".data", `${clusterName}-demo-probes.json`));
   project.provide("nextauthSecret", nextauthSecret);
+  project.provide("pushServiceUrl", push.url);
+  project.provide("mailboxUrl", mailbox.httpUrl);
+  project.provide("vapidPublicKey", vapid.publicKey);
 
   return async () => {
     app?.kill("SIGTERM");
-    stopCluster("pg-test");
+    await push.close();
+    await mailbox.close();
+    stopCluster(clusterName);
   };
 }

@@ -1,12 +1,29 @@
+import { updateQuietHours } from "@/db/queries/push";
 import { getUser, listMyFarms } from "@/db/queries/users";
 import { route } from "@/lib/api/route";
 import { requireUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { AppError, readJson } from "@/lib/errors";
+import { meUpdate } from "@/lib/validation/alerts";
 
-// GET /api/me — who is signed in and the farms they belong to
+// GET /api/me — who is signed in, their quiet hours and the farms they belong to
 export const GET = route(async () => {
   const userId = await requireUser();
   const user = await getUser(userId);
   if (!user) throw new AppError("unauthenticated", "Sign in first.");
-  return Response.json({ id: user.id, name: user.name, email: user.email, farms: await listMyFarms(userId) });
+  return Response.json({
+    id: user.id,
+    name: user.name,
+    email: user.email,
+    quietFrom: user.quietFrom,
+    quietTo: user.quietTo,
+    timezone: user.timezone,
+    farms: await listMyFarms(userId),
+  });
+});
+
+// PATCH /api/me — a person's own quiet hours (they hold back heads-ups only) and timezone
+export const PATCH = route(async (req) => {
+  const userId = await requireUser();
+  const patch = meUpdate.parse(await readJson(req));
+  return Response.json(await updateQuietHours(userId, patch));
 });

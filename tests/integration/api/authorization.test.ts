@@ -5,27 +5,36 @@ import path from "node:path";
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { anonymous, signIn, type Session } from "../../helpers/app";
+import { newSubscriber } from "../../helpers/push";
 import { hashPassword } from "@/lib/auth/password";
 
 type Role = "owner" | "keeper" | "viewer";
-type Ids = { farm: string; bin: string; zone: string };
+type Ids = { farm: string; bin: string; zone: string; alert: string };
 type Row = {
   method: "GET" | "POST" | "PATCH" | "DELETE";
   route: string; // file path under app/api, e.g. "farms/[farmId]/bins"
   path: (ids: Ids) => string;
   body?: () => unknown;
+  setup?: (s: Session) => Promise<void>;
   allowed: Role[];
   farmScoped: boolean;
+  last?: boolean; // runs after the others: it changes the caller's roles
 };
 
 const ALL: Role[] = ["owner", "keeper", "viewer"];
 const OWNER: Role[] = ["owner"];
+const CREW: Role[] = ["owner", "keeper"];
+
+async function newSubscription() {
+  return (await newSubscriber()).json;
+}
+const feeding = () => ({ items: [{ name: "vegetable scraps", massKg: 2, moisturePct: 87, nitrogenPct: 2.7, cn: 19 }] });
 const newBin = () => ({ name: `Scratch ${Math.random().toString(36).slice(2, 7)}`, style: "tote", species: "eisenia-fetida", zoneCount: 2 });
 
 const rows: Row[] = [
   { method: "GET", route: "me", path: () => "/api/me", allowed: ALL, farmScoped: false },
   { method: "GET", route: "farms", path: () => "/api/farms", allowed: ALL, farmScoped: false },
-  { method: "POST", route: "farms", path: () => "/api/farms", body: () => ({ name: "A farm of my own" }), allowed: ALL, farmScoped: false },
+  { method: "POST", route: "farms", path: () => "/api/farms", body: () => ({ name: "A farm of my own" }), allowed: ALL, farmScoped: false, last: true },
   { method: "GET", route: "farms/[farmId]", path: (i) => `/api/farms/${i.farm}`, allowed: ALL, farmScoped: true },
   { method: "PATCH", route: "farms/[farmId]", path: (i) => `/api/farms/${i.farm}`, body: () => ({ timezone: "Europe/Dublin" }), allowed: OWNER, farmScoped: true },
   { method: "GET", route: "farms/[farmId]/today", path: (i) => `/api/farms/${i.farm}/today`, allowed: ALL, farmScoped: true },
@@ -39,7 +48,19 @@ const rows: Row[] = [
   { method: "GET", route: "zones/[zoneId]", path: (i) => `/api/zones/${i.zone}`, allowed: ALL, farmScoped: true },
   { method: "PATCH", route: "zones/[zoneId]", path: (i) => `/api/zones/${i.zone}`, body: () => ({ name: "North end" }), allowed: OWNER, farmScoped: true },
   { method: "DELETE", route: "zones/[zoneId]", path: (i) => `/api/zones/${i.zone}`, allowed: OWNER, farmScoped: true },
+  { method: "PATCH", route: "me", path: () => "/api/me", body: () => ({ quietFrom: "22:00", quietTo: "06:30" }), allowed: ALL, farmScoped: false },
+  { method: "GET", route: "farms/[farmId]/alerts", path: (i) => `/api/farms/${i.farm}/alerts?state=all`, allowed: ALL, farmScoped: true },
+  { method: "GET", route: "alerts/[alertId]", path: (i) => `/api/alerts/${i.alert}`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "alerts/[alertId]/claim", path: (i) => `/api/alerts/${i.alert}/claim`, allowed: CREW, farmScoped: true },
+  { method: "POST", route: "alerts/[alertId]/settle", path: (i) => `/api/alerts/${i.alert}/settle`, body: () => ({ note: "probe was out of the bed" }), allowed: CREW, farmScoped: true },
+  { method: "GET", route: "bins/[binId]/feedings", path: (i) => `/api/bins/${i.bin}/feedings`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "bins/[binId]/feedings", path: (i) => `/api/bins/${i.bin}/feedings`, body: feeding, allowed: CREW, farmScoped: true },
+  { method: "GET", route: "push/key", path: () => "/api/push/key", allowed: ALL, farmScoped: false },
+  { method: "POST", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => lastSub, setup: async () => { lastSub = await newSubscription(); }, allowed: CREW, farmScoped: false },
+  { method: "DELETE", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => ({ endpoint: lastSub?.endpoint }), setup: async (s) => { lastSub = await newSubscription(); await s.fetch("/api/push/subscriptions", { method: "POST", json: lastSub }); }, allowed: CREW, farmScoped: false },
+  { method: "POST", route: "push/test", path: () => "/api/push/test", setup: async (s) => { await s.fetch("/api/push/subscriptions", { method: "POST", json: await newSubscription() }); }, allowed: CREW, farmScoped: false },
 ];
+let lastSub: Awaited<ReturnType<typeof newSubscription>> | null = null;
 
 // Routes outside the farm model: next-auth's own handler.
 const EXEMPT = new Set(["auth/[...nextauth]"]);
@@ -53,7 +74,11 @@ async function scratch(owner: Session, farm: string): Promise<Ids> {
   const res = await owner.fetch(`/api/farms/${farm}/bins`, { method: "POST", json: newBin() });
   expect(res.status).toBe(201);
   const { bin } = (await res.json()) as { bin: { id: string; zones: { id: string }[] } };
-  return { farm, bin: bin.id, zone: bin.zones[0]!.id };
+  const a = await db.query(
+    `insert into alerts (farm_id, bin_id, zone_id, kind, level, subject, message) values ($1, $2, $3, 'heat', 'heads_up', $4, 'test alert') returning id`,
+    [farm, bin.id, bin.zones[0]!.id, `zone:${bin.zones[0]!.id}:heat`],
+  );
+  return { farm, bin: bin.id, zone: bin.zones[0]!.id, alert: a.rows[0].id };
 }
 
 beforeAll(async () => {
@@ -61,10 +86,15 @@ beforeAll(async () => {
   await db.connect();
   sessions.owner = await signIn("noor@alder-row.example", "alder-row-demo");
   sessions.keeper = await signIn("tomas@alder-row.example", "alder-row-demo");
-  sessions.viewer = await signIn("class5b@alder-row.example", "alder-row-demo");
   demoFarm = (await db.query(`select id from farms where name = 'Alder Row Worm Farm'`)).rows[0].id;
-  // A second farm whose owner is nobody of the demo farm.
   const hash = await hashPassword("other-farm-pass");
+  // A viewer of this file's own: "POST /api/farms" below makes the caller an owner of a new farm,
+  // so the demo viewer would not stay a viewer everywhere.
+  const viewerEmail = `viewer-${Date.now()}@example.org`;
+  const v = await db.query(`insert into users (email, name, password_hash) values ($1, 'Viewer Only', $2) returning id`, [viewerEmail, hash]);
+  await db.query(`insert into memberships (user_id, farm_id, role) values ($1, $2, 'viewer')`, [v.rows[0].id, demoFarm]);
+  sessions.viewer = await signIn(viewerEmail, "other-farm-pass");
+  // A second farm whose owner is nobody of the demo farm.
   const email = `other-${Date.now()}@example.org`;
   const u = await db.query(`insert into users (email, name, password_hash) values ($1, 'Other Owner', $2) returning id`, [email, hash]);
   const f = await db.query(`insert into farms (name) values ('Other Farm') returning id`);
@@ -77,7 +107,7 @@ afterAll(async () => {
 });
 
 describe("every route handler checks the session and the role", () => {
-  for (const row of rows) {
+  for (const row of [...rows.filter((r) => !r.last), ...rows.filter((r) => r.last)]) {
     describe(`${row.method} /api/${row.route}`, () => {
       it("signed out gets 401", async () => {
         const ids = await scratch(sessions.owner, demoFarm);
@@ -90,6 +120,7 @@ describe("every route handler checks the session and the role", () => {
         const allowed = row.allowed.includes(role);
         it(`${role} ${allowed ? "is allowed" : "gets 403"}`, async () => {
           const ids = await scratch(sessions.owner, demoFarm);
+          await row.setup?.(sessions[role]);
           const res = await sessions[role].fetch(row.path(ids), { method: row.method, json: row.body?.() });
           if (allowed) expect(res.status, await res.clone().text()).toBeLessThan(300);
           else {

@@ -12,8 +12,9 @@ export const metadata: Metadata = { title: "Today" };
 
 export default async function TodayPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
+  let role: string;
   try {
-    await requireMember({ farmId }, "read");
+    role = (await requireMember({ farmId }, "read")).role;
   } catch (e) {
     if (e instanceof AppError) notFound();
     throw e;
@@ -29,7 +30,7 @@ export default async function TodayPage({ params }: { params: Promise<{ farmId: 
         <h1 className="text-3xl font-bold">Today</h1>
       </div>
       <SWRConfig value={{ fallback: { [todayKey(farmId)!]: today } }}>
-        <TodayBoard farmId={farmId} units={farm.unitSystem} />
+        <TodayBoard farmId={farmId} units={farm.unitSystem} canLog={role !== "viewer"} />
       </SWRConfig>
     </main>
   );

@@ -1,0 +1,12 @@
+import { claimAlert } from "@/db/queries/alerts";
+import { route } from "@/lib/api/route";
+import { requireMember } from "@/lib/auth/session";
+
+type Ctx = { params: Promise<{ alertId: string }> };
+
+// POST /api/alerts/[alertId]/claim — "I'm on it": keepers and owners; 409 when someone was first
+export const POST = route(async (_req, { params }: Ctx) => {
+  const { alertId } = await params;
+  const who = await requireMember({ alertId }, "log");
+  return Response.json({ alert: await claimAlert(alertId, who.userId) });
+});

@@ -1,0 +1,23 @@
+import { z } from "zod";
+
+const hhmm = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "Use a time like 22:00.");
+
+export const pushSubscriptionBody = z.object({
+  endpoint: z.string().url("The push endpoint must be a URL.").refine((u) => u.startsWith("https://"), "Push endpoints use https."),
+  keys: z.object({
+    p256dh: z.string().regex(/^[A-Za-z0-9_-]{80,100}$/, "p256dh must be a base64url P-256 public key."),
+    auth: z.string().regex(/^[A-Za-z0-9_-]{16,24}$/, "auth must be a base64url 16-octet secret."),
+  }),
+});
+export const pushUnsubscribeBody = z.object({ endpoint: z.string().url() });
+
+export const meUpdate = z
+  .object({
+    quietFrom: hhmm.nullable().optional(),
+    quietTo: hhmm.nullable().optional(),
+    timezone: z.string().trim().min(1).max(64).optional(),
+  })
+  .refine((v) => (v.quietFrom == null) === (v.quietTo == null), { message: "Give both ends of quiet hours, or neither.", path: ["quietTo"] });
+
+export const settleBody = z.object({ note: z.string().trim().max(500).optional() }).default({});
+export const alertListQuery = z.object({ state: z.enum(["open", "all"]).default("open") });
