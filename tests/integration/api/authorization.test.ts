@@ -55,6 +55,8 @@ const rows: Row[] = [
   { method: "POST", route: "alerts/[alertId]/settle", path: (i) => `/api/alerts/${i.alert}/settle`, body: () => ({ note: "probe was out of the bed" }), allowed: CREW, farmScoped: true },
   { method: "GET", route: "bins/[binId]/feedings", path: (i) => `/api/bins/${i.bin}/feedings`, allowed: ALL, farmScoped: true },
   { method: "POST", route: "bins/[binId]/feedings", path: (i) => `/api/bins/${i.bin}/feedings`, body: feeding, allowed: CREW, farmScoped: true },
+  { method: "GET", route: "farms/[farmId]/ingredients", path: (i) => `/api/farms/${i.farm}/ingredients`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "farms/[farmId]/ingredients", path: (i) => `/api/farms/${i.farm}/ingredients`, body: () => ({ name: `Spent grain ${Math.random().toString(36).slice(2, 7)}`, kind: "feedstock", moisturePct: 75, nitrogenPct: 4, cn: 12, source: "our lab report, March" }), allowed: CREW, farmScoped: true },
   { method: "GET", route: "push/key", path: () => "/api/push/key", allowed: ALL, farmScoped: false },
   { method: "POST", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => lastSub, setup: async () => { lastSub = await newSubscription(); }, allowed: CREW, farmScoped: false },
   { method: "DELETE", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => ({ endpoint: lastSub?.endpoint }), setup: async (s) => { lastSub = await newSubscription(); await s.fetch("/api/push/subscriptions", { method: "POST", json: lastSub }); }, allowed: CREW, farmScoped: false },

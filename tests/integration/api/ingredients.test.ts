@@ -1,0 +1,49 @@
+import pg from "pg";
+import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
+import { signIn, type Session } from "../../helpers/app";
+import { ingredients as library } from "@/lib/ingredients";
+
+let db: pg.Client;
+let owner: Session;
+let farmId: string;
+
+beforeAll(async () => {
+  db = new pg.Client({ connectionString: inject("appDbUrl") });
+  await db.connect();
+  owner = await signIn("noor@alder-row.example", "alder-row-demo");
+  farmId = (await db.query(`select id from farms where name = 'Alder Row Worm Farm'`)).rows[0].id;
+});
+afterAll(async () => {
+  await db?.end();
+});
+
+describe("the ingredient library", () => {
+  it("lists every published row with its source", async () => {
+    const res = await owner.fetch(`/api/farms/${farmId}/ingredients`);
+    expect(res.status).toBe(200);
+    const { ingredients } = (await res.json()) as { ingredients: { key: string; source: string; farmId: string | null }[] };
+    const shared = ingredients.filter((i) => i.farmId === null);
+    expect(shared.map((i) => i.key).sort()).toEqual(library.map((i) => i.key).sort());
+    for (const i of shared) expect(i.source.trim(), i.key).not.toBe("");
+  });
+
+  it("a farm's own ingredient is seen by that farm only", async () => {
+    const name = `Brewery grain ${Date.now()}`;
+    const res = await owner.fetch(`/api/farms/${farmId}/ingredients`, { method: "POST", json: { name, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: "supplier sheet" } });
+    expect(res.status).toBe(201);
+    const own = ((await res.json()) as { ingredient: { carbonPct: number | null; cn: number } }).ingredient;
+    expect(own.cn).toBe(12);
+    const again = await owner.fetch(`/api/farms/${farmId}/ingredients`, { method: "POST", json: { name, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: "supplier sheet" } });
+    expect(again.status).toBe(409);
+    const other = await db.query(`insert into farms (name) values ('Elsewhere') returning id`);
+    const rows = await db.query(`select farm_id from ingredients where name = $1`, [name]);
+    expect(rows.rows.map((r) => r.farm_id)).toEqual([farmId]);
+    expect(rows.rows.map((r) => r.farm_id)).not.toContain(other.rows[0].id);
+  });
+
+  it("moisture over 100 % is refused with the field named", async () => {
+    const res = await owner.fetch(`/api/farms/${farmId}/ingredients`, { method: "POST", json: { name: "Soup", kind: "feedstock", moisturePct: 120, source: "x" } });
+    expect(res.status).toBe(422);
+    expect(((await res.json()) as { error: { field: string } }).error.field).toBe("moisturePct");
+  });
+});
