@@ -270,7 +270,10 @@ export const alerts = pgTable(
     claimedBy: uuid("claimed_by").references(() => users.id, { onDelete: "set null" }),
     settledAt: ts("settled_at"),
     lastSentAt: ts("last_sent_at"),
-    escalatedAt: ts("escalated_at"),
+    // When it became act now (raised so, or escalated from a heads-up): the 15-minute clock.
+    actNowAt: ts("act_now_at"),
+    // When the unclaimed act-now reminder went to every keeper and the owners' mail.
+    remindedAt: ts("reminded_at"),
   },
   (t) => [
     // Two ingest nodes racing to raise the same alert: the second insert conflicts here.

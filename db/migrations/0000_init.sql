@@ -36,7 +36,8 @@ CREATE TABLE "alerts" (
 	"claimed_by" uuid,
 	"settled_at" timestamp with time zone,
 	"last_sent_at" timestamp with time zone,
-	"escalated_at" timestamp with time zone
+	"act_now_at" timestamp with time zone,
+	"reminded_at" timestamp with time zone
 );
 --> statement-breakpoint
 CREATE TABLE "bins" (

@@ -77,3 +77,101 @@ export async function countOpenAlerts(farmId: string) {
     .where(and(eq(alerts.farmId, farmId), inArray(alerts.state, ["raised", "claimed"])));
   return r[0]?.n ?? 0;
 }
+
+export type AlertSubject = {
+  farmId: string;
+  binId: string;
+  zoneId: string | null;
+  probeId: number | null;
+  subject: string;
+  kind: (typeof alerts.$inferInsert)["kind"];
+  level: (typeof alerts.$inferInsert)["level"];
+  value: number | null;
+  message: string;
+  details: Record<string, unknown>;
+};
+
+// Raises an alert unless one is already open for the subject: the partial unique index makes
+// this safe when two ingest nodes race (the loser inserts nothing). Returns the new row or null.
+export async function raiseAlert(a: AlertSubject, at = new Date()) {
+  return db().transaction(async (tx) => {
+    const rows = await tx.execute(sql`
+      insert into alerts (farm_id, bin_id, zone_id, probe_id, subject, kind, level, value, message, details, raised_at, act_now_at)
+      values (${a.farmId}, ${a.binId}, ${a.zoneId}, ${a.probeId}, ${a.subject}, ${a.kind}, ${a.level}, ${a.value},
+              ${a.message}, ${JSON.stringify(a.details)}::jsonb, ${at.toISOString()},
+              ${a.level === "act_now" ? at.toISOString() : null})
+      on conflict (subject) where state <> 'settled' do nothing
+      returning id`);
+    const id = (rows.rows[0] as { id: string } | undefined)?.id;
+    if (!id) return null;
+    await tx.insert(alertEvents).values({ alertId: id, type: "raised", at, detail: { level: a.level, value: a.value, message: a.message } });
+    const [row] = await tx.select().from(alerts).where(eq(alerts.id, id));
+    return row ?? null;
+  });
+}
+
+// heads-up → act now on the open alert of a subject; null when there is none or it already is.
+export async function escalateAlert(subject: string, update: { value: number | null; message: string; details: Record<string, unknown> }, at = new Date()) {
+  return db().transaction(async (tx) => {
+    const [row] = await tx
+      .update(alerts)
+      .set({ level: "act_now", actNowAt: at, value: update.value, message: update.message, details: update.details })
+      .where(and(eq(alerts.subject, subject), inArray(alerts.state, ["raised", "claimed"]), eq(alerts.level, "heads_up")))
+      .returning();
+    if (!row) return null;
+    await tx.insert(alertEvents).values({ alertId: row.id, type: "escalated", at, detail: { value: update.value, message: update.message } });
+    return row;
+  });
+}
+
+export async function updateOpenAlert(subject: string, update: { value: number | null; message: string; details: Record<string, unknown> }) {
+  const [row] = await db()
+    .update(alerts)
+    .set(update)
+    .where(and(eq(alerts.subject, subject), inArray(alerts.state, ["raised", "claimed"])))
+    .returning();
+  return row ?? null;
+}
+
+// Settles the open alert of a subject because the condition cleared (no person: the rules did it).
+export async function settleOpenAlert(subject: string, detail: Record<string, unknown>, at = new Date()) {
+  return db().transaction(async (tx) => {
+    const [row] = await tx
+      .update(alerts)
+      .set({ state: "settled", settledAt: at })
+      .where(and(eq(alerts.subject, subject), inArray(alerts.state, ["raised", "claimed"])))
+      .returning();
+    if (!row) return null;
+    await tx.insert(alertEvents).values({ alertId: row.id, type: "settled", at, detail });
+    return row;
+  });
+}
+
+export async function recordAlertEvents(rows: (typeof alertEvents.$inferInsert)[]) {
+  if (rows.length) await db().insert(alertEvents).values(rows);
+}
+
+export async function markAlertSent(id: string, at: Date) {
+  await db().update(alerts).set({ lastSentAt: at }).where(eq(alerts.id, id));
+}
+
+// Act-now alerts nobody has claimed for `olderThanMs`, not yet reminded: each is taken with a
+// compare-and-set on reminded_at, so two ingest nodes never both send the reminder.
+export async function takeDueReminders(olderThanMs: number, now = new Date()) {
+  const cutoff = new Date(now.getTime() - olderThanMs);
+  return db()
+    .update(alerts)
+    .set({ remindedAt: now })
+    .where(and(eq(alerts.state, "raised"), eq(alerts.level, "act_now"), sql`${alerts.remindedAt} is null`, sql`${alerts.actNowAt} <= ${cutoff.toISOString()}`))
+    .returning();
+}
+
+export async function alertContext(alertId: string) {
+  const [r] = await db()
+    .select({ binName: bins.name, zoneKind: zones.kind, zoneName: zones.name })
+    .from(alerts)
+    .innerJoin(bins, eq(bins.id, alerts.binId))
+    .leftJoin(zones, eq(zones.id, alerts.zoneId))
+    .where(eq(alerts.id, alertId));
+  return r ?? null;
+}
