@@ -1,0 +1,233 @@
+import { describe, expect, it } from "vitest";
+import { evaluateZone, replay, type FeedingContext, type OpenAlert, type ProbeSeries, type RuleOverrides, type Transition } from "@/lib/rules";
+import { speciesProfiles } from "@/lib/species";
+import { ratePerHour } from "@/lib/trend";
+
+const t0 = Date.UTC(2025, 5, 1, 6, 0, 0);
+const MIN = 60_000;
+const HOUR = 3_600_000;
+const at = (m: number) => t0 + m * MIN;
+const fetida = speciesProfiles["eisenia-fetida"];
+const zone = { id: "zone-1", kind: "fresh", binName: "Long Bed North" } as const;
+
+/** One reading a minute from minute `from`; values[k] is the reading at minute from + k. */
+const minuteSeries = (values: readonly number[], from = 0) => values.map((v, k) => ({ t: at(from + k), v }));
+/** `n` readings of the same value. */
+const hold = (v: number, n: number) => Array.from({ length: n }, () => v);
+const probe = (id: number) => ({ id, code: `p-${id}`, reportIntervalS: 60, lastSeenAt: null, metrics: ["temperature"] });
+
+type Opts = { feedings?: FeedingContext[]; overrides?: RuleOverrides; readings?: ProbeSeries[]; probes?: number[]; unitSystem?: "metric" | "imperial" };
+
+/** Replays minute by minute over the readings and returns every non-update transition with its minute. */
+function run(values: readonly number[], opts: Opts = {}) {
+  const readings = opts.readings ?? [{ probeId: 7, metric: "temperature" as const, points: minuteSeries(values) }];
+  const last = Math.max(...readings.flatMap((r) => r.points.map((p) => p.t)));
+  const minutes = Array.from({ length: Math.round((last - t0) / MIN) + 1 }, (_, m) => at(m));
+  const steps = replay(
+    {
+      zone,
+      species: fetida,
+      overrides: opts.overrides,
+      readings,
+      recentFeedings: opts.feedings ?? [],
+      probes: (opts.probes ?? [7]).map(probe),
+      kinds: ["heat", "chill"],
+      unitSystem: opts.unitSystem,
+    },
+    minutes,
+  );
+  const events = steps.flatMap((s) =>
+    s.transitions.filter((t) => t.type !== "update").map((t) => ({ minute: (s.at - t0) / MIN, ...t })),
+  );
+  return { steps, events, brief: events.map((e) => `${e.minute} ${e.type} ${e.kind} ${e.level}`) };
+}
+
+describe("heat by the species band (E. fetida: comfortable to 25 °C, warm stress 30 °C)", () => {
+  it("raises a heads-up after 10 min above 25 °C and settles after 15 min at or below 24.5 °C", () => {
+    // 24 °C to minute 29, 26 °C from 30 to 79, 24.7 °C (inside the deadband) 80–99, 24.5 °C from 100
+    const values = [...hold(24, 30), ...hold(26, 50), ...hold(24.7, 20), ...hold(24.5, 30)];
+    const { events, brief } = run(values);
+    expect(brief).toEqual(["40 raise heat heads_up", "115 settle heat heads_up"]);
+    expect(events[0]!.value).toBe(26);
+    expect(events[0]!.subject).toBe("zone:zone-1:heat");
+    expect(events[0]!.probeId).toBe(7);
+    expect(events[0]!.message).toBe("Long Bed North, fresh zone: 26.0 °C, above the comfortable 15.0–25.0 °C for red wigglers.");
+    expect(events[1]!.message).toBe("Long Bed North, fresh zone: cooled to 24.5 °C, inside the band for 15 min.");
+  });
+
+  it("does not raise when the heat lasts one minute less than the duration", () => {
+    // 26 °C at minutes 30..39: the run spans 9 minutes
+    const values = [...hold(24, 30), ...hold(26, 10), ...hold(24, 30)];
+    expect(run(values).brief).toEqual([]);
+    // one reading more and it does
+    expect(run([...hold(24, 30), ...hold(26, 11), ...hold(24, 30)]).brief[0]).toBe("40 raise heat heads_up");
+  });
+
+  it("exactly 25.0 °C is still comfortable; act now starts at exactly 30.0 °C", () => {
+    expect(run([...hold(25, 40)]).brief).toEqual([]);
+    const { brief, events } = run([...hold(24, 10), ...hold(30, 30)]);
+    // both triggers start at minute 10; act now wins at once, so the raise is already act now
+    expect(brief).toEqual(["20 raise heat act_now"]);
+    expect(events[0]!.message).toContain("at or above 30.0 °C where red wigglers suffer");
+  });
+
+  it("escalates a heads-up to act now after 10 min at warm stress, and keeps act now until it settles", () => {
+    // 26 from 0, 31 from 30, back to 27 (above the band, below warm stress) from 60, 24 from 90
+    const values = [...hold(26, 30), ...hold(31, 30), ...hold(27, 30), ...hold(24, 20)];
+    const { brief } = run(values);
+    expect(brief).toEqual(["10 raise heat heads_up", "40 escalate heat act_now", "105 settle heat act_now"]);
+  });
+
+  it("a dip into the deadband restarts the settle clock", () => {
+    // hot, then 24 for 10 min, one reading of 24.8 (deadband), then 24 again
+    const values = [...hold(26, 20), ...hold(24, 10), 24.8, ...hold(24, 20)];
+    const { brief } = run(values);
+    // raise at 10; cool from 20, broken at 30; cool again from 31 → settles at 46
+    expect(brief).toEqual(["10 raise heat heads_up", "46 settle heat heads_up"]);
+  });
+
+  it("a gap longer than the silence line breaks the run", () => {
+    const points = [...minuteSeries(hold(26, 6), 30), ...minuteSeries(hold(26, 30), 51)];
+    const { brief } = run([], { readings: [{ probeId: 7, metric: "temperature", points }] });
+    // 30..35, then nothing for 16 minutes (silence line: 10 min), then 51.. → 10 min from 51
+    expect(brief).toEqual(["61 raise heat heads_up"]);
+  });
+
+  it("a probe whose readings are stale takes no part", () => {
+    const hot = minuteSeries(hold(27, 20));
+    const base = { zone, species: fetida, recentFeedings: [], probes: [probe(7)], openAlerts: [], kinds: ["heat"] as const };
+    expect(evaluateZone({ ...base, now: at(19), readings: [{ probeId: 7, metric: "temperature", points: hot }] })).toHaveLength(1);
+    // the same readings judged 10 minutes after the last one: the probe is silent, not hot
+    expect(evaluateZone({ ...base, now: at(29), readings: [{ probeId: 7, metric: "temperature", points: hot }] })).toEqual([]);
+  });
+
+  it("with two probes the hotter one speaks, and the zone settles only when both have cooled", () => {
+    const cool = minuteSeries(hold(22, 80));
+    const hot = minuteSeries([...hold(27, 40), ...hold(24, 40)]);
+    const { events, brief } = run([], {
+      probes: [7, 8],
+      readings: [
+        { probeId: 7, metric: "temperature", points: cool },
+        { probeId: 8, metric: "temperature", points: hot },
+      ],
+    });
+    expect(brief).toEqual(["10 raise heat heads_up", "55 settle heat heads_up"]);
+    expect(events[0]).toMatchObject({ probeId: 8, value: 27 });
+  });
+
+  it("an error code stored as a reading is not heat", () => {
+    // 85 °C is the power-on value of a DS18B20-style probe (lib/metrics.ts); probe_fault handles it
+    expect(run([...hold(22, 5), ...hold(85, 30)]).brief).toEqual([]);
+  });
+
+  it("speaks the farm's units", () => {
+    const { events } = run([...hold(24, 30), ...hold(26, 20)], { unitSystem: "imperial" });
+    expect(events[0]!.message).toBe("Long Bed North, fresh zone: 78.8 °F, above the comfortable 59.0–77.0 °F for red wigglers.");
+  });
+
+  it("an owner's override moves the line and the duration", () => {
+    const values = [...hold(24, 30), ...hold(26, 50)];
+    expect(run(values, { overrides: { heat: { thresholds: { headsUpAboveC: 26.5 } } } }).brief).toEqual([]);
+    expect(run(values, { overrides: { heat: { thresholds: { raiseMinutes: 3 } } } }).brief).toEqual(["33 raise heat heads_up"]);
+    expect(run(values, { overrides: { heat: { enabled: false } } }).brief).toEqual([]);
+  });
+
+  it("a kind turned off settles its open alert", () => {
+    const open: OpenAlert[] = [{ subject: "zone:zone-1:heat", kind: "heat", level: "heads_up", state: "claimed", raisedAt: at(0) }];
+    const out = evaluateZone({
+      now: at(20),
+      zone,
+      species: fetida,
+      overrides: { heat: { enabled: false } },
+      readings: [{ probeId: 7, metric: "temperature", points: minuteSeries(hold(27, 21)) }],
+      recentFeedings: [],
+      probes: [probe(7)],
+      openAlerts: open,
+      kinds: ["heat"],
+    });
+    expect(out).toEqual([expect.objectContaining({ type: "settle", kind: "heat", level: "heads_up", details: { reason: "rule-off" } })]);
+  });
+});
+
+describe("heat by rate of rise after a feeding", () => {
+  // 20 °C rising 2 °C/h from minute 0: the least-squares rate over the last 60 min is 2 °C/h from
+  // minute 60, when the readings first cover the window.
+  const rising = Array.from({ length: 320 }, (_, m) => 20 + (2 * m) / 60);
+  const feedingHere = (minute: number): FeedingContext => ({ at: at(minute), zoneId: "zone-1", totalKg: 12, mixCn: 22, mixMoisturePct: 80 });
+
+  it("raises a heads-up inside the band once the hour's rise passes 1 °C/h, then act now at 30 °C", () => {
+    const { events, brief } = run(rising, { feedings: [feedingHere(0)] });
+    expect(brief).toEqual(["60 raise heat heads_up", "310 escalate heat act_now"]);
+    expect(events[0]!.value).toBeCloseTo(22, 9);
+    expect(events[0]!.details).toMatchObject({ trigger: "fast-rise", feedingAt: at(0) });
+    expect(events[0]!.message).toBe(
+      "Long Bed North, fresh zone: 22.0 °C and rising 2.0 °C/h since the 12.0 kg feeding at 06:00. Still inside 15.0–25.0 °C, but heating fast.",
+    );
+    expect(events[1]!.message).toBe("Long Bed North, fresh zone: 30.3 °C and rising 2.0 °C/h, at or above 30.0 °C where red wigglers suffer. Cool the bed now.");
+  });
+
+  it("watches for 72 h after the feeding and no longer", () => {
+    // fed 71 h before minute 0: at minute 60 the feeding is exactly 72 h old
+    expect(run(rising, { feedings: [{ at: at(-71 * 60), zoneId: "zone-1" }] }).brief[0]).toBe("60 raise heat heads_up");
+    // one minute older: no rise alert; the band alert comes at 25 °C + 10 min (first reading above 25 °C is minute 151)
+    expect(run(rising, { feedings: [{ at: at(-71 * 60 - 1), zoneId: "zone-1" }] }).brief[0]).toBe("161 raise heat heads_up");
+    expect(run(rising).brief[0]).toBe("161 raise heat heads_up");
+  });
+
+  it("counts a feeding of the whole bin, not one of another zone", () => {
+    expect(run(rising, { feedings: [{ at: at(0), zoneId: null }] }).brief[0]).toBe("60 raise heat heads_up");
+    expect(run(rising, { feedings: [{ at: at(0), zoneId: "zone-2" }] }).brief[0]).toBe("161 raise heat heads_up");
+  });
+
+  it("ignores a slow rise and a short burst", () => {
+    const slow = Array.from({ length: 200 }, (_, m) => 20 + (0.9 * m) / 60);
+    expect(run(slow, { feedings: [feedingHere(0)] }).brief).toEqual([]);
+    // flat for two hours with one 10-minute burst of +1.5 °C in the middle
+    const burst = [...hold(21, 60), ...Array.from({ length: 10 }, (_, k) => 21 + (0.15 * (k + 1))), ...hold(21, 60)];
+    expect(run(burst, { feedings: [feedingHere(0)] }).brief).toEqual([]);
+  });
+
+  it("settles 15 min after the hour's rate falls below 0.5 °C/h, and not while it sits between 0.5 and 1 °C/h", () => {
+    // 2 °C/h for an hour, then 0.8 °C/h (inside the rate deadband) for 150 min, then flat
+    const values: number[] = [];
+    for (let m = 0; m <= 60; m++) values.push(20 + (2 * m) / 60);
+    for (let m = 1; m <= 150; m++) values.push(22 + (0.8 * m) / 60);
+    for (let m = 1; m <= 120; m++) values.push(24);
+    const { brief } = run(values, { feedings: [feedingHere(0)] });
+    // first minute whose 60-min least-squares rate (lib/trend, tested on its own) is below 0.5 °C/h
+    const points = minuteSeries(values);
+    const calm = points.findIndex((p, m) => m > 60 && ratePerHour(points.slice(0, m + 1), { windowMs: HOUR })! < 0.5);
+    expect(calm).toBeGreaterThan(210);
+    expect(brief).toEqual(["60 raise heat heads_up", `${calm + 15} settle heat heads_up`]);
+  });
+});
+
+describe("chill (E. fetida: comfortable from 15 °C, cold stress below 10 °C)", () => {
+  it("raises after 10 min below 15 °C, escalates below 10 °C, settles after 15 min at or above 15.5 °C", () => {
+    const values = [...hold(16, 20), ...hold(14, 20), ...hold(9.5, 20), ...hold(15.4, 20), ...hold(15.5, 20)];
+    const { brief, events } = run(values);
+    expect(brief).toEqual(["30 raise chill heads_up", "50 escalate chill act_now", "95 settle chill act_now"]);
+    expect(events[0]!.message).toBe("Long Bed North, fresh zone: 14.0 °C, below the comfortable 15.0–25.0 °C for red wigglers.");
+    expect(events[1]!.message).toContain("9.5 °C");
+    expect(events[1]!.message).toContain("below 10.0 °C where red wigglers stop feeding. Warm the bed now.");
+  });
+
+  it("uses the species: 14 °C is a heads-up for E. fetida and 19 °C for E. eugeniae", () => {
+    const eugeniae = speciesProfiles["eudrilus-eugeniae"];
+    const out = (species: typeof fetida, v: number): Transition[] =>
+      evaluateZone({
+        now: at(20),
+        zone,
+        species,
+        readings: [{ probeId: 7, metric: "temperature", points: minuteSeries(hold(v, 21)) }],
+        recentFeedings: [],
+        probes: [probe(7)],
+        openAlerts: [],
+        kinds: ["chill"],
+      });
+    expect(out(fetida, 19)).toEqual([]);
+    expect(out(eugeniae, 19)).toEqual([expect.objectContaining({ type: "raise", level: "heads_up" })]);
+    // E. eugeniae: cold stress below 15 °C
+    expect(out(eugeniae, 14)).toEqual([expect.objectContaining({ type: "raise", level: "act_now" })]);
+  });
+});
