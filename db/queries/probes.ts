@@ -13,7 +13,6 @@ export async function getProbeByCode(code: string, ex: Executor = db()): Promise
 // Compared against when the code is unknown, so a miss costs the same as a wrong token.
 const NO_HASH = Buffer.from(hashToken(""), "hex");
 
-/** The probe when the token matches its stored hash and it is not archived; otherwise null. */
 export async function verifyProbeToken(code: string, token: string, ex: Executor = db()): Promise<Probe | null> {
   const probe = await getProbeByCode(code, ex);
   const given = Buffer.from(hashToken(token), "hex");
@@ -31,10 +30,7 @@ export type ProbeStatusUpdate = {
   online?: boolean | null;
 };
 
-/**
- * Applies status updates in one statement. Several updates of one probe are merged in the order
- * given (the last value of each field wins); last_seen_at never moves backwards.
- */
+// One statement; a probe's updates merge in order (last value wins), last_seen_at never goes back.
 export async function updateProbeStatus(updates: readonly ProbeStatusUpdate[], ex: Executor = db()): Promise<void> {
   const merged = new Map<number, ProbeStatusUpdate>();
   for (const u of updates) {
@@ -48,7 +44,6 @@ export async function updateProbeStatus(updates: readonly ProbeStatusUpdate[], e
   const rows = [...merged.values()].sort((a, b) => a.probeId - b.probeId);
   if (rows.length === 0) return;
   const col = <T>(f: (u: ProbeStatusUpdate) => T | null | undefined) => sql.param(rows.map((u) => f(u) ?? null));
-  // greatest() skips NULLs in PostgreSQL, so a missing time or a first sighting both work.
   await ex.execute(sql`
     update probes p set
       last_seen_at = greatest(p.last_seen_at, s.seen),

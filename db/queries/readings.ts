@@ -2,7 +2,6 @@ import { sql } from "drizzle-orm";
 import { db, type Db } from "@/db";
 import { rejectedMessages, type Metric } from "@/db/schema";
 
-/** The pool-wide instance or an open transaction: the ingest writer runs these inside one. */
 export type Executor = Db | Parameters<Parameters<Db["transaction"]>[0]>[0];
 
 export type ReadingInput = { probeId: number; metric: Metric; ts: Date; value: number };
@@ -19,19 +18,16 @@ export type RejectionInput = {
 const byKey = (a: ReadingInput, b: ReadingInput) =>
   a.probeId - b.probeId || (a.metric < b.metric ? -1 : a.metric > b.metric ? 1 : 0) || a.ts.getTime() - b.ts.getTime();
 
-/**
- * Stores readings in one statement; a reading already stored (same probe, metric, time) is a no-op.
- * The hourly rollups are merged from the rows this statement actually inserted (its RETURNING), so a
- * resent reading never counts twice, and both change in the same statement, hence the same
- * transaction. Returns how many rows were new.
- */
-export async function insertReadings(rows: readonly ReadingInput[], ex: Executor = db()): Promise<{ inserted: number }> {
-  if (rows.length === 0) return { inserted: 0 };
-  // Key order, so concurrent writers take row locks in the same order and cannot deadlock.
+// Rollups merge only the rows this statement inserted (RETURNING), so a resent reading never counts twice.
+export async function insertReadings(
+  rows: readonly ReadingInput[],
+  ex: Executor = db(),
+): Promise<{ inserted: number; probeIds: number[] }> {
+  if (rows.length === 0) return { inserted: 0, probeIds: [] };
+  // Key order: concurrent writers lock rows in the same order, so they cannot deadlock.
   const sorted = [...rows].sort(byKey);
-  // unnest() turns four arrays into rows: one statement and four parameters for any batch size.
-  // date_trunc with 'UTC' so hour buckets do not depend on the session's TimeZone.
-  const r = await ex.execute<{ inserted: number }>(sql`
+  // unnest: one statement, four parameters for any batch; 'UTC' so hours ignore the session TimeZone.
+  const r = await ex.execute<{ inserted: number; probe_ids: number[] | null }>(sql`
     with ins as (
       insert into readings (probe_id, metric, ts, value)
       select * from unnest(
@@ -51,14 +47,13 @@ export async function insertReadings(rows: readonly ReadingInput[], ex: Executor
         sum = r.sum + excluded.sum,
         count = r.count + excluded.count
     )
-    select count(*)::int as inserted from ins`);
-  return { inserted: r.rows[0]?.inserted ?? 0 };
+    select count(*)::int as inserted, array_agg(distinct probe_id) as probe_ids from ins`);
+  return { inserted: r.rows[0]?.inserted ?? 0, probeIds: r.rows[0]?.probe_ids ?? [] };
 }
 
 // PostgreSQL text cannot hold U+0000; a rejected payload may well contain one.
 const clean = (s: string | null | undefined) => (s == null ? null : s.replace(/\u0000/g, "\uFFFD"));
 
-/** Records why messages or rows were refused, with the first bytes of what arrived. */
 export async function recordRejections(rows: readonly RejectionInput[], ex: Executor = db()): Promise<void> {
   if (rows.length === 0) return;
   await ex.insert(rejectedMessages).values(

@@ -1,0 +1,31 @@
+// `tsx ingest/main.ts`: the long-running telemetry service started by `npm start`.
+// On SIGTERM or SIGINT it stops taking connections, commits what it holds, then exits.
+import createDebug from "debug";
+import { env } from "@/lib/env";
+import { startIngest } from "./service";
+
+const log = createDebug("wormward:ingest");
+const e = env();
+const ingest = await startIngest({ port: e.MQTT_PORT, host: e.MQTT_HOST, databaseUrl: e.DATABASE_URL });
+console.log(`ingest: MQTT on ${e.MQTT_HOST}:${ingest.port}`);
+
+let stopping = false;
+async function stop(signal: string) {
+  if (stopping) return;
+  stopping = true;
+  log("%s: flushing and closing", signal);
+  const force = setTimeout(() => {
+    console.error("ingest: shutdown took too long; exiting");
+    process.exit(1);
+  }, 20_000);
+  force.unref();
+  try {
+    await ingest.close();
+    process.exit(0);
+  } catch (err) {
+    console.error("ingest: shutdown failed:", (err as Error).message);
+    process.exit(1);
+  }
+}
+process.on("SIGTERM", () => void stop("SIGTERM"));
+process.on("SIGINT", () => void stop("SIGINT"));

@@ -1,0 +1,234 @@
+// aedes sends a QoS 1 PUBACK when authorizePublish calls back, so the message is stored there and
+// the callback waits for the commit (verified-techniques.md, "Acknowledging a QoS 1 publish…").
+import net from "node:net";
+import { Aedes, type AedesOptions, type AuthenticateError, type Client } from "aedes";
+import createDebug from "debug";
+import { drizzle } from "drizzle-orm/node-postgres";
+import pg from "pg";
+import { db as sharedDb, schema, type Db } from "@/db";
+import { getProbeByCode, verifyProbeToken } from "@/db/queries/probes";
+import type { Probe } from "@/db/schema";
+import { excerptOf, rejectionText, validateSenmlPayload, type TelemetryLimits } from "@/lib/telemetry";
+import { createWriter, type BatchOptions, type RetryOptions } from "./writer";
+
+const log = createDebug("wormward:ingest");
+
+export const TOPIC_ROOT = "wormward";
+export const probeTopics = (code: string) => ({
+  up: `${TOPIC_ROOT}/${code}/up`,
+  status: `${TOPIC_ROOT}/${code}/status`,
+  down: `${TOPIC_ROOT}/${code}/down`,
+});
+
+export type IngestOptions = {
+  port: number;
+  host?: string;
+  databaseUrl?: string;
+  batch?: Partial<BatchOptions>;
+  retry?: Partial<RetryOptions>;
+  limits?: Partial<TelemetryLimits>;
+  onCommitted?: (zoneIds: string[], probeIds: number[]) => void | Promise<void>;
+  probeTtlMs?: number;
+};
+
+export type Ingest = {
+  port: number;
+  close(): Promise<void>;
+  stats(): { batches: number; rows: number; retries: number };
+};
+
+type Session = { probe: Probe; fetchedAt: number; refreshing: Promise<void> | null };
+
+// CONNACK return codes, MQTT 3.1.1 §3.2.2.3
+const IDENTIFIER_REJECTED = 2;
+const SERVER_UNAVAILABLE = 3;
+const BAD_USERNAME_OR_PASSWORD = 4;
+
+function authError(returnCode: number, message: string): AuthenticateError {
+  return Object.assign(new Error(message), { returnCode }) as AuthenticateError;
+}
+
+// <code> or <code>:<x> (codes hold no ":"): no probe can take over another's session. An empty id
+// with a clean session gets a random one from aedes (§3.1.3-6).
+function clientIdFits(client: Client, code: string): boolean {
+  return client.id === code || client.id.startsWith(`${code}:`) || (client.clean && client.id.startsWith("aedes_"));
+}
+
+export async function startIngest(opts: IngestOptions): Promise<Ingest> {
+  const ownPool = opts.databaseUrl
+    ? new pg.Pool({ connectionString: opts.databaseUrl, max: 5, connectionTimeoutMillis: 5000 })
+    : null;
+  ownPool?.on("error", (err) => log("idle database client error: %s", err.message));
+  const d: Db = ownPool ? drizzle(ownPool, { schema }) : sharedDb();
+  const writer = createWriter({ db: d, batch: opts.batch, retry: opts.retry, onCommitted: opts.onCommitted });
+  const probeTtlMs = opts.probeTtlMs ?? 60_000;
+  const sessions = new WeakMap<Client, Session>();
+  const live = new Map<string, Set<Client>>();
+
+  const refuse = (client: Client | null, what: string, cb: (err: Error) => void) => {
+    log("refused %s from %s", what, client?.id ?? "(no client)");
+    cb(new Error(`not authorized: ${what}`));
+  };
+
+  async function currentProbe(s: Session): Promise<Probe | null> {
+    if (Date.now() - s.fetchedAt > probeTtlMs) {
+      s.refreshing ??= getProbeByCode(s.probe.code, d)
+        .then((p) => {
+          s.probe = p ?? { ...s.probe, archivedAt: new Date() }; // deleted: refused like archived
+          s.fetchedAt = Date.now();
+        })
+        .catch((err: Error) => log("probe %s not re-read (%s); keeping what we had", s.probe.code, err.message))
+        .finally(() => (s.refreshing = null));
+      await s.refreshing;
+    }
+    return s.probe.archivedAt ? null : s.probe;
+  }
+
+  const originOf = (probe: Probe, topic: string | null = null, payload?: Buffer) => ({
+    farmId: probe.farmId,
+    probeId: probe.id,
+    source: "mqtt" as const,
+    topic,
+    excerpt: payload ? excerptOf(payload) : null,
+  });
+
+  function statusJob(probe: Probe, status: { online?: boolean | null; seenAt?: Date }) {
+    return { readings: [], rejections: [], status: { probeId: probe.id, ...status }, zoneId: probe.zoneId, origin: originOf(probe) };
+  }
+
+  function setOnline(probe: Probe, online: boolean) {
+    writer
+      .submit(statusJob(probe, online ? { online, seenAt: new Date() } : { online }))
+      .catch((e: Error) => log("online=%s of %s not stored: %s", online, probe.code, e.message));
+  }
+
+  async function onUp(probe: Probe, _client: Client, topic: string, payload: Buffer) {
+    const v = validateSenmlPayload(probe, payload, { limits: opts.limits });
+    const origin = originOf(probe, topic, payload);
+    if (v.rejections.length) {
+      log("probe %s: %d record(s) refused (%s)", probe.code, v.rejections.length, [...new Set(v.rejections.map((r) => r.code))].join(", "));
+    }
+    await writer.submit({
+      readings: v.readings,
+      rejections: v.rejections.map((r) => ({ ...origin, reason: rejectionText(r) })),
+      status: { probeId: probe.id, ...v.status },
+      zoneId: probe.zoneId,
+      origin,
+    });
+  }
+
+  async function onStatus(probe: Probe, client: Client, topic: string, payload: Buffer) {
+    const said = payload.toString("utf8").trim().toLowerCase();
+    if (said !== "online" && said !== "offline") {
+      const reason = rejectionText({ code: "bad-status", reason: 'a status message is "online" or "offline"' });
+      await writer.submit({ ...statusJob(probe, {}), rejections: [{ ...originOf(probe, topic, payload), reason }] });
+      return;
+    }
+    // A will from a connection the probe has since replaced must not mark it offline.
+    const replaced = [...(live.get(probe.code) ?? [])].some((c) => c !== client);
+    const online = said === "online" ? true : replaced ? null : false;
+    await writer.submit(statusJob(probe, { online, seenAt: new Date() }));
+  }
+
+  const handlers: AedesOptions = {
+    authenticate(client, username, password, done) {
+      const code = username ?? "";
+      const token = password?.toString("utf8") ?? "";
+      if (!code || !token) return done(authError(BAD_USERNAME_OR_PASSWORD, "user name and password required"), false);
+      if (!clientIdFits(client, code)) {
+        log("refused client id %s for probe %s", client.id, code);
+        return done(authError(IDENTIFIER_REJECTED, "client id must be the probe code or <code>:<suffix>"), false);
+      }
+      verifyProbeToken(code, token, d).then(
+        (probe) => {
+          if (!probe) {
+            log("refused connection for %s: bad credentials or archived", code);
+            return done(authError(BAD_USERNAME_OR_PASSWORD, "bad user name or password"), false);
+          }
+          sessions.set(client, { probe, fetchedAt: Date.now(), refreshing: null });
+          done(null, true);
+        },
+        (err: Error) => {
+          log("cannot check credentials of %s: %s", code, err.message);
+          done(authError(SERVER_UNAVAILABLE, "server unavailable"), false);
+        },
+      );
+    },
+
+    authorizePublish(client, packet, cb) {
+      if (packet.topic.startsWith("$SYS/")) return cb(new Error("$SYS/ topic is reserved"));
+      const session = client ? sessions.get(client) : undefined;
+      if (!client || !session) return refuse(client, `publish to ${packet.topic} without a session`, cb);
+      const { up, status } = probeTopics(session.probe.code);
+      if (packet.topic !== up && packet.topic !== status) return refuse(client, `publish to ${packet.topic}`, cb);
+      currentProbe(session)
+        .then((probe) => {
+          if (!probe) return refuse(client, `publish from archived probe ${session.probe.code}`, cb);
+          // MQTT 3.1.1 has no negative PUBACK (§3.4): a recorded rejection is acknowledged.
+          return (packet.topic === up ? onUp : onStatus)(probe, client, packet.topic, packet.payload as Buffer).then(() => cb(null));
+        })
+        .catch((err: Error) => cb(err));
+    },
+
+    authorizeSubscribe(client, sub, cb) {
+      const session = sessions.get(client);
+      // Exact match: a filter with + or # (§4.7.1) would reach other probes' topics.
+      if (session && sub.topic === probeTopics(session.probe.code).down) return cb(null, sub);
+      log("refused subscription to %s from %s", sub.topic, client.id);
+      cb(null, null); // SUBACK 0x80, Failure (§3.9.3)
+    },
+  };
+
+  const broker = await Aedes.createBroker(handlers);
+  // aedes emits "error" (untyped) when clearing stored wills fails; unhandled, it would end the process.
+  (broker as unknown as NodeJS.EventEmitter).on("error", (err: Error) => log("broker error: %s", err.message));
+  broker.on("clientError", (client, err) => log("client %s error: %s", client.id, err.message));
+  broker.on("clientReady", (client) => {
+    const s = sessions.get(client);
+    if (!s) return;
+    const set = live.get(s.probe.code) ?? new Set<Client>();
+    set.add(client);
+    live.set(s.probe.code, set);
+    log("probe %s connected as %s", s.probe.code, client.id);
+    setOnline(s.probe, true);
+  });
+  broker.on("clientDisconnect", (client) => {
+    const s = sessions.get(client);
+    if (!s) return;
+    const set = live.get(s.probe.code);
+    set?.delete(client);
+    if (set && set.size > 0) return;
+    live.delete(s.probe.code);
+    log("probe %s disconnected", s.probe.code);
+    setOnline(s.probe, false);
+  });
+  broker.on("keepaliveTimeout", (client) => log("keep-alive of %s ran out", client.id));
+
+  const server = net.createServer(broker.handle);
+  await new Promise<void>((resolve, reject) => {
+    server.once("error", reject);
+    server.listen(opts.port, opts.host ?? "127.0.0.1", () => {
+      server.off("error", reject);
+      resolve();
+    });
+  });
+  const port = (server.address() as net.AddressInfo).port;
+  log("MQTT broker listening on %s:%d", opts.host ?? "127.0.0.1", port);
+
+  let closed: Promise<void> | null = null;
+  return {
+    port,
+    stats: writer.stats,
+    close() {
+      closed ??= (async () => {
+        const serverClosed = new Promise<void>((r) => server.close(() => r()));
+        await new Promise<void>((r) => broker.close(() => r()));
+        await serverClosed;
+        await writer.close();
+        await ownPool?.end();
+        log("ingest closed");
+      })();
+      return closed;
+    },
+  };
+}

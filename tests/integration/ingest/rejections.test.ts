@@ -1,0 +1,85 @@
+// Every reason to refuse what a probe sent is recorded with probe, topic, time, reason and the first
+// bytes; the refused message is still acknowledged (so the probe stops resending it), and good
+// records travelling with bad ones are stored.
+import { eq } from "drizzle-orm";
+import type { MqttClient } from "mqtt";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { db } from "@/db";
+import { probes } from "@/db/schema";
+import { startIngest, type Ingest } from "@/ingest/service";
+import { probeBaseName } from "@/lib/metrics";
+import { connectProbe, countReadings, createProbes, rejectionsOf, type TestProbe } from "./helpers";
+
+let ingest: Ingest;
+let fleet: TestProbe[];
+const clients: MqttClient[] = [];
+
+beforeAll(async () => {
+  fleet = await createProbes(10);
+  ingest = await startIngest({ port: 0, batch: { maxWaitMs: 10 } });
+});
+afterAll(async () => {
+  await Promise.all(clients.map((c) => c.endAsync()));
+  await ingest.close();
+});
+
+const now = () => Math.floor(Date.now() / 1000);
+
+/** Publishes `payload` at QoS 1 from probe `i` and resolves on its PUBACK. */
+async function send(i: number, payload: string | Buffer) {
+  const p = fleet[i]!;
+  const c = await connectProbe(ingest.port, p);
+  clients.push(c);
+  await c.publishAsync(`wormward/${p.code}/up`, payload, { qos: 1 });
+  expect(c.connected).toBe(true);
+  return p;
+}
+
+describe("rejected messages", () => {
+  const cases: [string, number, () => string | Buffer, RegExp][] = [
+    ["malformed JSON", 0, () => '[{"bn":"x",', /^malformed-json: /],
+    ["malformed SenML (not an array of records)", 1, () => JSON.stringify({ bn: "urn:dev:wormward:x:", v: 1 }), /^malformed-senml: .*RFC 8428 §5/],
+    ["an unknown metric", 2, () => JSON.stringify([{ bn: probeBaseName(fleet[2]!.code), bt: now(), n: "ph", v: 7 }]), /^unknown-metric: .*"ph"/],
+    ["a value outside the physical range", 3, () => JSON.stringify([{ bn: probeBaseName(fleet[3]!.code), bt: now(), n: "temp", u: "Cel", v: 131 }]), /^out-of-range: .*131/],
+    ["a sensor error code", 4, () => JSON.stringify([{ bn: probeBaseName(fleet[4]!.code), bt: now(), n: "temp", u: "Cel", v: -127 }]), /^sensor-error: .*-127/],
+    ["a time more than 5 minutes ahead", 5, () => JSON.stringify([{ bn: probeBaseName(fleet[5]!.code), bt: now() + 6 * 60, n: "temp", u: "Cel", v: 20 }]), /^too-far-ahead: /],
+    ["a time older than 30 days", 6, () => JSON.stringify([{ bn: probeBaseName(fleet[6]!.code), bt: now() - 31 * 86_400, n: "temp", u: "Cel", v: 20 }]), /^too-old: /],
+    ["a payload over 16 KiB", 7, () => JSON.stringify([{ bn: probeBaseName(fleet[7]!.code), bt: now(), n: "temp", u: "Cel", v: 20 }]).padEnd(16 * 1024 + 1, " "), /^too-large: payload is 16385 bytes/],
+  ];
+
+  for (const [what, i, payload, reason] of cases) {
+    it(`records ${what}, acknowledges it and stores nothing from it`, async () => {
+      const body = payload();
+      const p = await send(i, body);
+      const rows = await rejectionsOf(p.id);
+      expect(rows).toHaveLength(1);
+      expect(rows[0]).toMatchObject({ source: "mqtt", topic: `wormward/${p.code}/up`, farm_id: p.farmId });
+      expect(rows[0]!.reason).toMatch(reason);
+      expect(rows[0]!.excerpt).toBe(Buffer.from(body).subarray(0, 200).toString("utf8"));
+      expect((await countReadings([p.id])).rows).toBe(0);
+      // The probe was still seen, even though what it sent was refused.
+      const [row] = await db().select().from(probes).where(eq(probes.id, p.id));
+      expect(row?.lastSeenAt).not.toBeNull();
+    });
+  }
+
+  it("stores the good records of a message that also carries a bad one", async () => {
+    const p = fleet[8]!;
+    const t = now() - 10;
+    await send(8, JSON.stringify([
+      { bn: probeBaseName(p.code), bt: t, n: "temp", u: "Cel", v: 22.5 },
+      { n: "moisture", u: "/100", v: 140 },
+      { n: "nh3", u: "ppm", v: 4 },
+    ]));
+    expect(await countReadings([p.id])).toEqual({ rows: 2, distinct: 2, rolled: 2 });
+    const rows = await rejectionsOf(p.id);
+    expect(rows.map((r) => r.reason)).toEqual([expect.stringMatching(/^out-of-range: .*moisture = 140/)]);
+  });
+
+  it("records nothing for a message that is entirely good", async () => {
+    const p = fleet[9]!;
+    await send(9, JSON.stringify([{ bn: probeBaseName(p.code), bt: now(), n: "temp", u: "Cel", v: 19 }]));
+    expect(await rejectionsOf(p.id)).toEqual([]);
+    expect((await countReadings([p.id])).rows).toBe(1);
+  });
+});
