@@ -95,10 +95,10 @@ async function seedHistory(d: Db, demoProbes: DemoProbe[], hours: number) {
     }
   }
   for (let i = 0; i < rows.length; i += 2000) await d.insert(readings).values(rows.slice(i, i + 2000)).onConflictDoNothing();
-  // Hourly rollups for the seeded history, the same aggregate the ingest writer keeps.
+  // Hourly rollups for the seeded history, cut in UTC like the ingest writer's.
   await d.execute(sql`
     insert into reading_rollups (probe_id, metric, hour, min, max, sum, count)
-    select probe_id, metric, date_trunc('hour', ts), min(value), max(value), sum(value), count(*)
+    select probe_id, metric, date_trunc('hour', ts, 'UTC'), min(value), max(value), sum(value), count(*)
     from readings group by 1, 2, 3
     on conflict do nothing`);
 }

@@ -2,11 +2,18 @@
 // On SIGTERM or SIGINT it stops taking connections, commits what it holds, then exits.
 import createDebug from "debug";
 import { env } from "@/lib/env";
+import { createRuleRunner } from "./rule-runner";
 import { startIngest } from "./service";
 
 const log = createDebug("wormward:ingest");
 const e = env();
-const ingest = await startIngest({ port: e.MQTT_PORT, host: e.MQTT_HOST, databaseUrl: e.DATABASE_URL });
+const rules = createRuleRunner();
+const ingest = await startIngest({
+  port: e.MQTT_PORT,
+  host: e.MQTT_HOST,
+  databaseUrl: e.DATABASE_URL,
+  onCommitted: (zoneIds) => rules.onCommitted(zoneIds),
+});
 console.log(`ingest: MQTT on ${e.MQTT_HOST}:${ingest.port}`);
 
 let stopping = false;
@@ -21,6 +28,7 @@ async function stop(signal: string) {
   force.unref();
   try {
     await ingest.close();
+    await rules.stop();
     process.exit(0);
   } catch (err) {
     console.error("ingest: shutdown failed:", (err as Error).message);

@@ -27,6 +27,7 @@ declare module "vitest" {
     nextauthSecret: string;
     pushServiceUrl: string;
     mailboxUrl: string;
+    smtpPort: number;
     vapidPublicKey: string;
   }
 }
@@ -126,6 +127,7 @@ export default async function setup(project: TestProject) {
   project.provide("nextauthSecret", nextauthSecret);
   project.provide("pushServiceUrl", push.url);
   project.provide("mailboxUrl", mailbox.httpUrl);
+  project.provide("smtpPort", mailbox.smtpPort);
   project.provide("vapidPublicKey", vapid.publicKey);
 
   return async () => {
