@@ -265,6 +265,13 @@ export async function startPushService(options: { port?: number; host?: string }
         link: `<${endpoint}>; rel="urn:ietf:params:push"`,
       });
     }
+    // RFC 8030 §7.3: the user agent deletes its subscription; later pushes to it answer 410 Gone.
+    const sub = url.pathname.match(/^\/subscription\/([A-Za-z0-9_-]+)$/);
+    if (sub?.[1] && req.method === "DELETE") {
+      if (!subscriptions.has(sub[1])) return answer(res, 404, "no such subscription");
+      service.expire(sub[1]);
+      return answer(res, 204);
+    }
     answer(res, 404, "not found");
   }
 
