@@ -11,7 +11,7 @@ import { hashPassword } from "@/lib/auth/password";
 type Role = "owner" | "keeper" | "viewer";
 type Ids = { farm: string; bin: string; zone: string; alert: string };
 type Row = {
-  method: "GET" | "POST" | "PATCH" | "DELETE";
+  method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
   route: string; // file path under app/api, e.g. "farms/[farmId]/bins"
   path: (ids: Ids) => string;
   body?: () => unknown;
@@ -57,15 +57,27 @@ const rows: Row[] = [
   { method: "POST", route: "bins/[binId]/feedings", path: (i) => `/api/bins/${i.bin}/feedings`, body: feeding, allowed: CREW, farmScoped: true },
   { method: "GET", route: "farms/[farmId]/ingredients", path: (i) => `/api/farms/${i.farm}/ingredients`, allowed: ALL, farmScoped: true },
   { method: "POST", route: "farms/[farmId]/ingredients", path: (i) => `/api/farms/${i.farm}/ingredients`, body: () => ({ name: `Spent grain ${Math.random().toString(36).slice(2, 7)}`, kind: "feedstock", moisturePct: 75, nitrogenPct: 4, cn: 12, source: "our lab report, March" }), allowed: CREW, farmScoped: true },
+  { method: "GET", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules`, allowed: ALL, farmScoped: true },
+  { method: "PUT", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules`, body: () => ({ kind: "heat", thresholds: { actNowAtC: 28 } }), allowed: OWNER, farmScoped: true },
+  { method: "DELETE", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules?kind=heat`, allowed: OWNER, farmScoped: true },
   { method: "GET", route: "push/key", path: () => "/api/push/key", allowed: ALL, farmScoped: false },
   { method: "POST", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => lastSub, setup: async () => { lastSub = await newSubscription(); }, allowed: CREW, farmScoped: false },
   { method: "DELETE", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => ({ endpoint: lastSub?.endpoint }), setup: async (s) => { lastSub = await newSubscription(); await s.fetch("/api/push/subscriptions", { method: "POST", json: lastSub }); }, allowed: CREW, farmScoped: false },
   { method: "POST", route: "push/test", path: () => "/api/push/test", setup: async (s) => { await s.fetch("/api/push/subscriptions", { method: "POST", json: await newSubscription() }); }, allowed: CREW, farmScoped: false },
+  { method: "GET", route: "farms/[farmId]/imports", path: (i) => `/api/farms/${i.farm}/imports`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "farms/[farmId]/imports", path: (i) => `/api/farms/${i.farm}/imports`, body: () => csvImport(), allowed: OWNER, farmScoped: true },
+  { method: "GET", route: "zones/[zoneId]/series", path: (i) => `/api/zones/${i.zone}/series?metric=temperature`, allowed: ALL, farmScoped: true },
+  // Another farm's probe gets 404: tests/integration/series/.
+  { method: "GET", route: "probes/[probeId]/series", path: () => `/api/probes/${demoProbe}/series?metric=temperature`, setup: async () => { demoProbe = (await db.query(`select id from probes where code = 'alder-01'`)).rows[0].id; }, allowed: ALL, farmScoped: false },
 ];
 let lastSub: Awaited<ReturnType<typeof newSubscription>> | null = null;
+let demoProbe = 0;
+// A file of one row for a probe no farm has: a new file each call (its time differs), nothing stored.
+const csvImport = () => ({ fileName: "scratch.csv", csv: `time,probe,metric,value\n${new Date().toISOString()},no-such-probe,temperature,21\n`, mapping: { time: "time", probe: "probe", metric: "metric", value: "value" } });
 
-// Routes outside the farm model: next-auth's own handler.
-const EXEMPT = new Set(["auth/[...nextauth]"]);
+// Routes outside the farm model: next-auth's own handler; probes posting readings with their own
+// credentials (tests/integration/ingest-http/).
+const EXEMPT = new Set(["auth/[...nextauth]", "ingest"]);
 
 const sessions = {} as Record<Role, Session>;
 let db: pg.Client;

@@ -47,3 +47,21 @@ describe("the ingredient library", () => {
     expect(((await res.json()) as { error: { field: string } }).error.field).toBe("moisturePct");
   });
 });
+
+describe("rule overrides per bin", () => {
+  it("an owner's override changes what applies to that bin only, and a reset brings the default back", async () => {
+    const binRes = await owner.fetch(`/api/farms/${farmId}/bins`);
+    const { bins } = (await binRes.json()) as { bins: { id: string; name: string }[] };
+    const [a, b] = bins;
+    const put = await owner.fetch(`/api/bins/${a!.id}/rules`, { method: "PUT", json: { kind: "heat", thresholds: { actNowAtC: 27.5 } } });
+    expect(put.status).toBe(200);
+    const eff = async (id: string) => ((await (await owner.fetch(`/api/bins/${id}/rules`)).json()) as { effective: { heat: { t: { actNowAtC: number } } } }).effective.heat.t.actNowAtC;
+    expect(await eff(a!.id)).toBe(27.5);
+    expect(await eff(b!.id)).not.toBe(27.5);
+    const bad = await owner.fetch(`/api/bins/${a!.id}/rules`, { method: "PUT", json: { kind: "heat", thresholds: { raiseMinutes: -5 } } });
+    expect(bad.status).toBe(422);
+    expect(((await bad.json()) as { error: { field: string } }).error.field).toBe("thresholds.raiseMinutes");
+    await owner.fetch(`/api/bins/${a!.id}/rules?kind=heat`, { method: "DELETE" });
+    expect(await eff(a!.id)).not.toBe(27.5);
+  });
+});

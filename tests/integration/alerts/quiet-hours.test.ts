@@ -1,0 +1,52 @@
+// Quiet hours hold back heads-ups only: an act-now alert reaches the same person at once.
+import { eq } from "drizzle-orm";
+import { beforeAll, describe, expect, it, inject } from "vitest";
+import { db } from "@/db";
+import { raiseAlert } from "@/db/queries/alerts";
+import { savePushSubscription } from "@/db/queries/push";
+import { alertEvents, memberships, users } from "@/db/schema";
+import { notifyAlert } from "@/lib/alerts/notify";
+import { makeVapidKeys } from "@/lib/push";
+import { newSubscriber, pushMessagesFor, type TestSubscriber } from "../../helpers/push";
+import { createProbes, type TestProbe } from "../ingest/helpers";
+
+const vapid = makeVapidKeys();
+process.env.VAPID_PUBLIC_KEY = vapid.publicKey;
+process.env.VAPID_PRIVATE_KEY = vapid.privateKey;
+process.env.PUSH_CA_FILE = inject("pushCaFile");
+delete process.env.SMTP_PORT;
+
+let probe: TestProbe;
+let sleeper: TestSubscriber;
+let binId: string;
+const night = new Date("2026-12-01T02:00:00Z");
+
+beforeAll(async () => {
+  probe = (await createProbes(1))[0]!;
+  const d = db();
+  const [u] = await d.insert(users).values({ email: `sleeper-${probe.code}@example.org`, name: "Sleeper", passwordHash: "x", quietFrom: "22:00", quietTo: "06:30", timezone: "UTC" }).returning();
+  await d.insert(memberships).values({ userId: u!.id, farmId: probe.farmId, role: "keeper" });
+  sleeper = await newSubscriber();
+  await savePushSubscription(u!.id, { endpoint: sleeper.json.endpoint, p256dh: sleeper.json.keys.p256dh, auth: sleeper.json.keys.auth });
+  binId = ((await d.execute(`select bin_id as "binId" from zones where id = '${probe.zoneId}'`)).rows[0] as { binId: string }).binId;
+});
+
+const base = () => ({ farmId: probe.farmId, binId, zoneId: probe.zoneId, probeId: null, value: 26, details: {} });
+
+describe("quiet hours", () => {
+  it("a heads-up at 02:00 is held back for a keeper whose quiet hours are 22:00–06:30", async () => {
+    const a = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:soggy`, kind: "soggy", level: "heads_up", message: "Test bin: 88 % moisture" }, night);
+    const r = await notifyAlert(a!, "raised", night);
+    expect(r).toMatchObject({ pushed: 0, held: 1 });
+    expect(await pushMessagesFor(sleeper.id)).toHaveLength(0);
+    const events = await db().select().from(alertEvents).where(eq(alertEvents.alertId, a!.id));
+    expect(events.map((e) => e.type).sort()).toEqual(["held", "raised"]);
+  });
+
+  it("an act-now alert at 02:00 reaches the same keeper", async () => {
+    const a = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:heat`, kind: "heat", level: "act_now", message: "Test bin: 34 °C" }, night);
+    const r = await notifyAlert(a!, "raised", night);
+    expect(r).toMatchObject({ pushed: 1, held: 0 });
+    expect(await pushMessagesFor(sleeper.id)).toHaveLength(1);
+  });
+});
