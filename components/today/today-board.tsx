@@ -105,10 +105,20 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
         ) : (
           <ul className="mt-2 space-y-2">
             {data.alerts.map((a) => (
-              <li key={a.id} className={`rounded-xl p-3 ring-1 ${a.level === "act_now" ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}>
+              <li key={a.id} id={`alert-${a.id}`} className={`rounded-xl p-3 ring-1 ${a.level === "act_now" ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}>
                 <div className="flex justify-between gap-2 font-bold">
-                  <span>{a.level === "act_now" ? "Act now" : "Heads-up"} · {ALERT_WORDS[a.kind] ?? a.kind}</span>
-                  <span className="text-sm font-normal">{a.state === "claimed" ? "claimed" : "raised"}</span>
+                  <span className="flex items-center gap-1">
+                    <svg viewBox="0 0 16 16" width="16" height="16" aria-hidden="true">
+                      {a.level === "act_now" ? (
+                        <path d="M8 1 15 14H1Z M7.2 5h1.6v5H7.2Z M7.2 11h1.6v1.6H7.2Z" fill="currentColor" fillRule="evenodd" />
+                      ) : (
+                        <path d="M8 1a7 7 0 1 0 0 14A7 7 0 0 0 8 1Zm-.8 3h1.6v1.6H7.2Zm0 3h1.6v5H7.2Z" fill="currentColor" fillRule="evenodd" />
+                      )}
+                    </svg>
+                    {a.level === "act_now" ? "Act now" : "Heads-up"} · {ALERT_WORDS[a.kind] ?? a.kind}
+                    {a.binName ? ` · ${a.binName}` : ""}
+                  </span>
+                  <span className="text-sm font-normal">{a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(String(a.raisedAt))}`}</span>
                 </div>
                 <p className="text-sm">{a.message}</p>
                 {canLog && a.state === "raised" && <ClaimButton alertId={a.id} farmId={farmId} />}

@@ -1,7 +1,6 @@
-import { and, desc, eq, inArray } from "drizzle-orm";
-import { db } from "@/db";
-import { alerts } from "@/db/schema";
 import { sql } from "drizzle-orm";
+import { db } from "@/db";
+import { listAlerts } from "./alerts";
 import { listBins } from "./bins";
 
 export type ZoneLatest = { zoneId: string; metric: string; ts: string; value: number };
@@ -49,11 +48,7 @@ export async function getToday(farmId: string) {
     listBins(farmId),
     latestByZone(farmId),
     sparklines(farmId),
-    db()
-      .select()
-      .from(alerts)
-      .where(and(eq(alerts.farmId, farmId), inArray(alerts.state, ["raised", "claimed"])))
-      .orderBy(desc(alerts.raisedAt)),
+    listAlerts(farmId, { open: true }),
   ]);
   return {
     bins: binList.map((b) => ({
@@ -67,7 +62,7 @@ export async function getToday(farmId: string) {
         },
       })),
     })),
-    alerts: open,
+    alerts: open.map((a) => ({ ...a.alert, binName: a.binName, zoneKind: a.zoneKind, claimedByName: a.claimedByName })),
   };
 }
 export type Today = Awaited<ReturnType<typeof getToday>>;
