@@ -1,0 +1,14 @@
+import { getZoneSeries } from "@/db/queries/series";
+import { route } from "@/lib/api/route";
+import { requireMember } from "@/lib/auth/session";
+import { seriesQuery } from "@/lib/validation/series";
+
+type Ctx = { params: Promise<{ zoneId: string }> };
+
+// GET /api/zones/[zoneId]/series?metric=temperature&from=…&to=… — one metric of the zone's probes for a chart
+export const GET = route(async (req, { params }: Ctx) => {
+  const { zoneId } = await params;
+  await requireMember({ zoneId }, "read");
+  const query = seriesQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
+  return Response.json(await getZoneSeries(zoneId, query));
+});

@@ -1,0 +1,98 @@
+// The HTTP side of telemetry for probes that cannot speak MQTT: who is posting (a bearer
+// credential), what they post (SenML JSON, RFC 8428 §6), and how much (read with a cap, so a large
+// body is refused without being held). Storing goes through the same validation as MQTT.
+import { storeMessage } from "@/db/queries/telemetry";
+import type { Probe } from "@/db/schema";
+import { AppError } from "./errors";
+import { excerptOf, rejectionText, validateSenmlPayload, type Rejection, type ValidatedPayload } from "./telemetry";
+
+export const SENML_JSON = "application/senml+json";
+
+/**
+ * `Authorization: Bearer <code>.<token>` — RFC 6750 §2.1's b64token has no ":", so the code and
+ * token are joined by "." and split at the last one (tokens are base64url, without "."; codes may
+ * hold "."). `Bearer <code>:<token>` is accepted too, split at the first ":" (codes cannot hold ":").
+ */
+export function parseProbeBearer(header: string | null): { code: string; token: string } | null {
+  const m = /^Bearer +(\S+) *$/i.exec(header ?? "");
+  if (!m) return null;
+  const cred = m[1]!;
+  const colon = cred.indexOf(":");
+  const at = colon >= 0 ? colon : cred.lastIndexOf(".");
+  if (at <= 0 || at === cred.length - 1) return null;
+  return { code: cred.slice(0, at), token: cred.slice(at + 1) };
+}
+
+/** The media type without parameters, lower-cased (RFC 9110 §8.3.1: type and subtype are case-insensitive). */
+export const mediaType = (contentType: string | null) => (contentType ?? "").split(";")[0]!.trim().toLowerCase();
+
+export function requireSenmlJson(headers: Headers): void {
+  const type = mediaType(headers.get("content-type"));
+  if (type !== SENML_JSON) {
+    throw new AppError("unsupported_media", `Send SenML JSON with Content-Type: ${SENML_JSON} (RFC 8428 §6)${type ? `, not ${type}` : ""}.`);
+  }
+  const coding = (headers.get("content-encoding") ?? "identity").trim().toLowerCase();
+  if (coding !== "identity") throw new AppError("unsupported_media", `Content-Encoding ${coding} is not accepted; send the body as it is.`);
+}
+
+/** Reads at most `max` bytes; a declared or actual larger body is refused before any parsing. */
+export async function readCappedBody(req: Request, max: number): Promise<Buffer> {
+  const tooLarge = (size: string) => new AppError("too_large", `The body is ${size}; at most ${max} bytes (16 KiB) are accepted.`);
+  const declared = req.headers.get("content-length");
+  if (declared !== null && /^\d+$/.test(declared) && Number(declared) > max) throw tooLarge(`${declared} bytes`);
+  if (!req.body) return Buffer.alloc(0);
+  const reader = req.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    size += value.byteLength;
+    if (size > max) {
+      await reader.cancel().catch(() => {});
+      throw tooLarge(`more than ${max} bytes`);
+    }
+    chunks.push(value);
+  }
+  return Buffer.concat(chunks);
+}
+
+/** A message refused whole (not JSON, not a SenML pack) rather than record by record. */
+export function refusedWhole(v: ValidatedPayload): boolean {
+  if (v.readings.length > 0 || v.rejections.length !== 1) return false;
+  const [r] = v.rejections;
+  // lib/telemetry.ts prefixes record-level SenML problems with "record <index>:".
+  return r!.code === "malformed-json" || (r!.code === "malformed-senml" && !/^record \d+:/.test(r!.reason));
+}
+
+export type HttpIngestResult = {
+  /** New rows stored. */
+  stored: number;
+  /** Readings already stored before (a resent message): a no-op. */
+  duplicates: number;
+  rejected: number;
+  rejections: Rejection[];
+};
+
+/** Validates one posted message like an MQTT one and stores it; throws 400 for a message refused whole. */
+export async function acceptHttpTelemetry(probe: Probe, body: Buffer, now = new Date()): Promise<HttpIngestResult> {
+  const v = validateSenmlPayload(probe, body, { now });
+  const origin = { farmId: probe.farmId, probeId: probe.id, source: "http" as const, topic: null };
+  const excerpt = v.rejections.length > 0 ? excerptOf(body) : null;
+  const { inserted } = await storeMessage({
+    readings: v.readings,
+    rejections: v.rejections.map((r) => ({ ...origin, excerpt, reason: rejectionText(r) })),
+    status: { probeId: probe.id, ...v.status },
+  });
+  if (refusedWhole(v)) throw new AppError("bad_request", `Nothing stored: ${v.rejections[0]!.reason}.`);
+  return { stored: inserted, duplicates: v.readings.length - inserted, rejected: v.rejections.length, rejections: v.rejections };
+}
+
+/** Records a body refused for its size before it was read (the MQTT ingest records the same). */
+export async function recordTooLarge(probe: Probe, reason: string): Promise<void> {
+  await storeMessage({
+    readings: [],
+    rejections: [{ farmId: probe.farmId, probeId: probe.id, source: "http", topic: null, excerpt: null, reason: rejectionText({ code: "too-large", reason }) }],
+    status: null,
+  });
+}

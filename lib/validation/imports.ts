@@ -1,0 +1,44 @@
+import { z } from "zod";
+import { importMapping, MAX_IMPORT_BYTES, type ImportMapping } from "@/lib/csv-import";
+import { AppError, readJson } from "@/lib/errors";
+
+export type ImportUpload = { fileName: string; bytes: Uint8Array; mapping: ImportMapping };
+
+const tooLarge = () => new AppError("too_large", `The file is larger than ${MAX_IMPORT_BYTES / 1024 / 1024} MiB; split it and import the parts.`, "file");
+
+// A script may post JSON instead of a form: { fileName, csv, mapping: {...} }.
+const jsonUpload = z.object({
+  fileName: z.string().trim().min(1).max(255),
+  csv: z.string().min(1, "The file is empty."),
+  mapping: z.record(z.string(), z.unknown()),
+});
+
+/** An upload from the form (multipart: file + one field per mapping choice) or from a script (JSON). */
+export async function readImportUpload(req: Request): Promise<ImportUpload> {
+  const declared = Number(req.headers.get("content-length") ?? 0);
+  // The form's own fields add a few hundred bytes to the file.
+  if (declared > MAX_IMPORT_BYTES + 64 * 1024) throw tooLarge();
+  const type = (req.headers.get("content-type") ?? "").split(";")[0]!.trim().toLowerCase();
+  if (type === "application/json") {
+    const body = jsonUpload.parse(await readJson(req));
+    const bytes = new TextEncoder().encode(body.csv);
+    if (bytes.byteLength > MAX_IMPORT_BYTES) throw tooLarge();
+    return { fileName: body.fileName, bytes, mapping: importMapping.parse(body.mapping) };
+  }
+  if (type !== "multipart/form-data") {
+    throw new AppError("unsupported_media", "Upload the file as multipart/form-data (a form) or JSON { fileName, csv, mapping }.");
+  }
+  let form: FormData;
+  try {
+    form = await req.formData();
+  } catch {
+    throw new AppError("bad_request", "The form could not be read.");
+  }
+  const file = form.get("file");
+  if (!(file instanceof Blob) || file.size === 0) throw new AppError("invalid", "Choose a CSV file.", "file");
+  if (file.size > MAX_IMPORT_BYTES) throw tooLarge();
+  const fields = Object.fromEntries([...form.entries()].filter(([k, v]) => k !== "file" && typeof v === "string"));
+  const mapping = importMapping.parse(fields);
+  const fileName = ("name" in file && typeof file.name === "string" && file.name.trim()) || "upload.csv";
+  return { fileName, bytes: new Uint8Array(await file.arrayBuffer()), mapping };
+}
