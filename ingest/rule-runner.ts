@@ -3,8 +3,10 @@
 // unclaimed act-now alerts, and applies the rules' transitions to the alerts table. All state is
 // in the database; the open-alert unique index keeps two ingest nodes from raising one alert twice.
 import createDebug from "debug";
+import pg from "pg";
+import { READINGS_CHANNEL } from "@/db/queries/readings";
 import { escalateAlert, raiseAlert, settleOpenAlert, takeDueReminders, updateOpenAlert } from "@/db/queries/alerts";
-import { listMonitoredZones, loadZoneRuleContext } from "@/db/queries/rule-inputs";
+import { listMonitoredZones, loadZoneRuleContext, zonesOfProbes } from "@/db/queries/rule-inputs";
 import type { Metric } from "@/db/schema";
 import { notifyAlert } from "@/lib/alerts/notify";
 import { evaluateZone, lookback, overridesFromRuleRows, resolveRules, type RuleKind, type RuleRow, type Transition } from "@/lib/rules";
@@ -18,6 +20,8 @@ export type RuleRunnerOptions = {
   reminderAfterMs?: number;
   now?: () => Date;
   onTransition?: (t: Transition, at: Date) => void;
+  // LISTEN for committed readings from any writer (this node, the app's HTTP ingest, CSV imports).
+  listenUrl?: string;
 };
 
 export type RuleRunner = {
@@ -136,6 +140,37 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
     for (const a of due) await notifyAlert(a, "reminder", now());
   }
 
+  let listener: pg.Client | null = null;
+  async function listen(url: string, attempt = 0): Promise<void> {
+    if (stopped) return;
+    const c = new pg.Client({ connectionString: url });
+    c.on("notification", (n) => {
+      void (async () => {
+        const ids = JSON.parse(n.payload ?? "[]") as number[] | "*";
+        const zones = ids === "*" ? await listMonitoredZones() : await zonesOfProbes(ids);
+        for (const z of zones) dirty.add(z);
+        flushSoon();
+      })().catch((err: Error) => log("notification not handled: %s", err.message));
+    });
+    c.on("error", (err) => {
+      log("listener lost (%s); reconnecting", err.message);
+      listener = null;
+      c.end().catch(() => undefined);
+      setTimeout(() => void listen(url, attempt + 1), Math.min(5_000, 200 * 2 ** attempt)).unref();
+    });
+    try {
+      await c.connect();
+      await c.query(`listen ${READINGS_CHANNEL}`);
+      listener = c;
+      log("listening for committed readings");
+    } catch (err) {
+      log("listener not connected (%s); retrying", (err as Error).message);
+      c.end().catch(() => undefined);
+      setTimeout(() => void listen(url, attempt + 1), Math.min(5_000, 200 * 2 ** attempt)).unref();
+    }
+  }
+  if (opts.listenUrl) void listen(opts.listenUrl);
+
   const sweeper = setInterval(() => {
     running = running.then(sweep).catch((err: Error) => log("sweep failed: %s", err.message));
   }, opts.sweepMs ?? 60_000);
@@ -159,6 +194,7 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
       stopped = true;
       clearInterval(sweeper);
       if (timer) clearTimeout(timer);
+      await listener?.end().catch(() => undefined);
       await running;
     },
   };

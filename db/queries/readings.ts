@@ -48,8 +48,15 @@ export async function insertReadings(
         count = r.count + excluded.count
     )
     select count(*)::int as inserted, array_agg(distinct probe_id) as probe_ids from ins`);
-  return { inserted: r.rows[0]?.inserted ?? 0, probeIds: r.rows[0]?.probe_ids ?? [] };
+  const inserted = r.rows[0]?.inserted ?? 0;
+  const probeIds = r.rows[0]?.probe_ids ?? [];
+  // Tell every rule runner (any ingest node) which probes have new readings, whichever door they
+  // came in by (MQTT, HTTP, CSV). NOTIFY inside a transaction is delivered at its commit.
+  if (inserted > 0) await ex.execute(sql`select pg_notify(${READINGS_CHANNEL}, ${JSON.stringify(probeIds.length > 500 ? "*" : probeIds)})`);
+  return { inserted, probeIds };
 }
+
+export const READINGS_CHANNEL = "wormward_readings";
 
 // PostgreSQL text cannot hold U+0000; a rejected payload may well contain one.
 const clean = (s: string | null | undefined) => (s == null ? null : s.replace(/\u0000/g, "\uFFFD"));
