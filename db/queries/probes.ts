@@ -3,6 +3,7 @@ import { eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { probes, type Probe } from "@/db/schema";
 import { hashToken } from "@/db/seed";
+import { AppError } from "@/lib/errors";
 import type { Executor } from "./readings";
 
 export async function getProbeByCode(code: string, ex: Executor = db()): Promise<Probe | null> {
@@ -64,4 +65,46 @@ export async function updateProbeStatus(updates: readonly ProbeStatusUpdate[], e
 
 export async function setProbeOnline(code: string, online: boolean, ex: Executor = db()): Promise<void> {
   await ex.update(probes).set({ online }).where(eq(probes.code, code));
+}
+
+// Probe management (owners): a token is made here, returned once, and only its hash is kept.
+export async function listFarmProbesWithStatus(farmId: string) {
+  const r = await db().execute(sql`
+    select p.id, p.code, p.label, p.zone_id as "zoneId", z.kind as "zoneKind", z.position as "zonePosition",
+           b.id as "binId", b.name as "binName", p.metrics, p.report_interval_s as "reportIntervalS",
+           p.last_seen_at as "lastSeenAt", p.online, p.battery_v as "batteryV", p.signal_dbm as "signalDbm",
+           p.firmware, p.calibration, p.archived_at as "archivedAt"
+    from probes p
+    left join zones z on z.id = p.zone_id
+    left join bins b on b.id = z.bin_id
+    where p.farm_id = ${farmId}
+    order by p.archived_at nulls first, b.name nulls last, z.position, p.code`);
+  return r.rows;
+}
+
+export async function createProbe(input: { farmId: string; zoneId: string | null; code: string; label: string | null; metrics: string[]; reportIntervalS: number; token: string }) {
+  const { token, ...row } = input;
+  try {
+    const [p] = await db().insert(probes).values({ ...row, tokenHash: hashToken(token) }).returning();
+    return p!;
+  } catch (e) {
+    const code = (e as { code?: string; cause?: { code?: string } }).cause?.code ?? (e as { code?: string }).code;
+    if (code === "23505") throw new AppError("conflict", "Another probe already uses that code.", "code");
+    throw e;
+  }
+}
+
+export async function updateProbe(id: number, patch: Partial<Pick<Probe, "zoneId" | "label" | "reportIntervalS" | "archivedAt" | "metrics">>) {
+  const [p] = await db().update(probes).set(patch).where(eq(probes.id, id)).returning();
+  return p ?? null;
+}
+
+export async function replaceProbeToken(id: number, token: string) {
+  const [p] = await db().update(probes).set({ tokenHash: hashToken(token) }).where(eq(probes.id, id)).returning();
+  return p ?? null;
+}
+
+export async function zoneFarm(zoneId: string) {
+  const r = await db().execute(sql`select b.farm_id as "farmId" from zones z join bins b on b.id = z.bin_id where z.id = ${zoneId}`);
+  return (r.rows[0] as { farmId: string } | undefined)?.farmId ?? null;
 }

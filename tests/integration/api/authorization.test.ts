@@ -9,7 +9,7 @@ import { newSubscriber } from "../../helpers/push";
 import { hashPassword } from "@/lib/auth/password";
 
 type Role = "owner" | "keeper" | "viewer";
-type Ids = { farm: string; bin: string; zone: string; alert: string };
+type Ids = { farm: string; bin: string; zone: string; alert: string; probe: number };
 type Row = {
   method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
   route: string; // file path under app/api, e.g. "farms/[farmId]/bins"
@@ -60,6 +60,10 @@ const rows: Row[] = [
   { method: "GET", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules`, allowed: ALL, farmScoped: true },
   { method: "PUT", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules`, body: () => ({ kind: "heat", thresholds: { actNowAtC: 28 } }), allowed: OWNER, farmScoped: true },
   { method: "DELETE", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules?kind=heat`, allowed: OWNER, farmScoped: true },
+  { method: "GET", route: "farms/[farmId]/probes", path: (i) => `/api/farms/${i.farm}/probes`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "farms/[farmId]/probes", path: (i) => `/api/farms/${i.farm}/probes`, body: () => ({ code: `new-${Math.random().toString(36).slice(2, 9)}` }), allowed: OWNER, farmScoped: true },
+  { method: "PATCH", route: "probes/[probeId]", path: (i) => `/api/probes/${i.probe}`, body: () => ({ label: "by the drain" }), allowed: OWNER, farmScoped: true },
+  { method: "POST", route: "probes/[probeId]/token", path: (i) => `/api/probes/${i.probe}/token`, allowed: OWNER, farmScoped: true },
   { method: "GET", route: "push/key", path: () => "/api/push/key", allowed: ALL, farmScoped: false },
   { method: "POST", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => lastSub, setup: async () => { lastSub = await newSubscription(); }, allowed: CREW, farmScoped: false },
   { method: "DELETE", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => ({ endpoint: lastSub?.endpoint }), setup: async (s) => { lastSub = await newSubscription(); await s.fetch("/api/push/subscriptions", { method: "POST", json: lastSub }); }, allowed: CREW, farmScoped: false },
@@ -68,10 +72,9 @@ const rows: Row[] = [
   { method: "POST", route: "farms/[farmId]/imports", path: (i) => `/api/farms/${i.farm}/imports`, body: () => csvImport(), allowed: OWNER, farmScoped: true },
   { method: "GET", route: "zones/[zoneId]/series", path: (i) => `/api/zones/${i.zone}/series?metric=temperature`, allowed: ALL, farmScoped: true },
   // Another farm's probe gets 404: tests/integration/series/.
-  { method: "GET", route: "probes/[probeId]/series", path: () => `/api/probes/${demoProbe}/series?metric=temperature`, setup: async () => { demoProbe = (await db.query(`select id from probes where code = 'alder-01'`)).rows[0].id; }, allowed: ALL, farmScoped: false },
+  { method: "GET", route: "probes/[probeId]/series", path: (i) => `/api/probes/${i.probe}/series?metric=temperature`, allowed: ALL, farmScoped: true },
 ];
 let lastSub: Awaited<ReturnType<typeof newSubscription>> | null = null;
-let demoProbe = 0;
 // A file of one row for a probe no farm has: a new file each call (its time differs), nothing stored.
 const csvImport = () => ({ fileName: "scratch.csv", csv: `time,probe,metric,value\n${new Date().toISOString()},no-such-probe,temperature,21\n`, mapping: { time: "time", probe: "probe", metric: "metric", value: "value" } });
 
@@ -92,7 +95,8 @@ async function scratch(owner: Session, farm: string): Promise<Ids> {
     `insert into alerts (farm_id, bin_id, zone_id, kind, level, subject, message) values ($1, $2, $3, 'heat', 'heads_up', $4, 'test alert') returning id`,
     [farm, bin.id, bin.zones[0]!.id, `zone:${bin.zones[0]!.id}:heat`],
   );
-  return { farm, bin: bin.id, zone: bin.zones[0]!.id, alert: a.rows[0].id };
+  const p = await db.query(`insert into probes (farm_id, zone_id, code, token_hash) values ($1, $2, $3, 'x') returning id`, [farm, bin.zones[0]!.id, `auth-${Math.random().toString(36).slice(2, 10)}`]);
+  return { farm, bin: bin.id, zone: bin.zones[0]!.id, alert: a.rows[0].id, probe: p.rows[0].id };
 }
 
 beforeAll(async () => {
