@@ -1,0 +1,50 @@
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { appUrl } from "../helpers/app";
+import { launchBrowser, PHONE, screenshotPath } from "../helpers/browser";
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+async function signedIn(email: string): Promise<Page> {
+  const page = await (await browser.newContext(PHONE)).newPage();
+  await page.goto(`${appUrl()}/sign-in`);
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password").fill("alder-row-demo");
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.waitForURL(/\/farms\//);
+  return page;
+}
+
+describe("the probes page", () => {
+  it("an owner registers a probe and sees its token once", async () => {
+    const page = await signedIn("noor@alder-row.example");
+    await page.getByRole("navigation", { name: "Farm" }).getByRole("link", { name: "Probes" }).click();
+    await page.waitForURL(/\/probes$/);
+    const code = `tray-${Date.now().toString(36)}`;
+    await page.getByLabel("Probe code").fill(code);
+    await page.locator("select[name=zoneId]").selectOption({ index: 1 });
+    await page.getByRole("button", { name: "Register" }).click();
+    const box = page.getByRole("status");
+    await expect.poll(() => box.textContent()).toContain(`Token for ${code}`);
+    await page.screenshot({ path: screenshotPath("probes-token"), fullPage: true });
+    await page.getByRole("button", { name: "I have copied it" }).click();
+    await expect.poll(() => page.getByRole("status").count()).toBe(0);
+    expect(await page.getByText(code).count()).toBeGreaterThan(0);
+    await page.context().close();
+  });
+
+  it("a viewer sees the probes but no register form", async () => {
+    const page = await signedIn("class5b@alder-row.example");
+    await page.goto(page.url().replace(/\/farms\/([^/]+).*/, "/farms/$1/probes"));
+    await expect.poll(() => page.getByText("alder-01").count()).toBeGreaterThan(0);
+    expect(await page.getByRole("button", { name: "Register" }).count()).toBe(0);
+    await page.screenshot({ path: screenshotPath("probes-viewer"), fullPage: true });
+    await page.context().close();
+  });
+});
