@@ -98,8 +98,9 @@ async function start() {
     lines.push(`MQTT broker (ingest): mqtt://127.0.0.1:${env.MQTT_PORT}`);
   }
   if (exists("fakes/probe-fleet.ts")) {
-    service("probe-fleet", bin("tsx"), ["fakes/probe-fleet.ts", "--probes", path.join(dataDir, "demo-probes.json")], env);
-    lines.push("Simulated probes: the demo farm's probes report every minute");
+    service("probe-fleet", bin("tsx"), ["fakes/probe-fleet.ts", "--probes", path.join(dataDir, "demo-probes.json"), "--control-port", "8099"], env);
+    lines.push("Simulated probes: the demo farm's probes report every minute. Start a heavy feed in Long Bed North's fresh zone:");
+    lines.push(`  curl -X POST http://127.0.0.1:8099/scenario -H 'content-type: application/json' -d '{"code":"alder-01","scenario":"heavy-feed"}'`);
   }
 
   console.log("Building the web app (next build)…");
