@@ -2,6 +2,7 @@ import { getToken } from "next-auth/jwt";
 import { NextResponse, type NextRequest } from "next/server";
 
 // Pages need a session; API routes answer 401 themselves (with the JSON envelope), so they pass.
+// Password reset and invitation links are for people who are not signed in (yet).
 export async function proxy(req: NextRequest) {
   const token = await getToken({ req, secret: process.env.NEXTAUTH_SECRET });
   if (token) return NextResponse.next();
@@ -12,5 +13,5 @@ export async function proxy(req: NextRequest) {
 }
 
 export const config = {
-  matcher: ["/((?!api/|sign-in|_next/|sw\\.js|manifest\\.webmanifest|icon\\.svg|favicon\\.ico).*)"],
+  matcher: ["/((?!api/|sign-in|forgot|reset/|join/|_next/|sw\\.js|manifest\\.webmanifest|icon\\.svg|favicon\\.ico).*)"],
 };

@@ -2,6 +2,7 @@ import { sql } from "drizzle-orm";
 import {
   bigserial,
   boolean,
+  date,
   doublePrecision,
   index,
   integer,
@@ -54,6 +55,8 @@ export const farms = pgTable("farms", {
   name: text("name").notNull(),
   unitSystem: unitSystemEnum("unit_system").notNull().default("metric"),
   timezone: text("timezone").notNull().default("UTC"),
+  // The farm-local day whose digest went out; a compare-and-set on it sends each day's digest once.
+  digestSentOn: date("digest_sent_on", { mode: "string" }),
   createdAt: createdAt(),
 });
 
@@ -108,6 +111,22 @@ export const invitations = pgTable(
   },
   // Accepting an invitation finds it by its token hash.
   (t) => [uniqueIndex("invitations_token_uq").on(t.tokenHash)],
+);
+
+export const passwordResets = pgTable(
+  "password_resets",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    userId: uuid("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull(),
+    expiresAt: ts("expires_at").notNull(),
+    usedAt: ts("used_at"),
+    createdAt: createdAt(),
+  },
+  // A reset link finds its row by token hash; the mail rate limit counts a user's recent rows.
+  (t) => [uniqueIndex("password_resets_token_uq").on(t.tokenHash), index("password_resets_user_idx").on(t.userId, t.createdAt)],
 );
 
 export const bins = pgTable(
@@ -447,6 +466,8 @@ export const imports = pgTable(
 export type Farm = typeof farms.$inferSelect;
 export type User = typeof users.$inferSelect;
 export type Membership = typeof memberships.$inferSelect;
+export type Invitation = typeof invitations.$inferSelect;
+export type PasswordReset = typeof passwordResets.$inferSelect;
 export type Role = (typeof roleEnum.enumValues)[number];
 export type Bin = typeof bins.$inferSelect;
 export type Zone = typeof zones.$inferSelect;

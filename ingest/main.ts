@@ -2,17 +2,19 @@
 // On SIGTERM or SIGINT it stops taking connections, commits what it holds, then exits.
 import createDebug from "debug";
 import { env } from "@/lib/env";
+import { createDigestScheduler } from "./digest";
 import { createRuleRunner } from "./rule-runner";
 import { startIngest } from "./service";
 
 const log = createDebug("wormward:ingest");
 const e = env();
-const rules = createRuleRunner();
+// The rule runner hears of new readings through LISTEN, from this node and every other writer.
+const rules = createRuleRunner({ listenUrl: e.DATABASE_URL });
+const digests = createDigestScheduler();
 const ingest = await startIngest({
   port: e.MQTT_PORT,
   host: e.MQTT_HOST,
   databaseUrl: e.DATABASE_URL,
-  onCommitted: (zoneIds) => rules.onCommitted(zoneIds),
 });
 console.log(`ingest: MQTT on ${e.MQTT_HOST}:${ingest.port}`);
 
@@ -29,6 +31,7 @@ async function stop(signal: string) {
   try {
     await ingest.close();
     await rules.stop();
+    await digests.stop();
     process.exit(0);
   } catch (err) {
     console.error("ingest: shutdown failed:", (err as Error).message);

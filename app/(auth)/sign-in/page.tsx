@@ -3,8 +3,14 @@ import { SignInForm } from "@/components/auth/sign-in-form";
 
 export const metadata: Metadata = { title: "Sign in" };
 
-export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string }> }) {
-  const { next } = await searchParams;
+// Set by the join and reset actions, which send the person here when they are done.
+const NOTICES: Record<string, string> = {
+  joined: "Your account is ready and you are on the team. Sign in to open the farm.",
+  "password-set": "Your new password is set. Sign in with it.",
+};
+
+export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string; notice?: string }> }) {
+  const { next, notice } = await searchParams;
   // Only same-site paths are followed after sign-in.
   const target = next && next.startsWith("/") && !next.startsWith("//") ? next : "/";
   return (
@@ -16,7 +22,9 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
           <p className="text-soil-700">Your worm bins, watched while you are away.</p>
         </div>
       </div>
+      {notice && NOTICES[notice] && <p role="status" className="mb-4 rounded-xl bg-leaf-100 p-3 font-bold text-leaf-700">{NOTICES[notice]}</p>}
       <SignInForm next={target} />
+      <a href="/forgot" className="mt-4 inline-flex min-h-11 items-center text-soil-700 underline">Forgot your password?</a>
       <p className="mt-8 text-sm text-soil-500">
         New to a farm? Ask its owner to invite you.
       </p>

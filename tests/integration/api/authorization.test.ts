@@ -73,8 +73,27 @@ const rows: Row[] = [
   { method: "GET", route: "zones/[zoneId]/series", path: (i) => `/api/zones/${i.zone}/series?metric=temperature`, allowed: ALL, farmScoped: true },
   // Another farm's probe gets 404: tests/integration/series/.
   { method: "GET", route: "probes/[probeId]/series", path: (i) => `/api/probes/${i.probe}/series?metric=temperature`, allowed: ALL, farmScoped: true },
+  // The team (behaviour, the last owner and invitation links: tests/integration/team/).
+  { method: "GET", route: "farms/[farmId]/members", path: (i) => `/api/farms/${i.farm}/members`, allowed: ALL, farmScoped: true },
+  { method: "PATCH", route: "farms/[farmId]/members/[userId]", path: (i) => `/api/farms/${i.farm}/members/${scratchMember}`, body: () => ({ role: "viewer" }), setup: async () => { scratchMember = await newMember(); }, allowed: OWNER, farmScoped: true },
+  { method: "DELETE", route: "farms/[farmId]/members/[userId]", path: (i) => `/api/farms/${i.farm}/members/${scratchMember}`, setup: async () => { scratchMember = await newMember(); }, allowed: OWNER, farmScoped: true },
+  { method: "GET", route: "farms/[farmId]/invitations", path: (i) => `/api/farms/${i.farm}/invitations`, allowed: OWNER, farmScoped: true },
+  { method: "POST", route: "farms/[farmId]/invitations", path: (i) => `/api/farms/${i.farm}/invitations`, body: () => ({ email: `invitee-${Math.random().toString(36).slice(2, 9)}@example.org`, role: "keeper" }), allowed: OWNER, farmScoped: true },
+  { method: "DELETE", route: "farms/[farmId]/invitations/[invitationId]", path: (i) => `/api/farms/${i.farm}/invitations/${scratchInvitation}`, setup: async () => { scratchInvitation = await newInvitation(); }, allowed: OWNER, farmScoped: true },
 ];
 let lastSub: Awaited<ReturnType<typeof newSubscription>> | null = null;
+// A keeper and an open invitation of the demo farm, made afresh for each row that changes one.
+let scratchMember = "00000000-0000-4000-8000-000000000000";
+let scratchInvitation = "00000000-0000-4000-8000-000000000000";
+async function newMember() {
+  const u = await db.query(`insert into users (email, name, password_hash) values ($1, 'Scratch Keeper', 'x') returning id`, [`scratch-${Math.random().toString(36).slice(2, 10)}@example.org`]);
+  await db.query(`insert into memberships (user_id, farm_id, role) values ($1, $2, 'keeper')`, [u.rows[0].id, demoFarm]);
+  return u.rows[0].id as string;
+}
+async function newInvitation() {
+  const r = await db.query(`insert into invitations (farm_id, email, role, token_hash, expires_at) values ($1, $2, 'viewer', $3, now() + interval '1 day') returning id`, [demoFarm, `scratch-${Math.random().toString(36).slice(2, 10)}@example.org`, `scratch-${Math.random()}`]);
+  return r.rows[0].id as string;
+}
 // A file of one row for a probe no farm has: a new file each call (its time differs), nothing stored.
 const csvImport = () => ({ fileName: "scratch.csv", csv: `time,probe,metric,value\n${new Date().toISOString()},no-such-probe,temperature,21\n`, mapping: { time: "time", probe: "probe", metric: "metric", value: "value" } });
 

@@ -1,0 +1,11 @@
+"use server";
+
+import { RESET_ANSWER, requestPasswordReset } from "@/lib/password-reset";
+import { forgotForm } from "@/lib/validation/team";
+import { validatedAction } from "@/lib/validated-action";
+
+// One answer whether or not the address has an account.
+export const askForReset = validatedAction(forgotForm, async ({ email }) => {
+  await requestPasswordReset(email);
+  return RESET_ANSWER;
+});

@@ -1,0 +1,30 @@
+"use server";
+
+import { redirect } from "next/navigation";
+import { requireUser } from "@/lib/auth/session";
+import { joinAsUser, joinWithNewAccount } from "@/lib/invitations";
+import { joinMeForm, joinNewForm } from "@/lib/validation/team";
+import { validatedAction, type ActionState } from "@/lib/validated-action";
+
+// Each returns the address to go to next; the redirect runs outside validatedAction, which catches throws.
+const asNew = validatedAction(joinNewForm, async ({ token, name, password }) => {
+  const j = await joinWithNewAccount(token, { name, password });
+  return `/sign-in?notice=joined&next=${encodeURIComponent(`/farms/${j.farmId}`)}`;
+});
+
+const asMe = validatedAction(joinMeForm, async ({ token }) => {
+  const j = await joinAsUser(token, await requireUser());
+  return `/farms/${j.farmId}`;
+});
+
+export async function joinNew(prev: ActionState, form: FormData): Promise<ActionState> {
+  const result = await asNew(prev, form);
+  if (result.ok) redirect(result.ok);
+  return result;
+}
+
+export async function joinMe(prev: ActionState, form: FormData): Promise<ActionState> {
+  const result = await asMe(prev, form);
+  if (result.ok) redirect(result.ok);
+  return result;
+}

@@ -1,0 +1,56 @@
+import type { Metadata } from "next";
+import { notFound } from "next/navigation";
+import { getFarm } from "@/db/queries/farms";
+import { listPendingInvitations, listTeam } from "@/db/queries/team";
+import { InviteForm } from "@/components/team/invite-form";
+import { MemberList } from "@/components/team/member-card";
+import { PendingInvitations } from "@/components/team/pending-invitations";
+import { requireMember } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { changeRole, invite, remove, revoke } from "./actions";
+
+export const metadata: Metadata = { title: "Team" };
+
+export default async function TeamPage({ params }: { params: Promise<{ farmId: string }> }) {
+  const { farmId } = await params;
+  let who;
+  try {
+    who = await requireMember({ farmId }, "read");
+  } catch (e) {
+    if (e instanceof AppError) notFound();
+    throw e;
+  }
+  const farm = await getFarm(farmId);
+  if (!farm) notFound();
+  const owner = who.role === "owner";
+  const [team, pending] = await Promise.all([listTeam(farmId), owner ? listPendingInvitations(farmId) : Promise.resolve([])]);
+  const day = (d: Date) => d.toLocaleDateString("en-GB", { timeZone: farm.timezone, day: "numeric", month: "short", year: "numeric" });
+  return (
+    <main className="space-y-6 p-4">
+      <div>
+        <a href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center text-sm text-soil-500">← Today</a>
+        <p className="text-sm text-soil-500">{farm.name}</p>
+        <h1 className="text-3xl font-bold">Team</h1>
+      </div>
+      <section aria-labelledby="people-h">
+        <h2 id="people-h" className="mb-2 text-xl font-bold">People ({team.length})</h2>
+        <MemberList
+          members={team.map((m) => ({ userId: m.userId, name: m.name, role: m.role, joined: day(m.joinedAt), isYou: m.userId === who.userId, ...(owner ? { email: m.email } : {}) }))}
+          manage={owner ? { farmId, changeRole, remove } : undefined}
+        />
+      </section>
+      {owner ? (
+        <>
+          <InviteForm farmId={farmId} action={invite} />
+          <PendingInvitations
+            farmId={farmId}
+            action={revoke}
+            invitations={pending.map((i) => ({ id: i.id, email: i.email, role: i.role, invitedByName: i.invitedByName, expires: day(i.expiresAt) }))}
+          />
+        </>
+      ) : (
+        <p className="rounded-xl bg-soil-100 p-4">Only an owner of {farm.name} can invite people or change roles.</p>
+      )}
+    </main>
+  );
+}

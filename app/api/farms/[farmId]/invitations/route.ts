@@ -1,0 +1,23 @@
+import { listPendingInvitations } from "@/db/queries/team";
+import { route } from "@/lib/api/route";
+import { requireMember } from "@/lib/auth/session";
+import { readJson } from "@/lib/errors";
+import { inviteToFarm } from "@/lib/invitations";
+import { invitationCreate } from "@/lib/validation/team";
+
+type Ctx = { params: Promise<{ farmId: string }> };
+
+// GET /api/farms/[farmId]/invitations — owners see the invitations still open
+export const GET = route(async (_req, { params }: Ctx) => {
+  const { farmId } = await params;
+  const who = await requireMember({ farmId }, "manage");
+  return Response.json({ invitations: await listPendingInvitations(who.farmId) });
+});
+
+// POST /api/farms/[farmId]/invitations — owners invite someone by e-mail with a role; the link is mailed
+export const POST = route(async (req, { params }: Ctx) => {
+  const { farmId } = await params;
+  const who = await requireMember({ farmId }, "manage");
+  const input = invitationCreate.parse(await readJson(req));
+  return Response.json({ invitation: await inviteToFarm({ farmId: who.farmId, ...input, invitedBy: who.userId }) }, { status: 201 });
+});

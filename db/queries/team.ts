@@ -1,0 +1,136 @@
+import { and, asc, eq, gt, isNull, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { db } from "@/db";
+import { farms, invitations, memberships, users, type Role } from "@/db/schema";
+import { AppError } from "@/lib/errors";
+
+export async function listTeam(farmId: string) {
+  return db()
+    .select({ userId: users.id, name: users.name, email: users.email, role: memberships.role, joinedAt: memberships.createdAt })
+    .from(memberships)
+    .innerJoin(users, eq(users.id, memberships.userId))
+    .where(eq(memberships.farmId, farmId))
+    // Owners first, then keepers, then viewers (the enum's order), each by name.
+    .orderBy(asc(memberships.role), asc(users.name));
+}
+
+const inviter = alias(users, "inviter");
+
+export async function listPendingInvitations(farmId: string, now = new Date()) {
+  return db()
+    .select({
+      id: invitations.id,
+      email: invitations.email,
+      role: invitations.role,
+      expiresAt: invitations.expiresAt,
+      createdAt: invitations.createdAt,
+      invitedByName: inviter.name,
+    })
+    .from(invitations)
+    .leftJoin(inviter, eq(inviter.id, invitations.invitedBy))
+    .where(and(eq(invitations.farmId, farmId), isNull(invitations.acceptedAt), gt(invitations.expiresAt, now)))
+    .orderBy(asc(invitations.createdAt));
+}
+
+export async function isMemberByEmail(farmId: string, email: string) {
+  const r = await db()
+    .select({ userId: memberships.userId })
+    .from(memberships)
+    .innerJoin(users, eq(users.id, memberships.userId))
+    .where(and(eq(memberships.farmId, farmId), sql`lower(${users.email}) = lower(${email})`))
+    .limit(1);
+  return r.length > 0;
+}
+
+// A new invitation replaces any open one for the same address, so only the latest link works.
+export async function createInvitation(input: { farmId: string; email: string; role: Role; tokenHash: string; invitedBy: string; expiresAt: Date }) {
+  return db().transaction(async (tx) => {
+    await tx
+      .delete(invitations)
+      .where(and(eq(invitations.farmId, input.farmId), sql`lower(${invitations.email}) = lower(${input.email})`, isNull(invitations.acceptedAt)));
+    const [row] = await tx.insert(invitations).values(input).returning();
+    return row!;
+  });
+}
+
+export async function deleteInvitation(farmId: string, invitationId: string) {
+  const rows = await db()
+    .delete(invitations)
+    .where(and(eq(invitations.farmId, farmId), eq(invitations.id, invitationId), isNull(invitations.acceptedAt)))
+    .returning({ id: invitations.id });
+  return rows.length > 0;
+}
+
+export async function getInvitationByTokenHash(tokenHash: string) {
+  const [r] = await db()
+    .select({ invitation: invitations, farmName: farms.name, invitedByName: inviter.name })
+    .from(invitations)
+    .innerJoin(farms, eq(farms.id, invitations.farmId))
+    .leftJoin(inviter, eq(inviter.id, invitations.invitedBy))
+    .where(eq(invitations.tokenHash, tokenHash));
+  return r ?? null;
+}
+
+type Joiner = { userId: string } | { newUser: { email: string; name: string; passwordHash: string; timezone: string } };
+
+// Takes the invitation (compare-and-set on accepted_at, so a link works once even when tapped twice)
+// and adds the membership in the same transaction. Null when the link is used, expired or unknown.
+export async function acceptInvitation(tokenHash: string, joiner: Joiner, now = new Date()) {
+  return db().transaction(async (tx) => {
+    const [inv] = await tx
+      .update(invitations)
+      .set({ acceptedAt: now })
+      .where(and(eq(invitations.tokenHash, tokenHash), isNull(invitations.acceptedAt), gt(invitations.expiresAt, now)))
+      .returning();
+    if (!inv) return null;
+    let userId: string;
+    if ("userId" in joiner) userId = joiner.userId;
+    else {
+      const [u] = await tx.insert(users).values(joiner.newUser).onConflictDoNothing().returning({ id: users.id });
+      if (!u) throw new AppError("conflict", "An account with this e-mail already exists; sign in to join.");
+      userId = u.id;
+    }
+    // Someone already on the team keeps the role they have.
+    await tx.insert(memberships).values({ userId, farmId: inv.farmId, role: inv.role }).onConflictDoNothing();
+    const [m] = await tx
+      .select({ role: memberships.role })
+      .from(memberships)
+      .where(and(eq(memberships.userId, userId), eq(memberships.farmId, inv.farmId)));
+    return { farmId: inv.farmId, userId, role: m!.role };
+  });
+}
+
+// Role changes and removals lock the farm's owner rows first, so two owners demoting each other at
+// the same moment cannot leave the farm with none.
+async function changeMembership(farmId: string, userId: string, next: Role | null) {
+  return db().transaction(async (tx) => {
+    const owners = await tx
+      .select({ userId: memberships.userId })
+      .from(memberships)
+      .where(and(eq(memberships.farmId, farmId), eq(memberships.role, "owner")))
+      .for("update");
+    const [cur] = await tx
+      .select({ role: memberships.role })
+      .from(memberships)
+      .where(and(eq(memberships.farmId, farmId), eq(memberships.userId, userId)));
+    if (!cur) throw new AppError("not_found", "That person is not on this farm's team.");
+    if (cur.role === "owner" && next !== "owner" && owners.length <= 1) {
+      throw new AppError(
+        "conflict",
+        next === null
+          ? "This is the farm's last owner and cannot be removed. Make someone else an owner first."
+          : "This is the farm's last owner and must stay an owner. Make someone else an owner first.",
+      );
+    }
+    const where = and(eq(memberships.farmId, farmId), eq(memberships.userId, userId));
+    if (next === null) {
+      await tx.delete(memberships).where(where);
+      return null;
+    }
+    const [row] = await tx.update(memberships).set({ role: next }).where(where).returning();
+    return row!;
+  });
+}
+
+export const changeMemberRole = (farmId: string, userId: string, role: Role) => changeMembership(farmId, userId, role);
+export const removeMember = (farmId: string, userId: string) => changeMembership(farmId, userId, null);

@@ -1,0 +1,121 @@
+// The daily digest: one farm's previous day per bin — alerts raised and settled, each zone's
+// temperature and moisture range from the hourly rollups, feedings logged — as text and simple HTML.
+import { getDigestData, type DigestData } from "@/db/queries/digest";
+import { getFarm } from "@/db/queries/farms";
+import type { Farm } from "@/db/schema";
+import { escapeHtml } from "@/lib/app-mailer";
+import { env } from "@/lib/env";
+import { formatNumber, formatMass, temperatureForDisplay, UNIT_LABELS, type UnitSystem } from "@/lib/units";
+import { KIND_WORDS, LEVEL_WORDS } from "./notify";
+
+/** The farm-local calendar date ("YYYY-MM-DD") and minutes past midnight at an instant. */
+export function localClock(now: Date, timeZone: string): { date: string; minutes: number } {
+  const parts = new Intl.DateTimeFormat("en-CA", {
+    timeZone,
+    hourCycle: "h23",
+    year: "numeric",
+    month: "2-digit",
+    day: "2-digit",
+    hour: "2-digit",
+    minute: "2-digit",
+  }).formatToParts(now);
+  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? "00";
+  return { date: `${get("year")}-${get("month")}-${get("day")}`, minutes: Number(get("hour")) * 60 + Number(get("minute")) };
+}
+
+// A zone's offset from UTC at an instant, in ms: Intl has no direct call for it.
+function offsetAt(utcMs: number, timeZone: string): number {
+  const parts = new Intl.DateTimeFormat("en-US", { timeZone, hourCycle: "h23", year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", second: "2-digit" }).formatToParts(new Date(utcMs));
+  const get = (t: string) => Number(parts.find((p) => p.type === t)?.value);
+  return Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second")) - Math.floor(utcMs / 1000) * 1000;
+}
+
+// Local midnight as an instant. Offsets from a day either side cover a change that night; where
+// midnight itself is skipped (a few zones change at 00:00) the day starts when the clock resumes.
+function midnightUtc(wall: number, timeZone: string): number {
+  const candidates = [offsetAt(wall - 86_400_000, timeZone), offsetAt(wall + 86_400_000, timeZone)].map((o) => wall - o);
+  const exact = candidates.filter((t) => t + offsetAt(t, timeZone) === wall);
+  return exact.length ? Math.min(...exact) : Math.max(...candidates);
+}
+
+const wallMidnight = (date: string) => {
+  const [y, m, d] = date.split("-").map(Number) as [number, number, number];
+  return Date.UTC(y, m - 1, d);
+};
+
+export function addDays(date: string, days: number): string {
+  return new Date(wallMidnight(date) + days * 86_400_000).toISOString().slice(0, 10);
+}
+
+/** [start, end) of a farm-local day as instants; 23 or 25 hours long on a daylight-saving change. */
+export function dayBounds(date: string, timeZone: string): { from: Date; to: Date } {
+  return { from: new Date(midnightUtc(wallMidnight(date), timeZone)), to: new Date(midnightUtc(wallMidnight(addDays(date, 1)), timeZone)) };
+}
+
+function range(min: number, max: number, unit: string, digits: number) {
+  const a = formatNumber(min, digits);
+  const b = formatNumber(max, digits);
+  return a === b ? `${a} ${unit}` : `${a}–${b} ${unit}`;
+}
+
+type BinSummary = { name: string; lines: string[] };
+
+export function summarize(data: DigestData, units: UnitSystem): BinSummary[] {
+  return data.bins.map((bin) => {
+    const lines: string[] = [];
+    const counts = data.alerts.filter((a) => a.binId === bin.id);
+    const raised = counts.reduce((n, a) => n + a.raised, 0);
+    const settled = counts.reduce((n, a) => n + a.settled, 0);
+    const kinds = counts
+      .filter((a) => a.raised > 0)
+      .sort((a, b) => (a.level === b.level ? a.kind.localeCompare(b.kind) : a.level === "act_now" ? -1 : 1))
+      .map((a) => `${a.raised} ${LEVEL_WORDS[a.level as keyof typeof LEVEL_WORDS].toLowerCase()} ${KIND_WORDS[a.kind as keyof typeof KIND_WORDS].toLowerCase()}`);
+    lines.push(raised || settled ? `Alerts: ${raised} raised${kinds.length ? ` (${kinds.join(", ")})` : ""}, ${settled} settled` : "Alerts: none");
+    for (const z of data.zones.filter((z) => z.binId === bin.id)) {
+      const label = z.name ?? `${z.kind[0]!.toUpperCase()}${z.kind.slice(1)} zone`;
+      const t = data.ranges.find((r) => r.zoneId === z.id && r.metric === "temperature");
+      const m = data.ranges.find((r) => r.zoneId === z.id && r.metric === "moisture");
+      const parts = [
+        t ? `temperature ${range(temperatureForDisplay(t.min, units), temperatureForDisplay(t.max, units), UNIT_LABELS[units].temperature, 1)}` : null,
+        m ? `moisture ${range(m.min, m.max, "%", 0)}` : null,
+      ].filter(Boolean);
+      lines.push(`${label}: ${parts.length ? parts.join(", ") : "no readings"}`);
+    }
+    const f = data.feedings.find((x) => x.binId === bin.id);
+    lines.push(f ? `Feedings: ${f.count} logged${f.totalKg ? `, ${formatMass(f.totalKg, units)} in all` : ""}` : "Feedings: none logged");
+    return { name: bin.name, lines };
+  });
+}
+
+export function renderDigest(p: { farm: Pick<Farm, "id" | "name" | "unitSystem" | "timezone">; date: string; data: DigestData; appUrl: string }) {
+  // Put together by hand: ICU versions differ on the comma after the weekday.
+  const d = new Date(wallMidnight(p.date));
+  const word = (o: Intl.DateTimeFormatOptions) => d.toLocaleDateString("en-GB", { timeZone: "UTC", ...o });
+  const dayWords = `${word({ weekday: "long" })} ${d.getUTCDate()} ${word({ month: "long" })} ${d.getUTCFullYear()}`;
+  const subject = `[Wormward] ${p.farm.name}: your day, ${dayWords}`;
+  const bins = summarize(p.data, p.farm.unitSystem);
+  const link = `${p.appUrl}/farms/${p.farm.id}`;
+  const footer = "Castings and leachate go on the soil, not on produce about to be eaten; wash your hands after work in the bins.";
+  const text = [
+    `${p.farm.name} — ${dayWords} (${p.farm.timezone})`,
+    "",
+    ...(bins.length ? bins.flatMap((b) => [b.name, ...b.lines.map((l) => `  ${l}`), ""]) : ["No bins yet.", ""]),
+    `Open Today: ${link}`,
+    "",
+    footer,
+    "",
+  ].join("\n");
+  const html = `<h1 style="font-size:1.2em">${escapeHtml(p.farm.name)} — ${escapeHtml(dayWords)}</h1>
+${bins.map((b) => `<h2 style="font-size:1.05em;margin-bottom:.2em">${escapeHtml(b.name)}</h2><ul style="margin-top:0">${b.lines.map((l) => `<li>${escapeHtml(l)}</li>`).join("")}</ul>`).join("\n")}
+<p><a href="${escapeHtml(link)}">Open Today</a></p><p style="color:#57402f;font-size:.9em">${escapeHtml(footer)}</p>`;
+  return { subject, text, html };
+}
+
+/** The digest of one farm for one farm-local day ("YYYY-MM-DD"), or null for an unknown farm. */
+export async function buildDigest(farmId: string, date: string) {
+  const farm = await getFarm(farmId);
+  if (!farm) return null;
+  const { from, to } = dayBounds(date, farm.timezone);
+  const data = await getDigestData(farm.id, from, to);
+  return { ...renderDigest({ farm, date, data, appUrl: env().APP_URL }), binCount: data.bins.length };
+}
