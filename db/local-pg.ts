@@ -44,7 +44,8 @@ export function ensureServerBinaries(): string {
 // Runs a server binary as the unprivileged `postgres` user when we are root (PostgreSQL refuses root).
 function runPg(bin: string, args: string[], opts: { allowFail?: boolean } = {}) {
   const [cmd, argv] = isRoot() ? ["runuser", ["-u", "postgres", "--", bin, ...args]] : [bin, args];
-  const r = spawnSync(cmd, argv as string[], { encoding: "utf8" });
+  // cwd "/": the postgres user may not be able to enter the folder we were started from.
+  const r = spawnSync(cmd, argv as string[], { encoding: "utf8", cwd: "/" });
   if (r.status !== 0 && !opts.allowFail) {
     throw new Error(`${path.basename(bin)} failed (${r.status}): ${r.stderr || r.stdout}`);
   }
@@ -100,6 +101,9 @@ export async function startCluster(opts: ClusterOptions = {}): Promise<Cluster> 
   if (!fs.existsSync(path.join(dataDir, "PG_VERSION")) || !state) {
     state = { port: opts.port ?? (await firstFreePort(54329)), password: randomBytes(18).toString("base64url") };
     fs.rmSync(home, { recursive: true, force: true });
+    // The parent (ours, or one under the temp folder) must be traversable by the postgres user.
+    fs.mkdirSync(path.dirname(home), { recursive: true, mode: 0o755 });
+    fs.chmodSync(path.dirname(home), 0o755);
     fs.mkdirSync(home, { recursive: true, mode: 0o700 });
     const pwFile = path.join(home, "pw");
     fs.writeFileSync(pwFile, state.password, { mode: 0o600 });
