@@ -122,6 +122,7 @@ describe("a heavy feed heats the fresh zone", () => {
     expect(urgent.value).toBeGreaterThan(25);
     const actNowMessage = messages[payloads.indexOf(urgent)]!;
     console.log(`publish-to-push latency (act now): ${Date.parse(actNowMessage.receivedAt) - escalatedAtReal} ms`);
+    console.log(`alert timeline (minutes after the feeding; climb starts at 30): ${seen.map((s) => `${s.minute} ${s.level}/${s.type}`).join(", ")}`);
 
     // One keeper claims it.
     const claimed = await claimAlert(alert.id, keeperId);
