@@ -1,5 +1,6 @@
 "use client";
 
+import Link from "next/link";
 import { useState } from "react";
 import { useSWRConfig } from "swr";
 import type { Today } from "@/db/queries/today";
@@ -31,7 +32,7 @@ function ago(iso: string) {
   return h < 48 ? `${h} h ago` : `${Math.round(h / 24)} days ago`;
 }
 
-function ZoneRow({ zone, bin, units }: { zone: Zone; bin: Bin; units: UnitSystem }) {
+function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: UnitSystem; farmId: string }) {
   const species = getSpecies(bin.species);
   const t = zone.latest.temperature;
   const m = zone.latest.moisture;
@@ -41,7 +42,9 @@ function ZoneRow({ zone, bin, units }: { zone: Zone; bin: Bin; units: UnitSystem
   return (
     <li className="border-t border-soil-100 py-3 first:border-t-0">
       <div className="flex items-baseline justify-between gap-2">
-        <h3 className="font-bold">{zoneName}</h3>
+        <h3 className="font-bold">
+          <Link href={`/farms/${farmId}/zones/${zone.id}`} className="inline-flex min-h-11 items-center underline underline-offset-4">{zoneName}</Link>
+        </h3>
         <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
       </div>
       <div className="mt-2 grid grid-cols-2 gap-3">
@@ -137,7 +140,9 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
         return (
           <section key={bin.id} aria-label={bin.name} className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
             <header className="mb-1">
-              <h2 className="text-xl font-bold">{bin.name}</h2>
+              <h2 className="text-xl font-bold">
+                <Link href={`/farms/${farmId}/bins/${bin.id}`} className="inline-flex min-h-11 items-center underline underline-offset-4">{bin.name}</Link>
+              </h2>
               <p className="text-sm text-soil-700">
                 {bin.style} · <i>{species?.name ?? bin.species}</i>
                 {species ? ` · comfortable ${formatTemperature(species.temperatureC.comfortLow, units, { digits: 0 })}–${formatTemperature(species.temperatureC.comfortHigh, units, { digits: 0 })}` : ""}
@@ -148,7 +153,7 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
             ) : (
               <ul>
                 {bin.zones.map((z) => (
-                  <ZoneRow key={z.id} zone={z} bin={bin} units={units} />
+                  <ZoneRow key={z.id} zone={z} bin={bin} units={units} farmId={farmId} />
                 ))}
               </ul>
             )}

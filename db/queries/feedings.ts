@@ -1,6 +1,6 @@
-import { and, desc, eq, gte } from "drizzle-orm";
+import { and, desc, eq, gte, inArray } from "drizzle-orm";
 import { db } from "@/db";
-import { feedingItems, feedings, zones } from "@/db/schema";
+import { feedingItems, feedings, users, zones } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 
 export type NewFeeding = {
@@ -29,8 +29,20 @@ export async function insertFeeding(f: NewFeeding) {
   });
 }
 
+// A bin's feedings, newest first, each with its items and who logged it (for the logbook and chart marks).
 export async function listFeedings(binId: string, opts: { since?: Date; limit?: number } = {}) {
   const where = opts.since ? and(eq(feedings.binId, binId), gte(feedings.at, opts.since)) : eq(feedings.binId, binId);
-  const rows = await db().select().from(feedings).where(where).orderBy(desc(feedings.at)).limit(opts.limit ?? 50);
-  return rows;
+  const rows = await db()
+    .select({ feeding: feedings, byName: users.name })
+    .from(feedings)
+    .leftJoin(users, eq(users.id, feedings.byUserId))
+    .where(where)
+    .orderBy(desc(feedings.at))
+    .limit(opts.limit ?? 50);
+  const ids = rows.map((r) => r.feeding.id);
+  const items = ids.length
+    ? await db().select().from(feedingItems).where(inArray(feedingItems.feedingId, ids))
+    : [];
+  return rows.map((r) => ({ ...r.feeding, byName: r.byName, items: items.filter((i) => i.feedingId === r.feeding.id) }));
 }
+export type FeedingEntry = Awaited<ReturnType<typeof listFeedings>>[number];

@@ -1,0 +1,112 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { SWRConfig } from "swr";
+import { getBin } from "@/db/queries/bins";
+import { getFarm } from "@/db/queries/farms";
+import { listFeedings } from "@/db/queries/feedings";
+import { listIngredients } from "@/db/queries/ingredients";
+import { latestOfZones } from "@/db/queries/zone-view";
+import { zoneWords } from "@/components/logbook/format";
+import { FeedingForm } from "@/components/logbook/feeding-form";
+import { FeedingLog } from "@/components/logbook/feeding-log";
+import { StatusMark } from "@/components/ui/status-mark";
+import { requireMember } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/species";
+import { feedingsKey, ingredientsKey } from "@/lib/swr-keys";
+import { formatPercent, formatTemperature } from "@/lib/units";
+
+export const metadata: Metadata = { title: "Bin" };
+
+const json = <T,>(x: T): T => JSON.parse(JSON.stringify(x));
+
+export default async function BinPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ farmId: string; binId: string }>;
+  searchParams: Promise<{ zone?: string | string[] }>;
+}) {
+  const { farmId, binId } = await params;
+  let role: string;
+  try {
+    const who = await requireMember({ binId }, "read");
+    if (who.farmId !== farmId) notFound();
+    role = who.role;
+  } catch (e) {
+    if (e instanceof AppError) notFound();
+    throw e;
+  }
+  const canLog = role !== "viewer";
+  const [bin, farm, feedings, library] = await Promise.all([getBin(binId), getFarm(farmId), listFeedings(binId), canLog ? listIngredients(farmId) : null]);
+  if (!bin || !farm) notFound();
+  const latest = await latestOfZones(bin.zones.map((z) => z.id));
+  const profile = getSpecies(bin.species);
+  const zones = bin.zones.map((z) => ({ id: z.id, kind: z.kind, name: z.name }));
+  const asked = (await searchParams).zone;
+  const defaultZoneId = typeof asked === "string" && zones.some((z) => z.id === asked) ? asked : null;
+  // Prime SWR with the server's answers so the logbook and the library paint at once.
+  const fallback: Record<string, unknown> = { [feedingsKey(binId)!]: json({ feedings }) };
+  if (library) fallback[ingredientsKey(farmId)!] = json({ ingredients: library });
+
+  return (
+    <main className="space-y-4 p-3 pb-10">
+      <div className="px-1 pt-1">
+        <Link href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
+          <span aria-hidden="true">←</span> Today
+        </Link>
+        <h1 className="text-3xl font-bold">{bin.name}</h1>
+        <p className="text-sm text-soil-700">
+          {bin.style} · <i>{profile?.name ?? bin.species}</i>
+          {profile ? ` (${profile.commonName})` : ""}
+        </p>
+      </div>
+
+      <section aria-labelledby="zones-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+        <h2 id="zones-h" className="text-xl font-bold">Zones</h2>
+        <p className="text-sm text-soil-700">From the feeding side to the harvest side.</p>
+        {zones.length === 0 ? (
+          <p className="mt-2">This bin has no zones.</p>
+        ) : (
+          <ul className="mt-2 divide-y divide-soil-100">
+            {zones.map((z) => {
+              const l = latest.get(z.id) ?? {};
+              const t = l.temperature;
+              const m = l.moisture;
+              return (
+                <li key={z.id}>
+                  <Link href={`/farms/${farmId}/zones/${z.id}`} className="flex min-h-16 items-center justify-between gap-2 py-2">
+                    <span className="grow">
+                      <span className="block text-lg font-bold underline underline-offset-4">{zoneWords(z)}</span>
+                      <span className="mt-1 grid grid-cols-2 gap-x-3">
+                        <span>
+                          <span className="tabular block text-lg">{t ? formatTemperature(t.value, farm.unitSystem) : "—"}</span>
+                          <StatusMark band={profile && t ? classifyTemperature(profile, t.value) : null} />
+                        </span>
+                        <span>
+                          <span className="tabular block text-lg">{m ? formatPercent(m.value) : "—"}</span>
+                          <StatusMark band={profile && m ? classifyMoisture(profile, m.value) : null} />
+                        </span>
+                      </span>
+                    </span>
+                    <span aria-hidden="true" className="text-2xl text-soil-500">›</span>
+                  </Link>
+                </li>
+              );
+            })}
+          </ul>
+        )}
+      </section>
+
+      <SWRConfig value={{ fallback }}>
+        {canLog && <FeedingForm farmId={farmId} binId={binId} zones={zones} defaultZoneId={defaultZoneId} system={farm.unitSystem} />}
+        <section aria-labelledby="logbook-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+          <h2 id="logbook-h" className="text-xl font-bold">Logbook</h2>
+          <p className="mb-2 text-sm text-soil-700">Feedings, newest first, each with the mix check made when it was logged.</p>
+          <FeedingLog binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} />
+        </section>
+      </SWRConfig>
+    </main>
+  );
+}

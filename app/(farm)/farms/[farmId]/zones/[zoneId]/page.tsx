@@ -1,0 +1,172 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { SWRConfig } from "swr";
+import { getBin } from "@/db/queries/bins";
+import { listFeedings } from "@/db/queries/feedings";
+import { listRulesForBin } from "@/db/queries/rules";
+import { getZoneSeries } from "@/db/queries/series";
+import { getZoneView, listZoneAlerts, type ZoneAlert } from "@/db/queries/zone-view";
+import { formatMetric, metricStatus, METRIC_TITLES, type AmmoniaLines } from "@/components/charts/metric-words";
+import type { ChartMetric } from "@/components/charts/zone-chart";
+import { ZoneCharts } from "@/components/charts/zone-charts";
+import { clockFormat, zoneWords } from "@/components/logbook/format";
+import { StatusMark } from "@/components/ui/status-mark";
+import { requireMember } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { overridesFromRuleRows, resolveRules } from "@/lib/rules/params";
+import { getSpecies } from "@/lib/species";
+import { feedingsKey, zoneSeriesKey } from "@/lib/swr-keys";
+import { seriesQuery } from "@/lib/validation/series";
+
+export const metadata: Metadata = { title: "Zone" };
+
+const KIND_WORDS: Record<string, string> = {
+  heat: "Heat",
+  chill: "Chill",
+  drying: "Drying",
+  soggy: "Soggy",
+  ammonia: "Ammonia",
+  silent_probe: "Silent probe",
+  probe_fault: "Probe fault",
+};
+
+const json = <T,>(x: T): T => JSON.parse(JSON.stringify(x));
+
+function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => string }) {
+  const actNow = a.level === "act_now";
+  const state =
+    a.state === "settled"
+      ? `settled ${a.settledAt ? clock(String(a.settledAt)) : ""}`
+      : a.state === "claimed"
+        ? `claimed by ${a.claimedByName ?? "someone"}`
+        : "raised, nobody on it yet";
+  return (
+    <li className={`rounded-xl p-3 ring-1 ${a.state === "settled" ? "bg-paper ring-soil-300" : actNow ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}>
+      <div className="flex flex-wrap items-center justify-between gap-x-2 font-bold">
+        <span className="flex items-center gap-1">
+          <svg viewBox="0 0 16 16" width="16" height="16" aria-hidden="true">
+            {actNow ? (
+              <path d="M8 1 15 14H1Z M7.2 5h1.6v5H7.2Z M7.2 11h1.6v1.6H7.2Z" fill="currentColor" fillRule="evenodd" />
+            ) : (
+              <path d="M8 1a7 7 0 1 0 0 14A7 7 0 0 0 8 1Zm-.8 3h1.6v1.6H7.2Zm0 3h1.6v5H7.2Z" fill="currentColor" fillRule="evenodd" />
+            )}
+          </svg>
+          {actNow ? "Act now" : "Heads-up"} · {KIND_WORDS[a.kind] ?? a.kind}
+        </span>
+        <span className="tabular text-sm font-normal">{clock(String(a.raisedAt))}</span>
+      </div>
+      <p className="text-sm">{a.message}</p>
+      <p className="mt-1 flex items-center gap-1 text-sm">
+        <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
+          {a.state === "settled" ? <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" /> : a.state === "claimed" ? <circle cx="6" cy="6" r="5" fill="currentColor" /> : <circle cx="6" cy="6" r="4.5" fill="none" stroke="currentColor" strokeWidth="1.5" />}
+        </svg>
+        {state}
+      </p>
+    </li>
+  );
+}
+
+export default async function ZonePage({ params }: { params: Promise<{ farmId: string; zoneId: string }> }) {
+  const { farmId, zoneId } = await params;
+  let role: string;
+  try {
+    const who = await requireMember({ zoneId }, "read");
+    if (who.farmId !== farmId) notFound();
+    role = who.role;
+  } catch (e) {
+    if (e instanceof AppError) notFound();
+    throw e;
+  }
+  const view = await getZoneView(zoneId);
+  if (!view) notFound();
+  const { zone, bin, unitSystem: system, timezone } = view;
+  const profile = getSpecies(bin.species);
+  const rules = profile ? resolveRules(profile, overridesFromRuleRows(await listRulesForBin(farmId, bin.id), bin.id)) : null;
+  const ammonia: AmmoniaLines = { headsUpAtPpm: rules?.ammonia.t.headsUpAtPpm ?? 10, actNowAtPpm: rules?.ammonia.t.actNowAtPpm ?? 25 };
+  const metrics: ChartMetric[] = ["temperature", "moisture", ...(view.metrics.includes("ammonia") || view.latest.ammonia ? (["ammonia"] as const) : [])];
+  const since = new Date(Date.now() - 30 * 86_400_000);
+  const [binRow, feedings, alerts, ...series] = await Promise.all([
+    getBin(bin.id),
+    listFeedings(bin.id),
+    listZoneAlerts(zoneId, { since }),
+    ...metrics.map((metric) => getZoneSeries(zoneId, seriesQuery.parse({ metric }))),
+  ]);
+  const binZones = (binRow?.zones ?? []).map((z) => ({ id: z.id, kind: z.kind, name: z.name }));
+  // Prime SWR with the server's answers so the phone paints the charts at once.
+  const fallback: Record<string, unknown> = { [feedingsKey(bin.id)!]: json({ feedings }) };
+  metrics.forEach((m, i) => (fallback[zoneSeriesKey(zoneId, m)] = json(series[i])));
+  const clock = clockFormat(timezone);
+  const canLog = role !== "viewer";
+  const title = zoneWords(zone);
+
+  return (
+    <main className="space-y-4 p-3 pb-10">
+      <div className="px-1 pt-1">
+        <Link href={`/farms/${farmId}/bins/${bin.id}`} className="inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
+          <span aria-hidden="true">←</span> {bin.name}
+        </Link>
+        <h1 className="text-3xl font-bold">{title}</h1>
+        <p className="text-sm text-soil-700">
+          {bin.name} · {bin.style} · <i>{profile?.name ?? bin.species}</i>
+          {profile ? ` (${profile.commonName})` : ""} · {view.probeCount === 1 ? "1 probe" : `${view.probeCount} probes`}
+        </p>
+      </div>
+
+      <section aria-labelledby="now-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+        <h2 id="now-h" className="sr-only">Latest readings</h2>
+        <dl className="grid grid-cols-2 gap-x-3 gap-y-4">
+          {metrics.map((m) => {
+            const l = view.latest[m];
+            const status = l && profile ? metricStatus(m, l.value, profile, ammonia) : { band: null, label: "no reading" };
+            return (
+              <div key={m} className={m === "ammonia" ? "col-span-2" : ""}>
+                <dt className="text-xs uppercase tracking-wide text-soil-500">{METRIC_TITLES[m]}</dt>
+                <dd>
+                  <span className="tabular block text-3xl font-bold">{l ? formatMetric(m, l.value, system) : "—"}</span>
+                  <StatusMark band={status.band} label={status.label} />
+                  <span className="tabular mt-1 block text-xs text-soil-500">{l ? `at ${clock(l.ts)}` : "no readings yet"}</span>
+                </dd>
+              </div>
+            );
+          })}
+        </dl>
+        {canLog && (
+          <Link
+            href={`/farms/${farmId}/bins/${bin.id}?zone=${zone.id}#log`}
+            className="mt-4 flex min-h-12 items-center justify-center rounded-xl bg-leaf-700 px-4 font-bold text-white"
+          >
+            Log a feeding here
+          </Link>
+        )}
+      </section>
+
+      <SWRConfig value={{ fallback }}>
+        <ZoneCharts
+          zoneId={zone.id}
+          binId={bin.id}
+          binZones={binZones}
+          species={bin.species}
+          metrics={metrics}
+          ammonia={ammonia}
+          system={system}
+          timezone={timezone}
+        />
+      </SWRConfig>
+
+      <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+        <h2 id="alerts-h" className="text-xl font-bold">Alerts in this zone</h2>
+        <p className="text-sm text-soil-700">Open ones, and any raised in the last 30 days.</p>
+        {alerts.length === 0 ? (
+          <p className="mt-2">None. This zone has been quiet.</p>
+        ) : (
+          <ul className="mt-2 space-y-2">
+            {alerts.map((a) => (
+              <AlertRow key={a.id} a={a} clock={clock} />
+            ))}
+          </ul>
+        )}
+      </section>
+    </main>
+  );
+}

@@ -1,0 +1,62 @@
+// How a zone's three watched metrics are banded and said, shared by the zone page (server) and its
+// charts (client). Temperature and moisture use the species' comfortable band; ammonia has no
+// species band, so it is read against the bin's ammonia rule lines (lib/rules/params.ts).
+import { classifyMoisture, classifyTemperature, type SpeciesProfile } from "@/lib/species";
+import { formatNumber, formatPercent, formatTemperature, temperatureForDisplay, UNIT_LABELS, type UnitSystem } from "@/lib/units";
+import type { ChartMetric } from "./zone-chart";
+
+export type AmmoniaLines = { headsUpAtPpm: number; actNowAtPpm: number };
+
+/** A band word for StatusMark and the label shown with it. */
+export type MetricStatus = { band: string | null; label: string };
+
+export function ammoniaStatus(ppm: number, lines: AmmoniaLines): MetricStatus {
+  if (ppm >= lines.actNowAtPpm) return { band: "too hot", label: "at the act-now line" };
+  if (ppm >= lines.headsUpAtPpm) return { band: "hot", label: "over the heads-up line" };
+  return { band: "comfortable", label: "low" };
+}
+
+export function metricStatus(metric: ChartMetric, stored: number, profile: SpeciesProfile, lines: AmmoniaLines): MetricStatus {
+  if (metric === "temperature") {
+    const b = classifyTemperature(profile, stored);
+    return { band: b, label: b ?? "no reading" };
+  }
+  if (metric === "moisture") {
+    const b = classifyMoisture(profile, stored);
+    return { band: b, label: b ?? "no reading" };
+  }
+  return ammoniaStatus(stored, lines);
+}
+
+export function formatMetric(metric: ChartMetric, stored: number, system: UnitSystem): string {
+  if (metric === "temperature") return formatTemperature(stored, system);
+  if (metric === "moisture") return formatPercent(stored, { digits: 1 });
+  return `${formatNumber(stored, 1)} ppm`;
+}
+
+/** "23.4 °C, comfortable" */
+export function describeMetric(metric: ChartMetric, stored: number, profile: SpeciesProfile, lines: AmmoniaLines, system: UnitSystem) {
+  return `${formatMetric(metric, stored, system)}, ${metricStatus(metric, stored, profile, lines).label}`;
+}
+
+/** The shaded range in display units, with its words. */
+export function metricBand(metric: ChartMetric, profile: SpeciesProfile, lines: AmmoniaLines, system: UnitSystem) {
+  if (metric === "temperature") {
+    const { comfortLow, comfortHigh } = profile.temperatureC;
+    return {
+      low: temperatureForDisplay(comfortLow, system),
+      high: temperatureForDisplay(comfortHigh, system),
+      words: `comfortable ${formatTemperature(comfortLow, system, { digits: 0 })}–${formatTemperature(comfortHigh, system, { digits: 0 })}`,
+    };
+  }
+  if (metric === "moisture") {
+    const { comfortLow, comfortHigh } = profile.moisturePct;
+    return { low: comfortLow, high: comfortHigh, words: `comfortable ${comfortLow}–${comfortHigh} %` };
+  }
+  return { low: 0, high: lines.headsUpAtPpm, words: `below the heads-up line, ${formatNumber(lines.headsUpAtPpm, 0)} ppm` };
+}
+
+export const METRIC_TITLES: Record<ChartMetric, string> = { temperature: "Temperature", moisture: "Moisture", ammonia: "Ammonia" };
+export const METRIC_COLORS: Record<ChartMetric, string> = { temperature: "#b5523b", moisture: "#4a6b85", ammonia: "#6e5615" };
+export const displayUnit = (metric: ChartMetric, system: UnitSystem) =>
+  metric === "temperature" ? UNIT_LABELS[system].temperature : metric === "moisture" ? "%" : "ppm";

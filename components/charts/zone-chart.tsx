@@ -1,0 +1,299 @@
+"use client";
+
+import { useEffect, useMemo, useRef, useState } from "react";
+import uPlot from "uplot";
+import "uplot/dist/uPlot.min.css";
+import type { SeriesAnswer } from "@/db/queries/series";
+import { clockFormat } from "@/components/logbook/format";
+import { useSeries } from "@/lib/hooks/use-series";
+import { formatNumber, temperatureForDisplay, type UnitSystem } from "@/lib/units";
+
+export type ChartMetric = "temperature" | "moisture" | "ammonia";
+/** A feeding drawn on the time axis; t in Unix seconds. */
+export type ChartMark = { id: string; t: number; label: string; detail: string };
+
+type Props = {
+  zoneId: string;
+  metric: ChartMetric;
+  title: string;
+  /** ISO start of the window; none = the server's default, the last 24 h. */
+  from?: string;
+  rangeWords: string;
+  /** Shaded range in display units, and how to say it ("comfortable 15–25 °C"). */
+  band: { low: number; high: number; words: string };
+  unit: string;
+  system: UnitSystem;
+  timezone: string;
+  color: string;
+  marks: readonly ChartMark[];
+  /** A stored value in words ("23.4 °C, comfortable"). */
+  describe: (stored: number) => string;
+};
+
+type Geom = { left: number; top: number; width: number; height: number; xMin: number; xMax: number; bandTop: number; bandBottom: number };
+
+const HEIGHT = 210;
+const BAND_FILL = "rgba(79, 125, 58, 0.18)";
+
+function medianStep(t: readonly number[]): number {
+  if (t.length < 2) return 60;
+  const d = t.slice(1).map((x, i) => x - t[i]!).sort((a, b) => a - b);
+  return d[Math.floor(d.length / 2)]!;
+}
+
+// One table per probe: mean (and min/max when points are aggregates), with an explicit null where
+// readings stop for more than three steps, so a silent probe shows as a gap rather than a ramp.
+function tablesOf(ans: SeriesAnswer, conv: (v: number) => number, aggregated: boolean): uPlot.AlignedData[] {
+  return ans.series
+    .filter((s) => s.t.length > 0)
+    .map((s) => {
+      const step = ans.bucketSeconds ?? medianStep(s.t);
+      const t: number[] = [];
+      const cols: (number | null)[][] = aggregated ? [[], [], []] : [[]];
+      s.t.forEach((x, i) => {
+        if (i > 0 && x - s.t[i - 1]! > 3 * step) {
+          t.push(s.t[i - 1]! + step);
+          cols.forEach((c) => c.push(null));
+        }
+        t.push(x);
+        cols[0]!.push(conv(s.mean[i]!));
+        if (aggregated) {
+          cols[1]!.push(conv(s.min[i]!));
+          cols[2]!.push(conv(s.max[i]!));
+        }
+      });
+      return [t, ...cols] as uPlot.AlignedData;
+    });
+}
+
+function safeFormat(timeZone: string, opts: Intl.DateTimeFormatOptions) {
+  try {
+    return new Intl.DateTimeFormat("en-GB", { ...opts, timeZone });
+  } catch {
+    return new Intl.DateTimeFormat("en-GB", { ...opts, timeZone: "UTC" });
+  }
+}
+
+// Time-axis labels in the farm's zone: 24-hour clock, and the day ("2 Dec") at midnight or when
+// ticks are a day or more apart.
+function timeLabels(timeZone: string) {
+  const hm = safeFormat(timeZone, { hour: "2-digit", minute: "2-digit", hourCycle: "h23" });
+  const dm = safeFormat(timeZone, { day: "numeric", month: "short" });
+  return (_u: uPlot, splits: number[], _i: number, _s: number, incr: number) =>
+    splits.map((t) => {
+      const d = new Date(t * 1000);
+      const time = hm.format(d);
+      return incr >= 86_400 || time === "00:00" ? dm.format(d) : time;
+    });
+}
+
+function alpha(hex: string, a: number) {
+  const n = parseInt(hex.slice(1), 16);
+  return `rgba(${(n >> 16) & 255}, ${(n >> 8) & 255}, ${n & 255}, ${a})`;
+}
+
+// One metric of a zone over a window: mean line, min–max band when points are aggregates, the
+// species' band shaded behind, and feedings as marks on the time axis (tap or hover for details).
+export function ZoneChart(p: Props) {
+  const { data, error, isLoading } = useSeries({ zoneId: p.zoneId }, { metric: p.metric, from: p.from });
+  const box = useRef<HTMLDivElement>(null);
+  const [geom, setGeom] = useState<Geom | null>(null);
+  const [readout, setReadout] = useState<string | null>(null);
+  const [picked, setPicked] = useState<string | null>(null);
+
+  const clock = useMemo(() => clockFormat(p.timezone), [p.timezone]);
+  const conv = useMemo(
+    () => (p.metric === "temperature" ? (v: number) => temperatureForDisplay(v, p.system) : (v: number) => v),
+    [p.metric, p.system],
+  );
+  const aggregated = data?.bucketSeconds != null;
+  const tables = useMemo(() => (data ? tablesOf(data, conv, aggregated) : []), [data, conv, aggregated]);
+  const xMin = data ? Date.parse(data.from) / 1000 : 0;
+  const xMax = data ? Date.parse(data.to) / 1000 : 1;
+  const marks = useMemo(() => p.marks.filter((m) => m.t >= xMin && m.t <= xMax), [p.marks, xMin, xMax]);
+
+  const summary = useMemo(() => {
+    if (!data) return null;
+    let last: { t: number; v: number } | null = null;
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const s of data.series) {
+      const n = s.t.length;
+      if (n && (!last || s.t[n - 1]! > last.t)) last = { t: s.t[n - 1]!, v: s.mean[n - 1]! };
+      for (const v of aggregated ? s.min : s.mean) lo = Math.min(lo, v);
+      for (const v of aggregated ? s.max : s.mean) hi = Math.max(hi, v);
+    }
+    return last ? { last, lo, hi } : null;
+  }, [data, aggregated]);
+
+  useEffect(() => {
+    const el = box.current;
+    if (!el || !data || tables.length === 0 || !summary) return;
+    const aligned = tables.length === 1 ? tables[0]! : uPlot.join(tables);
+    const per = aggregated ? 3 : 1;
+    const series: uPlot.Series[] = [{}];
+    const bands: uPlot.Band[] = [];
+    tables.forEach((_, k) => {
+      series.push({ label: data.series[k]?.label ?? `probe ${k + 1}`, stroke: p.color, width: 2, dash: k ? [6, 4] : undefined, points: { show: false } });
+      if (aggregated) {
+        series.push({ stroke: "transparent", width: 0, points: { show: false } }, { stroke: "transparent", width: 0, points: { show: false } });
+        bands.push({ series: [3 + k * per, 2 + k * per], fill: alpha(p.color, 0.18) });
+      }
+    });
+    const lo = Math.min(p.band.low, conv(summary.lo));
+    const hi = Math.max(p.band.high, conv(summary.hi));
+    const pad = (hi - lo) * 0.08 || 1;
+    const font = `13px ${getComputedStyle(el).fontFamily}`;
+    const axis = { stroke: "#57402f", font, grid: { stroke: "#efe6da", width: 1 }, ticks: { stroke: "#c4ab92", width: 1 } };
+    const measure = (u: uPlot) => {
+      const r = uPlot.pxRatio;
+      setGeom({
+        left: u.bbox.left / r,
+        top: u.bbox.top / r,
+        width: u.bbox.width / r,
+        height: u.bbox.height / r,
+        xMin,
+        xMax,
+        bandTop: u.bbox.top / r + u.valToPos(p.band.high, "y"),
+        bandBottom: u.bbox.top / r + u.valToPos(p.band.low, "y"),
+      });
+    };
+    const opts: uPlot.Options = {
+      width: el.clientWidth || 340,
+      height: HEIGHT,
+      legend: { show: false },
+      cursor: { drag: { x: false, y: false }, points: { size: 8 } },
+      select: { show: false, left: 0, top: 0, width: 0, height: 0 },
+      tzDate: (ts) => uPlot.tzDate(new Date(ts * 1000), p.timezone),
+      scales: { x: { time: true, range: [xMin, xMax] }, y: { range: [Math.max(p.metric === "temperature" ? -Infinity : 0, lo - pad), hi + pad] } },
+      axes: [
+        { ...axis, space: 64, values: timeLabels(p.timezone) },
+        // 1-2-5 steps only, so whole-number ticks never have to print 22.5 as "23"
+        { ...axis, size: 44, incrs: [0.1, 0.2, 0.5, 1, 2, 5, 10, 20, 50, 100, 200, 500], values: (_u, splits, _i, _s, incr) => splits.map((v) => formatNumber(v, incr < 1 ? 1 : 0)) },
+      ],
+      series,
+      bands,
+      hooks: {
+        drawClear: [
+          (u) => {
+            const ctx = u.ctx;
+            ctx.save();
+            const top = u.valToPos(p.band.high, "y", true);
+            const bottom = u.valToPos(p.band.low, "y", true);
+            ctx.fillStyle = BAND_FILL;
+            ctx.fillRect(u.bbox.left, top, u.bbox.width, bottom - top);
+            // Feedings: a dashed line through the plot; the tappable mark sits on the time axis.
+            ctx.strokeStyle = "rgba(63, 46, 34, 0.55)";
+            ctx.lineWidth = uPlot.pxRatio;
+            ctx.setLineDash([4 * uPlot.pxRatio, 4 * uPlot.pxRatio]);
+            for (const m of marks) {
+              const x = Math.round(u.valToPos(m.t, "x", true)) + 0.5;
+              ctx.beginPath();
+              ctx.moveTo(x, u.bbox.top);
+              ctx.lineTo(x, u.bbox.top + u.bbox.height);
+              ctx.stroke();
+            }
+            ctx.restore();
+          },
+        ],
+        ready: [measure],
+        setSize: [measure],
+        setCursor: [
+          (u) => {
+            const i = u.cursor.idx;
+            const t = i == null ? undefined : u.data[0][i];
+            const v = i == null ? undefined : u.data[1]?.[i];
+            setReadout(t == null || v == null ? null : `${clock(t * 1000)} · ${formatNumber(v, 1)} ${p.unit}`);
+            // Moving along the line hands the readout back from a picked feeding to the cursor.
+            if (t != null) setPicked(null);
+          },
+        ],
+      },
+    };
+    const plot = new uPlot(opts, aligned, el);
+    const ro = new ResizeObserver(() => {
+      if (el.clientWidth && el.clientWidth !== plot.width) plot.setSize({ width: el.clientWidth, height: HEIGHT });
+    });
+    ro.observe(el);
+    return () => {
+      ro.disconnect();
+      plot.destroy();
+    };
+  }, [data, tables, summary, aggregated, conv, clock, marks, xMin, xMax, p.band.low, p.band.high, p.color, p.metric, p.timezone, p.unit]);
+
+  const pickedMark = marks.find((m) => m.id === picked) ?? null;
+  const label = summary
+    ? `${p.title}, ${p.rangeWords}: latest ${p.describe(summary.last.v)}; lowest ${formatNumber(conv(summary.lo), 1)}, highest ${formatNumber(conv(summary.hi), 1)} ${p.unit}; ${p.band.words} shaded; ${marks.length === 1 ? "1 feeding" : `${marks.length} feedings`} marked.`
+    : `${p.title}, ${p.rangeWords}: no readings.`;
+
+  return (
+    <figure className="rounded-2xl bg-white p-3 ring-1 ring-soil-300" data-metric={p.metric}>
+      <figcaption className="flex items-baseline justify-between gap-2">
+        <h3 className="text-lg font-bold">{p.title}</h3>
+        <span className="tabular text-sm text-soil-700">
+          {data?.source === "rollup" ? "hourly means, low–high shaded" : aggregated ? `${Math.round(data!.bucketSeconds! / 60)}-min means, low–high shaded` : "every reading"}
+        </span>
+      </figcaption>
+      {!data ? (
+        <p className="flex h-52 items-center text-soil-700">{error ? error.message : isLoading ? "Loading readings…" : "No readings."}</p>
+      ) : !summary ? (
+        <p className="flex h-24 items-center text-soil-700">No readings in the {p.rangeWords}.</p>
+      ) : (
+        <div className="relative mt-1">
+          <div
+            ref={box}
+            role="img"
+            aria-label={label}
+            className="zone-chart w-full"
+            data-band-low={p.band.low}
+            data-band-high={p.band.high}
+            data-band-top={geom?.bandTop}
+            data-band-bottom={geom?.bandBottom}
+            data-plot-left={geom?.left}
+            data-plot-width={geom?.width}
+            data-plot-top={geom?.top}
+            data-plot-height={geom?.height}
+          />
+          {geom && marks.length > 0 && (
+            <ul aria-label={`Feedings on the ${p.title.toLowerCase()} chart`} className="pointer-events-none absolute inset-0">
+              {marks.map((m) => {
+                const x = geom.left + ((m.t - geom.xMin) / (geom.xMax - geom.xMin)) * geom.width;
+                const on = m.id === picked;
+                return (
+                  <li key={m.id} className="absolute" style={{ left: x - 22, top: geom.top + geom.height - 30 }}>
+                    <button
+                      type="button"
+                      aria-label={m.label}
+                      aria-pressed={on}
+                      onClick={() => setPicked(m.id)}
+                      onMouseEnter={() => setPicked(m.id)}
+                      onFocus={() => setPicked(m.id)}
+                      className="pointer-events-auto flex h-11 w-11 items-end justify-center pb-1"
+                    >
+                      <svg viewBox="0 0 16 14" width="18" height="16" aria-hidden="true">
+                        <path d="M8 1 15 13H1Z" fill={on ? "#3f2e22" : "#faf6ee"} stroke="#3f2e22" strokeWidth="2" strokeLinejoin="round" />
+                      </svg>
+                    </button>
+                  </li>
+                );
+              })}
+            </ul>
+          )}
+        </div>
+      )}
+      <p aria-live="polite" className="tabular mt-1 min-h-6 text-sm text-soil-800">
+        {pickedMark ? pickedMark.detail : (readout ?? (summary ? `Latest ${p.describe(summary.last.v)}` : ""))}
+      </p>
+      <p className="mt-1 flex items-center gap-3 text-xs text-soil-700">
+        <span className="inline-flex items-center gap-1">
+          <span aria-hidden="true" className="inline-block h-3 w-4 rounded-sm" style={{ background: BAND_FILL, outline: "1px solid rgba(79,125,58,0.5)" }} />
+          {p.band.words}
+        </span>
+        <span className="inline-flex items-center gap-1">
+          <svg viewBox="0 0 16 14" width="12" height="11" aria-hidden="true"><path d="M8 1 15 13H1Z" fill="#faf6ee" stroke="#3f2e22" strokeWidth="2" /></svg>
+          feeding
+        </span>
+      </p>
+    </figure>
+  );
+}

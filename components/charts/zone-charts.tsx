@@ -1,0 +1,95 @@
+"use client";
+
+import { useMemo, useState } from "react";
+import { clockFormat, feedingVerdict, zoneWords } from "@/components/logbook/format";
+import { SegmentedControl } from "@/components/ui/segmented-control";
+import { useFeedings } from "@/lib/hooks/use-feedings";
+import { getSpecies } from "@/lib/species";
+import { formatMass, formatNumber, formatPercent, type UnitSystem } from "@/lib/units";
+import { describeMetric, displayUnit, METRIC_COLORS, METRIC_TITLES, metricBand, type AmmoniaLines } from "./metric-words";
+import { ZoneChart, type ChartMark, type ChartMetric } from "./zone-chart";
+
+const RANGES = [
+  { value: "24h", label: "24 h", days: 1, words: "last 24 hours" },
+  { value: "7d", label: "7 days", days: 7, words: "last 7 days" },
+  { value: "30d", label: "30 days", days: 30, words: "last 30 days" },
+] as const;
+type RangeKey = (typeof RANGES)[number]["value"];
+
+type Props = {
+  zoneId: string;
+  binId: string;
+  binZones: { id: string; kind: string; name: string | null }[];
+  species: string;
+  metrics: ChartMetric[];
+  ammonia: AmmoniaLines;
+  system: UnitSystem;
+  timezone: string;
+};
+
+// The zone's charts over one shared window, with the bin's feedings (this zone's and whole-bin ones) as marks.
+export function ZoneCharts(p: Props) {
+  const [range, setRange] = useState<RangeKey>("24h");
+  // The start is fixed when the window is chosen (to the minute), so the SWR key stays put; 24 h asks
+  // the server's default, which the page primed.
+  const [from, setFrom] = useState<string | undefined>(undefined);
+  const choose = (r: RangeKey) => {
+    const days = RANGES.find((x) => x.value === r)!.days;
+    setRange(r);
+    setFrom(r === "24h" ? undefined : new Date(Math.floor(Date.now() / 60_000) * 60_000 - days * 86_400_000).toISOString());
+  };
+  const profile = getSpecies(p.species);
+  const { data: fed } = useFeedings(p.binId);
+  const clock = useMemo(() => clockFormat(p.timezone), [p.timezone]);
+
+  const marks: ChartMark[] = useMemo(
+    () =>
+      (fed?.feedings ?? [])
+        .filter((f) => f.zoneId === p.zoneId || f.zoneId === null)
+        .map((f) => {
+          const where = zoneWords(p.binZones.find((z) => z.id === f.zoneId));
+          const kg = f.totalKg ?? f.items.reduce((s, i) => s + i.massKg, 0);
+          const verdict = feedingVerdict(f) ?? "no verdict";
+          const mix = [
+            f.mixMoisturePct != null ? `moisture ${formatPercent(f.mixMoisturePct, { digits: 1 })}` : null,
+            f.mixCn != null ? `C:N ${formatNumber(f.mixCn, 1)}` : null,
+          ].filter(Boolean);
+          return {
+            id: f.id,
+            t: Date.parse(f.at) / 1000,
+            label: `Feeding ${clock(f.at)}, ${where}: ${formatMass(kg, p.system, { digits: 2 })}, ${verdict}`,
+            detail: `Fed ${clock(f.at)} · ${where} · ${formatMass(kg, p.system, { digits: 2 })} · ${[...mix, verdict].join(" · ")}${f.byName ? ` · by ${f.byName}` : ""}`,
+          };
+        }),
+    [fed, p.zoneId, p.binZones, p.system, clock],
+  );
+
+  if (!profile) return <p className="p-4">This bin&apos;s species ({p.species}) has no profile, so there is no band to chart against.</p>;
+  const r = RANGES.find((x) => x.value === range)!;
+  return (
+    <section aria-labelledby="charts-h" className="space-y-3">
+      <div className="flex items-baseline justify-between">
+        <h2 id="charts-h" className="text-xl font-bold">Charts</h2>
+        <span className="text-sm text-soil-700">{r.words}</span>
+      </div>
+      <SegmentedControl label="Chart window" options={RANGES} value={range} onChange={choose} />
+      {p.metrics.map((m) => (
+        <ZoneChart
+          key={m}
+          zoneId={p.zoneId}
+          metric={m}
+          title={METRIC_TITLES[m]}
+          from={from}
+          rangeWords={r.words}
+          band={metricBand(m, profile, p.ammonia, p.system)}
+          unit={displayUnit(m, p.system)}
+          system={p.system}
+          timezone={p.timezone}
+          color={METRIC_COLORS[m]}
+          marks={marks}
+          describe={(v) => describeMetric(m, v, profile, p.ammonia, p.system)}
+        />
+      ))}
+    </section>
+  );
+}

@@ -1,0 +1,39 @@
+import { checkMix, type MixVerdict } from "@/lib/mix";
+import type { Feeding } from "@/lib/hooks/use-feedings";
+
+// Times print in the farm's own time zone, so the server's first paint and the phone agree.
+export function clockFormat(timeZone: string): (iso: string | number) => string {
+  const opts = { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit", hourCycle: "h23" } as const;
+  let fmt: Intl.DateTimeFormat;
+  try {
+    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, timeZone });
+  } catch {
+    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, timeZone: "UTC" });
+  }
+  return (t) => fmt.format(new Date(t));
+}
+
+/** The mix check's verdict for a logged feeding, recomputed from its stored items. */
+export function feedingVerdict(f: Pick<Feeding, "items">): MixVerdict | null {
+  return feedingCheck(f)?.verdict ?? null;
+}
+
+/** Every issue the mix check finds in a logged feeding ([] when balanced); null when it cannot check. */
+export function feedingIssues(f: Pick<Feeding, "items">): MixVerdict[] | null {
+  return feedingCheck(f)?.issues ?? null;
+}
+
+function feedingCheck(f: Pick<Feeding, "items">) {
+  const r = checkMix(
+    f.items.map((i) => ({
+      massKg: i.massKg,
+      moisturePct: i.moisturePct,
+      carbonPct: i.carbonPct ?? undefined,
+      nitrogenPct: i.nitrogenPct ?? undefined,
+    })),
+  );
+  return r.ok ? r.value : null;
+}
+
+export const zoneWords = (z: { kind: string; name: string | null } | null | undefined) =>
+  z ? (z.name?.trim() || `${z.kind[0]!.toUpperCase()}${z.kind.slice(1)} zone`) : "Whole bin";

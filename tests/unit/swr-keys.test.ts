@@ -1,0 +1,23 @@
+import { describe, expect, it } from "vitest";
+import { seriesKey } from "@/lib/hooks/use-series";
+import { feedingsKey, ingredientsKey, zoneSeriesKey } from "@/lib/swr-keys";
+
+// A server page primes SWR under zoneSeriesKey; the chart reads it through useSeries. A key that
+// differs by one character would make the phone fetch again instead of painting at once.
+describe("SWR keys", () => {
+  it("the zone series key a page primes is the key useSeries asks for", () => {
+    const zoneId = "0b6c5a8e-3f1d-4c2a-9e7b-5d4c3b2a1f00";
+    for (const metric of ["temperature", "moisture", "ammonia"] as const) {
+      expect(zoneSeriesKey(zoneId, metric)).toBe(seriesKey({ zoneId }, { metric }));
+      const from = "2025-05-01T00:00:00.000Z";
+      expect(zoneSeriesKey(zoneId, metric, from)).toBe(seriesKey({ zoneId }, { metric, from }));
+    }
+  });
+
+  it("feeding and ingredient keys wait (null) until their ids exist", () => {
+    expect(feedingsKey(null)).toBeNull();
+    expect(ingredientsKey(null)).toBeNull();
+    expect(feedingsKey("b1")).toBe("/api/bins/b1/feedings");
+    expect(ingredientsKey("f1")).toBe("/api/farms/f1/ingredients");
+  });
+});
