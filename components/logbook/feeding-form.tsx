@@ -50,9 +50,6 @@ function cnOf(i: IngredientRow) {
 const complete = (i: IngredientRow) => i.moisturePct != null && i.nitrogenPct != null && cnOf(i) != null;
 const amendmentOf = (i: IngredientRow): Amendment => ({ name: i.name, moisturePct: i.moisturePct!, nitrogenPct: i.nitrogenPct!, cn: cnOf(i)! });
 
-// Server field names: "items.0.massKg" from zod; the mix check's own refusals come back as
-// "items.items.0.cn" (the route prefixes a field that already starts with "items.").
-const normalField = (f: string) => f.replace(/^items\.items\./, "items.");
 
 let nextKey = 1;
 
@@ -147,7 +144,7 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
       const res = await fetch(feedingsKey(binId)!, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) });
       const out = await res.json().catch(() => null);
       if (!res.ok) {
-        const field = normalField(out?.error?.field ?? "form");
+        const field = out?.error?.field ?? "form";
         const message = String(out?.error?.message ?? `Could not log the feeding (${res.status}).`).replace(/^[\w.]+: /, "");
         setErrors({ [field]: message });
         const at = /^items\.(\d+)\.(\w+)$/.exec(field);

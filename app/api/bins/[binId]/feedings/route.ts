@@ -1,3 +1,4 @@
+import { z } from "zod";
 import { insertFeeding, listFeedings } from "@/db/queries/feedings";
 import { route } from "@/lib/api/route";
 import { requireMember } from "@/lib/auth/session";
@@ -7,11 +8,17 @@ import { feedingCreate } from "@/lib/validation/logbook";
 
 type Ctx = { params: Promise<{ binId: string }> };
 
-// GET /api/bins/[binId]/feedings — a bin's feedings, newest first
-export const GET = route(async (_req, { params }: Ctx) => {
+const listQuery = z.object({
+  since: z.coerce.date({ message: "since must be a date and time." }).optional(),
+  limit: z.coerce.number().int().min(1).max(500).default(50),
+});
+
+// GET /api/bins/[binId]/feedings?since=&limit= — a bin's feedings, newest first
+export const GET = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   await requireMember({ binId }, "read");
-  return Response.json({ feedings: await listFeedings(binId) });
+  const q = listQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
+  return Response.json({ feedings: await listFeedings(binId, q) });
 });
 
 // POST /api/bins/[binId]/feedings — log a feeding; the mix check is computed and kept with it
@@ -20,7 +27,8 @@ export const POST = route(async (req, { params }: Ctx) => {
   const who = await requireMember({ binId }, "log");
   const input = feedingCreate.parse(await readJson(req));
   const mix = checkMix(input.items.map((i) => ({ name: i.name, massKg: i.massKg, moisturePct: i.moisturePct, carbonPct: i.carbonPct ?? undefined, nitrogenPct: i.nitrogenPct ?? undefined, cn: i.cn ?? undefined })));
-  if (!mix.ok) throw new AppError("invalid", mix.error.message, `items.${mix.error.field}`);
+  // lib/mix names fields from the items array already ("items.0.cn").
+  if (!mix.ok) throw new AppError("invalid", mix.error.message, mix.error.field);
   const feeding = await insertFeeding({
     farmId: who.farmId,
     binId,
