@@ -34,7 +34,7 @@ const newBin = () => ({ name: `Scratch ${Math.random().toString(36).slice(2, 7)}
 const rows: Row[] = [
   { method: "GET", route: "me", path: () => "/api/me", allowed: ALL, farmScoped: false },
   { method: "GET", route: "farms", path: () => "/api/farms", allowed: ALL, farmScoped: false },
-  { method: "POST", route: "farms", path: () => "/api/farms", body: () => ({ name: "A farm of my own" }), allowed: ALL, farmScoped: false, last: true },
+  { method: "POST", route: "farms", path: () => "/api/farms", body: () => ({ name: "Zz farm of my own" }), allowed: ALL, farmScoped: false, last: true },
   { method: "GET", route: "farms/[farmId]", path: (i) => `/api/farms/${i.farm}`, allowed: ALL, farmScoped: true },
   { method: "PATCH", route: "farms/[farmId]", path: (i) => `/api/farms/${i.farm}`, body: () => ({ timezone: "Europe/Dublin" }), allowed: OWNER, farmScoped: true },
   { method: "GET", route: "farms/[farmId]/today", path: (i) => `/api/farms/${i.farm}/today`, allowed: ALL, farmScoped: true },
@@ -123,7 +123,12 @@ beforeAll(async () => {
   await db.connect();
   sessions.owner = await signIn("noor@alder-row.example", "alder-row-demo");
   sessions.keeper = await signIn("tomas@alder-row.example", "alder-row-demo");
-  demoFarm = (await db.query(`select id from farms where name = 'Alder Row Worm Farm'`)).rows[0].id;
+  // A farm of this file's own, with the demo owner and keeper in their demo roles: the hundreds of
+  // scratch bins made below stay out of the demo farm the browser tests look at.
+  const owner = (await db.query(`select id from users where email = 'noor@alder-row.example'`)).rows[0].id;
+  const keeper = (await db.query(`select id from users where email = 'tomas@alder-row.example'`)).rows[0].id;
+  demoFarm = (await db.query(`insert into farms (name) values ('Zz Authorization Test Farm') returning id`)).rows[0].id;
+  await db.query(`insert into memberships (user_id, farm_id, role) values ($1, $3, 'owner'), ($2, $3, 'keeper')`, [owner, keeper, demoFarm]);
   const hash = await hashPassword("other-farm-pass");
   // A viewer of this file's own: "POST /api/farms" below makes the caller an owner of a new farm,
   // so the demo viewer would not stay a viewer everywhere.
