@@ -56,3 +56,25 @@ describe("the probes page", () => {
     await page.context().close();
   });
 });
+
+describe("adding a bin from Today", () => {
+  it("an owner adds a bin with two zones and it appears on Today; a keeper has no such button", async () => {
+    const page = await signedIn("noor@alder-row.example");
+    await page.goto(`${appUrl()}/farms/${demoFarm}`);
+    await page.getByRole("button", { name: "Add a bin" }).click();
+    const name = `Porch Tote ${Date.now().toString(36)}`;
+    await page.getByLabel("Name").fill(name);
+    await page.getByLabel("Zones (feeding side to harvest side)").selectOption("2");
+    await page.getByRole("button", { name: "Add", exact: true }).click();
+    await expect.poll(() => page.getByRole("region", { name, exact: true }).count()).toBe(1);
+    const region = page.getByRole("region", { name, exact: true });
+    expect(await region.getByText("Temperature", { exact: true }).count()).toBe(2);
+    await page.context().close();
+
+    const keeper = await signedIn("tomas@alder-row.example");
+    await keeper.goto(`${appUrl()}/farms/${demoFarm}`);
+    await expect.poll(() => keeper.getByRole("heading", { name: "Today" }).count()).toBe(1);
+    expect(await keeper.getByRole("button", { name: "Add a bin" }).count()).toBe(0);
+    await keeper.context().close();
+  });
+});

@@ -3,6 +3,7 @@ import { notFound } from "next/navigation";
 import { SWRConfig } from "swr";
 import { getFarm } from "@/db/queries/farms";
 import { getToday } from "@/db/queries/today";
+import { AddBinForm } from "@/components/bins/add-bin-form";
 import { TodayBoard } from "@/components/today/today-board";
 import { requireMember } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
@@ -31,6 +32,11 @@ export default async function TodayPage({ params }: { params: Promise<{ farmId: 
       </div>
       <SWRConfig value={{ fallback: { [todayKey(farmId)!]: today } }}>
         <TodayBoard farmId={farmId} units={farm.unitSystem} canLog={role !== "viewer"} />
+        {role === "owner" && (
+          <div className="px-3 pb-6">
+            <AddBinForm farmId={farmId} />
+          </div>
+        )}
       </SWRConfig>
     </main>
   );

@@ -1,0 +1,77 @@
+"use client";
+
+import { useState } from "react";
+import { useSWRConfig } from "swr";
+import { todayKey } from "@/lib/swr-keys";
+
+const STYLES = ["flow-through", "tray stack", "tote", "bed", "windrow"] as const;
+const SPECIES = [
+  ["eisenia-fetida", "Eisenia fetida / andrei (red wiggler)"],
+  ["eisenia-hortensis", "Eisenia hortensis"],
+  ["eudrilus-eugeniae", "Eudrilus eugeniae"],
+  ["perionyx-excavatus", "Perionyx excavatus"],
+] as const;
+
+// Owners add a bin from Today; its zones are made from the count, feeding side first.
+export function AddBinForm({ farmId }: { farmId: string }) {
+  const { mutate } = useSWRConfig();
+  const [open, setOpen] = useState(false);
+  const [busy, setBusy] = useState(false);
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [done, setDone] = useState<string | null>(null);
+
+  async function submit(e: React.FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const f = new FormData(e.currentTarget);
+    setBusy(true);
+    setErrors({});
+    const res = await fetch(`/api/farms/${farmId}/bins`, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify({ name: f.get("name"), style: f.get("style"), species: f.get("species"), zoneCount: Number(f.get("zoneCount")) }),
+    });
+    const body = await res.json().catch(() => null);
+    setBusy(false);
+    if (!res.ok) return setErrors({ [body?.error?.field ?? "form"]: body?.error?.message ?? "Could not add the bin." });
+    setDone(`Added ${body.bin.name} with ${body.bin.zones.length} zone${body.bin.zones.length === 1 ? "" : "s"}.`);
+    setOpen(false);
+    await mutate(todayKey(farmId));
+  }
+
+  const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3";
+  return (
+    <section className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+      {!open ? (
+        <button onClick={() => { setOpen(true); setDone(null); }} className="min-h-12 rounded-xl bg-soil-800 px-4 font-bold text-white">Add a bin</button>
+      ) : (
+        <form onSubmit={submit} className="space-y-3">
+          <h2 className="text-lg font-bold">Add a bin</h2>
+          <label className="block">
+            <span className="block font-bold">Name</span>
+            <input name="name" required maxLength={80} aria-invalid={!!errors.name} className={input} />
+            {errors.name && <span className="text-sm text-clay-700">{errors.name}</span>}
+          </label>
+          <label className="block">
+            <span className="block font-bold">Style</span>
+            <select name="style" className={input} defaultValue="tote">{STYLES.map((s) => <option key={s}>{s}</option>)}</select>
+          </label>
+          <label className="block">
+            <span className="block font-bold">Species</span>
+            <select name="species" className={input}>{SPECIES.map(([v, l]) => <option key={v} value={v}>{l}</option>)}</select>
+          </label>
+          <label className="block">
+            <span className="block font-bold">Zones (feeding side to harvest side)</span>
+            <select name="zoneCount" className={input} defaultValue="3">{[1, 2, 3, 4, 5, 6].map((n) => <option key={n}>{n}</option>)}</select>
+            {errors.zoneCount && <span className="text-sm text-clay-700">{errors.zoneCount}</span>}
+          </label>
+          <div className="flex gap-2">
+            <button disabled={busy} className="min-h-12 rounded-xl bg-leaf-700 px-4 font-bold text-white disabled:opacity-60">{busy ? "Adding…" : "Add"}</button>
+            <button type="button" onClick={() => setOpen(false)} className="min-h-12 rounded-xl px-4 ring-1 ring-soil-300">Cancel</button>
+          </div>
+          {errors.form && <p className="text-sm text-clay-700">{errors.form}</p>}
+        </form>
+      )}
+      <p aria-live="polite" className="mt-2 text-sm text-leaf-700">{done}</p>
+    </section>
+  );
+}
