@@ -8,7 +8,7 @@ import { READINGS_CHANNEL } from "@/db/queries/readings";
 import { escalateAlert, raiseAlert, settleOpenAlert, takeDueReminders, updateOpenAlert } from "@/db/queries/alerts";
 import { listMonitoredZones, loadZoneRuleContext, zonesOfProbes } from "@/db/queries/rule-inputs";
 import type { Metric } from "@/db/schema";
-import { notifyAlert } from "@/lib/alerts/notify";
+import { deliverHeldAlerts, notifyAlert } from "@/lib/alerts/notify";
 import { evaluateZone, lookback, overridesFromRuleRows, resolveRules, type RuleKind, type RuleRow, type Transition } from "@/lib/rules";
 import { getSpecies, speciesProfiles } from "@/lib/species";
 
@@ -138,6 +138,7 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
     }
     const due = await takeDueReminders(opts.reminderAfterMs ?? 15 * 60_000, now());
     for (const a of due) await notifyAlert(a, "reminder", now());
+    await deliverHeldAlerts(now());
   }
 
   let listener: pg.Client | null = null;

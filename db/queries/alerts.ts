@@ -175,3 +175,27 @@ export async function alertContext(alertId: string) {
     .where(eq(alerts.id, alertId));
   return r ?? null;
 }
+
+// Heads-ups held back by someone's quiet hours, on alerts still waiting for a person.
+export async function listHeldDeliveries() {
+  const r = await db().execute(sql`
+    select e.id, e.alert_id as "alertId", e.user_id as "userId"
+    from alert_events e join alerts a on a.id = e.alert_id
+    where e.type = 'held' and a.state = 'raised' and e.user_id is not null`);
+  return r.rows as { id: number; alertId: string; userId: string }[];
+}
+
+// Takes a held delivery for sending (compare-and-set on the event row: one node sends it).
+export async function takeHeldDelivery(eventId: number, at: Date) {
+  const rows = await db()
+    .update(alertEvents)
+    .set({ type: "released", detail: sql`${alertEvents.detail} || ${JSON.stringify({ releasedAt: at.toISOString() })}::jsonb` })
+    .where(and(eq(alertEvents.id, eventId), eq(alertEvents.type, "held")))
+    .returning({ id: alertEvents.id });
+  return rows.length === 1;
+}
+
+export async function getAlertRow(id: string) {
+  const [a] = await db().select().from(alerts).where(eq(alerts.id, id));
+  return a ?? null;
+}

@@ -5,7 +5,8 @@ import { db } from "@/db";
 import { raiseAlert } from "@/db/queries/alerts";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, memberships, users } from "@/db/schema";
-import { notifyAlert } from "@/lib/alerts/notify";
+import { claimAlert } from "@/db/queries/alerts";
+import { deliverHeldAlerts, notifyAlert } from "@/lib/alerts/notify";
 import { makeVapidKeys } from "@/lib/push";
 import { newSubscriber, pushMessagesFor, type TestSubscriber } from "../../helpers/push";
 import { createProbes, type TestProbe } from "../ingest/helpers";
@@ -48,5 +49,28 @@ describe("quiet hours", () => {
     const r = await notifyAlert(a!, "raised", night);
     expect(r).toMatchObject({ pushed: 1, held: 0 });
     expect(await pushMessagesFor(sleeper.id)).toHaveLength(1);
+  });
+});
+
+describe("when quiet hours end", () => {
+  it("a held heads-up still waiting for a person is delivered once; a claimed one is not", async () => {
+    const waiting = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:drying`, kind: "drying", level: "heads_up", message: "Test bin: 69 % and drying" }, night);
+    const taken = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:chill`, kind: "chill", level: "heads_up", message: "Test bin: 14 °C" }, night);
+    await notifyAlert(waiting!, "raised", night);
+    await notifyAlert(taken!, "raised", night);
+    const [{ userId }] = (await db().select({ userId: alertEvents.userId }).from(alertEvents).where(eq(alertEvents.alertId, taken!.id))).filter((e) => e.userId) as { userId: string }[];
+    await claimAlert(taken!.id, userId);
+    const before = (await pushMessagesFor(sleeper.id)).length;
+
+    // Still night: nothing goes out.
+    expect(await deliverHeldAlerts(new Date("2026-12-01T05:00:00Z"))).toBe(0);
+    // 07:00, after quiet hours: the waiting heads-up (and the soggy one from the first test) go out,
+    // once, even when two sweeps run at the same moment.
+    const morning = new Date("2026-12-01T07:00:00Z");
+    const [a, b] = await Promise.all([deliverHeldAlerts(morning), deliverHeldAlerts(morning)]);
+    expect(a + b).toBe(2);
+    const after = await pushMessagesFor(sleeper.id);
+    expect(after.length - before).toBe(2);
+    expect(await deliverHeldAlerts(morning)).toBe(0);
   });
 });
