@@ -6,6 +6,7 @@ import { useSWRConfig } from "swr";
 import type { Today } from "@/db/queries/today";
 import { Sparkline } from "@/components/charts/sparkline";
 import { StatusMark } from "@/components/ui/status-mark";
+import { KIND_WORDS } from "@/lib/alerts/words";
 import { useToday } from "@/lib/hooks/use-today";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/species";
 import { todayKey } from "@/lib/swr-keys";
@@ -14,15 +15,6 @@ import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/units";
 type Zone = Today["bins"][number]["zones"][number];
 type Bin = Today["bins"][number];
 
-const ALERT_WORDS: Record<string, string> = {
-  heat: "Heat",
-  chill: "Chill",
-  drying: "Drying",
-  soggy: "Soggy",
-  ammonia: "Ammonia",
-  silent_probe: "Silent probe",
-  probe_fault: "Probe fault",
-};
 
 function ago(iso: string) {
   const min = Math.round((Date.now() - Date.parse(iso)) / 60_000);
@@ -118,7 +110,7 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
                         <path d="M8 1a7 7 0 1 0 0 14A7 7 0 0 0 8 1Zm-.8 3h1.6v1.6H7.2Zm0 3h1.6v5H7.2Z" fill="currentColor" fillRule="evenodd" />
                       )}
                     </svg>
-                    {a.level === "act_now" ? "Act now" : "Heads-up"} · {ALERT_WORDS[a.kind] ?? a.kind}
+                    {a.level === "act_now" ? "Act now" : "Heads-up"} · {KIND_WORDS[a.kind] ?? a.kind}
                     {a.binName ? ` · ${a.binName}` : ""}
                   </span>
                   <span className="text-sm font-normal">{a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(String(a.raisedAt))}`}</span>

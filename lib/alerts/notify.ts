@@ -9,19 +9,12 @@ import { env } from "@/lib/env";
 import { makeMailer, type Mailer } from "@/lib/mail";
 import { pushToUsers } from "./deliver";
 import { inQuietHours } from "./quiet-hours";
+import { KIND_WORDS, LEVEL_WORDS } from "./words";
+
+export { KIND_WORDS, LEVEL_WORDS };
 
 const log = createDebug("wormward:notify");
 
-export const KIND_WORDS: Record<Alert["kind"], string> = {
-  heat: "Heat",
-  chill: "Chill",
-  drying: "Drying",
-  soggy: "Soggy",
-  ammonia: "Ammonia",
-  silent_probe: "Silent probe",
-  probe_fault: "Probe fault",
-};
-export const LEVEL_WORDS: Record<Alert["level"], string> = { heads_up: "Heads-up", act_now: "Act now" };
 
 let mailer: Mailer | null | undefined;
 function getMailer(): Mailer | null {

@@ -1,4 +1,5 @@
 import { getServerSession } from "next-auth";
+import { notFound } from "next/navigation";
 import type { Target } from "@/db/queries/access";
 import { AppError } from "@/lib/errors";
 import { authorize, type Who } from "./authorize";
@@ -19,4 +20,14 @@ export async function requireUser(): Promise<string> {
 
 export async function requireMember(target: Target, may: Permission): Promise<Who> {
   return authorize(await currentUserId(), target, may);
+}
+
+// For pages: a refusal of any kind shows the not-found page, so another farm's ids reveal nothing.
+export async function requirePageMember(target: Target, may: Permission): Promise<Who> {
+  try {
+    return await requireMember(target, may);
+  } catch (e) {
+    if (e instanceof AppError) notFound();
+    throw e;
+  }
 }

@@ -58,7 +58,7 @@ describe("when quiet hours end", () => {
     const taken = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:chill`, kind: "chill", level: "heads_up", message: "Test bin: 14 °C" }, night);
     await notifyAlert(waiting!, "raised", night);
     await notifyAlert(taken!, "raised", night);
-    const [{ userId }] = (await db().select({ userId: alertEvents.userId }).from(alertEvents).where(eq(alertEvents.alertId, taken!.id))).filter((e) => e.userId) as { userId: string }[];
+    const userId = (await db().select({ userId: alertEvents.userId }).from(alertEvents).where(eq(alertEvents.alertId, taken!.id))).find((e) => e.userId)!.userId!;
     await claimAlert(taken!.id, userId);
     const before = (await pushMessagesFor(sleeper.id)).length;
 

@@ -5,21 +5,14 @@ import { getFarm } from "@/db/queries/farms";
 import { getToday } from "@/db/queries/today";
 import { AddBinForm } from "@/components/bins/add-bin-form";
 import { TodayBoard } from "@/components/today/today-board";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { requirePageMember } from "@/lib/auth/session";
 import { todayKey } from "@/lib/swr-keys";
 
 export const metadata: Metadata = { title: "Today" };
 
 export default async function TodayPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
-  let role: string;
-  try {
-    role = (await requireMember({ farmId }, "read")).role;
-  } catch (e) {
-    if (e instanceof AppError) notFound();
-    throw e;
-  }
+  const { role } = await requirePageMember({ farmId }, "read");
   const farm = await getFarm(farmId);
   if (!farm) notFound();
   // Prime SWR with the server's answer so the phone paints values at once.

@@ -3,20 +3,13 @@ import { notFound } from "next/navigation";
 import { getFarm } from "@/db/queries/farms";
 import { listFarmProbes, listImports } from "@/db/queries/imports";
 import { BadRows, ImportForm } from "@/components/imports/import-form";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { requirePageMember } from "@/lib/auth/session";
 
 export const metadata: Metadata = { title: "Import logger files" };
 
 export default async function ImportsPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
-  let role: string;
-  try {
-    role = (await requireMember({ farmId }, "read")).role;
-  } catch (e) {
-    if (e instanceof AppError) notFound();
-    throw e;
-  }
+  const { role } = await requirePageMember({ farmId }, "read");
   const farm = await getFarm(farmId);
   if (!farm) notFound();
   const [history, probes] = await Promise.all([listImports(farmId), role === "owner" ? listFarmProbes(farmId) : Promise.resolve([])]);

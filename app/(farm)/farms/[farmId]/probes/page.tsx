@@ -1,13 +1,13 @@
 import type { Metadata } from "next";
 import { listBins } from "@/db/queries/bins";
 import { ProbeList } from "@/components/probes/probe-list";
-import { requireMember } from "@/lib/auth/session";
+import { requirePageMember } from "@/lib/auth/session";
 
 export const metadata: Metadata = { title: "Probes" };
 
 export default async function ProbesPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
-  const who = await requireMember({ farmId }, "read");
+  const who = await requirePageMember({ farmId }, "read");
   const bins = await listBins(farmId);
   const zones = bins.flatMap((b) => b.zones.map((z) => ({ id: z.id, label: `${b.name} · ${z.name ?? `${z.kind} zone`}` })));
   return (

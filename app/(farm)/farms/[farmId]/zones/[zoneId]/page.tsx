@@ -18,18 +18,10 @@ import { overridesFromRuleRows, resolveRules } from "@/lib/rules/params";
 import { getSpecies } from "@/lib/species";
 import { feedingsKey, zoneSeriesKey } from "@/lib/swr-keys";
 import { seriesQuery } from "@/lib/validation/series";
+import { KIND_WORDS } from "@/lib/alerts/words";
 
 export const metadata: Metadata = { title: "Zone" };
 
-const KIND_WORDS: Record<string, string> = {
-  heat: "Heat",
-  chill: "Chill",
-  drying: "Drying",
-  soggy: "Soggy",
-  ammonia: "Ammonia",
-  silent_probe: "Silent probe",
-  probe_fault: "Probe fault",
-};
 
 const json = <T,>(x: T): T => JSON.parse(JSON.stringify(x));
 
