@@ -8,3 +8,5 @@ export const zoneSeriesKey = (zoneId: string, metric: string, from?: string) => 
   if (from) q.set("from", from);
   return `/api/zones/${encodeURIComponent(zoneId)}/series?${q}`;
 };
+export const logbookKey = (binId: string | null) => (binId ? `/api/bins/${binId}/logbook` : null);
+export const probeCalibrationKey = (probeId: number | null) => (probeId != null ? `/api/probes/${probeId}/calibration` : null);

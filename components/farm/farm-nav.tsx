@@ -12,6 +12,7 @@ export function FarmNav({ farmId, role }: { farmId: string; role: string }) {
     { href: `${base}/probes`, label: "Probes" },
     ...(role === "owner" ? [{ href: `${base}/imports`, label: "Import" }] : []),
     { href: `${base}/team`, label: "Team" },
+    ...(role === "owner" ? [{ href: `${base}/settings`, label: "Settings" }] : []),
   ];
   return (
     <nav aria-label="Farm" className="flex gap-1 overflow-x-auto border-b border-soil-300 bg-soil-100 px-2">

@@ -1,6 +1,7 @@
 "use client";
 
 import { useState } from "react";
+import Link from "next/link";
 import useSWR from "swr";
 import { fetcher } from "@/lib/fetcher";
 
@@ -92,6 +93,7 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
             </div>
             <p className="text-sm text-soil-700">{p.code} · {p.binName ? `${p.binName}, ${p.zoneKind} zone` : "not placed in a zone"}</p>
             <p className="tabular text-sm">Last report {seen(p.lastSeenAt)} · every {p.reportIntervalS} s{p.batteryV != null ? ` · battery ${p.batteryV.toFixed(2)} V` : ""}{p.signalDbm != null ? ` · signal ${p.signalDbm} dBm` : ""}{p.firmware ? ` · ${p.firmware}` : ""}</p>
+            <Link href={`/farms/${farmId}/probes/${p.id}`} className="inline-flex min-h-11 items-center text-soil-700 underline underline-offset-4">Oven-dry samples and calibration</Link>
             {canManage && (
               <div className="mt-2 flex flex-wrap gap-2">
                 {!p.archivedAt && <button onClick={() => newToken(p)} className="min-h-11 rounded-lg px-3 ring-1 ring-soil-300">New token</button>}

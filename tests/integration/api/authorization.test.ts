@@ -80,7 +80,43 @@ const rows: Row[] = [
   { method: "GET", route: "farms/[farmId]/invitations", path: (i) => `/api/farms/${i.farm}/invitations`, allowed: OWNER, farmScoped: true },
   { method: "POST", route: "farms/[farmId]/invitations", path: (i) => `/api/farms/${i.farm}/invitations`, body: () => ({ email: `invitee-${Math.random().toString(36).slice(2, 9)}@example.org`, role: "keeper" }), allowed: OWNER, farmScoped: true },
   { method: "DELETE", route: "farms/[farmId]/invitations/[invitationId]", path: (i) => `/api/farms/${i.farm}/invitations/${scratchInvitation}`, setup: async () => { scratchInvitation = await newInvitation(); }, allowed: OWNER, farmScoped: true },
+  // The rest of the logbook (behaviour: tests/integration/logbook/).
+  { method: "GET", route: "bins/[binId]/waterings", path: (i) => `/api/bins/${i.bin}/waterings`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "bins/[binId]/waterings", path: (i) => `/api/bins/${i.bin}/waterings`, body: () => ({ litres: 1.5 }), allowed: CREW, farmScoped: true },
+  { method: "GET", route: "bins/[binId]/harvests", path: (i) => `/api/bins/${i.bin}/harvests`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "bins/[binId]/harvests", path: (i) => `/api/bins/${i.bin}/harvests`, body: () => ({ massKg: 4 }), allowed: CREW, farmScoped: true },
+  { method: "GET", route: "bins/[binId]/notes", path: (i) => `/api/bins/${i.bin}/notes`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "bins/[binId]/notes", path: (i) => `/api/bins/${i.bin}/notes`, body: () => ({ text: "mites on the lid" }), allowed: CREW, farmScoped: true },
+  { method: "GET", route: "bins/[binId]/logbook", path: (i) => `/api/bins/${i.bin}/logbook`, allowed: ALL, farmScoped: true },
+  { method: "DELETE", route: "logbook/[kind]/[entryId]", path: (i) => `/api/logbook/note/${i.farm === other?.farm ? otherEntry : scratchEntry}`, setup: async (s) => { await newEntry(s); }, allowed: CREW, farmScoped: true },
+  { method: "GET", route: "probes/[probeId]/samples", path: (i) => `/api/probes/${i.probe}/samples`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "probes/[probeId]/samples", path: (i) => `/api/probes/${i.probe}/samples`, body: () => ({ wetMassG: 10, dryMassG: 2.3, rawReading: 450 }), allowed: CREW, farmScoped: true },
+  { method: "GET", route: "probes/[probeId]/calibration", path: (i) => `/api/probes/${i.probe}/calibration`, allowed: ALL, farmScoped: true },
+  { method: "POST", route: "probes/[probeId]/calibration", path: (i) => `/api/probes/${i.probe}/calibration`, setup: async () => { await samplesForNewestProbe(); }, allowed: OWNER, farmScoped: true },
+  { method: "DELETE", route: "probes/[probeId]/calibration", path: (i) => `/api/probes/${i.probe}/calibration`, allowed: OWNER, farmScoped: true },
 ];
+// A note to undo: logged by the caller itself (by the owner when the caller may not log), on a bin
+// of its own; and once, a note on the other farm for the 404 check.
+let scratchEntry = "00000000-0000-4000-8000-000000000000";
+let otherEntry = "00000000-0000-4000-8000-000000000000";
+async function newEntry(s: Session) {
+  const ids = await scratch(sessions.owner, demoFarm);
+  let res = await s.fetch(`/api/bins/${ids.bin}/notes`, { method: "POST", json: { text: "to undo" } });
+  if (res.status === 403) res = await sessions.owner.fetch(`/api/bins/${ids.bin}/notes`, { method: "POST", json: { text: "to undo" } });
+  scratchEntry = ((await res.json()) as { note: { id: string } }).note.id;
+  if (otherEntry.startsWith("00000000")) {
+    otherEntry = (await db.query(`insert into log_notes (farm_id, bin_id, text) values ($1, $2, 'other farm') returning id`, [other.farm, other.bin])).rows[0].id;
+  }
+}
+// setup runs right after scratch() made the row's probe, so the demo farm's newest probe is that one:
+// two samples at different raw readings let the owner's fit succeed.
+async function samplesForNewestProbe() {
+  const p = (await db.query(`select p.id, p.zone_id, z.bin_id from probes p join zones z on z.id = p.zone_id where p.farm_id = $1 order by p.id desc limit 1`, [demoFarm])).rows[0];
+  await db.query(
+    `insert into oven_dry_samples (farm_id, bin_id, zone_id, probe_id, wet_mass_g, dry_mass_g, raw_reading, moisture_wb_pct) values ($1, $2, $3, $4, 10, 3, 400, 70), ($1, $2, $3, $4, 10, 4, 500, 60)`,
+    [demoFarm, p.bin_id, p.zone_id, p.id],
+  );
+}
 let lastSub: Awaited<ReturnType<typeof newSubscription>> | null = null;
 // A keeper and an open invitation of the demo farm, made afresh for each row that changes one.
 let scratchMember = "00000000-0000-4000-8000-000000000000";

@@ -10,11 +10,14 @@ import { latestOfZones } from "@/db/queries/zone-view";
 import { zoneWords } from "@/components/logbook/format";
 import { FeedingForm } from "@/components/logbook/feeding-form";
 import { FeedingLog } from "@/components/logbook/feeding-log";
+import { LogbookList } from "@/components/logbook/logbook-list";
+import { QuickLogForms } from "@/components/logbook/quick-log-forms";
+import { listLogbook } from "@/db/queries/logbook";
 import { StatusMark } from "@/components/ui/status-mark";
 import { requireMember } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/species";
-import { feedingsKey, ingredientsKey } from "@/lib/swr-keys";
+import { feedingsKey, ingredientsKey, logbookKey } from "@/lib/swr-keys";
 import { formatPercent, formatTemperature } from "@/lib/units";
 
 export const metadata: Metadata = { title: "Bin" };
@@ -30,16 +33,18 @@ export default async function BinPage({
 }) {
   const { farmId, binId } = await params;
   let role: string;
+  let userId: string;
   try {
     const who = await requireMember({ binId }, "read");
     if (who.farmId !== farmId) notFound();
     role = who.role;
+    userId = who.userId;
   } catch (e) {
     if (e instanceof AppError) notFound();
     throw e;
   }
   const canLog = role !== "viewer";
-  const [bin, farm, feedings, library] = await Promise.all([getBin(binId), getFarm(farmId), listFeedings(binId), canLog ? listIngredients(farmId) : null]);
+  const [bin, farm, feedings, library, logbook] = await Promise.all([getBin(binId), getFarm(farmId), listFeedings(binId), canLog ? listIngredients(farmId) : null, listLogbook(binId)]);
   if (!bin || !farm) notFound();
   const latest = await latestOfZones(bin.zones.map((z) => z.id));
   const profile = getSpecies(bin.species);
@@ -47,7 +52,7 @@ export default async function BinPage({
   const asked = (await searchParams).zone;
   const defaultZoneId = typeof asked === "string" && zones.some((z) => z.id === asked) ? asked : null;
   // Prime SWR with the server's answers so the logbook and the library paint at once.
-  const fallback: Record<string, unknown> = { [feedingsKey(binId)!]: json({ feedings }) };
+  const fallback: Record<string, unknown> = { [feedingsKey(binId)!]: json({ feedings }), [logbookKey(binId)!]: json({ entries: logbook }) };
   if (library) fallback[ingredientsKey(farmId)!] = json({ ingredients: library });
 
   return (
@@ -61,6 +66,9 @@ export default async function BinPage({
           {bin.style} · <i>{profile?.name ?? bin.species}</i>
           {profile ? ` (${profile.commonName})` : ""}
         </p>
+        <Link href={`/farms/${farmId}/bins/${binId}/rules`} className="mt-1 inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
+          Alert rules <span aria-hidden="true">›</span>
+        </Link>
       </div>
 
       <section aria-labelledby="zones-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
@@ -105,6 +113,12 @@ export default async function BinPage({
           <h2 id="logbook-h" className="text-xl font-bold">Logbook</h2>
           <p className="mb-2 text-sm text-soil-700">Feedings, newest first, each with the mix check made when it was logged.</p>
           <FeedingLog binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} />
+        </section>
+        {canLog && <QuickLogForms binId={binId} zones={zones} system={farm.unitSystem} />}
+        <section aria-labelledby="all-log-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+          <h2 id="all-log-h" className="text-xl font-bold">Everything logged</h2>
+          <p className="mb-2 text-sm text-soil-700">Feedings, water, harvests, notes and oven-dry samples, newest first. Undo is open for 24 hours to whoever logged it.</p>
+          <LogbookList binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} userId={userId} isOwner={role === "owner"} />
         </section>
       </SWRConfig>
     </main>

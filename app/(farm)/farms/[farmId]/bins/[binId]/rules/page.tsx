@@ -1,0 +1,52 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { getBin } from "@/db/queries/bins";
+import { getFarm } from "@/db/queries/farms";
+import { listRulesForBin } from "@/db/queries/rules";
+import { RulesTable, type RulesData } from "@/components/rules/rules-table";
+import { KIND_WORDS } from "@/lib/alerts/notify";
+import { requireMember } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { defaultRuleTable, overridesFromRuleRows, resolveRules, type RuleRow } from "@/lib/rules";
+import { getSpecies } from "@/lib/species";
+
+export const metadata: Metadata = { title: "Alert rules" };
+
+export default async function BinRulesPage({ params }: { params: Promise<{ farmId: string; binId: string }> }) {
+  const { farmId, binId } = await params;
+  let role: string;
+  try {
+    const who = await requireMember({ binId }, "read");
+    if (who.farmId !== farmId) notFound();
+    role = who.role;
+  } catch (e) {
+    if (e instanceof AppError) notFound();
+    throw e;
+  }
+  const [bin, farm, rows] = await Promise.all([getBin(binId), getFarm(farmId), listRulesForBin(farmId, binId)]);
+  const species = bin ? getSpecies(bin.species) : null;
+  if (!bin || !farm || !species) notFound();
+  // The same answer GET /api/bins/[binId]/rules gives, so the client's SWR cache starts full.
+  const overrides = overridesFromRuleRows(rows as RuleRow[], binId);
+  const initial = JSON.parse(
+    JSON.stringify({ species: species.id, defaults: defaultRuleTable(species), overrides, effective: resolveRules(species, overrides) }),
+  ) as RulesData;
+  const owner = role === "owner";
+
+  return (
+    <main className="space-y-4 p-3 pb-10">
+      <div className="px-1 pt-1">
+        <Link href={`/farms/${farmId}/bins/${binId}`} className="inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
+          <span aria-hidden="true">←</span> {bin.name}
+        </Link>
+        <h1 className="text-3xl font-bold">Alert rules</h1>
+        <p className="text-sm text-soil-700">
+          {bin.name} · <i>{species.name}</i> ({species.commonName}). Defaults come from the species; a blank box keeps the default.
+        </p>
+        {!owner && <p className="mt-2 rounded-xl bg-soil-100 p-3">Only an owner of {farm.name} can change these rules.</p>}
+      </div>
+      <RulesTable binId={binId} initial={initial} words={KIND_WORDS} system={farm.unitSystem} canEdit={owner} />
+    </main>
+  );
+}

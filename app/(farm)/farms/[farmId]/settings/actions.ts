@@ -1,0 +1,56 @@
+"use server";
+
+import { revalidatePath } from "next/cache";
+import { z } from "zod";
+import { archiveBin, updateBin } from "@/db/queries/bins";
+import { updateFarm } from "@/db/queries/farms";
+import { requireMember } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { UNIT_LABELS } from "@/lib/units";
+import { validatedAction } from "@/lib/validated-action";
+
+const knownZone = (tz: string) => {
+  try {
+    new Intl.DateTimeFormat("en", { timeZone: tz });
+    return true;
+  } catch {
+    return false;
+  }
+};
+
+const farmForm = z.object({
+  farmId: z.string().uuid(),
+  name: z.string().trim().min(1, "Give the farm a name.").max(80, "Keep the name under 80 characters."),
+  unitSystem: z.enum(["metric", "imperial"], { message: "Choose metric or imperial." }),
+  timezone: z.string().trim().min(1, "Choose a timezone.").max(64).refine(knownZone, "Unknown timezone; use a name like Europe/Dublin."),
+});
+const binForm = z.object({ farmId: z.string().uuid(), binId: z.string().uuid() });
+
+// Every page of the farm shows its units and times, so the whole farm is rendered afresh.
+const refreshFarm = (farmId: string) => revalidatePath(`/farms/${farmId}`, "layout");
+
+export const saveFarm = validatedAction(farmForm, async ({ farmId, ...patch }) => {
+  const who = await requireMember({ farmId }, "manage");
+  await updateFarm(who.farmId, patch);
+  refreshFarm(farmId);
+  return `Saved. Temperatures in ${UNIT_LABELS[patch.unitSystem].temperature}, times in ${patch.timezone}.`;
+});
+
+async function ownBin(farmId: string, binId: string) {
+  const who = await requireMember({ binId }, "manage");
+  if (who.farmId !== farmId) throw new AppError("not_found", "That bin is not on this farm.");
+}
+
+export const archiveBinAction = validatedAction(binForm, async ({ farmId, binId }) => {
+  await ownBin(farmId, binId);
+  const bin = await archiveBin(binId);
+  refreshFarm(farmId);
+  return `${bin?.name ?? "The bin"} is archived; its readings and logbook stay.`;
+});
+
+export const bringBackBin = validatedAction(binForm, async ({ farmId, binId }) => {
+  await ownBin(farmId, binId);
+  const bin = await updateBin(binId, { archivedAt: null });
+  refreshFarm(farmId);
+  return `${bin?.name ?? "The bin"} is back on Today.`;
+});

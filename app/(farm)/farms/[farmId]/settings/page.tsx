@@ -1,0 +1,51 @@
+import type { Metadata } from "next";
+import { notFound } from "next/navigation";
+import { listBins } from "@/db/queries/bins";
+import { getFarm } from "@/db/queries/farms";
+import { BinArchive } from "@/components/settings/bin-archive";
+import { FarmForm } from "@/components/settings/farm-form";
+import { requireMember } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { archiveBinAction, bringBackBin, saveFarm } from "./actions";
+
+export const metadata: Metadata = { title: "Settings" };
+
+export default async function SettingsPage({ params }: { params: Promise<{ farmId: string }> }) {
+  const { farmId } = await params;
+  let role: string;
+  try {
+    role = (await requireMember({ farmId }, "read")).role;
+  } catch (e) {
+    if (e instanceof AppError) notFound();
+    throw e;
+  }
+  const farm = await getFarm(farmId);
+  if (!farm) notFound();
+  const heading = (
+    <div className="px-1 pt-1">
+      <a href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center text-sm text-soil-500">← Today</a>
+      <p className="text-sm text-soil-500">{farm.name}</p>
+      <h1 className="text-3xl font-bold">Settings</h1>
+    </div>
+  );
+  if (role !== "owner") {
+    return (
+      <main className="space-y-4 p-3">
+        {heading}
+        <p className="rounded-xl bg-soil-100 p-4">Only an owner of {farm.name} can change its settings.</p>
+      </main>
+    );
+  }
+  const bins = await listBins(farmId, { includeArchived: true });
+  const day = (d: Date) => d.toLocaleDateString("en-GB", { timeZone: farm.timezone, day: "numeric", month: "short", year: "numeric" });
+  const zonesWord = (n: number) => `${n} zone${n === 1 ? "" : "s"}`;
+  const live = bins.filter((b) => !b.archivedAt).map((b) => ({ id: b.id, name: b.name, detail: `${b.style} · ${zonesWord(b.zones.length)}` }));
+  const archived = bins.filter((b) => b.archivedAt).map((b) => ({ id: b.id, name: b.name, detail: `${b.style} · archived ${day(b.archivedAt!)}` }));
+  return (
+    <main className="space-y-4 p-3 pb-10">
+      {heading}
+      <FarmForm action={saveFarm} farmId={farmId} name={farm.name} unitSystem={farm.unitSystem} timezone={farm.timezone} zones={Intl.supportedValuesOf("timeZone")} />
+      <BinArchive farmId={farmId} live={live} archived={archived} archive={archiveBinAction} bringBack={bringBackBin} />
+    </main>
+  );
+}

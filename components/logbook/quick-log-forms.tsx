@@ -1,0 +1,134 @@
+"use client";
+
+import { useState } from "react";
+import { useSWRConfig } from "swr";
+import { zoneWords } from "@/components/logbook/format";
+import { logbookKey } from "@/lib/swr-keys";
+import { massToKg, UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/units";
+
+type Zone = { id: string; kind: string; name: string | null };
+type Kind = "watering" | "harvest" | "note";
+
+const num = (s: string) => (s.trim() === "" ? NaN : Number(s.trim().replace(",", ".")));
+
+const TITLES: Record<Kind, { title: string; button: string; done: string; path: string }> = {
+  watering: { title: "Log water", button: "Log water", done: "Water logged.", path: "waterings" },
+  harvest: { title: "Log harvest", button: "Log harvest", done: "Harvest logged.", path: "harvests" },
+  note: { title: "Add a note", button: "Add note", done: "Note added.", path: "notes" },
+};
+
+// One compact form per kind: where, an amount in the farm's units (or the note's text), optional notes.
+function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; zones: Zone[]; system: UnitSystem }) {
+  const { mutate } = useSWRConfig();
+  const [zoneId, setZoneId] = useState("");
+  const [amount, setAmount] = useState("");
+  const [notes, setNotes] = useState("");
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
+  const [busy, setBusy] = useState(false);
+  const t = TITLES[kind];
+  const unit = kind === "watering" ? UNIT_LABELS[system].volume : UNIT_LABELS[system].mass;
+  const field = kind === "watering" ? "litres" : kind === "harvest" ? "massKg" : "text";
+  const id = (f: string) => `${kind}-${f}`;
+
+  async function submit(e: React.FormEvent) {
+    e.preventDefault();
+    setErrors({});
+    setStatus(null);
+    let value: number | string = amount.trim();
+    if (kind !== "note") {
+      const n = num(amount);
+      if (!Number.isFinite(n) || n <= 0) {
+        setErrors({ [field]: `Give an amount above 0 ${unit}.` });
+        setStatus({ ok: false, text: "Not logged: check the amount." });
+        return;
+      }
+      value = kind === "watering" ? volumeToLitres(n, system) : massToKg(n, system);
+    }
+    setBusy(true);
+    const res = await fetch(`/api/bins/${binId}/${t.path}`, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify({ zoneId: zoneId || null, notes: kind === "note" ? null : notes.trim() || null, [field]: value }),
+    }).catch(() => null);
+    const body = await res?.json().catch(() => null);
+    setBusy(false);
+    if (!res?.ok) {
+      const err = body?.error as { message?: string; field?: string } | undefined;
+      setErrors({ [err?.field ?? "form"]: err?.message ?? "Could not reach the server; try again." });
+      setStatus({ ok: false, text: `Not logged: ${err?.message ?? "no connection."}` });
+      return;
+    }
+    setAmount("");
+    setNotes("");
+    setStatus({ ok: true, text: t.done });
+    await mutate(logbookKey(binId));
+  }
+
+  const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg";
+  return (
+    <form onSubmit={submit} noValidate aria-labelledby={id("h")} className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+      <h2 id={id("h")} className="text-xl font-bold">{t.title}</h2>
+      <div className="grid grid-cols-2 gap-3">
+        <div className={kind === "note" ? "col-span-2" : ""}>
+          <label htmlFor={id("zone")} className="block font-bold">Where</label>
+          <select id={id("zone")} value={zoneId} onChange={(e) => setZoneId(e.target.value)} aria-invalid={!!errors.zoneId} className={input}>
+            <option value="">Whole bin</option>
+            {zones.map((z) => <option key={z.id} value={z.id}>{zoneWords(z)}</option>)}
+          </select>
+          {errors.zoneId && <p className="mt-1 text-sm font-bold text-clay-700">{errors.zoneId}</p>}
+        </div>
+        {kind !== "note" && (
+          <div>
+            <label htmlFor={id("amount")} className="block font-bold">{kind === "watering" ? "Water" : "Castings"} ({unit})</label>
+            <input id={id("amount")} inputMode="decimal" value={amount} onChange={(e) => setAmount(e.target.value)} aria-invalid={!!errors[field]} aria-describedby={errors[field] ? id("amount-error") : undefined} className={`${input} tabular`} />
+            {errors[field] && <p id={id("amount-error")} className="mt-1 text-sm font-bold text-clay-700">{errors[field]}</p>}
+          </div>
+        )}
+      </div>
+      {kind === "note" ? (
+        <div>
+          <label htmlFor={id("text")} className="block font-bold">Note</label>
+          <textarea id={id("text")} value={amount} onChange={(e) => setAmount(e.target.value)} rows={2} aria-invalid={!!errors.text} aria-describedby={errors.text ? id("text-error") : undefined} className="w-full rounded-xl border border-soil-300 bg-paper p-3" />
+          {errors.text && <p id={id("text-error")} className="mt-1 text-sm font-bold text-clay-700">{errors.text}</p>}
+        </div>
+      ) : (
+        <div>
+          <label htmlFor={id("notes")} className="block font-bold">Notes (optional)</label>
+          <input id={id("notes")} value={notes} onChange={(e) => setNotes(e.target.value)} className={input} />
+        </div>
+      )}
+      {kind === "harvest" && (
+        <aside aria-label="Caution" className="rounded-xl bg-straw-100 p-3 text-sm ring-1 ring-straw-600">
+          <p className="font-bold">Careful</p>
+          <ul className="list-disc pl-5">
+            <li>Castings and leachate are not food: put them on the soil, not on produce about to be eaten.</li>
+            <li>Wash your hands after handling castings.</li>
+          </ul>
+        </aside>
+      )}
+      {kind === "watering" && <p className="text-sm text-soil-700">Add water a little at a time: a soggy bed starves the worms of air.</p>}
+      <button disabled={busy} className="min-h-12 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">{busy ? "Logging…" : t.button}</button>
+      <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>
+        {status && (
+          <span className="inline-flex items-center gap-1">
+            <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
+              {status.ok ? <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" /> : <path d="M2 2 10 10M10 2 2 10" stroke="currentColor" strokeWidth="2" />}
+            </svg>
+            {status.text}
+          </span>
+        )}
+      </p>
+    </form>
+  );
+}
+
+export function QuickLogForms(props: { binId: string; zones: Zone[]; system: UnitSystem }) {
+  return (
+    <div className="space-y-4">
+      <QuickForm kind="watering" {...props} />
+      <QuickForm kind="harvest" {...props} />
+      <QuickForm kind="note" {...props} />
+    </div>
+  );
+}

@@ -1,0 +1,88 @@
+"use client";
+
+import { useState } from "react";
+import useSWR from "swr";
+import { fetcher, FetchError } from "@/lib/fetcher";
+import type { UnitSystem } from "@/lib/units";
+import { RuleCard, type KindRow, type KindState } from "./rule-card";
+
+export type RulesData = {
+  species: string;
+  defaults: KindRow[];
+  overrides: Record<string, { enabled?: boolean; thresholds?: Record<string, number> } | undefined>;
+  effective: Record<string, { enabled: boolean; t: Record<string, number> }>;
+};
+
+export const rulesKey = (binId: string) => `/api/bins/${binId}/rules`;
+
+type Message = { ok?: string; error?: string; fieldErrors?: Record<string, string> };
+
+// Every alert kind of one bin; owners change, save or reset one kind at a time, everyone else reads.
+export function RulesTable({ binId, initial, words, system, canEdit }: { binId: string; initial: RulesData; words: Record<string, string>; system: UnitSystem; canEdit: boolean }) {
+  const { data, mutate } = useSWR<RulesData>(rulesKey(binId), fetcher, { fallbackData: initial });
+  const rules = data ?? initial;
+  const [messages, setMessages] = useState<Record<string, Message>>({});
+  const [busy, setBusy] = useState<string | null>(null);
+  const say = (kind: string, m: Message) => setMessages((all) => ({ ...all, [kind]: m }));
+
+  async function send(kind: string, method: "PUT" | "DELETE", body?: unknown): Promise<boolean> {
+    setBusy(kind);
+    try {
+      const url = method === "PUT" ? rulesKey(binId) : `${rulesKey(binId)}?kind=${encodeURIComponent(kind)}`;
+      const res = await fetch(url, { method, headers: { "content-type": "application/json" }, body: body === undefined ? undefined : JSON.stringify(body) });
+      if (!res.ok) {
+        const e = ((await res.json().catch(() => null)) as { error?: { message?: string; field?: string } } | null)?.error;
+        throw new FetchError(e?.message ?? `Request failed (${res.status})`, res.status, e?.field);
+      }
+      await mutate();
+      return true;
+    } catch (e) {
+      const err = e instanceof FetchError ? e : new FetchError("The network dropped; nothing was changed.", 0);
+      const key = err.field?.startsWith("thresholds.") ? err.field.slice("thresholds.".length) : null;
+      say(kind, key ? { error: "Check the marked field.", fieldErrors: { [key]: err.message } } : { error: err.message });
+      return false;
+    } finally {
+      setBusy(null);
+    }
+  }
+
+  const save = async (kind: string, s: KindState) => {
+    if (await send(kind, "PUT", { kind, enabled: s.enabled, thresholds: s.thresholds })) say(kind, { ok: `Saved for this bin.` });
+  };
+  const reset = async (kind: string) => {
+    if (await send(kind, "DELETE")) say(kind, { ok: "Back to the species defaults." });
+  };
+
+  return (
+    <div className="space-y-4">
+      <nav aria-label="Alert kinds" className="flex flex-wrap gap-2">
+        {rules.defaults.map((d) => (
+          <a key={d.kind} href={`#rule-${d.kind}`} className="flex min-h-11 items-center rounded-full bg-white px-3 ring-1 ring-soil-300">
+            {words[d.kind] ?? d.kind}
+          </a>
+        ))}
+      </nav>
+      {rules.defaults.map((d) => {
+        const own = rules.overrides[d.kind];
+        const eff = rules.effective[d.kind] ?? { enabled: true, t: {} };
+        return (
+          <RuleCard
+            // a fresh card after each save or reset, so the inputs show what is stored
+            key={`${d.kind}:${JSON.stringify(own ?? null)}`}
+            row={d}
+            word={words[d.kind] ?? d.kind}
+            own={own}
+            effective={eff}
+            system={system}
+            canEdit={canEdit}
+            busy={busy === d.kind}
+            message={messages[d.kind]}
+            onSave={(s) => save(d.kind, s)}
+            onReset={() => reset(d.kind)}
+            onInvalid={(m) => say(d.kind, m)}
+          />
+        );
+      })}
+    </div>
+  );
+}
