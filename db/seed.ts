@@ -1,6 +1,6 @@
 // Demo scenario (invented for the demo only): Alder Row, a small worm farm with four bins of
 // different styles and species, a keeper, an owner and a viewer.
-import { createHash, randomBytes } from "node:crypto";
+import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import { sql } from "drizzle-orm";
@@ -8,6 +8,7 @@ import type { Db } from "./index";
 import { bins, farms, ingredients, memberships, probes, readings, users, zones, type BinStyle, type ZoneKind } from "./schema";
 import { ingredients as library } from "@/lib/ingredients";
 import { hashPassword } from "@/lib/auth/password";
+import { hashToken } from "@/lib/auth/tokens";
 
 export const DEMO_PASSWORD = "alder-row-demo";
 export const DEMO_PEOPLE = [
@@ -25,7 +26,6 @@ const DEMO_BINS: DemoBin[] = [
 ];
 
 export type DemoProbe = { code: string; token: string; bin: string; zone: ZoneKind; metrics: string[] };
-export const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
 // The shared ingredient library (farmId null), each row with its published source.
 export async function seedIngredients(d: Db) {

@@ -59,10 +59,7 @@ export async function readCappedBody(req: Request, max: number): Promise<Buffer>
 
 /** A message refused whole (not JSON, not a SenML pack) rather than record by record. */
 export function refusedWhole(v: ValidatedPayload): boolean {
-  if (v.readings.length > 0 || v.rejections.length !== 1) return false;
-  const [r] = v.rejections;
-  // lib/telemetry.ts prefixes record-level SenML problems with "record <index>:".
-  return r!.code === "malformed-json" || (r!.code === "malformed-senml" && !/^record \d+:/.test(r!.reason));
+  return v.readings.length === 0 && v.rejections.some((r) => r.whole);
 }
 
 export type HttpIngestResult = {

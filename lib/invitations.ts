@@ -7,7 +7,7 @@ import { getUser, getUserByEmail } from "@/db/queries/users";
 import type { Invitation, Role } from "@/db/schema";
 import { appMailer, escapeHtml } from "@/lib/app-mailer";
 import { hashPassword } from "@/lib/auth/password";
-import { hashLinkToken, newLinkToken } from "@/lib/auth/tokens";
+import { hashToken, newLinkToken } from "@/lib/auth/tokens";
 import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import { ROLE_WORDS } from "@/lib/team-words";
@@ -37,7 +37,7 @@ export async function inviteToFarm(input: { farmId: string; email: string; role:
   if (!mailer) throw new AppError("internal", "Mail is not set up on this server, so the invitation cannot be sent.");
   const token = newLinkToken();
   const expiresAt = new Date(now.getTime() + INVITATION_DAYS * 86_400_000);
-  const row = await createInvitation({ ...input, tokenHash: hashLinkToken(token), expiresAt });
+  const row = await createInvitation({ ...input, tokenHash: hashToken(token), expiresAt });
   const [farm, inviter] = await Promise.all([getFarm(input.farmId), getUser(input.invitedBy)]);
   const mail = invitationMail({
     farmName: farm?.name ?? "a farm",
@@ -64,7 +64,7 @@ export type InvitationLookup =
   | { state: "open"; farmId: string; farmName: string; email: string; role: Role; invitedByName: string | null; expiresAt: Date; hasAccount: boolean };
 
 export async function lookupInvitation(token: string, now = new Date()): Promise<InvitationLookup> {
-  const r = await getInvitationByTokenHash(hashLinkToken(token));
+  const r = await getInvitationByTokenHash(hashToken(token));
   if (!r) return { state: "unknown" };
   if (r.invitation.acceptedAt) return { state: "used" };
   if (r.invitation.expiresAt <= now) return { state: "expired" };
@@ -85,7 +85,7 @@ async function openOrThrow(token: string, now: Date) {
 }
 
 async function take(token: string, joiner: Parameters<typeof acceptInvitation>[1], now: Date) {
-  const joined = await acceptInvitation(hashLinkToken(token), joiner, now);
+  const joined = await acceptInvitation(hashToken(token), joiner, now);
   // Lost a race with another tap, or it expired in between: say which.
   if (!joined) {
     await openOrThrow(token, now);

@@ -5,7 +5,7 @@ import { consumePasswordReset, createPasswordReset, getPasswordReset } from "@/d
 import { getUserByEmail } from "@/db/queries/users";
 import { appMailer, escapeHtml } from "@/lib/app-mailer";
 import { hashPassword } from "@/lib/auth/password";
-import { hashLinkToken, newLinkToken } from "@/lib/auth/tokens";
+import { hashToken, newLinkToken } from "@/lib/auth/tokens";
 import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 
@@ -33,7 +33,7 @@ export async function requestPasswordReset(email: string, now = new Date()): Pro
   }
   const token = newLinkToken();
   const stored = await createPasswordReset(
-    { userId: user.id, tokenHash: hashLinkToken(token), expiresAt: new Date(now.getTime() + RESET_MINUTES * 60_000), createdAt: now },
+    { userId: user.id, tokenHash: hashToken(token), expiresAt: new Date(now.getTime() + RESET_MINUTES * 60_000), createdAt: now },
     { max: RESETS_PER_HOUR, since: new Date(now.getTime() - 3_600_000) },
   );
   if (!stored) {
@@ -55,7 +55,7 @@ export async function requestPasswordReset(email: string, now = new Date()): Pro
 export type ResetLookup = { state: "open"; email: string } | { state: "unknown" | "used" | "expired" };
 
 export async function lookupReset(token: string, now = new Date()): Promise<ResetLookup> {
-  const r = await getPasswordReset(hashLinkToken(token));
+  const r = await getPasswordReset(hashToken(token));
   if (!r) return { state: "unknown" };
   if (r.reset.usedAt) return { state: "used" };
   if (r.reset.expiresAt <= now) return { state: "expired" };
@@ -70,7 +70,7 @@ export const RESET_REFUSALS = {
 
 export async function resetPassword(token: string, password: string, now = new Date()) {
   const passwordHash = await hashPassword(password);
-  const done = await consumePasswordReset(hashLinkToken(token), passwordHash, now);
+  const done = await consumePasswordReset(hashToken(token), passwordHash, now);
   if (done) {
     log("password reset for user %s", done.userId);
     return done;

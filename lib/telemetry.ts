@@ -18,7 +18,8 @@ export type RejectCode =
   | "too-old"
   | "bad-status";
 
-export type Rejection = { code: RejectCode; reason: string };
+// whole: the message could not be read as a SenML pack at all (no record was looked at).
+export type Rejection = { code: RejectCode; reason: string; whole?: true };
 
 export type TelemetryProbe = {
   id: number;
@@ -127,12 +128,12 @@ export function validateSenmlPayload(
     const text = typeof payload === "string" ? payload : new TextDecoder("utf-8", { fatal: true }).decode(payload);
     json = JSON.parse(text);
   } catch {
-    rejections.push({ code: "malformed-json", reason: "payload is not UTF-8 JSON (RFC 8428 §5)" });
+    rejections.push({ code: "malformed-json", reason: "payload is not UTF-8 JSON (RFC 8428 §5)", whole: true });
     return result();
   }
   const parsed = parseSenml(json, { now: now.getTime() / 1000 });
   if (!parsed.ok) {
-    rejections.push({ code: "malformed-senml", reason: parsed.reason });
+    rejections.push({ code: "malformed-senml", reason: parsed.reason, whole: true });
     return result();
   }
   for (const e of parsed.errors) rejections.push({ code: "malformed-senml", reason: `record ${e.index}: ${e.reason}` });

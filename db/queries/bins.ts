@@ -92,3 +92,10 @@ export async function archiveZone(id: string) {
   const [z] = await db().update(zones).set({ archivedAt: new Date() }).where(eq(zones.id, id)).returning();
   return z ?? null;
 }
+
+// A log entry may name a zone only of its own bin.
+export async function assertZoneInBin(binId: string, zoneId: string | null, ex: Pick<ReturnType<typeof db>, "select"> = db()) {
+  if (!zoneId) return;
+  const [z] = await ex.select({ binId: zones.binId }).from(zones).where(eq(zones.id, zoneId));
+  if (z?.binId !== binId) throw new AppError("invalid", "That zone is not in this bin.", "zoneId");
+}

@@ -1,7 +1,7 @@
 import { and, desc, eq, gte, inArray } from "drizzle-orm";
 import { db } from "@/db";
-import { feedingItems, feedings, users, zones } from "@/db/schema";
-import { AppError } from "@/lib/errors";
+import { assertZoneInBin } from "./bins";
+import { feedingItems, feedings, users } from "@/db/schema";
 
 export type NewFeeding = {
   farmId: string;
@@ -18,10 +18,7 @@ export type NewFeeding = {
 
 export async function insertFeeding(f: NewFeeding) {
   return db().transaction(async (tx) => {
-    if (f.zoneId) {
-      const [z] = await tx.select({ binId: zones.binId }).from(zones).where(eq(zones.id, f.zoneId));
-      if (z?.binId !== f.binId) throw new AppError("invalid", "That zone is not in this bin.", "zoneId");
-    }
+    await assertZoneInBin(f.binId, f.zoneId, tx);
     const { items, ...row } = f;
     const [feeding] = await tx.insert(feedings).values(row).returning();
     await tx.insert(feedingItems).values(items.map((i) => ({ ...i, feedingId: feeding!.id })));

@@ -1,7 +1,7 @@
 import { and, asc, desc, eq, gte, lte, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { feedings, harvests, logNotes, ovenDrySamples, probes, readings, users, waterings as wateringsTable, zones } from "@/db/schema";
-import { AppError } from "@/lib/errors";
+import { assertZoneInBin } from "./bins";
 
 export const LOG_KINDS = ["feeding", "watering", "harvest", "note", "sample"] as const;
 export type LogKind = (typeof LOG_KINDS)[number];
@@ -10,26 +10,21 @@ const tables = { feeding: feedings, watering: wateringsTable, harvest: harvests,
 
 type Common = { farmId: string; binId: string; zoneId: string | null; at: Date; byUserId: string; notes: string | null };
 
-async function checkZone(binId: string, zoneId: string | null) {
-  if (!zoneId) return;
-  const [z] = await db().select({ binId: zones.binId }).from(zones).where(eq(zones.id, zoneId));
-  if (z?.binId !== binId) throw new AppError("invalid", "That zone is not in this bin.", "zoneId");
-}
 
 export async function insertWatering(w: Common & { litres: number }) {
-  await checkZone(w.binId, w.zoneId);
+  await assertZoneInBin(w.binId, w.zoneId);
   const [row] = await db().insert(wateringsTable).values(w).returning();
   return row!;
 }
 
 export async function insertHarvest(h: Common & { massKg: number }) {
-  await checkZone(h.binId, h.zoneId);
+  await assertZoneInBin(h.binId, h.zoneId);
   const [row] = await db().insert(harvests).values(h).returning();
   return row!;
 }
 
 export async function insertNote(n: Common & { text: string }) {
-  await checkZone(n.binId, n.zoneId);
+  await assertZoneInBin(n.binId, n.zoneId);
   const [row] = await db().insert(logNotes).values(n).returning();
   return row!;
 }

@@ -2,7 +2,7 @@ import { timingSafeEqual } from "node:crypto";
 import { eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { probes, type Probe } from "@/db/schema";
-import { hashToken } from "@/db/seed";
+import { hashToken } from "@/lib/auth/tokens";
 import { AppError } from "@/lib/errors";
 import type { Executor } from "./readings";
 

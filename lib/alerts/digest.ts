@@ -6,22 +6,11 @@ import type { Farm } from "@/db/schema";
 import { escapeHtml } from "@/lib/app-mailer";
 import { env } from "@/lib/env";
 import { formatNumber, formatMass, temperatureForDisplay, UNIT_LABELS, type UnitSystem } from "@/lib/units";
-import { KIND_WORDS, LEVEL_WORDS } from "./notify";
+import { localClock } from "@/lib/clock";
+import { KIND_WORDS, LEVEL_WORDS } from "./words";
 
-/** The farm-local calendar date ("YYYY-MM-DD") and minutes past midnight at an instant. */
-export function localClock(now: Date, timeZone: string): { date: string; minutes: number } {
-  const parts = new Intl.DateTimeFormat("en-CA", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-  }).formatToParts(now);
-  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? "00";
-  return { date: `${get("year")}-${get("month")}-${get("day")}`, minutes: Number(get("hour")) * 60 + Number(get("minute")) };
-}
+export { localClock };
+
 
 // A zone's offset from UTC at an instant, in ms: Intl has no direct call for it.
 function offsetAt(utcMs: number, timeZone: string): number {

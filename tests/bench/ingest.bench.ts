@@ -19,7 +19,7 @@ import { startCluster, stopCluster } from "@/db/local-pg";
 import { runMigrations } from "@/db/migrate";
 import { insertReadings, type ReadingInput } from "@/db/queries/readings";
 import { bins, farms, probes, zones } from "@/db/schema";
-import { hashToken } from "@/db/seed";
+import { hashToken } from "@/lib/auth/tokens";
 import { probeBaseName } from "@/lib/metrics";
 
 const CLUSTER = "pg-bench";

@@ -1,17 +1,13 @@
 import type { Browser, Page } from "playwright-core";
-import pg from "pg";
-import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
-import { appUrl } from "../helpers/app";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { appUrl, demoFarmId } from "../helpers/app";
 import { launchBrowser, PHONE, screenshotPath } from "../helpers/browser";
 
 let browser: Browser;
 let demoFarm: string;
 beforeAll(async () => {
   browser = await launchBrowser();
-  const c = new pg.Client({ connectionString: inject("appDbUrl") });
-  await c.connect();
-  demoFarm = (await c.query(`select id from farms where name = 'Alder Row Worm Farm'`)).rows[0].id;
-  await c.end();
+  demoFarm = await demoFarmId();
 });
 afterAll(async () => {
   await browser?.close();

@@ -54,3 +54,15 @@ export function anonymous(jar = new Map<string, string>()): Session {
     },
   };
 }
+
+// The seeded demo farm's id in the app database (other tests give the demo people more farms).
+export async function demoFarmId(): Promise<string> {
+  const { default: pg } = await import("pg");
+  const c = new pg.Client({ connectionString: inject("appDbUrl") });
+  await c.connect();
+  try {
+    return (await c.query(`select id from farms where name = 'Alder Row Worm Farm' order by created_at limit 1`)).rows[0].id;
+  } finally {
+    await c.end();
+  }
+}

@@ -240,6 +240,10 @@ describe("every route handler checks the session and the role", () => {
           if (EXEMPT.has(rel)) continue;
           const src = fs.readFileSync(p, "utf8");
           for (const m of src.matchAll(/export const (GET|POST|PUT|PATCH|DELETE)\b/g)) found.push(`${m[1]} ${rel}`);
+          // Handlers made by a shared factory: export const { GET, POST } = ...
+          for (const m of src.matchAll(/export const \{([^}]+)\}/g)) {
+            for (const name of m[1]!.split(",").map((x) => x.trim())) if (/^(GET|POST|PUT|PATCH|DELETE)$/.test(name)) found.push(`${name} ${rel}`);
+          }
         }
       }
     };

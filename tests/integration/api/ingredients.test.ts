@@ -39,6 +39,12 @@ describe("the ingredient library", () => {
     const rows = await db.query(`select farm_id from ingredients where name = $1`, [name]);
     expect(rows.rows.map((r) => r.farm_id)).toEqual([farmId]);
     expect(rows.rows.map((r) => r.farm_id)).not.toContain(other.rows[0].id);
+    // Through the API: the same person's other farm does not list it.
+    const mine = await owner.fetch(`/api/farms`, { method: "POST", json: { name: "Zz second farm" } });
+    const second = ((await mine.json()) as { farm: { id: string } }).farm.id;
+    const listed = ((await (await owner.fetch(`/api/farms/${second}/ingredients`)).json()) as { ingredients: { name: string }[] }).ingredients;
+    expect(listed.length).toBeGreaterThan(0);
+    expect(listed.map((i) => i.name)).not.toContain(name);
   });
 
   it("moisture over 100 % is refused with the field named", async () => {

@@ -5,7 +5,7 @@ import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { startIngest, type Ingest } from "@/ingest/service";
 import { probeBaseName } from "@/lib/metrics";
-import { hashToken } from "@/db/seed";
+import { hashToken } from "@/lib/auth/tokens";
 import { signIn, type Session } from "../../helpers/app";
 
 let db: pg.Client;

@@ -4,7 +4,7 @@ import { sql } from "drizzle-orm";
 import { connectAsync, type IClientOptions, type MqttClient } from "mqtt";
 import { db, type Db } from "@/db";
 import { bins, farms, probes, zones } from "@/db/schema";
-import { hashToken } from "@/db/seed";
+import { hashToken } from "@/lib/auth/tokens";
 import { probeBaseName } from "@/lib/metrics";
 
 export { freePort } from "../../setup/global";

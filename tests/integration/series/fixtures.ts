@@ -4,7 +4,7 @@
 import { randomBytes } from "node:crypto";
 import pg from "pg";
 import { hashPassword } from "@/lib/auth/password";
-import { hashToken } from "@/db/seed";
+import { hashToken } from "@/lib/auth/tokens";
 
 export type TestProbe = { id: number; code: string; token: string; zoneId: string; zone: string };
 export type TestFarm = { farmId: string; binId: string; zones: Record<string, string>; probes: TestProbe[] };

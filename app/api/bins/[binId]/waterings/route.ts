@@ -1,26 +1,6 @@
-import { z } from "zod";
-import { listWaterings, insertWatering } from "@/db/queries/logbook";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { readJson } from "@/lib/errors";
+import { insertWatering, listWaterings } from "@/db/queries/logbook";
+import { logEntryRoutes } from "@/lib/api/log-entry-routes";
 import { wateringCreate } from "@/lib/validation/log-entries";
 
-type Ctx = { params: Promise<{ binId: string }> };
-const listQuery = z.object({ limit: z.coerce.number().int().min(1).max(500).default(50) });
-
-// GET /api/bins/[binId]/waterings — newest first
-export const GET = route(async (req, { params }: Ctx) => {
-  const { binId } = await params;
-  await requireMember({ binId }, "read");
-  const q = listQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
-  return Response.json({ waterings: await listWaterings(binId, q) });
-});
-
-// POST /api/bins/[binId]/waterings — log one
-export const POST = route(async (req, { params }: Ctx) => {
-  const { binId } = await params;
-  const who = await requireMember({ binId }, "log");
-  const { zoneId, at, notes, ...rest } = wateringCreate.parse(await readJson(req));
-  const entry = await insertWatering({ ...rest, farmId: who.farmId, binId, zoneId: zoneId ?? null, at: at ?? new Date(), byUserId: who.userId, notes: notes ?? null });
-  return Response.json({ watering: entry }, { status: 201 });
-});
+// GET /api/bins/[binId]/waterings — newest first; POST — log one (keepers and owners)
+export const { GET, POST } = logEntryRoutes({ schema: wateringCreate, insert: insertWatering, list: listWaterings, many: "waterings", one: "watering" });
