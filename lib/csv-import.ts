@@ -5,6 +5,9 @@ import { z } from "zod";
 import type { Metric } from "@/db/schema";
 import { METRICS, type MetricSpec } from "./metrics";
 import { fahrenheitToCelsius } from "./units";
+import { zonedToUtc } from "./clock";
+
+export { zonedToUtc };
 
 export const MAX_IMPORT_BYTES = 10 * 1024 * 1024;
 export const MAX_IMPORT_ROWS = 200_000;
@@ -191,33 +194,6 @@ export function guessMapping(header: string[]): Partial<Record<keyof typeof HEAD
     if (hit) out[key] = hit;
   }
   return out;
-}
-
-/** Offset of a time zone from UTC at an instant, in ms (Intl has no direct call for it). */
-function zoneOffset(utcMs: number, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat("en-US", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-    second: "2-digit",
-  }).formatToParts(new Date(utcMs));
-  const get = (type: string) => Number(parts.find((p) => p.type === type)?.value);
-  const asUtc = Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second"));
-  return asUtc - Math.floor(utcMs / 1000) * 1000;
-}
-
-/** A wall-clock time in a zone to UTC ms; in a DST overlap the earlier instant wins, in a gap the
- * offset from before the change is used (the time then lands after the gap). */
-export function zonedToUtc(wall: number, timeZone: string): number {
-  const day = 86_400_000;
-  const before = zoneOffset(wall - day, timeZone);
-  const after = zoneOffset(wall + day, timeZone);
-  const valid = [before, after].map((o) => wall - o).filter((t) => wall - zoneOffset(t, timeZone) === t);
-  return valid.length > 0 ? Math.min(...valid) : wall - before;
 }
 
 const ISO_ZONED = /^\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}(:\d{2}(\.\d{1,6})?)?(Z|[+-]\d{2}:?\d{2})$/i;

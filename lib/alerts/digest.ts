@@ -6,26 +6,10 @@ import type { Farm } from "@/db/schema";
 import { escapeHtml } from "@/lib/app-mailer";
 import { env } from "@/lib/env";
 import { formatNumber, formatMass, temperatureForDisplay, UNIT_LABELS, type UnitSystem } from "@/lib/units";
-import { localClock } from "@/lib/clock";
+import { localClock, zonedToUtc } from "@/lib/clock";
 import { KIND_WORDS, LEVEL_WORDS } from "./words";
 
 export { localClock };
-
-
-// A zone's offset from UTC at an instant, in ms: Intl has no direct call for it.
-function offsetAt(utcMs: number, timeZone: string): number {
-  const parts = new Intl.DateTimeFormat("en-US", { timeZone, hourCycle: "h23", year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", second: "2-digit" }).formatToParts(new Date(utcMs));
-  const get = (t: string) => Number(parts.find((p) => p.type === t)?.value);
-  return Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second")) - Math.floor(utcMs / 1000) * 1000;
-}
-
-// Local midnight as an instant. Offsets from a day either side cover a change that night; where
-// midnight itself is skipped (a few zones change at 00:00) the day starts when the clock resumes.
-function midnightUtc(wall: number, timeZone: string): number {
-  const candidates = [offsetAt(wall - 86_400_000, timeZone), offsetAt(wall + 86_400_000, timeZone)].map((o) => wall - o);
-  const exact = candidates.filter((t) => t + offsetAt(t, timeZone) === wall);
-  return exact.length ? Math.min(...exact) : Math.max(...candidates);
-}
 
 const wallMidnight = (date: string) => {
   const [y, m, d] = date.split("-").map(Number) as [number, number, number];
@@ -38,7 +22,7 @@ export function addDays(date: string, days: number): string {
 
 /** [start, end) of a farm-local day as instants; 23 or 25 hours long on a daylight-saving change. */
 export function dayBounds(date: string, timeZone: string): { from: Date; to: Date } {
-  return { from: new Date(midnightUtc(wallMidnight(date), timeZone)), to: new Date(midnightUtc(wallMidnight(addDays(date, 1)), timeZone)) };
+  return { from: new Date(zonedToUtc(wallMidnight(date), timeZone)), to: new Date(zonedToUtc(wallMidnight(addDays(date, 1)), timeZone)) };
 }
 
 function range(min: number, max: number, unit: string, digits: number) {
