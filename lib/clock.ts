@@ -1,20 +1,5 @@
-/** The farm-local calendar date ("YYYY-MM-DD") and minutes past midnight at an instant. */
-export function localClock(now: Date, timeZone: string): { date: string; minutes: number } {
-  const parts = new Intl.DateTimeFormat("en-CA", {
-    timeZone,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-  }).formatToParts(now);
-  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? "00";
-  return { date: `${get("year")}-${get("month")}-${get("day")}`, minutes: Number(get("hour")) * 60 + Number(get("minute")) };
-}
-
-/** Offset of a time zone from UTC at an instant, in ms (Intl has no direct call for it). */
-function zoneOffset(utcMs: number, timeZone: string): number {
+// The wall clock of a time zone at an instant, as numbers (Intl has no direct call for it).
+function wallParts(utcMs: number, timeZone: string) {
   const parts = new Intl.DateTimeFormat("en-US", {
     timeZone,
     hourCycle: "h23",
@@ -25,9 +10,21 @@ function zoneOffset(utcMs: number, timeZone: string): number {
     minute: "2-digit",
     second: "2-digit",
   }).formatToParts(new Date(utcMs));
-  const get = (type: string) => Number(parts.find((p) => p.type === type)?.value);
-  const asUtc = Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"), get("second"));
-  return asUtc - Math.floor(utcMs / 1000) * 1000;
+  const get = (type: string) => Number(parts.find((p) => p.type === type)?.value ?? 0);
+  return { year: get("year"), month: get("month"), day: get("day"), hour: get("hour"), minute: get("minute"), second: get("second") };
+}
+
+/** The farm-local calendar date ("YYYY-MM-DD") and minutes past midnight at an instant. */
+export function localClock(now: Date, timeZone: string): { date: string; minutes: number } {
+  const w = wallParts(now.getTime(), timeZone);
+  const pad = (n: number) => String(n).padStart(2, "0");
+  return { date: `${w.year}-${pad(w.month)}-${pad(w.day)}`, minutes: w.hour * 60 + w.minute };
+}
+
+/** Offset of a time zone from UTC at an instant, in ms. */
+function zoneOffset(utcMs: number, timeZone: string): number {
+  const w = wallParts(utcMs, timeZone);
+  return Date.UTC(w.year, w.month - 1, w.day, w.hour, w.minute, w.second) - Math.floor(utcMs / 1000) * 1000;
 }
 
 /** A wall-clock time in a zone to UTC ms; in a DST overlap the earlier instant wins, in a gap the
