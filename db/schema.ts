@@ -71,6 +71,8 @@ export const users = pgTable(
     quietFrom: text("quiet_from"),
     quietTo: text("quiet_to"),
     timezone: text("timezone").notNull().default("UTC"),
+    // Raised by a password reset; a session token carrying an older version is refused.
+    sessionVersion: integer("session_version").notNull().default(0),
     createdAt: createdAt(),
   },
   // Sign-in looks users up by e-mail, case-insensitively.
@@ -238,6 +240,8 @@ export const rejectedMessages = pgTable(
     topic: text("topic"),
     receivedAt: ts("received_at").notNull().defaultNow(),
     reason: text("reason").notNull(),
+    // One row per refused message: how many of its records were refused (reason holds the first few).
+    records: integer("records").notNull().default(1),
     excerpt: text("excerpt"),
   },
   // An operator reads a probe's latest rejections first.
@@ -332,8 +336,58 @@ export const pushSubscriptions = pgTable(
     userAgent: text("user_agent"),
     createdAt: createdAt(),
   },
-  // A browser re-subscribing with the same endpoint updates its row; sending lists a user's.
-  (t) => [uniqueIndex("push_endpoint_uq").on(t.endpoint), index("push_user_idx").on(t.userId)],
+  // A browser re-subscribing with the same endpoint updates that person's row, never another's;
+  // sending lists a user's.
+  (t) => [uniqueIndex("push_user_endpoint_uq").on(t.userId, t.endpoint), index("push_user_idx").on(t.userId)],
+);
+
+// The outbox of alert deliveries: the rule runner only inserts rows; workers on any ingest node
+// claim due rows with FOR UPDATE SKIP LOCKED, send with a timeout, and retry with backoff, so one
+// slow push service never holds up another farm's alert.
+export const deliveries = pgTable(
+  "deliveries",
+  {
+    id: bigserial("id", { mode: "number" }).primaryKey(),
+    // Unique per send (alert, reason, round, person, channel, subscription): a repeat insert is a no-op.
+    dedupeKey: text("dedupe_key").notNull(),
+    farmId: uuid("farm_id").references(() => farms.id, { onDelete: "cascade" }),
+    alertId: uuid("alert_id").references(() => alerts.id, { onDelete: "cascade" }),
+    userId: uuid("user_id").references(() => users.id, { onDelete: "cascade" }),
+    subscriptionId: uuid("subscription_id").references(() => pushSubscriptions.id, { onDelete: "cascade" }),
+    channel: text("channel").notNull(),
+    reason: text("reason").notNull(),
+    payload: jsonb("payload").$type<Record<string, unknown>>().notNull().default({}),
+    // pending → sending → sent | failed | gone | dropped
+    state: text("state").notNull().default("pending"),
+    attempts: integer("attempts").notNull().default(0),
+    nextAttemptAt: ts("next_attempt_at").notNull().defaultNow(),
+    lockedUntil: ts("locked_until"),
+    lastStatus: integer("last_status"),
+    // In our own words; a remote service's answer body is never stored.
+    lastReason: text("last_reason"),
+    sentAt: ts("sent_at"),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    uniqueIndex("deliveries_dedupe_uq").on(t.dedupeKey),
+    // Workers claim the oldest due rows that are still to be sent.
+    index("deliveries_due_idx").on(t.nextAttemptAt).where(sql`state in ('pending', 'sending')`),
+    index("deliveries_alert_idx").on(t.alertId),
+  ],
+);
+
+// Failed sign-ins, counted per account and per client address over a sliding window; kept in the
+// database so the limit holds across web processes.
+export const signInFailures = pgTable(
+  "sign_in_failures",
+  {
+    id: bigserial("id", { mode: "number" }).primaryKey(),
+    // "account:<lower e-mail>" or "address:<client address>"
+    key: text("key").notNull(),
+    at: ts("at").notNull().defaultNow(),
+  },
+  // The limit counts one key's recent failures.
+  (t) => [index("sign_in_failures_key_at_idx").on(t.key, t.at)],
 );
 
 export const ingredients = pgTable(
@@ -464,6 +518,7 @@ export const imports = pgTable(
 );
 
 export type Farm = typeof farms.$inferSelect;
+export type Delivery = typeof deliveries.$inferSelect;
 export type User = typeof users.$inferSelect;
 export type Membership = typeof memberships.$inferSelect;
 export type Invitation = typeof invitations.$inferSelect;

@@ -6,13 +6,13 @@ export async function savePushSubscription(
   userId: string,
   sub: { endpoint: string; p256dh: string; auth: string; userAgent?: string | null },
 ) {
-  // A browser re-subscribing keeps one row per endpoint, now owned by whoever is signed in.
+  // A browser re-subscribing keeps one row per person and endpoint; another person's row is never touched.
   const [row] = await db()
     .insert(pushSubscriptions)
     .values({ userId, ...sub })
     .onConflictDoUpdate({
-      target: pushSubscriptions.endpoint,
-      set: { userId, p256dh: sub.p256dh, auth: sub.auth, userAgent: sub.userAgent ?? null },
+      target: [pushSubscriptions.userId, pushSubscriptions.endpoint],
+      set: { p256dh: sub.p256dh, auth: sub.auth, userAgent: sub.userAgent ?? null },
     })
     .returning();
   return row!;
