@@ -137,6 +137,17 @@ const csvImport = () => ({ fileName: "scratch.csv", csv: `time,probe,metric,valu
 // credentials (tests/integration/ingest-http/).
 const EXEMPT = new Set(["auth/[...nextauth]", "ingest"]);
 
+// Every way a route file can export a handler: `export const GET = …`, `export async function GET`,
+// `export function GET`, a factory's `export const { GET, POST } = …`, and `export { GET } from …`.
+const METHOD = /^(GET|POST|PUT|PATCH|DELETE|HEAD|OPTIONS)$/;
+export function exportedMethods(src: string): string[] {
+  const names: string[] = [];
+  for (const m of src.matchAll(/export\s+(?:const|let|var|(?:async\s+)?function\*?)\s+([A-Z]+)\b/g)) names.push(m[1]!);
+  for (const m of src.matchAll(/export\s+(?:const|let|var)\s*\{([^}]+)\}/g)) names.push(...m[1]!.split(",").map((x) => x.split(":").pop()!.trim()));
+  for (const m of src.matchAll(/export\s*\{([^}]+)\}/g)) names.push(...m[1]!.split(",").map((x) => x.split(/\s+as\s+/).pop()!.trim()));
+  return [...new Set(names.filter((n) => METHOD.test(n)))];
+}
+
 const sessions = {} as Record<Role, Session>;
 let db: pg.Client;
 let demoFarm: string;
@@ -228,6 +239,18 @@ describe("every route handler checks the session and the role", () => {
     expect(r.rows[0].name).not.toBe("renamed by keeper");
   });
 
+  it("the route finder sees every way of exporting a handler", () => {
+    const src = [
+      "export const GET = route(async () => Response.json({}));",
+      "export async function POST(req: Request) { return new Response(); }",
+      "export function PUT() { return new Response(); }",
+      "export const { PATCH, DELETE: remove } = makeRoutes();",
+      'export { HEAD } from "./other";',
+      "export async function getThing() {}",
+    ].join("\n");
+    expect(exportedMethods(src).sort()).toEqual(["GET", "HEAD", "PATCH", "POST", "PUT"]);
+  });
+
   it("the table covers every route file and method under app/api", () => {
     const apiDir = path.resolve(import.meta.dirname, "../../../app/api");
     const found: string[] = [];
@@ -238,12 +261,7 @@ describe("every route handler checks the session and the role", () => {
         else if (e.name === "route.ts") {
           const rel = path.relative(apiDir, dir);
           if (EXEMPT.has(rel)) continue;
-          const src = fs.readFileSync(p, "utf8");
-          for (const m of src.matchAll(/export const (GET|POST|PUT|PATCH|DELETE)\b/g)) found.push(`${m[1]} ${rel}`);
-          // Handlers made by a shared factory: export const { GET, POST } = ...
-          for (const m of src.matchAll(/export const \{([^}]+)\}/g)) {
-            for (const name of m[1]!.split(",").map((x) => x.trim())) if (/^(GET|POST|PUT|PATCH|DELETE)$/.test(name)) found.push(`${name} ${rel}`);
-          }
+          for (const method of exportedMethods(fs.readFileSync(p, "utf8"))) found.push(`${method} ${rel}`);
         }
       }
     };
