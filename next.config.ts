@@ -10,6 +10,9 @@ const config: NextConfig = {
   typescript: { ignoreBuildErrors: process.env.WORMWARD_TYPECHECKED === "1" },
   // The ingest service and the tests import db/ and lib/ directly; the app bundles the same code.
   serverExternalPackages: ["pg", "aedes", "web-push", "nodemailer", "bcryptjs"],
+  // proxy.ts runs on pages, so Next copies each POST body to a page (a server action) into memory
+  // for it; hold at most what a server action accepts anyway (serverActions.bodySizeLimit, 1 MB).
+  experimental: { proxyClientMaxBodySize: "1mb" },
   // Pages and files get their security headers from proxy.ts (with a nonce); API routes, which the
   // proxy skips, get theirs here: JSON answers and next-auth's own pages. The last match wins.
   headers: async () => [
