@@ -65,8 +65,9 @@ async function readText(req: Request, max: number): Promise<string> {
   return body.bytes.toString("utf8");
 }
 
-// A JSON body must say so (RFC 8259 §11): a form or text/plain post, which a page on another site
-// can send without a CORS preflight, is refused before it is read.
+// A JSON body must say so (application/json, RFC 8259 §11): text/plain and form types, which a page
+// on another site may send without a CORS preflight (Fetch standard, CORS-safelisted request
+// header), are refused before the body is read.
 function requireJsonType(req: Request): void {
   const type = mediaType(req.headers.get("content-type"));
   if (type !== JSON_TYPE) {
