@@ -1,5 +1,6 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
+import { connection } from "next/server";
 import "./globals.css";
 
 // Atkinson Hyperlegible (SIL OFL 1.1, shipped in app/fonts): clear digits for a glance in a dim shed.
@@ -21,7 +22,10 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { themeColor: "#3f2e22", width: "device-width", initialScale: 1 };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+// Every page renders per request: Next puts the request's CSP nonce (proxy.ts) on its scripts only
+// then; a page built ahead would carry scripts the policy refuses.
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  await connection();
   return (
     <html lang="en" className={atkinson.variable}>
       <body className="min-h-dvh font-sans antialiased">{children}</body>

@@ -1,4 +1,5 @@
 import { ZodError } from "zod";
+import { BODY_CAPS, capWords, mediaType, readCappedBody } from "./api/body";
 
 export type ErrorCode =
   | "unauthenticated"
@@ -55,21 +56,42 @@ export function errorResponse(err: unknown): Response {
   return Response.json(body, { status });
 }
 
-export async function readJson(req: Request): Promise<unknown> {
-  try {
-    return await req.json();
-  } catch {
-    throw new AppError("bad_request", "The request body is not valid JSON.");
+const JSON_TYPE = "application/json";
+
+// Reads the body through the one capped reader; a larger body is a 413 before any parsing.
+async function readText(req: Request, max: number): Promise<string> {
+  const body = await readCappedBody(req, max);
+  if (!body.ok) throw new AppError("too_large", `The body is ${body.size}; at most ${capWords(max)} are accepted.`);
+  return body.bytes.toString("utf8");
+}
+
+// A JSON body must say so (application/json, RFC 8259 §11): text/plain and form types, which a page
+// on another site may send without a CORS preflight (Fetch standard, CORS-safelisted request
+// header), are refused before the body is read.
+function requireJsonType(req: Request): void {
+  const type = mediaType(req.headers.get("content-type"));
+  if (type !== JSON_TYPE) {
+    throw new AppError("unsupported_media", `Send JSON with Content-Type: ${JSON_TYPE}${type ? `, not ${type}` : ""}.`);
   }
 }
 
-// For bodies that may be empty (a bare POST): empty → undefined, bad JSON → 400.
-export async function readOptionalJson(req: Request): Promise<unknown> {
-  const text = await req.text();
-  if (!text.trim()) return undefined;
+function parseJson(text: string): unknown {
   try {
     return JSON.parse(text);
   } catch {
     throw new AppError("bad_request", "The request body is not valid JSON.");
   }
+}
+
+export async function readJson(req: Request, max: number = BODY_CAPS.json): Promise<unknown> {
+  requireJsonType(req);
+  return parseJson(await readText(req, max));
+}
+
+// For bodies that may be empty (a bare POST): empty → undefined, bad JSON → 400.
+export async function readOptionalJson(req: Request): Promise<unknown> {
+  const text = await readText(req, BODY_CAPS.json);
+  if (!text.trim()) return undefined;
+  requireJsonType(req);
+  return parseJson(text);
 }

@@ -3,6 +3,7 @@
 // body is refused without being held). Storing goes through the same validation as MQTT.
 import { storeMessage } from "@/db/queries/telemetry";
 import type { Probe } from "@/db/schema";
+import { capWords, mediaType, readCappedBody } from "./api/body";
 import { AppError } from "./errors";
 import { excerptOf, rejectionText, validateSenmlPayload, type Rejection, type ValidatedPayload } from "./telemetry";
 
@@ -23,9 +24,6 @@ export function parseProbeBearer(header: string | null): { code: string; token: 
   return { code: cred.slice(0, at), token: cred.slice(at + 1) };
 }
 
-/** The media type without parameters, lower-cased (RFC 9110 §8.3.1: type and subtype are case-insensitive). */
-export const mediaType = (contentType: string | null) => (contentType ?? "").split(";")[0]!.trim().toLowerCase();
-
 export function requireSenmlJson(headers: Headers): void {
   const type = mediaType(headers.get("content-type"));
   if (type !== SENML_JSON) {
@@ -33,28 +31,6 @@ export function requireSenmlJson(headers: Headers): void {
   }
   const coding = (headers.get("content-encoding") ?? "identity").trim().toLowerCase();
   if (coding !== "identity") throw new AppError("unsupported_media", `Content-Encoding ${coding} is not accepted; send the body as it is.`);
-}
-
-/** Reads at most `max` bytes; a declared or actual larger body is refused before any parsing. */
-export async function readCappedBody(req: Request, max: number): Promise<Buffer> {
-  const tooLarge = (size: string) => new AppError("too_large", `The body is ${size}; at most ${max} bytes (16 KiB) are accepted.`);
-  const declared = req.headers.get("content-length");
-  if (declared !== null && /^\d+$/.test(declared) && Number(declared) > max) throw tooLarge(`${declared} bytes`);
-  if (!req.body) return Buffer.alloc(0);
-  const reader = req.body.getReader();
-  const chunks: Uint8Array[] = [];
-  let size = 0;
-  for (;;) {
-    const { done, value } = await reader.read();
-    if (done) break;
-    size += value.byteLength;
-    if (size > max) {
-      await reader.cancel().catch(() => {});
-      throw tooLarge(`more than ${max} bytes`);
-    }
-    chunks.push(value);
-  }
-  return Buffer.concat(chunks);
 }
 
 /** A message refused whole (not JSON, not a SenML pack) rather than record by record. */
@@ -85,8 +61,17 @@ export async function acceptHttpTelemetry(probe: Probe, body: Buffer, now = new 
   return { stored: inserted, duplicates: v.readings.length - inserted, rejected: v.rejections.length, rejections: v.rejections };
 }
 
+/** Reads a probe's message with the MQTT cap; a larger one is recorded as a rejection and refused with 413. */
+export async function readTelemetryBody(req: Request, probe: Probe, max: number): Promise<Buffer> {
+  const body = await readCappedBody(req, max);
+  if (body.ok) return body.bytes;
+  const message = `The body is ${body.size}; at most ${capWords(max)} are accepted.`;
+  await recordTooLarge(probe, message);
+  throw new AppError("too_large", message);
+}
+
 /** Records a body refused for its size before it was read (the MQTT ingest records the same). */
-export async function recordTooLarge(probe: Probe, reason: string): Promise<void> {
+async function recordTooLarge(probe: Probe, reason: string): Promise<void> {
   await storeMessage({
     readings: [],
     rejections: [{ farmId: probe.farmId, probeId: probe.id, source: "http", topic: null, excerpt: null, reason: rejectionText({ code: "too-large", reason }) }],

@@ -286,7 +286,8 @@ export function ZoneChart(p: Props) {
       </p>
       <p className="mt-1 flex items-center gap-3 text-xs text-soil-700">
         <span className="inline-flex items-center gap-1">
-          <span aria-hidden="true" className="inline-block h-3 w-4 rounded-sm" style={{ background: BAND_FILL, outline: "1px solid rgba(79,125,58,0.5)" }} />
+          {/* Classes, not style=: the content security policy refuses style attributes in HTML. */}
+          <span aria-hidden="true" className="inline-block h-3 w-4 rounded-sm bg-[rgba(79,125,58,0.18)] outline outline-1 outline-[rgba(79,125,58,0.5)]" />
           {p.band.words}
         </span>
         <span className="inline-flex items-center gap-1">

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { importMapping, MAX_IMPORT_BYTES, type ImportMapping } from "@/lib/csv-import";
+import { mediaType, readCappedBody } from "@/lib/api/body";
 import { AppError, readJson } from "@/lib/errors";
 
 export type ImportUpload = { fileName: string; bytes: Uint8Array; mapping: ImportMapping };
@@ -13,14 +14,14 @@ const jsonUpload = z.object({
   mapping: z.record(z.string(), z.unknown()),
 });
 
+// The form's own fields add a few hundred bytes to the file; JSON escaping may add more.
+const MAX_UPLOAD_BODY = MAX_IMPORT_BYTES + 64 * 1024;
+
 /** An upload from the form (multipart: file + one field per mapping choice) or from a script (JSON). */
 export async function readImportUpload(req: Request): Promise<ImportUpload> {
-  const declared = Number(req.headers.get("content-length") ?? 0);
-  // The form's own fields add a few hundred bytes to the file.
-  if (declared > MAX_IMPORT_BYTES + 64 * 1024) throw tooLarge();
-  const type = (req.headers.get("content-type") ?? "").split(";")[0]!.trim().toLowerCase();
+  const type = mediaType(req.headers.get("content-type"));
   if (type === "application/json") {
-    const body = jsonUpload.parse(await readJson(req));
+    const body = jsonUpload.parse(await readJson(req, MAX_UPLOAD_BODY));
     const bytes = new TextEncoder().encode(body.csv);
     if (bytes.byteLength > MAX_IMPORT_BYTES) throw tooLarge();
     return { fileName: body.fileName, bytes, mapping: importMapping.parse(body.mapping) };
@@ -28,9 +29,13 @@ export async function readImportUpload(req: Request): Promise<ImportUpload> {
   if (type !== "multipart/form-data") {
     throw new AppError("unsupported_media", "Upload the file as multipart/form-data (a form) or JSON { fileName, csv, mapping }.");
   }
+  // Read with the cap first, then parse the form from what was read: Request.formData() would
+  // read the whole body, however long, before we could look at the file's size.
+  const body = await readCappedBody(req, MAX_UPLOAD_BODY);
+  if (!body.ok) throw tooLarge();
   let form: FormData;
   try {
-    form = await req.formData();
+    form = await new Response(new Uint8Array(body.bytes), { headers: { "content-type": req.headers.get("content-type")! } }).formData();
   } catch {
     throw new AppError("bad_request", "The form could not be read.");
   }

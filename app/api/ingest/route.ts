@@ -1,7 +1,7 @@
 import { verifyProbeToken } from "@/db/queries/probes";
 import { route } from "@/lib/api/route";
 import { AppError, errorResponse } from "@/lib/errors";
-import { acceptHttpTelemetry, parseProbeBearer, readCappedBody, recordTooLarge, requireSenmlJson } from "@/lib/http-ingest";
+import { acceptHttpTelemetry, parseProbeBearer, readTelemetryBody, requireSenmlJson } from "@/lib/http-ingest";
 import { DEFAULT_LIMITS } from "@/lib/telemetry";
 
 // RFC 6750 §3: a 401 names the scheme, and error="invalid_token" when credentials were given.
@@ -18,12 +18,6 @@ export const POST = route(async (req) => {
   const probe = cred ? await verifyProbeToken(cred.code, cred.token) : null;
   if (!probe) return unauthorized(req.headers.has("authorization"));
   requireSenmlJson(req.headers);
-  let body: Buffer;
-  try {
-    body = await readCappedBody(req, DEFAULT_LIMITS.maxBytes);
-  } catch (err) {
-    if (err instanceof AppError && err.code === "too_large") await recordTooLarge(probe, err.message);
-    throw err;
-  }
+  const body = await readTelemetryBody(req, probe, DEFAULT_LIMITS.maxBytes);
   return Response.json(await acceptHttpTelemetry(probe, body), { status: 202 });
 });
