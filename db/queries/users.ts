@@ -23,3 +23,9 @@ export async function listMyFarms(userId: string) {
     .where(eq(memberships.userId, userId))
     .orderBy(farms.name);
 }
+
+// Raised by a password reset; a session signed in under an older one is over.
+export async function getSessionVersion(id: string) {
+  const [u] = await db().select({ v: users.sessionVersion }).from(users).where(eq(users.id, id));
+  return u?.v ?? null;
+}
