@@ -18,5 +18,8 @@ export function safeNext(next: string | null | undefined, origin: string): strin
     return HOME;
   }
   if (url.origin !== ours.origin || (url.protocol !== "http:" && url.protocol !== "https:")) return HOME;
+  // "/./\evil.example" resolves to our origin with the path "//evil.example", which read again
+  // on its own is another site: a path must not start with two slashes.
+  if (url.pathname.startsWith("//")) return HOME;
   return `${url.pathname}${url.search}${url.hash}`;
 }
