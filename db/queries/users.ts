@@ -29,3 +29,9 @@ export async function getSessionVersion(id: string) {
   const [u] = await db().select({ v: users.sessionVersion }).from(users).where(eq(users.id, id));
   return u?.v ?? null;
 }
+
+// Null when the e-mail already has an account (unique on lower(email)).
+export async function insertUser(input: { email: string; name: string; passwordHash: string; timezone?: string }) {
+  const [u] = await db().insert(users).values(input).onConflictDoNothing().returning();
+  return u ?? null;
+}

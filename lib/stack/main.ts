@@ -115,7 +115,8 @@ async function start() {
     ? `${DEMO_PEOPLE.map((p) => `  ${p.role.padEnd(7)} ${p.email.padEnd(28)} password: ${DEMO_PASSWORD}`).join("\n")}
 ${seeded ? "  (demo farm seeded just now)" : "  (existing data kept; demo sign-ins work unless you changed them)"}`
     : `  No demo sign-in here: the demo people are seeded only on npm start's own database, or into
-  DATABASE_URL's with WORMWARD_DEMO=1. Sign in with an account this database already has.`;
+  DATABASE_URL's with WORMWARD_DEMO=1. To make the first owner (password on standard input):
+    DATABASE_URL=… npx tsx lib/stack/add-owner.ts <e-mail> "<your name>" "<farm name>"`;
   console.log(`
 Wormward is running.  Sign in at ${appUrl}/sign-in
 ${signIns}
