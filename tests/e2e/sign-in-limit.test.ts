@@ -34,7 +34,7 @@ describe("the sign-in form under the try limit", () => {
     await page.getByLabel("E-mail").fill(me.email);
     await page.getByLabel("Password").fill(me.password);
     await page.getByRole("button", { name: "Sign in" }).click();
-    await expect.poll(() => page.getByText(/^Too many tries\. Try again in 1[45] minutes\.$/).count()).toBe(1);
+    await expect.poll(() => page.getByText(/^Too many tries\. Try again in 1[45] minutes\.$/).count(), { timeout: 15_000 }).toBe(1);
     expect(new URL(page.url()).pathname).toBe("/sign-in");
     await page.screenshot({ path: screenshotPath("sign-in-too-many-tries") });
     await page.context().close();
