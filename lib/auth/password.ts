@@ -12,7 +12,6 @@ export async function hashPassword(plain: string) {
   return bcrypt.hash(plain, BCRYPT_COST);
 }
 
-export const verifyPassword = (plain: string, hash: string) => bcrypt.compare(plain, hash);
 
 // A hash of a random password nobody kept, at the same cost: an unknown e-mail is compared against
 // it so the answer takes as long as for a real account (OWASP Authentication Cheat Sheet,
