@@ -1,4 +1,4 @@
-import { eq, sql } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { farms, memberships, users } from "@/db/schema";
 
@@ -34,4 +34,12 @@ export async function getSessionVersion(id: string) {
 export async function insertUser(input: { email: string; name: string; passwordHash: string; timezone?: string }) {
   const [u] = await db().insert(users).values(input).onConflictDoNothing().returning();
   return u ?? null;
+}
+
+// Compare-and-set: a password reset that landed meanwhile is never overwritten by the old password.
+export async function replacePasswordHash(id: string, from: string, to: string) {
+  await db()
+    .update(users)
+    .set({ passwordHash: to })
+    .where(and(eq(users.id, id), eq(users.passwordHash, from)));
 }

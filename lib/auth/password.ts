@@ -12,10 +12,16 @@ export async function hashPassword(plain: string) {
   return bcrypt.hash(plain, BCRYPT_COST);
 }
 
+// Hashes stored at a lower cost (10, before this one) are redone at sign-in, the one moment the
+// password is known (OWASP Password Storage Cheat Sheet, "Upgrading the work factor"); until then
+// a wrong password for such an account answers faster than the dummy compare. Null: no need.
+export async function strongerHash(plain: string, hash: string): Promise<string | null> {
+  return bcrypt.getRounds(hash) < BCRYPT_COST ? bcrypt.hash(plain, BCRYPT_COST) : null;
+}
 
 // A hash of a random password nobody kept, at the same cost: an unknown e-mail is compared against
 // it so the answer takes as long as for a real account (OWASP Authentication Cheat Sheet,
-// "Authentication Responses"). Its result is never used.
+// "Authentication Responses"). Its result never counts.
 export const DUMMY_HASH = "$2b$12$awcPd5E2amYVsxzC6F4Ufen2hFT2JQPFh3Q2F1mvHKkGxPSD4Lnya";
 
 export async function checkPassword(plain: string, hash: string | null): Promise<boolean> {

@@ -2,8 +2,8 @@
 import createDebug from "debug";
 import { z } from "zod";
 import { forgetSignInTry, pruneSignInFailures, takeSignInTry } from "@/db/queries/sign-in-failures";
-import { getUserByEmail } from "@/db/queries/users";
-import { checkPassword } from "./password";
+import { getUserByEmail, replacePasswordHash } from "@/db/queries/users";
+import { checkPassword, strongerHash } from "./password";
 
 const log = createDebug("wormward:sign-in");
 
@@ -48,6 +48,8 @@ export async function signInWithPassword(raw: unknown, address: string | null, n
   const matches = await checkPassword(password, user?.passwordHash ?? null);
   if (matches && user) {
     await forgetSignInTry(taken.ids, accountKey);
+    const upgraded = await strongerHash(password, user.passwordHash);
+    if (upgraded) await replacePasswordHash(user.id, user.passwordHash, upgraded);
     return { id: user.id, email: user.email, name: user.name, sessionVersion: user.sessionVersion };
   }
   await pruneSignInFailures(new Date(now.getTime() - SIGN_IN_WINDOW_MS));

@@ -1,5 +1,6 @@
 // Setting a password and what a reset does to the sessions signed in before it, against the
 // running app, the fake mailbox and the app's database.
+import bcrypt from "bcryptjs";
 import type pg from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signIn, trySignIn } from "../../helpers/app";
@@ -67,5 +68,16 @@ describe("passwords", () => {
     const fresh = await signIn(p.email, "a-brand-new-passphrase");
     expect((await fresh.fetch("/api/me")).status).toBe(200);
     expect((await fresh.fetch("/me")).status).toBe(200);
+  });
+
+  it("a password stored at the old cost is stored again at cost 12 when its person signs in", async () => {
+    const p = await makePerson(c, "Old Hash Sorrel");
+    people.push(p);
+    await c.query(`update users set password_hash = $2 where id = $1`, [p.id, await bcrypt.hash(p.password, 10)]);
+    await signIn(p.email, p.password);
+    const stored = (await c.query(`select password_hash from users where id = $1`, [p.id])).rows[0].password_hash as string;
+    expect(bcrypt.getRounds(stored)).toBe(12);
+    expect(await bcrypt.compare(p.password, stored)).toBe(true);
+    await expect(signIn(p.email, p.password)).resolves.toBeDefined();
   });
 });
