@@ -15,6 +15,9 @@ const envSchema = z.object({
   SMTP_PORT: z.coerce.number().int().optional(),
   MAIL_FROM: z.string().default("Wormward <alerts@wormward.invalid>"),
   APP_URL: z.string().url().default("http://127.0.0.1:3000"),
+  // How many proxies in front of the app append to X-Forwarded-For (HAProxy `option forwardfor`).
+  // 0: the app faces clients itself, and the header is whatever a client wrote (lib/auth/client-address).
+  TRUSTED_PROXY_HOPS: z.coerce.number().int().min(0).max(5).default(0),
 });
 
 export type Env = z.infer<typeof envSchema>;

@@ -14,7 +14,7 @@ export function ResetForm({ token, email, action }: { token: string; email: stri
       <input type="email" name="username" autoComplete="username" value={email} readOnly hidden />
       <label className="block">
         <span className="mb-1 block font-bold">New password</span>
-        <span className="block text-sm text-soil-700">At least 10 characters; a few words make a good one.</span>
+        <span className="block text-sm text-soil-700">10 to 72 characters; a few words make a good one.</span>
         <input name="password" type="password" autoComplete="new-password" required minLength={10} aria-invalid={!!err}
           className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg" />
         {err && <span className="text-sm text-clay-700">{err}</span>}

@@ -19,7 +19,8 @@ export function SignInForm({ next }: { next: string }) {
     });
     setBusy(false);
     if (res?.ok && !res.error) window.location.assign(next);
-    else setError("That e-mail and password do not match an account.");
+    // next-auth's own code for a wrong e-mail or password; any other text is ours (the try limit).
+    else setError(!res?.error || res.error === "CredentialsSignin" ? "That e-mail and password do not match an account." : res.error);
   }
 
   return (

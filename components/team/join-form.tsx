@@ -25,7 +25,7 @@ export function JoinForm({ token, email, action }: { token: string; email: strin
       </label>
       <label className="block">
         <span className="mb-1 block font-bold">Password</span>
-        <span className="block text-sm text-soil-700">At least 10 characters; a few words make a good one.</span>
+        <span className="block text-sm text-soil-700">10 to 72 characters; a few words make a good one.</span>
         <input name="password" type="password" autoComplete="new-password" required minLength={10} aria-invalid={!!err("password")}
           className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg" />
         {err("password") && <span className="text-sm text-clay-700">{err("password")}</span>}

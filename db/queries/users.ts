@@ -1,4 +1,4 @@
-import { eq, sql } from "drizzle-orm";
+import { and, eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { farms, memberships, users } from "@/db/schema";
 
@@ -22,4 +22,24 @@ export async function listMyFarms(userId: string) {
     .innerJoin(farms, eq(farms.id, memberships.farmId))
     .where(eq(memberships.userId, userId))
     .orderBy(farms.name);
+}
+
+// Raised by a password reset; a session signed in under an older one is over.
+export async function getSessionVersion(id: string) {
+  const [u] = await db().select({ v: users.sessionVersion }).from(users).where(eq(users.id, id));
+  return u?.v ?? null;
+}
+
+// Null when the e-mail already has an account (unique on lower(email)).
+export async function insertUser(input: { email: string; name: string; passwordHash: string; timezone?: string }) {
+  const [u] = await db().insert(users).values(input).onConflictDoNothing().returning();
+  return u ?? null;
+}
+
+// Compare-and-set: a password reset that landed meanwhile is never overwritten by the old password.
+export async function replacePasswordHash(id: string, from: string, to: string) {
+  await db()
+    .update(users)
+    .set({ passwordHash: to })
+    .where(and(eq(users.id, id), eq(users.passwordHash, from)));
 }

@@ -1,12 +1,14 @@
 // next-auth configuration. Deliberately in lib/ beside the authorization helper it feeds, though
 // it imports next-auth: route handlers, server actions and proxy.ts share this one definition.
+import createDebug from "debug";
 import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
-import { z } from "zod";
-import { getUserByEmail } from "@/db/queries/users";
-import { verifyPassword } from "./password";
+import { env } from "@/lib/env";
+import { clientAddress } from "./client-address";
+import { tokenIsCurrent } from "./session-version";
+import { SignInRefused, signInWithPassword, type SignedInUser } from "./sign-in";
 
-const credentials = z.object({ email: z.string().trim().email(), password: z.string().min(1).max(200) });
+const log = createDebug("wormward:sign-in");
 
 export const authOptions: NextAuthOptions = {
   session: { strategy: "jwt", maxAge: 30 * 24 * 3600 },
@@ -15,22 +17,32 @@ export const authOptions: NextAuthOptions = {
     CredentialsProvider({
       name: "E-mail and password",
       credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
-      async authorize(raw) {
-        const parsed = credentials.safeParse(raw);
-        if (!parsed.success) return null;
-        const user = await getUserByEmail(parsed.data.email);
-        if (!user || !(await verifyPassword(parsed.data.password, user.passwordHash))) return null;
-        return { id: user.id, email: user.email, name: user.name };
+      async authorize(raw, req) {
+        const forwarded = req.headers?.["x-forwarded-for"] as string | undefined;
+        try {
+          return await signInWithPassword(raw, clientAddress(forwarded, env().TRUSTED_PROXY_HOPS));
+        } catch (e) {
+          if (e instanceof SignInRefused) throw e;
+          // next-auth would show the message of any error to the person: never an internal one.
+          log("sign-in failed on our side: %s", (e as Error).message);
+          throw new Error("Signing in does not work right now. Try again in a minute.");
+        }
       },
     }),
   ],
   callbacks: {
-    jwt({ token, user }) {
-      if (user) token.uid = user.id;
-      return token;
+    async jwt({ token, user }) {
+      if (user) {
+        token.uid = user.id;
+        token.sv = (user as Partial<SignedInUser>).sessionVersion ?? 0;
+        return token;
+      }
+      // Signed in before a password reset: the token no longer names anyone.
+      return (await tokenIsCurrent(token)) ? token : {};
     },
     session({ session, token }) {
-      if (session.user && typeof token.uid === "string") (session.user as { id?: string }).id = token.uid;
+      if (typeof token.uid !== "string") return { expires: session.expires };
+      if (session.user) (session.user as { id?: string }).id = token.uid;
       return session;
     },
   },

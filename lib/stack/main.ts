@@ -57,14 +57,15 @@ async function start() {
   ensureOsPackages(["openssl"]);
   fs.mkdirSync(dataDir, { recursive: true });
   let databaseUrl = process.env.DATABASE_URL;
+  const ownCluster = !databaseUrl;
   if (!databaseUrl) {
     const c = await startCluster({ name: "pg" });
     databaseUrl = c.url;
     console.log(`PostgreSQL: 127.0.0.1:${c.port}${c.note ? ` (${c.note})` : ""}`);
   }
   await runMigrations(databaseUrl);
-  const { seedIfEmpty } = await import("./seed-demo");
-  const seeded = await seedIfEmpty(databaseUrl, path.join(dataDir, "demo-probes.json"));
+  const { seedForStart } = await import("./seed-demo");
+  const { demo, seeded } = await seedForStart(databaseUrl, path.join(dataDir, "demo-probes.json"), { ownCluster, flag: process.env.WORMWARD_DEMO });
 
   const secrets = loadSecrets(dataDir);
   const port = Number(process.env.PORT ?? 3000);
@@ -97,7 +98,8 @@ async function start() {
     service("ingest", bin("tsx"), ["ingest/main.ts"], env);
     lines.push(`MQTT broker (ingest): mqtt://127.0.0.1:${env.MQTT_PORT}`);
   }
-  if (exists("fakes/probe-fleet.ts")) {
+  // The simulated probes are the demo farm's; without the demo they have nothing to report to.
+  if (demo && exists("fakes/probe-fleet.ts")) {
     service("probe-fleet", bin("tsx"), ["fakes/probe-fleet.ts", "--probes", path.join(dataDir, "demo-probes.json"), "--control-port", "8099"], env);
     lines.push("Simulated probes: the demo farm's probes report every minute. Start a heavy feed in Long Bed North's fresh zone:");
     lines.push(`  curl -X POST http://127.0.0.1:8099/scenario -H 'content-type: application/json' -d '{"code":"alder-01","scenario":"heavy-feed"}'`);
@@ -109,10 +111,15 @@ async function start() {
   await waitForHttp(`${appUrl}/sign-in`);
 
   const { DEMO_PEOPLE, DEMO_PASSWORD } = await import("@/db/seed");
+  const signIns = demo
+    ? `${DEMO_PEOPLE.map((p) => `  ${p.role.padEnd(7)} ${p.email.padEnd(28)} password: ${DEMO_PASSWORD}`).join("\n")}
+${seeded ? "  (demo farm seeded just now)" : "  (existing data kept; demo sign-ins work unless you changed them)"}`
+    : `  No demo sign-in here: the demo people are seeded only on npm start's own database, or into
+  DATABASE_URL's with WORMWARD_DEMO=1. To make the first owner (password on standard input):
+    DATABASE_URL=… npx tsx lib/stack/add-owner.ts <e-mail> "<your name>" "<farm name>"`;
   console.log(`
 Wormward is running.  Sign in at ${appUrl}/sign-in
-${DEMO_PEOPLE.map((p) => `  ${p.role.padEnd(7)} ${p.email.padEnd(28)} password: ${DEMO_PASSWORD}`).join("\n")}
-${seeded ? "  (demo farm seeded just now)" : "  (existing data kept; demo sign-ins work unless you changed them)"}
+${signIns}
 ${lines.map((l) => `  ${l}`).join("\n")}
 Logs are in .data/*.log. Press Ctrl-C to stop.`);
   process.on("SIGINT", () => shutdown(true));

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { PASSWORD_MAX_BYTES, PASSWORD_TOO_LONG, passwordBytes } from "@/lib/auth/password-rules";
 import { ROLES } from "@/lib/team-words";
 
 const uuid = z.string().uuid();
@@ -6,8 +7,11 @@ export const isUuid = (id: string) => uuid.safeParse(id).success;
 
 const role = z.enum(ROLES, { message: "Choose owner, keeper or viewer." });
 export const email = z.string().trim().toLowerCase().max(254, "That e-mail is too long.").email("Give an e-mail address like name@example.org.");
-// Long passphrases are welcome; 200 matches the sign-in form's limit.
-export const newPassword = z.string().min(10, "Use at least 10 characters.").max(200, "Use at most 200 characters.");
+// Counted in UTF-8 bytes, as bcrypt counts them; the rest of a longer one would be ignored.
+export const newPassword = z
+  .string()
+  .min(10, "Use at least 10 characters.")
+  .refine((p) => passwordBytes(p) <= PASSWORD_MAX_BYTES, PASSWORD_TOO_LONG);
 export const personName = z.string().trim().min(1, "Tell the team your name.").max(80, "Keep the name under 80 characters.");
 
 export const invitationCreate = z.object({ email, role });

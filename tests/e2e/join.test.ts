@@ -76,7 +76,7 @@ describe("joining a farm from an invitation, on a phone", () => {
     await p.getByLabel("Password").fill("bedding-before-food");
     await p.getByRole("button", { name: "Join the team" }).click();
     await p.waitForURL(/\/sign-in\?notice=joined/, SLOW);
-    await expect.poll(() => p.getByText("Your account is ready and you are on the team.").count()).toBe(1);
+    await expect.poll(() => p.getByText("Your account is ready and you are on the team.").count(), SLOW).toBe(1);
     await p.screenshot({ path: screenshotPath("join-then-sign-in"), fullPage: true });
     await signInAs(p, invitee, "bedding-before-food");
     await p.waitForURL(`**/farms/${farm}`, SLOW);

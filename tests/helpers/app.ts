@@ -21,24 +21,51 @@ function mergeCookies(jar: Map<string, string>, res: Response) {
 
 const jarHeader = (jar: Map<string, string>) => [...jar].map(([k, v]) => `${k}=${v}`).join("; ");
 
+export type SignInAttempt = {
+  status: number;
+  /** next-auth's error for a refused sign-in ("CredentialsSignin", or our own words), else null. */
+  error: string | null;
+  /** The raw answer, to compare two refusals. */
+  body: string;
+  ms: number;
+  session: Session | null;
+};
+
 // Signs in through next-auth's own credentials flow (CSRF token, then the callback), like a browser.
-export async function signIn(email: string, password: string): Promise<Session> {
+// `from` names the client address as one trusted proxy would (the harness starts the app with
+// TRUSTED_PROXY_HOPS=1); without it the app sees 127.0.0.1.
+export async function trySignIn(email: string, password: string, from?: string): Promise<SignInAttempt> {
   const base = appUrl();
   const jar = new Map<string, string>();
-  const csrfRes = await fetch(`${base}/api/auth/csrf`);
+  const forwarded: Record<string, string> = from ? { "x-forwarded-for": from } : {};
+  const csrfRes = await fetch(`${base}/api/auth/csrf`, { headers: forwarded });
   mergeCookies(jar, csrfRes);
   const { csrfToken } = (await csrfRes.json()) as { csrfToken: string };
+  const started = performance.now();
   const res = await fetch(`${base}/api/auth/callback/credentials`, {
     method: "POST",
     redirect: "manual",
-    headers: { "content-type": "application/x-www-form-urlencoded", cookie: jarHeader(jar) },
+    headers: { "content-type": "application/x-www-form-urlencoded", cookie: jarHeader(jar), ...forwarded },
     body: new URLSearchParams({ csrfToken, email, password, json: "true" }),
   });
+  const body = await res.text();
+  const ms = performance.now() - started;
   mergeCookies(jar, res);
-  if (![...jar.keys()].some((k) => k.includes("session-token"))) {
-    throw new Error(`sign-in failed for ${email} (${res.status})`);
+  let error: string | null = null;
+  try {
+    const url = (JSON.parse(body) as { url?: string }).url;
+    error = url ? new URL(url).searchParams.get("error") : null;
+  } catch {
+    /* not JSON: no next-auth error */
   }
-  return anonymous(jar);
+  const signedIn = [...jar.keys()].some((k) => k.includes("session-token"));
+  return { status: res.status, error, body, ms, session: signedIn ? anonymous(jar) : null };
+}
+
+export async function signIn(email: string, password: string): Promise<Session> {
+  const a = await trySignIn(email, password);
+  if (!a.session) throw new Error(`sign-in failed for ${email} (${a.status}${a.error ? `: ${a.error}` : ""})`);
+  return a.session;
 }
 
 export function anonymous(jar = new Map<string, string>()): Session {

@@ -72,8 +72,9 @@ export default async function setup(project: TestProject) {
   const appDbUrl = adminUrl.replace(/\/postgres$/, `/${APP_DB}`);
 
   // Seed the app database in a child (the seed uses the app's module graph and its own pool).
-  const { seedIfEmpty } = await import("../../lib/stack/seed-demo");
-  await seedIfEmpty(appDbUrl, path.join(root, ".data", `${clusterName}-demo-probes.json`));
+  // The harness's own cluster asks for the demo farm and its people, as `npm start` does on its own.
+  const { seedForStart } = await import("../../lib/stack/seed-demo");
+  await seedForStart(appDbUrl, path.join(root, ".data", `${clusterName}-demo-probes.json`), { ownCluster: true, flag: "1" });
 
   const nextauthSecret = "test-secret-0123456789abcdef";
   // Local stand-ins for the hosted push service and SMTP, shared by the app and the tests.
@@ -101,6 +102,9 @@ export default async function setup(project: TestProject) {
         VAPID_PRIVATE_KEY: vapid.privateKey,
         PUSH_CA_FILE: caFile,
         SMTP_PORT: String(mailbox.smtpPort),
+        // As behind one proxy (HAProxy `option forwardfor`): a test names a client address in
+        // X-Forwarded-For; requests without one count as 127.0.0.1, filled in by `next start`.
+        TRUSTED_PROXY_HOPS: "1",
       },
       stdio: ["ignore", log, log],
     });

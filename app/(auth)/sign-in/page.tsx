@@ -1,5 +1,7 @@
 import type { Metadata } from "next";
 import { SignInForm } from "@/components/auth/sign-in-form";
+import { env } from "@/lib/env";
+import { safeNext } from "@/lib/safe-next";
 
 export const metadata: Metadata = { title: "Sign in" };
 
@@ -11,8 +13,7 @@ const NOTICES: Record<string, string> = {
 
 export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string; notice?: string }> }) {
   const { next, notice } = await searchParams;
-  // Only same-site paths are followed after sign-in.
-  const target = next && next.startsWith("/") && !next.startsWith("//") ? next : "/";
+  const target = safeNext(next, env().APP_URL);
   return (
     <>
       <div className="mb-8 flex items-center gap-3">
