@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { ROLES } from "@/lib/team-words";
+import { plainText } from "./fields";
 
 const uuid = z.string().uuid();
 export const isUuid = (id: string) => uuid.safeParse(id).success;
@@ -8,7 +9,7 @@ const role = z.enum(ROLES, { message: "Choose owner, keeper or viewer." });
 export const email = z.string().trim().toLowerCase().max(254, "That e-mail is too long.").email("Give an e-mail address like name@example.org.");
 // Long passphrases are welcome; 200 matches the sign-in form's limit.
 export const newPassword = z.string().min(10, "Use at least 10 characters.").max(200, "Use at most 200 characters.");
-export const personName = z.string().trim().min(1, "Tell the team your name.").max(80, "Keep the name under 80 characters.");
+export const personName = plainText("Your name", { min: 1, max: 80, empty: "Tell the team your name." });
 
 export const invitationCreate = z.object({ email, role });
 export const roleChange = z.object({ role });
