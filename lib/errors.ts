@@ -44,6 +44,8 @@ const DATA_ERRORS: Record<string, string> = {
   "22003": "A number is too large or too small to be stored; check the amounts.",
   "22008": "A date is outside the range that can be stored; check the year.",
   "22007": "A date could not be read; give it like 2025-05-01T14:30:00Z.",
+  // JavaScript writes years past 9999 as "+275760-…", which PostgreSQL reads as a bad zone offset.
+  "22009": "A date is outside the range that can be stored; check the year.",
 };
 
 /** A PostgreSQL data exception as a 422 without internals, or null. Drizzle wraps the driver's

@@ -54,8 +54,8 @@ export function quantity(what: string, unit: string, o: QuantityOptions) {
   // z.number() already refuses NaN and ±Infinity (zod 4); JSON cannot carry them anyway.
   return z.number({ message: `${what} must be a number.` }).superRefine((v, ctx) => {
     const say = (message: string) => ctx.addIssue({ code: "custom", message });
-    if (v < 0) say(`${what} cannot be negative.`);
-    else if (v === 0 && !o.zero) say(`${what} must be more than ${amount(0)}.`);
+    if (v <= 0 && !o.zero) say(`${what} must be more than ${amount(0)}.`);
+    else if (v < 0) say(`${what} cannot be negative.`);
     else if (v > 0 && v < o.min) say(`${what} is too small to be measured; the smallest is ${o.minWords ?? amount(o.min)}.`);
     else if (v > o.max) say(`${what} cannot be over ${amount(o.max)}.`);
   });
