@@ -13,7 +13,7 @@ const unitSystem = z.enum(["metric", "imperial"], { message: "Choose metric or i
 // Update schemas list each field without a default: a PATCH changes only what it names.
 const farmFields = { name, unitSystem, timezone: timeZone };
 export const farmCreate = z.object({ name, unitSystem: unitSystem.default("metric"), timezone: timeZone.default("UTC") });
-export const farmUpdate = z.object({ name: name.optional(), unitSystem: unitSystem.optional(), timezone: timeZone.optional() });
+export const farmUpdate = z.object(farmFields).partial();
 /** The settings form posts every field, and the farm's id as a hidden field. */
 export const farmForm = z.object({ farmId: z.string().uuid(), ...farmFields });
 

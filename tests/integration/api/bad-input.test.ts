@@ -82,6 +82,12 @@ describe("a NUL byte in a text field", () => {
     expect(body.error.message).toMatch(/control character \(U\+0000\)/);
   });
 
+  it("a NUL byte in the farm name on the settings form is refused beside the field", async () => {
+    const out = await submitForm(owner, `/farms/${farm.farmId}/settings`, { name: `Farm ${TAG}${NUL}` }, "timezone");
+    expect(out.status).toBe(200);
+    expect(out.text).toContain("The name has a control character (U+0000) in it; type it again without it.");
+  });
+
   it("nothing with a NUL byte was stored, and the bin kept its name", async () => {
     expect(await count(`select count(*)::int as n from bins where farm_id = $1 and (name like '%' || $2 || '%' or notes like '%' || $2 || '%')`, [farm.farmId, TAG])).toBe(0);
     expect(await count(`select count(*)::int as n from log_notes where bin_id = $1`, [farm.binId])).toBe(0);
