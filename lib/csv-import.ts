@@ -6,6 +6,7 @@ import type { Metric } from "@/db/schema";
 import { METRICS, type MetricSpec } from "./metrics";
 import { fahrenheitToCelsius } from "./units";
 import { zonedToUtc } from "./clock";
+import { EARLIEST_MS, FUTURE_SLACK_MS, hasControl, plainText, timeZone } from "./validation/fields";
 
 export { zonedToUtc };
 
@@ -13,10 +14,6 @@ export const MAX_IMPORT_BYTES = 10 * 1024 * 1024;
 export const MAX_IMPORT_ROWS = 200_000;
 /** How many bad rows a report lists; the count stays exact beyond it. */
 export const MAX_REPORTED = 500;
-/** Same tolerance as live telemetry for a logger clock running ahead. */
-export const FUTURE_SLACK_MS = 5 * 60_000;
-// A logger that lost power often restarts at 1970 or 2000; nothing before this is a real reading.
-const EARLIEST = Date.UTC(2000, 0, 1);
 
 export type BadRow = { line: number; reason: string };
 export type CsvRow = { line: number; cells: string[] };
@@ -62,16 +59,7 @@ export function unitConverter(metric: Metric, unit: string): Convert | null {
 
 export const metricFromName = (name: string): Metric | null => METRIC_ALIASES[name.trim().toLowerCase()] ?? null;
 
-const validTimezone = (tz: string) => {
-  try {
-    new Intl.DateTimeFormat("en", { timeZone: tz });
-    return true;
-  } catch {
-    return false;
-  }
-};
-
-const column = z.string().trim().min(1).max(200);
+const column = plainText("The column name", { min: 1, max: 200 });
 const optionalColumn = z.preprocess((v) => (v === "" ? undefined : v), column.optional());
 
 /** What the owner chose in the form: a column for each field, or one value for the whole file. */
@@ -80,15 +68,11 @@ export const importMapping = z
     time: column,
     value: column,
     probe: optionalColumn,
-    probeCode: z.preprocess((v) => (v === "" ? undefined : v), z.string().trim().min(1).max(64).optional()),
+    probeCode: z.preprocess((v) => (v === "" ? undefined : v), plainText("The probe code", { min: 1, max: 64 }).optional()),
     metric: optionalColumn,
     metricFixed: z.preprocess((v) => (v === "" ? undefined : v), z.enum(IMPORT_METRICS).optional()),
     unit: optionalColumn,
-    timezone: z
-      .string()
-      .trim()
-      .refine(validTimezone, { message: "Choose a time zone such as Europe/Dublin or UTC." })
-      .default("UTC"),
+    timezone: timeZone.default("UTC"),
   })
   .superRefine((m, ctx) => {
     if (!m.probe && !m.probeCode) ctx.addIssue({ code: "custom", path: ["probe"], message: "Choose the probe column, or one probe for the whole file." });
@@ -102,7 +86,7 @@ export function checkMapping(header: string[], mapping: ImportMapping): { field:
   for (const key of Object.keys(labels) as (keyof typeof labels)[]) {
     const name = mapping[key];
     if (name !== undefined && !header.includes(name)) {
-      const has = header.length ? header.map((h) => `"${h}"`).join(", ") : "none";
+      const has = header.length ? header.map((h) => `"${visible(h)}"`).join(", ") : "none";
       return { field: key, message: `The file has no column "${name}" for the ${labels[key]}; its columns are ${has}.` };
     }
   }
@@ -234,7 +218,10 @@ export function parseNumber(cell: string, delimiter: string): number | null {
 export type ImportedReading = { line: number; probeId: number; metric: Metric; ts: Date; value: number };
 export type MappedRows = { readings: ImportedReading[]; bad: BadRow[]; repeats: number; total: number };
 
-const quote = (s: string) => `"${s.length > 40 ? `${s.slice(0, 40)}…` : s}"`;
+// Control characters shown as U+XXXX: a report is read by people and stored as jsonb, which
+// cannot hold U+0000 (PostgreSQL 22P05).
+const visible = (s: string) => s.replace(/[\p{Cc}\p{Cs}]/gu, (c) => `U+${c.codePointAt(0)!.toString(16).toUpperCase().padStart(4, "0")}`);
+const quote = (s: string) => `"${visible(s.length > 40 ? `${s.slice(0, 40)}…` : s)}"`;
 
 /** Applies a mapping to a read table: readings to store and bad rows with line and reason. */
 export function mapRows(
@@ -259,6 +246,12 @@ export function mapRows(
     if (cells.every((c) => c.trim() === "")) continue;
     const fail = (field: string, column: string | undefined, why: string) =>
       bad.push({ line, reason: `${field}${column ? ` (column ${quote(column)})` : ""}: ${why}` });
+    // A NUL or other control character in a cell we read is a damaged line, not a reading.
+    const damaged = (["probe", "metric", "time", "value", "unit"] as const).find((k) => col[k] >= 0 && hasControl(cells[col[k]] ?? ""));
+    if (damaged) {
+      fail(damaged, mapping[damaged], `${quote(cells[col[damaged]]!.trim())} has a control character in it (a damaged line?); the row is left out`);
+      continue;
+    }
 
     const code = mapping.probe ? cell(col.probe) : mapping.probeCode!;
     const probeId = ctx.probes.get(code);
@@ -279,8 +272,10 @@ export function mapRows(
       fail("time", mapping.time, `${quote(timeCell)} is not a time we can read; write 2024-05-01T14:30:00Z, 2024-05-01 14:30 (read in ${mapping.timezone}) or Unix seconds`);
       continue;
     }
+    // The same bounds as the logbook (lib/validation/fields.ts): a logger clock may run a little
+    // ahead; one that lost power restarts at 1970 or 2000, and nothing before 2000 is a reading.
     if (t > ctx.now + FUTURE_SLACK_MS) { fail("time", mapping.time, `${quote(timeCell)} is in the future; is the logger's clock right?`); continue; }
-    if (t < EARLIEST) { fail("time", mapping.time, `${quote(timeCell)} is before 2000; the logger's clock was probably not set`); continue; }
+    if (t < EARLIEST_MS) { fail("time", mapping.time, `${quote(timeCell)} is before 2000; the logger's clock was probably not set`); continue; }
 
     const valueCell = cell(col.value);
     const raw = parseNumber(valueCell, table.delimiter);

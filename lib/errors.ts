@@ -37,6 +37,29 @@ export class AppError extends Error {
 
 export type ErrorBody = { error: { code: ErrorCode; message: string; field?: string } };
 
+// PostgreSQL's data exceptions (SQLSTATE class 22, PostgreSQL manual appendix A) that a value the
+// schemas should have refused can still raise. A backstop only: lib/validation names the field first.
+const DATA_ERRORS: Record<string, string> = {
+  "22021": "A text has a character that cannot be stored (such as a NUL byte); remove it and try again.",
+  "22P05": "A text has a character that cannot be stored (such as a NUL byte); remove it and try again.",
+  "22003": "A number is too large or too small to be stored; check the amounts.",
+  "22008": "A date is outside the range that can be stored; check the year.",
+  "22007": "A date could not be read; give it like 2025-05-01T14:30:00Z.",
+  // JavaScript writes years past 9999 as "+275760-…", which PostgreSQL reads as a bad zone offset.
+  "22009": "A date is outside the range that can be stored; check the year.",
+};
+
+/** A PostgreSQL data exception as a 422 without internals, or null. Drizzle wraps the driver's
+ * error, so the SQLSTATE may sit on the error or on its cause. */
+export function dataError(err: unknown): AppError | null {
+  const codeOf = (e: unknown) => (e && typeof e === "object" && "code" in e && typeof e.code === "string" ? e.code : undefined);
+  const code = codeOf(err) ?? codeOf((err as { cause?: unknown } | null)?.cause);
+  const message = code ? DATA_ERRORS[code] : undefined;
+  if (!message) return null;
+  console.warn(`[wormward:api] a value reached the database and was refused there (SQLSTATE ${code}); a schema in lib/validation should have caught it`);
+  return new AppError("invalid", message);
+}
+
 export function errorBody(err: unknown): { status: number; body: ErrorBody } {
   if (err instanceof AppError) {
     return { status: statusOf[err.code], body: { error: { code: err.code, message: err.message, field: err.field } } };
@@ -47,6 +70,8 @@ export function errorBody(err: unknown): { status: number; body: ErrorBody } {
     const message = first ? `${field ? `${field}: ` : ""}${first.message}` : "Invalid input";
     return { status: 422, body: { error: { code: "invalid", message, field } } };
   }
+  const refused = dataError(err);
+  if (refused) return errorBody(refused);
   console.error("[wormward:api] unexpected error:", err);
   return { status: 500, body: { error: { code: "internal", message: "Something went wrong on our side." } } };
 }

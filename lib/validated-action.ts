@@ -1,5 +1,5 @@
 import type { z } from "zod";
-import { AppError } from "@/lib/errors";
+import { AppError, dataError } from "@/lib/errors";
 
 export type ActionState = { ok?: string; error?: string; fieldErrors?: Record<string, string> };
 
@@ -17,7 +17,8 @@ export function validatedAction<S extends z.ZodType>(schema: S, fn: (input: z.in
     try {
       return { ok: await fn(parsed.data) };
     } catch (e) {
-      if (e instanceof AppError) return { error: e.message, fieldErrors: e.field ? { [e.field]: e.message } : undefined };
+      const known = e instanceof AppError ? e : dataError(e);
+      if (known) return { error: known.message, fieldErrors: known.field ? { [known.field]: known.message } : undefined };
       console.error("[wormward:action]", e);
       return { error: "Something went wrong on our side; nothing was changed." };
     }

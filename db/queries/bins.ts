@@ -2,6 +2,7 @@ import { and, asc, eq, isNull, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { bins, zones, type BinStyle, type ZoneKind } from "@/db/schema";
 import { AppError } from "@/lib/errors";
+import { hasChanges } from "./patch";
 
 export async function listBins(farmId: string, opts: { includeArchived?: boolean } = {}) {
   const where = opts.includeArchived ? eq(bins.farmId, farmId) : and(eq(bins.farmId, farmId), isNull(bins.archivedAt));
@@ -49,6 +50,10 @@ export async function createBin(
 }
 
 export async function updateBin(id: string, patch: Partial<typeof bins.$inferInsert>) {
+  if (!hasChanges(patch)) {
+    const [b] = await db().select().from(bins).where(eq(bins.id, id));
+    return b ?? null;
+  }
   const [b] = await db().update(bins).set(patch).where(eq(bins.id, id)).returning();
   return b ?? null;
 }
@@ -77,6 +82,7 @@ export async function addZone(binId: string, input: { kind: ZoneKind; name?: str
 }
 
 export async function updateZone(id: string, patch: Partial<typeof zones.$inferInsert>) {
+  if (!hasChanges(patch)) return getZone(id);
   try {
     const [z] = await db().update(zones).set(patch).where(eq(zones.id, id)).returning();
     return z ?? null;

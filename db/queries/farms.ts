@@ -1,6 +1,7 @@
 import { eq } from "drizzle-orm";
 import { db } from "@/db";
 import { farms, memberships } from "@/db/schema";
+import { hasChanges } from "./patch";
 
 export async function getFarm(id: string) {
   const [f] = await db().select().from(farms).where(eq(farms.id, id));
@@ -19,6 +20,7 @@ export async function createFarm(
 }
 
 export async function updateFarm(id: string, patch: Partial<typeof farms.$inferInsert>) {
+  if (!hasChanges(patch)) return getFarm(id);
   const [f] = await db().update(farms).set(patch).where(eq(farms.id, id)).returning();
   return f ?? null;
 }

@@ -1,4 +1,4 @@
-import { asc, eq, isNull, or } from "drizzle-orm";
+import { and, asc, eq, inArray, isNull, or } from "drizzle-orm";
 import { db } from "@/db";
 import { ingredients } from "@/db/schema";
 import { AppError } from "@/lib/errors";
@@ -10,6 +10,15 @@ export async function listIngredients(farmId: string) {
     .from(ingredients)
     .where(or(isNull(ingredients.farmId), eq(ingredients.farmId, farmId)))
     .orderBy(asc(ingredients.farmId), asc(ingredients.kind), asc(ingredients.name));
+}
+
+/** Of `ids`, those a farm may use: the shared library's (no farm) and the farm's own. */
+export async function usableIngredientIds(farmId: string, ids: string[]): Promise<Set<string>> {
+  const rows = await db()
+    .select({ id: ingredients.id })
+    .from(ingredients)
+    .where(and(inArray(ingredients.id, ids), or(isNull(ingredients.farmId), eq(ingredients.farmId, farmId))));
+  return new Set(rows.map((r) => r.id));
 }
 
 export async function addIngredient(farmId: string, input: Omit<typeof ingredients.$inferInsert, "farmId" | "id" | "createdAt">) {

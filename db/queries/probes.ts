@@ -4,6 +4,7 @@ import { db } from "@/db";
 import { probes, type Probe } from "@/db/schema";
 import { hashToken } from "@/lib/auth/tokens";
 import { AppError } from "@/lib/errors";
+import { hasChanges } from "./patch";
 import type { Executor } from "./readings";
 
 export async function getProbeByCode(code: string, ex: Executor = db()): Promise<Probe | null> {
@@ -95,6 +96,10 @@ export async function createProbe(input: { farmId: string; zoneId: string | null
 }
 
 export async function updateProbe(id: number, patch: Partial<Pick<Probe, "zoneId" | "label" | "reportIntervalS" | "archivedAt" | "metrics">>) {
+  if (!hasChanges(patch)) {
+    const [p] = await db().select().from(probes).where(eq(probes.id, id));
+    return p ?? null;
+  }
   const [p] = await db().update(probes).set(patch).where(eq(probes.id, id)).returning();
   return p ?? null;
 }

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { longText, timeZone } from "./fields";
 
 const hhmm = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "Use a time like 22:00.");
 
@@ -11,13 +12,25 @@ export const pushSubscriptionBody = z.object({
 });
 export const pushUnsubscribeBody = z.object({ endpoint: z.string().url() });
 
+// PATCH /api/me: only what is named changes. Both ends of quiet hours, when both are named, must
+// agree; when one is named, lib/people/update-me.ts checks it against the stored other end.
 export const meUpdate = z
   .object({
     quietFrom: hhmm.nullable().optional(),
     quietTo: hhmm.nullable().optional(),
-    timezone: z.string().trim().min(1).max(64).optional(),
+    timezone: timeZone.optional(),
   })
-  .refine((v) => (v.quietFrom == null) === (v.quietTo == null), { message: "Give both ends of quiet hours, or neither.", path: ["quietTo"] });
+  .refine((v) => v.quietFrom === undefined || v.quietTo === undefined || (v.quietFrom === null) === (v.quietTo === null), {
+    message: "Give both ends of quiet hours, or neither.",
+    path: ["quietTo"],
+  });
+export type MeUpdate = z.infer<typeof meUpdate>;
 
-export const settleBody = z.object({ note: z.string().trim().max(500).optional() }).default({});
+// The "You" page's form posts every field; an empty time clears quiet hours.
+const hhmmOrEmpty = z.union([z.literal(""), hhmm]);
+export const quietHoursForm = z
+  .object({ quietFrom: hhmmOrEmpty, quietTo: hhmmOrEmpty, timezone: timeZone })
+  .refine((v) => (v.quietFrom === "") === (v.quietTo === ""), { message: "Give both ends, or clear both.", path: ["quietTo"] });
+
+export const settleBody = z.object({ note: longText("The note", { max: 500 }).optional() }).default({});
 export const alertListQuery = z.object({ state: z.enum(["open", "all"]).default("open") });

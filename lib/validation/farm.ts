@@ -1,18 +1,21 @@
 import { z } from "zod";
+import { plainText, longText, quantity, timeZone } from "./fields";
 
 const SPECIES = ["eisenia-fetida", "eisenia-hortensis", "eudrilus-eugeniae", "perionyx-excavatus"] as const;
 export const BIN_STYLES = ["flow-through", "tray stack", "tote", "bed", "windrow"] as const;
 export const ZONE_KINDS = ["fresh", "working", "curing"] as const;
 
-const name = z.string().trim().min(1, "Give it a name.").max(80, "Keep the name under 80 characters.");
-const size = z.number().positive("Must be more than 0.").max(100_000).nullable().optional();
+const name = plainText("The name", { min: 1, max: 80, empty: "Give it a name." });
+// From a 10 cm worm tower to a 1 km windrow; under 1 cm is a typo, not a bin.
+const size = quantity("Size", "cm", { min: 1, max: 100_000 }).nullable().optional();
+const unitSystem = z.enum(["metric", "imperial"], { message: "Choose metric or imperial." });
 
-export const farmCreate = z.object({
-  name,
-  unitSystem: z.enum(["metric", "imperial"]).default("metric"),
-  timezone: z.string().trim().min(1).max(64).default("UTC"),
-});
-export const farmUpdate = farmCreate.partial();
+// Update schemas list each field without a default: a PATCH changes only what it names.
+const farmFields = { name, unitSystem, timezone: timeZone };
+export const farmCreate = z.object({ name, unitSystem: unitSystem.default("metric"), timezone: timeZone.default("UTC") });
+export const farmUpdate = z.object(farmFields).partial();
+/** The settings form posts every field, and the farm's id as a hidden field. */
+export const farmForm = z.object({ farmId: z.string().uuid(), ...farmFields });
 
 // Zones default by count, ordered from the feeding side to the harvest side.
 export function defaultZoneKinds(count: number): (typeof ZONE_KINDS)[number][] {
@@ -21,24 +24,25 @@ export function defaultZoneKinds(count: number): (typeof ZONE_KINDS)[number][] {
   return Array.from({ length: count }, (_, i) => (i === 0 ? "fresh" : i === count - 1 ? "curing" : "working"));
 }
 
-export const binCreate = z.object({
+const binFields = {
   name,
   style: z.enum(BIN_STYLES, { message: `Choose one of: ${BIN_STYLES.join(", ")}.` }),
   species: z.enum(SPECIES, { message: `Choose one of: ${SPECIES.join(", ")}.` }),
   lengthCm: size,
   widthCm: size,
   depthCm: size,
-  notes: z.string().max(2000).nullable().optional(),
+  notes: longText("Notes", { max: 2000 }).nullable().optional(),
+};
+export const binCreate = z.object({
+  ...binFields,
   zoneCount: z.number().int().min(1, "A bin has at least 1 zone.").max(6, "A bin has at most 6 zones.").default(3),
 });
-export const binUpdate = binCreate.omit({ zoneCount: true }).partial();
+export const binUpdate = z.object(binFields).partial();
 
-export const zoneCreate = z.object({
-  kind: z.enum(ZONE_KINDS),
-  name: z.string().trim().max(40).nullable().optional(),
-});
+const zoneName = plainText("The zone name", { max: 40 }).nullable().optional();
+export const zoneCreate = z.object({ kind: z.enum(ZONE_KINDS), name: zoneName });
 export const zoneUpdate = z.object({
   kind: z.enum(ZONE_KINDS).optional(),
-  name: z.string().trim().max(40).nullable().optional(),
+  name: zoneName,
   position: z.number().int().min(1).max(6).optional(),
 });

@@ -2,6 +2,7 @@ import { z } from "zod";
 import { importMapping, MAX_IMPORT_BYTES, type ImportMapping } from "@/lib/csv-import";
 import { mediaType, readCappedBody } from "@/lib/api/body";
 import { AppError, readJson } from "@/lib/errors";
+import { hasControl, plainText } from "./fields";
 
 export type ImportUpload = { fileName: string; bytes: Uint8Array; mapping: ImportMapping };
 
@@ -9,7 +10,7 @@ const tooLarge = () => new AppError("too_large", `The file is larger than ${MAX_
 
 // A script may post JSON instead of a form: { fileName, csv, mapping: {...} }.
 const jsonUpload = z.object({
-  fileName: z.string().trim().min(1).max(255),
+  fileName: plainText("The file name", { min: 1, max: 255 }),
   csv: z.string().min(1, "The file is empty."),
   mapping: z.record(z.string(), z.unknown()),
 });
@@ -45,5 +46,7 @@ export async function readImportUpload(req: Request): Promise<ImportUpload> {
   const fields = Object.fromEntries([...form.entries()].filter(([k, v]) => k !== "file" && typeof v === "string"));
   const mapping = importMapping.parse(fields);
   const fileName = ("name" in file && typeof file.name === "string" && file.name.trim()) || "upload.csv";
+  // The name is kept with the import and its report; PostgreSQL cannot store U+0000 in it.
+  if (hasControl(fileName)) throw new AppError("invalid", "The file name has a control character in it; rename the file and upload it again.", "file");
   return { fileName, bytes: new Uint8Array(await file.arrayBuffer()), mapping };
 }

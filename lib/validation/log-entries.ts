@@ -1,29 +1,30 @@
 import { z } from "zod";
+import { finiteNumber, loggedAt, longText, quantity } from "./fields";
 
-// `at` may be back-dated (logged after the work) but not in the future; a minute of slack for phone clocks.
-const at = z.coerce
-  .date({ message: "at must be a date and time." })
-  .refine((d) => d.getTime() <= Date.now() + 60_000, "A logbook entry cannot be in the future.")
-  .optional();
-const common = {
+// One rule for the time of every logbook entry (feedings too): back-dated is fine, the future is not.
+export const logCommon = {
   zoneId: z.string().uuid("Pick a zone of this bin.").nullable().optional(),
-  at,
-  notes: z.string().trim().max(2000).nullable().optional(),
+  at: loggedAt.optional(),
+  notes: longText("Notes", { max: 2000 }).nullable().optional(),
 };
 
-export const wateringCreate = z.object({ ...common, litres: z.number({ message: "Water must be a number." }).positive("Water must be more than 0 L.").max(10_000) });
-export const harvestCreate = z.object({ ...common, massKg: z.number({ message: "Mass must be a number." }).positive("Mass must be more than 0 kg.").max(100_000) });
-export const noteCreate = z.object({ ...common, text: z.string({ message: "Write the note." }).trim().min(1, "Write the note.").max(4000) });
+// A cup (0.01 L, 10 mL) is the least anyone waters with; 10 m³ is a large windrow's soaking.
+export const wateringCreate = z.object({ ...logCommon, litres: quantity("Water", "L", { min: 0.01, max: 10_000 }) });
+// Kitchen scales read to 1 g; 100 t is far beyond a farm's single harvest.
+export const harvestCreate = z.object({ ...logCommon, massKg: quantity("Mass", "kg", { min: 0.001, max: 100_000, minWords: "1 g" }) });
+export const noteCreate = z.object({ ...logCommon, text: longText("The note", { min: 1, max: 4000, empty: "Write the note." }) });
 
-const grams = (what: string) => z.number({ message: `${what} must be a number.` }).nonnegative(`${what} cannot be negative.`).max(100_000);
+// Oven-dry samples are weighed on a lab or kitchen balance: 1 mg (0.001 g) resolution at best.
+const grams = (what: string, zero: boolean) => quantity(what, "g", { min: 0.001, max: 100_000, zero });
 export const sampleCreate = z.object({
-  wetMassG: grams("Wet mass").positive("Wet mass must be more than 0 g."),
-  dryMassG: grams("Dry mass"),
-  tareG: grams("Container mass").optional(),
+  wetMassG: grams("Wet mass", false),
+  dryMassG: grams("Dry mass", true),
+  tareG: grams("Container mass", true).optional(),
   // Ovens for moisture run 60–110 °C (TMECC 70 ± 5, ASTM D2216 110 ± 5); outside that, likely a typo.
   ovenTempC: z.number({ message: "Oven temperature must be a number." }).min(40, "Oven temperature below 40 °C will not dry the sample.").max(130, "Oven temperature above 130 °C burns organic matter.").nullable().optional(),
-  rawReading: z.number({ message: "Raw reading must be a number." }).finite().nullable().optional(),
-  at,
-  notes: z.string().trim().max(2000).nullable().optional(),
+  // A raw count from the probe's ADC or capacitance timer; 32-bit counters are the widest in use.
+  rawReading: finiteNumber("Raw reading", { min: -4_294_967_296, max: 4_294_967_296 }).nullable().optional(),
+  at: loggedAt.optional(),
+  notes: logCommon.notes,
 });
 export type SampleCreate = z.infer<typeof sampleCreate>;

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { PASSWORD_MAX_BYTES, PASSWORD_TOO_LONG, passwordBytes } from "@/lib/auth/password-rules";
 import { ROLES } from "@/lib/team-words";
+import { plainText } from "./fields";
 
 const uuid = z.string().uuid();
 export const isUuid = (id: string) => uuid.safeParse(id).success;
@@ -12,7 +13,7 @@ export const newPassword = z
   .string()
   .min(10, "Use at least 10 characters.")
   .refine((p) => passwordBytes(p) <= PASSWORD_MAX_BYTES, PASSWORD_TOO_LONG);
-export const personName = z.string().trim().min(1, "Tell the team your name.").max(80, "Keep the name under 80 characters.");
+export const personName = plainText("Your name", { min: 1, max: 80, empty: "Tell the team your name." });
 
 export const invitationCreate = z.object({ email, role });
 export const roleChange = z.object({ role });

@@ -170,7 +170,7 @@ describe("farm settings, on a phone", () => {
     await p.goto(`${appUrl()}/farms/${farmId}/settings`);
     await p.getByLabel("Timezone").fill("Europe/Atlantis");
     await p.getByRole("button", { name: "Save farm settings" }).click();
-    await expect.poll(() => p.getByText("Unknown timezone; use a name like Europe/Dublin.").count(), SLOW).toBe(1);
+    await expect.poll(() => p.getByText("Unknown time zone; use a name such as Europe/Dublin or UTC.").count(), SLOW).toBe(1);
     const f = await c.query(`select timezone from farms where id = $1`, [farmId]);
     expect(f.rows[0].timezone).toBe("Europe/Dublin");
     await p.context().close();

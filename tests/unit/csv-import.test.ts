@@ -124,6 +124,30 @@ describe("mapping rows to readings", () => {
     expect(out.total).toBe(10);
   });
 
+  it("a NUL byte in a cell we read leaves that row out with its line, and one in a column we ignore does not", () => {
+    const csv = [
+      "time,probe,metric,value,note",
+      "2025-05-01T00:00:00Z,alder-01,temperature,21.5,ok", // 2 good
+      "2025-05-01T00:01:00Z,alder-01,temperature,2\u00001.5,ok", // 3 NUL in the value
+      "2025-05-01T00:02:00Z,alder-01\u0000,temperature,21.5,ok", // 4 NUL in the probe code
+      "2025-05-01T00:03:00Z,alder-01,temperature,21.7,scr\u0000atch", // 5 NUL in an unmapped column: kept
+    ].join("\n");
+    const out = mapRows(readCsv(csv), long, { probes, now: NOW });
+    expect(out.readings.map((r) => r.line)).toEqual([2, 5]);
+    expect(out.bad).toEqual([
+      { line: 3, reason: 'value (column "value"): "2U+00001.5" has a control character in it (a damaged line?); the row is left out' },
+      { line: 4, reason: expect.stringMatching(/^probe \(column "probe"\): "alder-01U\+0000" has a control character/) },
+    ]);
+    // Reasons are stored as jsonb, which cannot hold U+0000.
+    expect(out.bad.some((b) => b.reason.includes("\u0000"))).toBe(false);
+  });
+
+  it("a mapping that names a column with a NUL byte is refused with the field", () => {
+    const r = importMapping.safeParse({ time: "time\u0000", probe: "probe", metric: "metric", value: "value" });
+    expect(r.success).toBe(false);
+    expect(r.error!.issues[0]!.path).toEqual(["time"]);
+  });
+
   it("a fixed probe and metric apply to every row, with units converted", () => {
     const m = importMapping.parse({ time: "When", value: "Reading", unit: "Unit", probeCode: "alder-02", metricFixed: "temperature", timezone: "Europe/Dublin" });
     const csv = "When;Reading;Unit\n2025-07-15 09:00;68;°F\n2025-07-15 09:01;20,5;Cel\n2025-07-15 09:02;300;K\n2025-07-15 09:03;20;bar\n";

@@ -1,8 +1,8 @@
-import { updateQuietHours } from "@/db/queries/push";
 import { getUser, listMyFarms } from "@/db/queries/users";
 import { route } from "@/lib/api/route";
 import { requireUser } from "@/lib/auth/session";
 import { AppError, readJson } from "@/lib/errors";
+import { updateMe } from "@/lib/people/update-me";
 import { meUpdate } from "@/lib/validation/alerts";
 
 // GET /api/me — who is signed in, their quiet hours and the farms they belong to
@@ -25,5 +25,5 @@ export const GET = route(async () => {
 export const PATCH = route(async (req) => {
   const userId = await requireUser();
   const patch = meUpdate.parse(await readJson(req));
-  return Response.json(await updateQuietHours(userId, patch));
+  return Response.json(await updateMe(userId, patch));
 });

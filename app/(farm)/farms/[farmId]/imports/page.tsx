@@ -4,6 +4,7 @@ import { getFarm } from "@/db/queries/farms";
 import { listFarmProbes, listImports } from "@/db/queries/imports";
 import { BadRows, ImportForm } from "@/components/imports/import-form";
 import { requirePageMember } from "@/lib/auth/session";
+import { timeZoneOrUtc } from "@/lib/validation/fields";
 
 export const metadata: Metadata = { title: "Import logger files" };
 
@@ -24,7 +25,7 @@ export default async function ImportsPage({ params }: { params: Promise<{ farmId
         </p>
       </div>
       {role === "owner" ? (
-        <ImportForm farmId={farmId} probes={probes.map((p) => ({ code: p.code, label: p.label }))} timezone={farm.timezone} />
+        <ImportForm farmId={farmId} probes={probes.map((p) => ({ code: p.code, label: p.label }))} timezone={timeZoneOrUtc(farm.timezone)} />
       ) : (
         <p className="rounded-xl bg-soil-100 p-4">Only an owner of {farm.name} can import files. You can read the history below.</p>
       )}
@@ -36,7 +37,7 @@ export default async function ImportsPage({ params }: { params: Promise<{ farmId
             <li key={i.id} className="rounded-xl bg-white p-3 ring-1 ring-soil-300">
               <p className="font-bold break-all">{i.fileName}</p>
               <p className="tabular text-sm text-soil-700">
-                {i.createdAt.toLocaleString("en-GB", { timeZone: farm.timezone, dateStyle: "medium", timeStyle: "short" })} · {i.rowsStored} stored · {i.rowsRejected} refused · {i.rowsTotal} rows in the file
+                {i.createdAt.toLocaleString("en-GB", { timeZone: timeZoneOrUtc(farm.timezone), dateStyle: "medium", timeStyle: "short" })} · {i.rowsStored} stored · {i.rowsRejected} refused · {i.rowsTotal} rows in the file
               </p>
               {i.report.length > 0 && <BadRows report={i.report} truncated={i.rowsRejected > i.report.length} total={i.rowsRejected} />}
             </li>

@@ -7,23 +7,9 @@ import { updateFarm } from "@/db/queries/farms";
 import { requireMember } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
 import { UNIT_LABELS } from "@/lib/units";
+import { farmForm } from "@/lib/validation/farm";
 import { validatedAction } from "@/lib/validated-action";
 
-const knownZone = (tz: string) => {
-  try {
-    new Intl.DateTimeFormat("en", { timeZone: tz });
-    return true;
-  } catch {
-    return false;
-  }
-};
-
-const farmForm = z.object({
-  farmId: z.string().uuid(),
-  name: z.string().trim().min(1, "Give the farm a name.").max(80, "Keep the name under 80 characters."),
-  unitSystem: z.enum(["metric", "imperial"], { message: "Choose metric or imperial." }),
-  timezone: z.string().trim().min(1, "Choose a timezone.").max(64).refine(knownZone, "Unknown timezone; use a name like Europe/Dublin."),
-});
 const binForm = z.object({ farmId: z.string().uuid(), binId: z.string().uuid() });
 
 // Every page of the farm shows its units and times, so the whole farm is rendered afresh.

@@ -7,6 +7,7 @@ import { FarmForm } from "@/components/settings/farm-form";
 import { requireMember } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
 import { archiveBinAction, bringBackBin, saveFarm } from "./actions";
+import { timeZoneOrUtc } from "@/lib/validation/fields";
 
 export const metadata: Metadata = { title: "Settings" };
 
@@ -37,7 +38,8 @@ export default async function SettingsPage({ params }: { params: Promise<{ farmI
     );
   }
   const bins = await listBins(farmId, { includeArchived: true });
-  const day = (d: Date) => d.toLocaleDateString("en-GB", { timeZone: farm.timezone, day: "numeric", month: "short", year: "numeric" });
+  // A time zone stored before the API checked them must not keep the owner from fixing it here.
+  const day = (d: Date) => d.toLocaleDateString("en-GB", { timeZone: timeZoneOrUtc(farm.timezone), day: "numeric", month: "short", year: "numeric" });
   const zonesWord = (n: number) => `${n} zone${n === 1 ? "" : "s"}`;
   const live = bins.filter((b) => !b.archivedAt).map((b) => ({ id: b.id, name: b.name, detail: `${b.style} · ${zonesWord(b.zones.length)}` }));
   const archived = bins.filter((b) => b.archivedAt).map((b) => ({ id: b.id, name: b.name, detail: `${b.style} · archived ${day(b.archivedAt!)}` }));

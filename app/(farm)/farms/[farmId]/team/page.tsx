@@ -8,6 +8,7 @@ import { PendingInvitations } from "@/components/team/pending-invitations";
 import { requireMember } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
 import { changeRole, invite, remove, revoke } from "./actions";
+import { timeZoneOrUtc } from "@/lib/validation/fields";
 
 export const metadata: Metadata = { title: "Team" };
 
@@ -24,7 +25,7 @@ export default async function TeamPage({ params }: { params: Promise<{ farmId: s
   if (!farm) notFound();
   const owner = who.role === "owner";
   const [team, pending] = await Promise.all([listTeam(farmId), owner ? listPendingInvitations(farmId) : Promise.resolve([])]);
-  const day = (d: Date) => d.toLocaleDateString("en-GB", { timeZone: farm.timezone, day: "numeric", month: "short", year: "numeric" });
+  const day = (d: Date) => d.toLocaleDateString("en-GB", { timeZone: timeZoneOrUtc(farm.timezone), day: "numeric", month: "short", year: "numeric" });
   return (
     <main className="space-y-6 p-4">
       <div>

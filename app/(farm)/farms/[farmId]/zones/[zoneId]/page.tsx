@@ -19,6 +19,7 @@ import { getSpecies } from "@/lib/species";
 import { feedingsKey, zoneSeriesKey } from "@/lib/swr-keys";
 import { seriesQuery } from "@/lib/validation/series";
 import { KIND_WORDS } from "@/lib/alerts/words";
+import { timeZoneOrUtc } from "@/lib/validation/fields";
 
 export const metadata: Metadata = { title: "Zone" };
 
@@ -72,7 +73,8 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
   }
   const view = await getZoneView(zoneId);
   if (!view) notFound();
-  const { zone, bin, unitSystem: system, timezone } = view;
+  const { zone, bin, unitSystem: system } = view;
+  const timezone = timeZoneOrUtc(view.timezone);
   const profile = getSpecies(bin.species);
   const rules = profile ? resolveRules(profile, overridesFromRuleRows(await listRulesForBin(farmId, bin.id), bin.id)) : null;
   const ammonia: AmmoniaLines = { headsUpAtPpm: rules?.ammonia.t.headsUpAtPpm ?? 10, actNowAtPpm: rules?.ammonia.t.actNowAtPpm ?? 25 };
