@@ -8,7 +8,7 @@ import pg from "pg";
 import { db as sharedDb, schema, type Db } from "@/db";
 import { getProbeByCode, verifyProbeToken } from "@/db/queries/probes";
 import type { Probe } from "@/db/schema";
-import { excerptOf, rejectionText, validateSenmlPayload, type TelemetryLimits } from "@/lib/telemetry";
+import { excerptOf, rejectionText, summarizeRejections, validateSenmlPayload, type TelemetryLimits } from "@/lib/telemetry";
 import { createWriter, type BatchOptions, type RetryOptions } from "./writer";
 
 const log = createDebug("wormward:ingest");
@@ -108,9 +108,10 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     if (v.rejections.length) {
       log("probe %s: %d record(s) refused (%s)", probe.code, v.rejections.length, [...new Set(v.rejections.map((r) => r.code))].join(", "));
     }
+    const refused = summarizeRejections(v.rejections);
     await writer.submit({
       readings: v.readings,
-      rejections: v.rejections.map((r) => ({ ...origin, reason: rejectionText(r) })),
+      rejections: refused ? [{ ...origin, ...refused }] : [],
       status: { probeId: probe.id, ...v.status },
       zoneId: probe.zoneId,
       origin,
