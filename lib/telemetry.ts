@@ -16,7 +16,8 @@ export type RejectCode =
   | "sensor-error"
   | "too-far-ahead"
   | "too-old"
-  | "bad-status";
+  | "bad-status"
+  | "retained";
 
 // whole: the message could not be read as a SenML pack at all (no record was looked at).
 // name: the record's resolved SenML name, when the refusal is about one record.

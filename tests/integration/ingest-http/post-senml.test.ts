@@ -21,7 +21,12 @@ const pack = (code: string, t: number, extra: object[] = []) =>
   JSON.stringify([{ bn: `urn:dev:wormward:${code}:`, bt: t, n: "temp", u: "Cel", v: 22.5 }, { n: "moisture", u: "/100", v: 77 }, ...extra]);
 const rowsOf = async (probeId: number) => Number((await c.query(`select count(*)::int as n from readings where probe_id = $1`, [probeId])).rows[0].n);
 const rejectionsOf = async (probeId: number) =>
-  (await c.query(`select reason, source::text, excerpt from rejected_messages where probe_id = $1 order by id`, [probeId])).rows as { reason: string; source: string; excerpt: string | null }[];
+  (await c.query(`select reason, records, source::text, excerpt from rejected_messages where probe_id = $1 order by id`, [probeId])).rows as {
+    reason: string;
+    records: number;
+    source: string;
+    excerpt: string | null;
+  }[];
 
 beforeAll(async () => {
   c = new pg.Client({ connectionString: inject("appDbUrl") });
@@ -55,7 +60,10 @@ describe("POST /api/ingest", () => {
       { metric: "temperature", value: 22.5 },
     ]);
     const rejected = (await rejectionsOf(id)).filter((r) => r.source === "http");
-    expect(rejected.map((r) => r.reason.split(":")[0]).sort()).toEqual(["sensor-error", "unknown-metric"]);
+    // One row for the message: its two refused records counted, each reason on a line of its own.
+    expect(rejected).toHaveLength(1);
+    expect(rejected[0]!.records).toBe(2);
+    expect(rejected[0]!.reason.split("\n").map((l) => l.split(":")[0]).sort()).toEqual(["sensor-error", "unknown-metric"]);
     expect(rejected[0]!.excerpt).toContain("urn:dev:wormward:");
     const p = await c.query(`select battery_v, last_seen_at from probes where id = $1`, [id]);
     expect(p.rows[0].battery_v).toBeCloseTo(3.71, 5);
