@@ -98,12 +98,12 @@ export class FrameGuard extends Duplex {
   private scan(chunk: Buffer): number {
     let i = 0;
     while (i < chunk.length) {
+      if (!this.accepted && this.packets > 0) return i;
       if (!this.inHeader) {
         const n = Math.min(this.skip, chunk.length - i);
         this.skip -= n;
         i += n;
         if (this.skip === 0) this.packetEnded();
-        if (!this.accepted && this.packets > 0) return i;
         continue;
       }
       const byte = chunk[i++]!;
@@ -125,10 +125,7 @@ export class FrameGuard extends Duplex {
       if (total > max) return this.refuse(new PacketTooLarge(total, max, !this.accepted));
       this.inHeader = false;
       this.skip = this.length;
-      if (this.skip === 0) {
-        this.packetEnded();
-        if (!this.accepted && this.packets > 0) return i;
-      }
+      if (this.skip === 0) this.packetEnded();
     }
     return i;
   }

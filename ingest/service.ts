@@ -252,19 +252,23 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     const conn = new FrameGuard(socket, frameLimits, admitted.accepted);
     conn.on("close", admitted.closed);
     conn.on("error", (err) => {
-      if (!(err instanceof PacketTooLarge)) return;
-      counts.cutPackets++;
-      const client = (conn as unknown as { client?: Client }).client;
-      const s = client ? sessions.get(client) : undefined;
-      log("cut off %s from %s: %s", s ? `probe ${s.probe.code}` : "a connection", admitted.key, err.message);
-      if (!s) return;
-      const reason = rejectionText({ code: "too-large", reason: `${err.message}; the connection was closed` });
-      writer
-        .submit({ ...statusJob(s.probe, {}), rejections: [{ ...originOf(s.probe), reason }] })
-        .catch((e: Error) => log("cut packet of %s not recorded: %s", s.probe.code, e.message));
+      if (err instanceof PacketTooLarge) recordCut(conn, err, admitted.key);
     });
     broker.handle(conn as unknown as net.Socket);
   });
+
+  // A probe's own connection cut for size leaves a row its owner can read; a stranger's, a log line.
+  function recordCut(conn: FrameGuard, err: PacketTooLarge, from: string) {
+    counts.cutPackets++;
+    const client = (conn as unknown as { client?: Client }).client; // aedes sets conn.client
+    const s = client ? sessions.get(client) : undefined;
+    log("cut off %s from %s: %s", s ? `probe ${s.probe.code}` : "a connection", from, err.message);
+    if (!s) return;
+    const reason = rejectionText({ code: "too-large", reason: `${err.message}; the connection was closed` });
+    writer
+      .submit({ ...statusJob(s.probe, {}), rejections: [{ ...originOf(s.probe), reason }] })
+      .catch((e: Error) => log("cut packet of %s not recorded: %s", s.probe.code, e.message));
+  }
   await new Promise<void>((resolve, reject) => {
     server.once("error", reject);
     server.listen(opts.port, opts.host ?? "127.0.0.1", () => {

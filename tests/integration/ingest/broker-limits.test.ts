@@ -243,18 +243,26 @@ describe("retained messages", () => {
 });
 
 describe("under attack", () => {
-  it("a probe keeps publishing while 500 idle connections and bad CONNECTs hit the broker", async () => {
+  it("a probe keeps publishing while 500 idle connections and bad CONNECTs hit the broker", { timeout: 90_000 }, async () => {
     const [p, victim] = (await createProbes(2)) as [TestProbe, TestProbe];
     // Limits set loose so that every idle connection and bad CONNECT really reaches the broker (all
     // come from 127.0.0.1 here); the connect timeout is what clears the idle ones.
     const ingest = await broker({
       connections: { maxPendingPerAddress: 10_000, maxOpenPerAddress: 10_000, attemptBurst: 100_000, attemptsPerMinute: 1e6 },
-      connectTimeoutMs: 8_000,
+      connectTimeoutMs: 15_000,
     });
     const probe = await connectProbe(ingest.port, p);
     clients.push(probe);
     let wentOffline = 0;
     probe.on("offline", () => wentOffline++);
+    const t = nowS() - 120;
+    const publish = async (i: number) => {
+      const at = Date.now();
+      await probe.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, t + i, 20 + i / 100), { qos: 1 });
+      return Date.now() - at;
+    };
+    const quiet: number[] = [];
+    for (let i = 0; i < 20; i++) quiet.push(await publish(i));
 
     const idle: Raw[] = [];
     for (let i = 0; i < 500; i += 50) {
@@ -267,27 +275,27 @@ describe("under attack", () => {
     const attackers = Array.from({ length: 4 }, async () => {
       while (attacking) answers.push(await badConnect(ingest.port, victim.code));
     });
-
-    const t = nowS() - 120;
-    const acked: number[] = [];
-    for (let i = 0; i < 60; i++) {
-      await probe.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, t + i, 20 + i / 100), { qos: 1 });
-      acked.push(Date.now());
-    }
+    const loud: number[] = [];
+    for (let i = 20; i < 60; i++) loud.push(await publish(i));
+    const lastAck = Date.now();
     attacking = false;
     await Promise.all(attackers);
 
     expect(wentOffline).toBe(0);
     expect((await countReadings([p.id])).rows).toBe(60);
     expect(answers.length).toBeGreaterThan(20);
-    expect(answers.every((a) => a === 4)).toBe(true);
-    // Every publish was acknowledged while all 500 idle connections were still held open...
+    expect(answers.every((a) => a === 4)).toBe(true); // each bad CONNECT got its CONNACK 4 (§3.2.2.3)
+    // Every publish was acknowledged while all 500 idle connections were held open...
     expect(idle.filter((c) => c.isClosed())).toHaveLength(0);
-    // ...and then the broker closed each of them itself.
-    const closedAt = await within(Promise.all(idle.map((c) => c.closed)), 15_000);
+    // ...and then the broker closed each of them itself, at its connect timeout.
+    const closedAt = await within(Promise.all(idle.map((c) => c.closed)), 30_000);
     expect(closedAt).not.toBe("timeout");
-    expect(Math.min(...(closedAt as number[]))).toBeGreaterThan(acked[acked.length - 1]!);
+    expect(Math.min(...(closedAt as number[]))).toBeGreaterThan(lastAck);
     expect(probe.connected).toBe(true);
+    const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
+    console.log(
+      `publish-to-PUBACK: median ${median(quiet)} ms alone, ${median(loud)} ms (max ${Math.max(...loud)} ms) beside 500 idle connections and ${answers.length} bad CONNECTs`,
+    );
   });
 
   it("with the default limits, idle connections past 50 from one address are refused at once and a probe keeps publishing", async () => {
