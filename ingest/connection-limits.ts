@@ -18,7 +18,9 @@ export type ConnectionLimits = {
 
 export const DEFAULT_CONNECTION_LIMITS: ConnectionLimits = {
   attemptBurst: 100,
-  attemptsPerMinute: 60,
+  // Two a second: one misconfigured probe retrying every second (MQTT.js's default reconnect period)
+  // cannot keep its NAT-mates out, and a flood of hundreds a second still stops at the burst.
+  attemptsPerMinute: 120,
   maxPendingPerAddress: 50,
   maxOpenPerAddress: 1000,
 };

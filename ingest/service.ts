@@ -258,12 +258,15 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   });
 
   // A probe's own connection cut for size leaves a row its owner can read; a stranger's, a log line.
+  // Never acknowledged, the packet comes back after every reconnect: one row a minute per probe.
+  const lastCutRow = new Map<number, number>();
   function recordCut(conn: FrameGuard, err: PacketTooLarge, from: string) {
     counts.cutPackets++;
     const client = (conn as unknown as { client?: Client }).client; // aedes sets conn.client
     const s = client ? sessions.get(client) : undefined;
     log("cut off %s from %s: %s", s ? `probe ${s.probe.code}` : "a connection", from, err.message);
-    if (!s) return;
+    if (!s || Date.now() - (lastCutRow.get(s.probe.id) ?? -Infinity) < 60_000) return;
+    lastCutRow.set(s.probe.id, Date.now());
     const reason = rejectionText({ code: "too-large", reason: `${err.message}; the connection was closed` });
     writer
       .submit({ ...statusJob(s.probe, {}), rejections: [{ ...originOf(s.probe), reason }] })

@@ -130,9 +130,20 @@ describe("packet size", () => {
     expect(rows[0]!.reason).toMatch(/^too-large: a packet of 1048\d{3} bytes is over the 16896-byte cap; the connection was closed/);
     expect((await countReadings([p.id])).rows).toBe(0);
 
+    // The same packet again after a reconnect (as an unacknowledged QoS 1 publish would be) is cut
+    // again, but within the minute it adds no second row.
     const again = await connectProbe(ingest.port, p);
     clients.push(again);
-    await again.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, nowS(), 21), { qos: 1 });
+    const closedAgain = new Promise<void>((r) => again.once("close", () => r()));
+    again.publish(`wormward/${p.code}/up`, Buffer.alloc(1024 * 1024, 0x20), { qos: 1 });
+    expect(await within(closedAgain, 5_000)).not.toBe("timeout");
+    expect(ingest.stats().cutPackets).toBe(2);
+    await new Promise((r) => setTimeout(r, 300));
+    expect(await rejectionsOf(p.id)).toHaveLength(1);
+
+    const third = await connectProbe(ingest.port, p);
+    clients.push(third);
+    await third.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, nowS(), 21), { qos: 1 });
     expect((await countReadings([p.id])).rows).toBe(1);
   });
 
