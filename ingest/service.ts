@@ -159,6 +159,15 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     await writer.submit({ ...statusJob(probe, { seenAt: new Date() }), rejections: [{ ...originOf(probe, packet.topic, payload), reason }] });
   }
 
+  // A PUBLISH over the cap that the frame guard read past without keeping: refused like any payload
+  // over 16 KiB, and acknowledged so that the probe does not send it again.
+  async function onReadPast(probe: Probe, packet: { topic: string; retain: boolean }, bytes: number) {
+    packet.retain = false;
+    const reason = rejectionText({ code: "too-large", reason: `a packet of ${bytes} bytes was read past; payloads of at most ${limits.maxBytes} bytes are accepted` });
+    log("probe %s: publish of %d bytes to %s read past", probe.code, bytes, packet.topic);
+    await writer.submit({ ...statusJob(probe, { seenAt: new Date() }), rejections: [{ ...originOf(probe, packet.topic), reason }] });
+  }
+
   const handlers: AedesOptions = {
     connectTimeout: opts.connectTimeoutMs ?? CONNECT_TIMEOUT_MS,
     authenticate(client, username, password, done) {
@@ -195,6 +204,8 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
       currentProbe(session)
         .then((probe) => {
           if (!probe) return refuse(client, `publish from archived probe ${session.probe.code}`, cb);
+          const cut = client.conn instanceof FrameGuard ? client.conn.takeCut(packet.payload) : null;
+          if (cut !== null) return onReadPast(probe, packet, cut).then(() => cb(null));
           if (packet.retain) return onRetained(probe, packet).then(() => cb(null));
           // MQTT 3.1.1 has no negative PUBACK (§3.4): a recorded rejection is acknowledged.
           return (packet.topic === up ? onUp : onStatus)(probe, client, packet.topic, packet.payload as Buffer).then(() => cb(null));
@@ -257,8 +268,8 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     broker.handle(conn as unknown as net.Socket);
   });
 
-  // A probe's own connection cut for size leaves a row its owner can read; a stranger's, a log line.
-  // Never acknowledged, the packet comes back after every reconnect: one row a minute per probe.
+  // A probe's connection cut for an oversized packet that is not a PUBLISH (those are read past)
+  // leaves a row its owner can read, one a minute at most; a stranger's, a log line.
   const lastCutRow = new Map<number, number>();
   function recordCut(conn: FrameGuard, err: PacketTooLarge, from: string) {
     counts.cutPackets++;

@@ -75,15 +75,57 @@ describe("FrameGuard", () => {
     client.write(packet(1, 10));
     await settle();
     guard.accept();
-    const fits = packet(3, 300 - 3); // 1 type byte + 2 length bytes + 297 = 300
+    const fits = packet(8, 300 - 3); // SUBSCRIBE: 1 type byte + 2 length bytes + 297 = 300
     expect(fits).toHaveLength(300);
     client.write(fits);
     await settle();
     expect(passed()).toHaveLength(12 + 300);
-    client.write(packet(3, 298).subarray(0, 3));
+    client.write(packet(8, 298).subarray(0, 3));
     const err = await within(closed, 2000);
     expect(err).toBeInstanceOf(PacketTooLarge);
     expect((err as PacketTooLarge).bytes).toBe(301);
+  });
+
+  it("reads past an oversized PUBLISH, handing on its topic and packet id with a marker for a body", async () => {
+    const { client, guard, passed, closed } = await pair();
+    const connect = packet(1, 10);
+    client.write(connect);
+    await settle();
+    guard.accept();
+    // §3.3: QoS 1 PUBLISH (0x32), topic "a/b", packet id 7, then 1 MiB of payload, sent in pieces
+    const body = Buffer.concat([Buffer.from([0, 3, 0x61, 0x2f, 0x62, 0, 7]), Buffer.alloc(1024 * 1024, 0x41)]);
+    const big = Buffer.concat([Buffer.from([0x32]), varint(body.length), body]);
+    for (let at = 0; at < big.length; at += 7000) client.write(big.subarray(at, at + 7000));
+    const after = packet(12, 0); // PINGREQ, §3.12
+    client.write(after);
+    await settle();
+    await new Promise((r) => setTimeout(r, 200));
+    const got = passed().subarray(connect.length);
+    // 0x32, length 23, topic, packet id, 16 marker bytes; then the PINGREQ untouched
+    expect(got.subarray(0, 9)).toEqual(Buffer.from([0x32, 23, 0, 3, 0x61, 0x2f, 0x62, 0, 7]));
+    expect(got).toHaveLength(2 + 23 + 2);
+    expect(got.subarray(25)).toEqual(after);
+    expect(guard.takeCut(got.subarray(9, 25))).toBe(big.length);
+    expect(guard.takeCut(Buffer.alloc(16))).toBeNull(); // anything else is an ordinary payload
+    expect(await within(closed, 100)).toBe("open");
+  });
+
+  it("passes packets whose fixed header is split across chunks unchanged", async () => {
+    const { client, guard, passed } = await pair({ connectMaxBytes: 64, packetMaxBytes: 100_000 });
+    const connect = packet(1, 10);
+    client.write(connect);
+    await settle();
+    guard.accept();
+    const a = packet(3, 20_000); // three length bytes
+    const b = packet(3, 50);
+    const all = Buffer.concat([a, b]);
+    // header of `a` split after its first and second byte, `b`'s split after its type byte
+    const pieces = [all.subarray(0, 1), all.subarray(1, 2), all.subarray(2, 20_004), all.subarray(20_004, 20_005), all.subarray(20_005)];
+    for (const piece of pieces) {
+      client.write(piece);
+      await settle();
+    }
+    expect(passed()).toEqual(Buffer.concat([connect, all]));
   });
 
   it("closes on a Remaining Length longer than four bytes (MQTT 3.1.1 §2.2.3)", async () => {
