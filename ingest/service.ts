@@ -8,7 +8,9 @@ import pg from "pg";
 import { db as sharedDb, schema, type Db } from "@/db";
 import { getProbeByCode, verifyProbeToken } from "@/db/queries/probes";
 import type { Probe } from "@/db/schema";
-import { excerptOf, rejectionText, validateSenmlPayload, type TelemetryLimits } from "@/lib/telemetry";
+import { DEFAULT_LIMITS, excerptOf, rejectionText, summarizeRejections, validateSenmlPayload, type TelemetryLimits } from "@/lib/telemetry";
+import { createConnectionLimits, DEFAULT_CONNECTION_LIMITS, type ConnectionLimits } from "./connection-limits";
+import { FrameGuard, PacketTooLarge } from "./frame-guard";
 import { createWriter, type BatchOptions, type RetryOptions } from "./writer";
 
 const log = createDebug("wormward:ingest");
@@ -29,12 +31,24 @@ export type IngestOptions = {
   limits?: Partial<TelemetryLimits>;
   onCommitted?: (zoneIds: string[], probeIds: number[]) => void | Promise<void>;
   probeTtlMs?: number;
+  connections?: Partial<ConnectionLimits>;
+  /** A connection that sends no CONNECT in this time is closed (aedes connectTimeout). */
+  connectTimeoutMs?: number;
+  /** Largest CONNECT packet read before one is accepted. */
+  connectMaxBytes?: number;
 };
+
+// A probe's CONNECT holds a client id, a user name (its code), a 43-character token and a short
+// will: a few hundred bytes. The broker reads no more than this from a stranger.
+export const CONNECT_MAX_BYTES = 512;
+// Fixed header (5), topic length (2) and topic, packet id (2): room for wormward/<code>/up and more.
+const PUBLISH_OVERHEAD_BYTES = 512;
+const CONNECT_TIMEOUT_MS = 10_000;
 
 export type Ingest = {
   port: number;
   close(): Promise<void>;
-  stats(): { batches: number; rows: number; retries: number };
+  stats(): { batches: number; rows: number; retries: number; refusedConnections: number; cutPackets: number };
 };
 
 type Session = { probe: Probe; fetchedAt: number; refreshing: Promise<void> | null };
@@ -63,6 +77,8 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   const writer = createWriter({ db: d, batch: opts.batch, retry: opts.retry, onCommitted: opts.onCommitted });
   const probeTtlMs = opts.probeTtlMs ?? 60_000;
   const sessions = new WeakMap<Client, Session>();
+  const limits = { ...DEFAULT_LIMITS, ...opts.limits };
+  const admission = createConnectionLimits({ ...DEFAULT_CONNECTION_LIMITS, ...opts.connections });
   const live = new Map<string, Set<Client>>();
 
   const refuse = (client: Client | null, what: string, cb: (err: Error) => void) => {
@@ -103,14 +119,15 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   }
 
   async function onUp(probe: Probe, _client: Client, topic: string, payload: Buffer) {
-    const v = validateSenmlPayload(probe, payload, { limits: opts.limits });
+    const v = validateSenmlPayload(probe, payload, { limits });
     const origin = originOf(probe, topic, payload);
     if (v.rejections.length) {
       log("probe %s: %d record(s) refused (%s)", probe.code, v.rejections.length, [...new Set(v.rejections.map((r) => r.code))].join(", "));
     }
+    const refused = summarizeRejections(v.rejections);
     await writer.submit({
       readings: v.readings,
-      rejections: v.rejections.map((r) => ({ ...origin, reason: rejectionText(r) })),
+      rejections: refused ? [{ ...origin, ...refused }] : [],
       status: { probeId: probe.id, ...v.status },
       zoneId: probe.zoneId,
       origin,
@@ -130,7 +147,29 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     await writer.submit(statusJob(probe, { online, seenAt: new Date() }));
   }
 
+  // MQTT 3.1.1 §3.3.1.3 makes a server store a retained message for later subscribers; nothing here
+  // is for later subscribers, so it is refused: recorded with its reason and acknowledged (there is
+  // no negative PUBACK in 3.1.1, and a dropped connection would have the probe resend it forever).
+  // The flag is cleared so that aedes stores nothing; a retained will comes through here too.
+  async function onRetained(probe: Probe, packet: { topic: string; payload: Buffer | string; retain: boolean }) {
+    packet.retain = false;
+    const payload = Buffer.isBuffer(packet.payload) ? packet.payload : Buffer.from(packet.payload);
+    const reason = rejectionText({ code: "retained", reason: "a retained publish is not accepted (MQTT 3.1.1 §3.3.1.3); publish with RETAIN 0" });
+    log("probe %s: retained publish to %s refused", probe.code, packet.topic);
+    await writer.submit({ ...statusJob(probe, { seenAt: new Date() }), rejections: [{ ...originOf(probe, packet.topic, payload), reason }] });
+  }
+
+  // A PUBLISH over the cap that the frame guard read past without keeping: refused like any payload
+  // over 16 KiB, and acknowledged so that the probe does not send it again.
+  async function onReadPast(probe: Probe, packet: { topic: string; retain: boolean }, bytes: number) {
+    packet.retain = false;
+    const reason = rejectionText({ code: "too-large", reason: `a packet of ${bytes} bytes was read past; payloads of at most ${limits.maxBytes} bytes are accepted` });
+    log("probe %s: publish of %d bytes to %s read past", probe.code, bytes, packet.topic);
+    await writer.submit({ ...statusJob(probe, { seenAt: new Date() }), rejections: [{ ...originOf(probe, packet.topic), reason }] });
+  }
+
   const handlers: AedesOptions = {
+    connectTimeout: opts.connectTimeoutMs ?? CONNECT_TIMEOUT_MS,
     authenticate(client, username, password, done) {
       const code = username ?? "";
       const token = password?.toString("utf8") ?? "";
@@ -146,6 +185,7 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
             return done(authError(BAD_USERNAME_OR_PASSWORD, "bad user name or password"), false);
           }
           sessions.set(client, { probe, fetchedAt: Date.now(), refreshing: null });
+          if (client.conn instanceof FrameGuard) client.conn.accept();
           done(null, true);
         },
         (err: Error) => {
@@ -164,6 +204,9 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
       currentProbe(session)
         .then((probe) => {
           if (!probe) return refuse(client, `publish from archived probe ${session.probe.code}`, cb);
+          const cut = client.conn instanceof FrameGuard ? client.conn.takeCut(packet.payload) : null;
+          if (cut !== null) return onReadPast(probe, packet, cut).then(() => cb(null));
+          if (packet.retain) return onRetained(probe, packet).then(() => cb(null));
           // MQTT 3.1.1 has no negative PUBACK (§3.4): a recorded rejection is acknowledged.
           return (packet.topic === up ? onUp : onStatus)(probe, client, packet.topic, packet.payload as Buffer).then(() => cb(null));
         })
@@ -204,7 +247,42 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   });
   broker.on("keepaliveTimeout", (client) => log("keep-alive of %s ran out", client.id));
 
-  const server = net.createServer(broker.handle);
+  const frameLimits = {
+    connectMaxBytes: opts.connectMaxBytes ?? CONNECT_MAX_BYTES,
+    packetMaxBytes: limits.maxBytes + PUBLISH_OVERHEAD_BYTES,
+  };
+  const counts = { refusedConnections: 0, cutPackets: 0 };
+  const server = net.createServer((socket) => {
+    const admitted = admission.admit(socket.remoteAddress);
+    if (!admitted.ok) {
+      counts.refusedConnections++;
+      log("refused a connection from %s: too many %s", admitted.key, admitted.why === "attempts" ? "attempts" : `${admitted.why} connections`);
+      socket.destroy();
+      return;
+    }
+    const conn = new FrameGuard(socket, frameLimits, admitted.accepted);
+    conn.on("close", admitted.closed);
+    conn.on("error", (err) => {
+      if (err instanceof PacketTooLarge) recordCut(conn, err, admitted.key);
+    });
+    broker.handle(conn as unknown as net.Socket);
+  });
+
+  // A probe's connection cut for an oversized packet that is not a PUBLISH (those are read past)
+  // leaves a row its owner can read, one a minute at most; a stranger's, a log line.
+  const lastCutRow = new Map<number, number>();
+  function recordCut(conn: FrameGuard, err: PacketTooLarge, from: string) {
+    counts.cutPackets++;
+    const client = (conn as unknown as { client?: Client }).client; // aedes sets conn.client
+    const s = client ? sessions.get(client) : undefined;
+    log("cut off %s from %s: %s", s ? `probe ${s.probe.code}` : "a connection", from, err.message);
+    if (!s || Date.now() - (lastCutRow.get(s.probe.id) ?? -Infinity) < 60_000) return;
+    lastCutRow.set(s.probe.id, Date.now());
+    const reason = rejectionText({ code: "too-large", reason: `${err.message}; the connection was closed` });
+    writer
+      .submit({ ...statusJob(s.probe, {}), rejections: [{ ...originOf(s.probe), reason }] })
+      .catch((e: Error) => log("cut packet of %s not recorded: %s", s.probe.code, e.message));
+  }
   await new Promise<void>((resolve, reject) => {
     server.once("error", reject);
     server.listen(opts.port, opts.host ?? "127.0.0.1", () => {
@@ -218,7 +296,7 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   let closed: Promise<void> | null = null;
   return {
     port,
-    stats: writer.stats,
+    stats: () => ({ ...writer.stats(), ...counts }),
     close() {
       closed ??= (async () => {
         const serverClosed = new Promise<void>((r) => server.close(() => r()));

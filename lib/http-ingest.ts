@@ -5,7 +5,7 @@ import { storeMessage } from "@/db/queries/telemetry";
 import type { Probe } from "@/db/schema";
 import { capWords, mediaType, readCappedBody } from "./api/body";
 import { AppError } from "./errors";
-import { excerptOf, rejectionText, validateSenmlPayload, type Rejection, type ValidatedPayload } from "./telemetry";
+import { excerptOf, rejectionText, summarizeRejections, validateSenmlPayload, type Rejection, type ValidatedPayload } from "./telemetry";
 
 export const SENML_JSON = "application/senml+json";
 
@@ -44,21 +44,30 @@ export type HttpIngestResult = {
   /** Readings already stored before (a resent message): a no-op. */
   duplicates: number;
   rejected: number;
+  /** The first ANSWERED_REJECTIONS; `rejected` counts them all. */
   rejections: Rejection[];
 };
+
+// A pack of thousands of bad records is answered with a few of them, not an echo larger than itself.
+export const ANSWERED_REJECTIONS = 20;
 
 /** Validates one posted message like an MQTT one and stores it; throws 400 for a message refused whole. */
 export async function acceptHttpTelemetry(probe: Probe, body: Buffer, now = new Date()): Promise<HttpIngestResult> {
   const v = validateSenmlPayload(probe, body, { now });
   const origin = { farmId: probe.farmId, probeId: probe.id, source: "http" as const, topic: null };
-  const excerpt = v.rejections.length > 0 ? excerptOf(body) : null;
+  const refused = summarizeRejections(v.rejections);
   const { inserted } = await storeMessage({
     readings: v.readings,
-    rejections: v.rejections.map((r) => ({ ...origin, excerpt, reason: rejectionText(r) })),
+    rejections: refused ? [{ ...origin, excerpt: excerptOf(body), ...refused }] : [],
     status: { probeId: probe.id, ...v.status },
   });
   if (refusedWhole(v)) throw new AppError("bad_request", `Nothing stored: ${v.rejections[0]!.reason}.`);
-  return { stored: inserted, duplicates: v.readings.length - inserted, rejected: v.rejections.length, rejections: v.rejections };
+  return {
+    stored: inserted,
+    duplicates: v.readings.length - inserted,
+    rejected: v.rejections.length,
+    rejections: v.rejections.slice(0, ANSWERED_REJECTIONS),
+  };
 }
 
 /** Reads a probe's message with the MQTT cap; a larger one is recorded as a rejection and refused with 413. */

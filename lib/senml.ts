@@ -230,6 +230,8 @@ function resolveOne(
 
   // §4.5.3: missing Base Time or Time counts as zero; the sum, if below 2**28, is relative to now.
   const total = (baseNumber(base.bt) ?? 0) + ((rec.t as number | undefined) ?? 0);
+  // Two finite JSON numbers can add up to Infinity; no time is that far (§4.5.3 counts seconds).
+  if (!Number.isFinite(total)) return "bt + t is not a finite number of seconds (RFC 8428 §4.5.3)";
   const resolved: ResolvedRecord = { name, time: total < RELATIVE_TIME_LIMIT ? now + total : total };
   const unit = (rec.u as string | undefined) ?? baseString(base.bu);
   if (unit) resolved.unit = unit;

@@ -16,10 +16,12 @@ export type RejectCode =
   | "sensor-error"
   | "too-far-ahead"
   | "too-old"
-  | "bad-status";
+  | "bad-status"
+  | "retained";
 
 // whole: the message could not be read as a SenML pack at all (no record was looked at).
-export type Rejection = { code: RejectCode; reason: string; whole?: true };
+// name: the record's resolved SenML name, when the refusal is about one record.
+export type Rejection = { code: RejectCode; reason: string; whole?: true; name?: string };
 
 export type TelemetryProbe = {
   id: number;
@@ -56,6 +58,45 @@ const KNOWN_SUFFIXES = new Set(Object.values(METRICS).map((m) => m.suffix));
 
 export const rejectionText = (r: Rejection) => `${r.code}: ${r.reason}`;
 
+/** One rejected_messages row per refused message keeps this many reasons, each this long at most. */
+export const REASONS_KEPT = 5;
+export const REASON_LINE_MAX = 240;
+
+const clip = (s: string, max: number) => (s.length > max ? `${s.slice(0, max - 1)}…` : s);
+
+/**
+ * The reason and record count stored for one message's refusals: the first refusal of each kind and
+ * record name first (so a fault on every channel stays readable to the probe-fault rule), then the
+ * next ones, REASONS_KEPT lines at most; a pack of 8,190 bad records is one row, not 8,190.
+ */
+export function summarizeRejections(rs: readonly Rejection[]): { reason: string; records: number } | null {
+  if (rs.length === 0) return null;
+  const seen = new Set<string>();
+  const firsts: number[] = [];
+  for (let i = 0; i < rs.length && firsts.length < REASONS_KEPT; i++) {
+    const key = `${rs[i]!.code} ${rs[i]!.name ?? ""}`;
+    if (!seen.has(key)) {
+      seen.add(key);
+      firsts.push(i);
+    }
+  }
+  for (let i = 0; i < rs.length && firsts.length < REASONS_KEPT; i++) if (!firsts.includes(i)) firsts.push(i);
+  return { reason: reasonLines(firsts.sort((a, b) => a - b).map((i) => rejectionText(rs[i]!)), rs.length), records: rs.length };
+}
+
+/** The first reasons, one a line and each clipped, and how many more there were out of `total`. */
+export function reasonLines(first: readonly string[], total: number): string {
+  const lines = first.slice(0, REASONS_KEPT).map((l) => clip(l, REASON_LINE_MAX));
+  const more = total - lines.length;
+  if (more > 0) lines.push(`and ${more} more record${more === 1 ? "" : "s"} refused`);
+  return lines.join("\n");
+}
+
+// ECMA-262 §21.4.1.22 (Time Values and Time Range): a Date holds ±8.64e15 ms around the epoch;
+// past that, toISOString throws, so a time that far out is shown as the seconds the probe sent.
+const MAX_DATE_MS = 8.64e15;
+const shownTime = (ms: number, seconds: number) => (Math.abs(ms) <= MAX_DATE_MS ? new Date(ms).toISOString() : `t=${seconds} s`);
+
 // PostgreSQL text cannot hold U+0000.
 export function excerptOf(payload: Buffer | string, maxBytes = 200): string {
   const buf = typeof payload === "string" ? Buffer.from(payload, "utf8") : payload;
@@ -65,7 +106,7 @@ export function excerptOf(payload: Buffer | string, maxBytes = 200): string {
 type Checked = { ok: true; key: MetricKey; value: number | string; time: number } | { ok: false; rejection: Rejection };
 
 function checkRecord(probe: TelemetryProbe, rec: ResolvedRecord, limits: TelemetryLimits, nowMs: number): Checked {
-  const bad = (code: RejectCode, reason: string): Checked => ({ ok: false, rejection: { code, reason } });
+  const bad = (code: RejectCode, reason: string): Checked => ({ ok: false, rejection: { code, reason, name: rec.name } });
   const found = metricFromSenml(rec.name, rec.unit);
   if (!found.ok) {
     const rest = rec.name.startsWith(PROBE_URN_PREFIX) ? rec.name.slice(PROBE_URN_PREFIX.length) : "";
@@ -77,11 +118,12 @@ function checkRecord(probe: TelemetryProbe, rec: ResolvedRecord, limits: Telemet
   if (probeId !== probe.code) return bad("wrong-probe", `record names probe "${probeId}" but was sent by "${probe.code}"`);
 
   const ms = rec.time * 1000;
-  if (ms > nowMs + limits.maxAheadMs) {
-    return bad("too-far-ahead", `${rec.name} at ${new Date(ms).toISOString()} is more than ${limits.maxAheadMs / 60_000} min ahead`);
+  // Written so that NaN fails too: it would pass both "ahead" and "old" comparisons.
+  if (!(ms <= nowMs + limits.maxAheadMs)) {
+    return bad("too-far-ahead", `${rec.name} at ${shownTime(ms, rec.time)} is more than ${limits.maxAheadMs / 60_000} min ahead`);
   }
-  if (ms < nowMs - limits.maxAgeMs) {
-    return bad("too-old", `${rec.name} at ${new Date(ms).toISOString()} is more than ${limits.maxAgeMs / 86_400_000} days old`);
+  if (!(ms >= nowMs - limits.maxAgeMs)) {
+    return bad("too-old", `${rec.name} at ${shownTime(ms, rec.time)} is more than ${limits.maxAgeMs / 86_400_000} days old`);
   }
 
   const spec = METRICS[metric];
@@ -94,6 +136,8 @@ function checkRecord(probe: TelemetryProbe, rec: ResolvedRecord, limits: Telemet
   }
   if (rec.value === undefined || rule === null) return bad("malformed-senml", `${spec.suffix} needs a numeric value (v)`);
   const value = rec.value * rule.scale + rule.offset;
+  // bv + v can overflow to Infinity (RFC 8428 §4.5.4 adds them); PostgreSQL float8 would store it.
+  if (!Number.isFinite(value)) return bad("out-of-range", `${rec.name} = ${value} ${spec.displayUnit} is not a finite number`);
   if (spec.errorCodes.some((code) => Math.abs(value - code) < 1e-9)) {
     return bad("sensor-error", `${rec.name} = ${value} ${spec.displayUnit} is a sensor error code, not a reading`);
   }

@@ -13,6 +13,7 @@ import {
   type ImportMapping,
 } from "@/lib/csv-import";
 import { AppError } from "@/lib/errors";
+import { REASONS_KEPT, reasonLines } from "@/lib/telemetry";
 import { insertReadings, recordRejections } from "./readings";
 
 export type ImportRecord = typeof imports.$inferSelect;
@@ -89,17 +90,15 @@ export async function importCsv(input: {
       inserted += (await insertReadings(chunk, tx)).inserted;
     }
     const report: BadRow[] = mapped.bad.slice(0, MAX_REPORTED);
-    await recordRejections(
-      report.map((b) => ({
-        farmId: input.farmId,
-        probeId: null,
-        source: "csv" as const,
-        topic: null,
-        reason: `line ${b.line}: ${b.reason}`,
-        excerpt: `${input.fileName.slice(0, 120)} line ${b.line}`,
-      })),
-      tx,
-    );
+    // One row for the file's refused lines, as for a message; the import's report lists them.
+    const firstBad = mapped.bad[0];
+    if (firstBad) {
+      const lines = mapped.bad.slice(0, REASONS_KEPT).map((b) => `line ${b.line}: ${b.reason}`);
+      await recordRejections(
+        [{ farmId: input.farmId, probeId: null, source: "csv", topic: null, reason: reasonLines(lines, mapped.bad.length), records: mapped.bad.length, excerpt: `${input.fileName.slice(0, 120)} line ${firstBad.line}` }],
+        tx,
+      );
+    }
     const [row] = await tx
       .insert(imports)
       .values({

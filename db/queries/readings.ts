@@ -12,6 +12,8 @@ export type RejectionInput = {
   source: "mqtt" | "http" | "csv";
   topic?: string | null;
   reason: string;
+  /** How many records of the message this row stands for (its reason holds the first few). */
+  records?: number;
   excerpt?: string | null;
 };
 
@@ -70,6 +72,7 @@ export async function recordRejections(rows: readonly RejectionInput[], ex: Exec
       source: r.source,
       topic: clean(r.topic),
       reason: clean(r.reason) ?? "",
+      records: r.records ?? 1,
       excerpt: clean(r.excerpt),
     })),
   );

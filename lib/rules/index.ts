@@ -45,5 +45,5 @@ export {
   type ProbeAlertKind,
   type ZoneAlertKind,
 } from "./evaluate";
-export { refusalFault, valueFault, type RefusalFault } from "./probe-health";
+export { refusalFault, refusalFaults, valueFault, type RefusalFault } from "./probe-health";
 export { replay, type ReplayInput, type ReplayStep } from "./replay";

@@ -53,6 +53,10 @@ export function refusalFault(reason: string): RefusalFault | null {
   return { suffix: m[2]!, value: Number.isFinite(value) ? value : null, cause: m[1] === "sensor-error" ? "error-code" : "out-of-range" };
 }
 
+/** Every fault in one rejected_messages row: a row stands for a message and keeps one reason a line. */
+export const refusalFaults = (reason: string): RefusalFault[] =>
+  reason.split("\n").flatMap((line) => refusalFault(line) ?? []);
+
 export { valueFault };
 
 type Mark = { t: number; v: number | null; cause: RefusalFault["cause"] | null };
@@ -92,8 +96,8 @@ export function faultVerdict(ctx: RuleContext, probe: ProbeContext): Verdict | n
     for (const p of view.raw.slice(firstAtOrAfter(view.raw, from))) c.marks.push({ t: p.t, v: p.v, cause: valueFault(view.metric, p.v) });
   }
   for (const ref of probe.refusals ?? []) {
-    const f = refusalFault(ref.reason);
-    if (f && Number.isFinite(ref.at) && ref.at >= from) {
+    if (!Number.isFinite(ref.at) || ref.at < from) continue;
+    for (const f of refusalFaults(ref.reason)) {
       const metric = (Object.values(METRICS).find((m) => m.suffix === f.suffix)?.key ?? null) as MetricKey | null;
       channel(f.suffix, metric).marks.push({ t: ref.at, v: f.value, cause: f.cause });
     }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { evaluateZone, refusalFault, replay, valueFault, type ProbeContext, type ProbeSeries } from "@/lib/rules";
 import { speciesProfiles } from "@/lib/species";
-import { rejectionText, validateSenmlPayload } from "@/lib/telemetry";
+import { rejectionText, summarizeRejections, validateSenmlPayload } from "@/lib/telemetry";
 
 const t0 = Date.UTC(2025, 5, 1, 6, 0, 0);
 const MIN = 60_000;
@@ -114,6 +114,18 @@ describe("probe fault", () => {
       "Flow-through A, working zone: probe p-4 sends 85 °C for temperature, a sensor error code, not a reading. Check its wiring.",
     );
     expect(events[1]!.message).toBe("Flow-through A, working zone: probe p-4 reads normally again.");
+  });
+
+  it("a fault behind another refusal in the same message's row still raises", () => {
+    // One rejected_messages row per message: an unknown metric first, then the error code.
+    const payload = JSON.stringify([{ bn: "urn:dev:wormward:p-4:", n: "ph", v: 7 }, { n: "temp", u: "Cel", v: 85 }]);
+    const row = summarizeRejections(validateSenmlPayload({ id: 4, code: "p-4" }, payload, { now: new Date(t0) }).rejections)!;
+    expect(row.records).toBe(2);
+    expect(refusalFault(row.reason)).toBeNull(); // the first line alone is no fault
+    const refusals = Array.from({ length: 20 }, (_, k) => ({ at: at(20 + k), reason: row.reason }));
+    const temp = [...minuteSeries(hold(21, 20)), ...minuteSeries(hold(21, 40), 40)];
+    const { brief } = run([{ probeId: 4, metric: "temperature", points: temp }], probe({ refusals }), 80, ["probe_fault", "silent_probe"]);
+    expect(brief).toEqual(["25 raise probe_fault", "55 settle probe_fault"]);
   });
 
   it("one refused glitch is not a fault", () => {

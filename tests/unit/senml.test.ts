@@ -295,6 +295,7 @@ describe("bad records are reported, good ones kept", () => {
     ["a negative update time", { n: "a", v: 1, ut: -1 }, /ut/], // RFC 8428 §4.2
     ["an empty object", {}, /§4\.2/], // RFC 8428 §4.2
     ["a number instead of a record", 42, /object/], // RFC 8428 §5
+    ["a base time and time adding up past the largest number", { n: "a", v: 1, bt: 1e308, t: 1e308 }, /§4\.5\.3/], // RFC 8428 §4.5.3
   ])("%s", (_label, bad, reason) => {
     const r = refused([{ n: "good", v: 1 }, bad, { n: "also-good", v: 2 }]);
     expect(r.records.map((x) => x.name)).toEqual(["good", "also-good"]);
@@ -308,6 +309,13 @@ describe("bad records are reported, good ones kept", () => {
     expect(r.records.map((x) => x.name)).toEqual(["ok:c"]);
     expect(r.errors.map((e) => e.index)).toEqual([0, 1]);
     expect(r.errors[1]!.reason).toMatch(/record 0/);
+  });
+
+  it("a time far outside any calendar is still a record: the ingest, not the parser, judges its date", () => {
+    // RFC 8428 §4.5.3: bt and t are seconds, with no upper bound in the RFC itself
+    const r = refused([{ n: "a", v: 1, t: 1e13 }, { n: "b", v: 1, bt: 1e300 }]);
+    expect(r.errors).toEqual([]);
+    expect(r.records.map((x) => [x.name, x.time])).toEqual([["a", 1e13], ["b", 1e300]]);
   });
 
   it("a bad base unit only matters to records without their own unit", () => {

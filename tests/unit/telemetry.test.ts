@@ -1,6 +1,16 @@
 import { describe, expect, it } from "vitest";
 import { probeBaseName } from "@/lib/metrics";
-import { DEFAULT_LIMITS, excerptOf, validateSenmlPayload, type RejectCode, type TelemetryProbe } from "@/lib/telemetry";
+import { refusalFaults } from "@/lib/rules";
+import {
+  DEFAULT_LIMITS,
+  REASON_LINE_MAX,
+  REASONS_KEPT,
+  excerptOf,
+  summarizeRejections,
+  validateSenmlPayload,
+  type RejectCode,
+  type TelemetryProbe,
+} from "@/lib/telemetry";
 
 const NOW = new Date("2026-03-01T12:00:00Z");
 const T = NOW.getTime() / 1000;
@@ -94,6 +104,38 @@ describe("validateSenmlPayload", () => {
     expect(rows(r)).toEqual([["temperature", T, 21]]);
   });
 
+  it("a time outside JavaScript's date range is one refused record and the rest of the pack is kept", () => {
+    // ECMA-262 §21.4.1.22: a Date spans ±8.64e15 ms; 1e13 s and 1e300 s are far past it.
+    const r = validate([
+      { bn, bt: T, n: "temp", u: "Cel", v: 21 },
+      { n: "temp", u: "Cel", v: 22, t: 1e13 },
+      { bt: 1e300, n: "moisture", u: "/100", v: 70 },
+      { bt: -1e300, n: "moisture", u: "/100", v: 71 }, // RFC 8428 §4.5.3: below 2**28, so relative to now
+      { bt: T, n: "nh3", u: "ppm", v: 3 },
+    ]);
+    expect(codes(r).sort()).toEqual(["too-far-ahead", "too-far-ahead", "too-old"]);
+    expect(r.rejections.map((x) => x.reason)).toEqual(
+      expect.arrayContaining([expect.stringMatching(/temp at t=\d{14} s is more than 5 min ahead/), expect.stringMatching(/moisture at t=1e\+300 s/)]),
+    );
+    expect(rows(r)).toEqual([
+      ["temperature", T, 21],
+      ["ammonia", T, 3],
+    ]);
+  });
+
+  it("a time just inside the date range reads as a date in the refusal", () => {
+    const r = validate([{ bn, bt: 8.64e12, n: "temp", u: "Cel", v: 21 }]);
+    expect(r.rejections[0]!.reason).toMatch(/at \+275760-09-13T00:00:00\.000Z is more than/);
+  });
+
+  it("a value that adds up to Infinity is refused, not stored", () => {
+    // RFC 8428 §4.5.4: bv and v add; two large finite numbers overflow.
+    const r = validate([{ bn, bt: T, n: "temp", u: "Cel", v: 20 }, { bv: 1.5e308, n: "moisture-raw", v: 1.5e308 }]);
+    expect(codes(r)).toEqual(["out-of-range"]);
+    expect(r.rejections[0]!.reason).toMatch(/Infinity/);
+    expect(rows(r)).toEqual([["temperature", T, 20]]);
+  });
+
   it("accepts the edges of the time window and of the physical range", () => {
     const r = validate([
       { bn, bt: T, n: "temp", u: "Cel", v: 125, t: 5 * 60 },
@@ -153,5 +195,43 @@ describe("validateSenmlPayload", () => {
   it("makes an excerpt of the first bytes without NUL", () => {
     expect(excerptOf(Buffer.from("ab\u0000cd"), 4)).toBe("ab\uFFFDc");
     expect(excerptOf("x".repeat(500))).toHaveLength(200);
+  });
+});
+
+describe("summarizeRejections", () => {
+  it("a pack of 8,190 bad records is one summary with its count and the first few reasons", () => {
+    const recs = [{ bn, bt: T, n: "temp", u: "Cel", v: 200 }, ...Array.from({ length: 8189 }, () => ({ n: "temp", u: "Cel", v: 200 }))];
+    const r = validate(recs, probe, { maxBytes: 1 << 20 });
+    expect(r.rejections).toHaveLength(8190);
+    const s = summarizeRejections(r.rejections)!;
+    expect(s.records).toBe(8190);
+    const lines = s.reason.split("\n");
+    expect(lines).toHaveLength(REASONS_KEPT + 1);
+    expect(lines[0]).toMatch(/^out-of-range: urn:dev:wormward:p-7f3a:temp = 200 °C/);
+    expect(lines[REASONS_KEPT]).toBe(`and ${8190 - REASONS_KEPT} more records refused`);
+    expect(s.reason.length).toBeLessThan((REASON_LINE_MAX + 1) * (REASONS_KEPT + 1));
+  });
+
+  it("keeps the first refusal of each kind and channel before repeats, so each faulty channel stays readable", () => {
+    const pack = [
+      { bn, bt: T, n: "temp", u: "Cel", v: 200 },
+      ...Array.from({ length: 10 }, (_, k) => ({ n: "temp", u: "Cel", v: 200, t: -k - 1 })),
+      { n: "moisture", u: "/100", v: 140 },
+      { n: "temp", u: "Cel", v: 85 },
+    ];
+    const s = summarizeRejections(validate(pack).rejections)!;
+    expect(s.records).toBe(13);
+    expect(refusalFaults(s.reason).map((f) => [f.suffix, f.cause]).sort()).toEqual(
+      [["moisture", "out-of-range"], ["temp", "error-code"], ["temp", "out-of-range"], ["temp", "out-of-range"], ["temp", "out-of-range"]].sort(),
+    );
+  });
+
+  it("clips a long reason and says nothing for a message with no refusals", () => {
+    const long = "x".repeat(5000);
+    const s = summarizeRejections([{ code: "unknown-metric", reason: long }])!;
+    expect(s).toMatchObject({ records: 1 });
+    expect(s.reason).toHaveLength(REASON_LINE_MAX);
+    expect(s.reason.endsWith("…")).toBe(true);
+    expect(summarizeRejections([])).toBeNull();
   });
 });

@@ -84,8 +84,11 @@ describe("importing a logger CSV", () => {
     const kept = await c.query(`select rows_stored, rows_rejected, report, mapping from imports where id = $1`, [out.import.id]);
     expect(kept.rows[0]).toMatchObject({ rows_stored: 4, rows_rejected: 5, mapping: { time: "Timestamp", probe: "Sensor", unit: "Unit" } });
     expect(kept.rows[0].report).toHaveLength(5);
-    const rejected = await c.query(`select reason from rejected_messages where farm_id = $1 and source = 'csv' order by id`, [farm.farmId]);
-    expect(rejected.rows.map((r) => r.reason.split(":")[0])).toEqual(["line 5", "line 7", "line 8", "line 9", "line 10"]);
+    // One rejection row for the file, counting its refused lines; the import's report lists each.
+    const rejected = await c.query(`select reason, records from rejected_messages where farm_id = $1 and source = 'csv' order by id`, [farm.farmId]);
+    expect(rejected.rows).toHaveLength(1);
+    expect(rejected.rows[0].records).toBe(5);
+    expect((rejected.rows[0].reason as string).split("\n").map((l) => l.split(":")[0])).toEqual(["line 5", "line 7", "line 8", "line 9", "line 10"]);
   });
 
   it("the same file uploaded again adds nothing and says it was already imported", async () => {

@@ -21,12 +21,17 @@ const pack = (code: string, t: number, extra: object[] = []) =>
   JSON.stringify([{ bn: `urn:dev:wormward:${code}:`, bt: t, n: "temp", u: "Cel", v: 22.5 }, { n: "moisture", u: "/100", v: 77 }, ...extra]);
 const rowsOf = async (probeId: number) => Number((await c.query(`select count(*)::int as n from readings where probe_id = $1`, [probeId])).rows[0].n);
 const rejectionsOf = async (probeId: number) =>
-  (await c.query(`select reason, source::text, excerpt from rejected_messages where probe_id = $1 order by id`, [probeId])).rows as { reason: string; source: string; excerpt: string | null }[];
+  (await c.query(`select reason, records, source::text, excerpt from rejected_messages where probe_id = $1 order by id`, [probeId])).rows as {
+    reason: string;
+    records: number;
+    source: string;
+    excerpt: string | null;
+  }[];
 
 beforeAll(async () => {
   c = new pg.Client({ connectionString: inject("appDbUrl") });
   await c.connect();
-  farm = await makeFarm(c, { zones: ["fresh", "working"], probes: ["fresh", "working", "working", "working", "working", "working"] });
+  farm = await makeFarm(c, { zones: ["fresh", "working"], probes: ["fresh", "working", "working", "working", "working", "working", "working", "working"] });
 });
 
 afterAll(async () => {
@@ -55,11 +60,49 @@ describe("POST /api/ingest", () => {
       { metric: "temperature", value: 22.5 },
     ]);
     const rejected = (await rejectionsOf(id)).filter((r) => r.source === "http");
-    expect(rejected.map((r) => r.reason.split(":")[0]).sort()).toEqual(["sensor-error", "unknown-metric"]);
+    // One row for the message: its two refused records counted, each reason on a line of its own.
+    expect(rejected).toHaveLength(1);
+    expect(rejected[0]!.records).toBe(2);
+    expect(rejected[0]!.reason.split("\n").map((l) => l.split(":")[0]).sort()).toEqual(["sensor-error", "unknown-metric"]);
     expect(rejected[0]!.excerpt).toContain("urn:dev:wormward:");
     const p = await c.query(`select battery_v, last_seen_at from probes where id = $1`, [id]);
     expect(p.rows[0].battery_v).toBeCloseTo(3.71, 5);
     expect(Date.now() - new Date(p.rows[0].last_seen_at).getTime()).toBeLessThan(60_000);
+  });
+
+  it("a SenML time outside the date range is one refused record and the rest of the pack is stored", async () => {
+    // Was a 500 with nothing stored: "Invalid time value" from a Date past ECMA-262 §21.4.1.22's range.
+    const probe = farm.probes[6]!;
+    const t = nowS() - 20;
+    const body = JSON.stringify([
+      { bn: `urn:dev:wormward:${probe.code}:`, bt: t, n: "temp", u: "Cel", v: 21 },
+      { n: "temp", u: "Cel", v: 22, t: 1e13 },
+      { bt: 1e300, n: "moisture", u: "/100", v: 70 },
+      { bt: t, n: "moisture", u: "/100", v: 71 },
+    ]);
+    const res = await post(body, { authorization: bearer(probe), "content-type": SENML });
+    expect(res.status).toBe(202);
+    const a = (await res.json()) as Answer;
+    expect(a).toMatchObject({ stored: 2, rejected: 2 });
+    expect(a.rejections.map((r) => r.code)).toEqual(["too-far-ahead", "too-far-ahead"]);
+    expect(await rowsOf(probe.id)).toBe(2);
+    const rows = await rejectionsOf(probe.id);
+    expect(rows.map((r) => [r.records, r.reason.split("\n").length])).toEqual([[2, 2]]);
+  });
+
+  it("a pack of 8,190 bad records writes one rejection row with its count", async () => {
+    const probe = farm.probes[7]!;
+    const body = `[${Array(8190).fill(1).join(",")}]`; // RFC 8428 §5: a record is a JSON object
+    const res = await post(body, { authorization: bearer(probe), "content-type": SENML });
+    expect(res.status).toBe(202);
+    const a = (await res.json()) as Answer;
+    expect(a).toMatchObject({ stored: 0, rejected: 8190 });
+    expect(a.rejections).toHaveLength(20); // the answer names the first 20, not all 8,190
+    const rows = await rejectionsOf(probe.id);
+    expect(rows).toHaveLength(1);
+    expect(rows[0]!.records).toBe(8190);
+    expect(rows[0]!.reason.split("\n")).toHaveLength(6);
+    expect(rows[0]!.reason.length).toBeLessThan(1500);
   });
 
   it("a repeated post is stored once", async () => {

@@ -71,8 +71,8 @@ export async function countReadings(probeIds: number[], d: Db = db()): Promise<{
 }
 
 export async function rejectionsOf(probeId: number, d: Db = db()) {
-  const r = await d.execute<{ reason: string; topic: string | null; excerpt: string | null; source: string; farm_id: string | null }>(
-    sql`select reason, topic, excerpt, source, farm_id from rejected_messages where probe_id = ${probeId} order by id`,
+  const r = await d.execute<{ reason: string; records: number; topic: string | null; excerpt: string | null; source: string; farm_id: string | null }>(
+    sql`select reason, records, topic, excerpt, source, farm_id from rejected_messages where probe_id = ${probeId} order by id`,
   );
   return r.rows;
 }

@@ -15,7 +15,7 @@ let fleet: TestProbe[];
 const clients: MqttClient[] = [];
 
 beforeAll(async () => {
-  fleet = await createProbes(10);
+  fleet = await createProbes(13);
   ingest = await startIngest({ port: 0, batch: { maxWaitMs: 10 } });
 });
 afterAll(async () => {
@@ -74,6 +74,43 @@ describe("rejected messages", () => {
     expect(await countReadings([p.id])).toEqual({ rows: 2, distinct: 2, rolled: 2 });
     const rows = await rejectionsOf(p.id);
     expect(rows.map((r) => r.reason)).toEqual([expect.stringMatching(/^out-of-range: .*moisture = 140/)]);
+  });
+
+  it("a SenML time outside the date range is one refused record and the rest of the pack is stored", async () => {
+    // "t": 1e13 and "bt": 1e300 are past what a JavaScript Date holds (ECMA-262 §21.4.1.22).
+    const p = fleet[10]!;
+    const t = now() - 10;
+    await send(10, JSON.stringify([
+      { bn: probeBaseName(p.code), bt: t, n: "temp", u: "Cel", v: 21 },
+      { n: "temp", u: "Cel", v: 22, t: 1e13 },
+      { bt: 1e300, n: "moisture", u: "/100", v: 70 },
+      { bt: t, n: "moisture", u: "/100", v: 71 },
+    ]));
+    expect(await countReadings([p.id])).toEqual({ rows: 2, distinct: 2, rolled: 2 });
+    const rows = await rejectionsOf(p.id);
+    expect(rows).toHaveLength(1);
+    expect(rows[0]!.records).toBe(2);
+    expect(rows[0]!.reason.split("\n")).toEqual([
+      expect.stringMatching(/^too-far-ahead: .*:temp at t=\d+ s is more than 5 min ahead/),
+      expect.stringMatching(/^too-far-ahead: .*:moisture at t=1e\+300 s/),
+    ]);
+  });
+
+  it("a pack of 8,190 bad records writes one rejection row with its count", async () => {
+    const p = fleet[11]!;
+    // 8,190 numbers where records belong (RFC 8428 §5: a record is a JSON object): 16,381 bytes.
+    const body = `[${Array(8190).fill(1).join(",")}]`;
+    expect(Buffer.byteLength(body)).toBeLessThanOrEqual(16 * 1024);
+    await send(11, body);
+    const rows = await rejectionsOf(p.id);
+    expect(rows).toHaveLength(1);
+    expect(rows[0]!.records).toBe(8190);
+    expect(rows[0]!.excerpt).toBe(body.slice(0, 200));
+    const lines = rows[0]!.reason.split("\n");
+    expect(lines[0]).toBe("malformed-senml: record 0: a record must be a JSON object (RFC 8428 §5)");
+    expect(lines).toHaveLength(6);
+    expect(lines[5]).toBe("and 8185 more records refused");
+    expect((await countReadings([p.id])).rows).toBe(0);
   });
 
   it("records nothing for a message that is entirely good", async () => {
