@@ -3,6 +3,7 @@
 import net from "node:net";
 import { afterEach, describe, expect, it } from "vitest";
 import { FrameGuard, PacketTooLarge } from "@/ingest/frame-guard";
+import { varint } from "../helpers/mqtt-bytes";
 
 type Pair = { client: net.Socket; guard: FrameGuard; passed: () => Buffer; closed: Promise<Error | null> };
 const open: (() => void)[] = [];
@@ -30,16 +31,6 @@ async function pair(limits = { connectMaxBytes: 64, packetMaxBytes: 300 }): Prom
   return { client, guard, passed: () => Buffer.concat(chunks), closed };
 }
 
-const varint = (n: number) => {
-  const out: number[] = [];
-  do {
-    let b = n % 128;
-    n = Math.floor(n / 128);
-    if (n > 0) b |= 0x80;
-    out.push(b);
-  } while (n > 0);
-  return Buffer.from(out);
-};
 const packet = (type: number, bodyBytes: number) => Buffer.concat([Buffer.from([type << 4]), varint(bodyBytes), Buffer.alloc(bodyBytes, 7)]);
 const settle = () => new Promise((r) => setTimeout(r, 50));
 const within = <T>(p: Promise<T>, ms: number) => Promise.race([p, new Promise<"open">((r) => setTimeout(() => r("open"), ms))]);

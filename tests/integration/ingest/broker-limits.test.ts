@@ -5,6 +5,7 @@ import net from "node:net";
 import { connect, type MqttClient } from "mqtt";
 import { afterEach, describe, expect, it } from "vitest";
 import { startIngest, type Ingest, type IngestOptions } from "@/ingest/service";
+import { varint } from "../../helpers/mqtt-bytes";
 import { connectProbe, countReadings, createProbes, rejectionsOf, tempPack, waitFor, type TestProbe } from "./helpers";
 
 const started: Ingest[] = [];
@@ -25,17 +26,6 @@ async function broker(opts: Partial<IngestOptions> = {}) {
 
 const nowS = () => Math.floor(Date.now() / 1000);
 
-/** MQTT 3.1.1 §2.2.3 Remaining Length. */
-function varint(n: number): Buffer {
-  const out: number[] = [];
-  do {
-    let b = n % 128;
-    n = Math.floor(n / 128);
-    if (n > 0) b |= 0x80;
-    out.push(b);
-  } while (n > 0);
-  return Buffer.from(out);
-}
 
 const str = (s: string) => {
   const b = Buffer.from(s, "utf8");
