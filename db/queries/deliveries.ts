@@ -81,10 +81,10 @@ export async function claimDeliveries(limit: number, leaseMs: number, perFarm: n
 // The next time a row falls due, so an idle worker sleeps just long enough.
 export async function nextDueIn(): Promise<number | null> {
   const r = await db().execute(sql`
-    select greatest(0, extract(epoch from (min(greatest(next_attempt_at, coalesce(locked_until, next_attempt_at))) - now())) * 1000)::float8 as ms
+    select (extract(epoch from (min(greatest(next_attempt_at, coalesce(locked_until, next_attempt_at))) - now())) * 1000)::float8 as ms
     from deliveries where state in ('pending', 'sending')`);
   const ms = (r.rows[0] as { ms: number | null } | undefined)?.ms;
-  return ms == null ? null : Number(ms);
+  return ms == null ? null : Math.max(0, Number(ms));
 }
 
 // Another try later. Guarded by the attempt number: a worker whose lease ran out changes nothing.
