@@ -48,24 +48,38 @@ export type ClaimedDelivery = Delivery & {
   email: string | null;
 };
 
-// Takes up to `limit` due rows for `leaseMs`. A farm already holding `perFarm` rows in flight gets
-// no more until one ends, so one farm's many hanging endpoints cannot fill every worker's slots.
+// Takes up to `limit` due rows for `leaseMs`. A farm gets at most `perFarm` rows in flight, counting
+// those already out on any node and those taken in this claim, so one farm's many hanging
+// endpoints can never fill a worker's slots. (FOR UPDATE cannot sit beside a window function,
+// hence the ranking first and the lock after; the lock re-checks that each row is still free.)
 export async function claimDeliveries(limit: number, leaseMs: number, perFarm: number): Promise<ClaimedDelivery[]> {
   if (limit <= 0) return [];
   const r = await db().execute(sql`
     with due as (
+      select id, farm_id, next_attempt_at,
+             row_number() over (partition by farm_id order by next_attempt_at, id) as nth
+      from deliveries
+      where state in ('pending', 'sending') and next_attempt_at <= now()
+        and (locked_until is null or locked_until < now())
+      order by next_attempt_at, id
+      limit ${Math.max(limit * 20, 200)}),
+    busy as (
+      select farm_id, count(*) as n from deliveries
+      where state = 'sending' and locked_until >= now() and farm_id is not null
+      group by farm_id),
+    pick as (
+      select due.id from due left join busy on busy.farm_id = due.farm_id
+      where due.farm_id is null or due.nth + coalesce(busy.n, 0) <= ${perFarm}
+      order by due.next_attempt_at, due.id
+      limit ${limit}),
+    free as (
       select d.id from deliveries d
-      where d.state in ('pending', 'sending') and d.next_attempt_at <= now()
-        and (d.locked_until is null or d.locked_until < now())
-        and (d.farm_id is null or (
-          select count(*) from deliveries f
-          where f.farm_id = d.farm_id and f.state = 'sending' and f.locked_until >= now()) < ${perFarm})
-      order by d.next_attempt_at, d.id
-      limit ${limit}
-      for update of d skip locked)
+      where d.id in (select id from pick)
+        and d.state in ('pending', 'sending') and (d.locked_until is null or d.locked_until < now())
+      for update skip locked)
     update deliveries d
     set state = 'sending', attempts = d.attempts + 1, locked_until = now() + ${leaseMs} * interval '1 millisecond'
-    from due where d.id = due.id
+    from free where d.id = free.id
     returning d.id`);
   const ids = (r.rows as { id: string | number }[]).map((x) => Number(x.id));
   if (ids.length === 0) return [];
