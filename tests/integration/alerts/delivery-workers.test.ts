@@ -4,10 +4,11 @@ import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
 import { raiseAlert } from "@/db/queries/alerts";
-import { listDeliveries } from "@/db/queries/deliveries";
+import { claimDeliveries, listDeliveries } from "@/db/queries/deliveries";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, memberships, users } from "@/db/schema";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
+import { topicOf } from "@/lib/alerts/deliver";
 import { notifyAlert } from "@/lib/alerts/notify";
 import { makeVapidKeys } from "@/lib/push";
 import { newSubscriber, pushMessagesFor, type TestSubscriber } from "../../helpers/push";
@@ -67,5 +68,34 @@ describe("the delivery outbox", () => {
     expect(new Set(topics).size).toBe(N);
     const sent = (await db().select().from(alertEvents).where(eq(alertEvents.alertId, alertId))).filter((e) => e.type === "sent");
     expect(sent).toHaveLength(N);
+  });
+});
+
+describe("a worker that dies mid-send", () => {
+  it("leaves its delivery to another worker once its lease runs out, under the same Topic", async () => {
+    const phone = await newSubscriber();
+    const [probe] = await createProbes(1);
+    const [u] = await db().insert(users).values({ email: `lease-${probe!.code}@example.org`, name: "Keeper", passwordHash: "x" }).returning();
+    await db().insert(memberships).values({ userId: u!.id, farmId: probe!.farmId, role: "keeper" });
+    await savePushSubscription(u!.id, { endpoint: phone.json.endpoint, p256dh: phone.json.keys.p256dh, auth: phone.json.keys.auth });
+    const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows[0] as { binId: string }).binId;
+    const alert = await raiseAlert({ farmId: probe!.farmId, binId, zoneId: probe!.zoneId, probeId: null, subject: `zone:${probe!.zoneId}:soggy`, kind: "soggy", level: "act_now", value: 92, message: "Test bin: 92 %", details: {} });
+    // The running workers are busy elsewhere for this test: stop them, then take the row as a worker
+    // would and "die" (never end it), with a short lease.
+    for (const w of workers.splice(0)) await w.stop();
+    await notifyAlert(alert!, "raised");
+    const [taken] = await claimDeliveries(10, 500, 10);
+    expect(taken?.alertId).toBe(alert!.id);
+    const survivor = createDeliveryWorker({ pollMs: 50 });
+    workers.push(survivor);
+    await new Promise((r) => setTimeout(r, 200));
+    expect(await pushMessagesFor(phone.id)).toHaveLength(0); // still the dead worker's
+    const [done] = await waitFor("the row to be sent", () => listDeliveries({ alertId: alert!.id }), (r) => r[0]?.state === "sent", 10_000);
+    expect(done!.attempts).toBe(2);
+    const got = (await pushMessagesFor(phone.id)) as unknown as { headers: { topic: string } }[];
+    expect(got).toHaveLength(1);
+    // The Topic comes from the delivery itself, so the dead worker's send (had it gone out) and this
+    // one would carry the same and the push service keeps one (RFC 8030 §5.4).
+    expect(got[0]!.headers.topic).toBe(topicOf(done!.dedupeKey));
   });
 });
