@@ -4,6 +4,7 @@
 import dns from "node:dns";
 import net from "node:net";
 import type { LookupFunction } from "node:net";
+import { env } from "@/lib/env";
 
 // The push services the major browsers hand out endpoints on:
 // - Chrome, Chromium, Opera, Samsung Internet: Firebase Cloud Messaging (fcm.googleapis.com);
@@ -32,6 +33,12 @@ export function parseHostList(value: string | undefined): string[] {
     .split(",")
     .map((h) => h.trim().toLowerCase().replace(/\.$/, ""))
     .filter(Boolean);
+}
+
+// The allow-list this process runs with: PUSH_SERVICE_HOSTS and PUSH_FAKE_ORIGIN.
+export function configuredAllowList(): PushAllowList {
+  const e = env();
+  return { hosts: parseHostList(e.PUSH_SERVICE_HOSTS), fakeOrigin: e.PUSH_FAKE_ORIGIN ?? null };
 }
 
 function hostMatches(host: string, pattern: string): boolean {

@@ -6,7 +6,7 @@ import createDebug from "debug";
 import { deletePushSubscriptionById, listPushSubscriptions } from "@/db/queries/push";
 import { env } from "@/lib/env";
 import { sendPush, type SendPushOptions, type SendPushResult } from "@/lib/push";
-import { parseHostList } from "@/lib/push-policy";
+import { configuredAllowList } from "@/lib/push-policy";
 
 const log = createDebug("wormward:deliver");
 
@@ -24,7 +24,7 @@ export function pushOptions(): SendPushOptions | null {
   }
   return {
     vapid: { publicKey: e.VAPID_PUBLIC_KEY, privateKey: e.VAPID_PRIVATE_KEY, subject: e.VAPID_SUBJECT },
-    allow: { hosts: parseHostList(e.PUSH_SERVICE_HOSTS), fakeOrigin: e.PUSH_FAKE_ORIGIN ?? null },
+    allow: configuredAllowList(),
     ca,
     urgency: "high",
     timeoutMs: e.PUSH_TIMEOUT_MS,

@@ -1,6 +1,5 @@
 import { z } from "zod";
-import { env } from "@/lib/env";
-import { endpointProblem, parseHostList } from "@/lib/push-policy";
+import { configuredAllowList, endpointProblem } from "@/lib/push-policy";
 
 const hhmm = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "Use a time like 22:00.");
 
@@ -11,8 +10,7 @@ export const pushSubscriptionBody = z.object({
     .string()
     .max(2048, "The push endpoint is too long.")
     .superRefine((u, ctx) => {
-      const e = env();
-      const problem = endpointProblem(u, { hosts: parseHostList(e.PUSH_SERVICE_HOSTS), fakeOrigin: e.PUSH_FAKE_ORIGIN });
+      const problem = endpointProblem(u, configuredAllowList());
       if (problem) ctx.addIssue({ code: "custom", message: problem });
     }),
   keys: z.object({
