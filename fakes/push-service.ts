@@ -36,6 +36,10 @@ export interface PushMessage {
   vapid: { key: string; claims: VapidClaims };
 }
 
+// How a subscription's push resource behaves: like a push service, never answering (a service
+// that hangs), or answering every push with a fixed status and body (one that says too much).
+export type SubscriptionMode = { kind: "normal" } | { kind: "never-answers" } | { kind: "answers"; status: number; body: string };
+
 export interface PushService {
   url: string;
   port: number;
@@ -43,8 +47,23 @@ export interface PushService {
   close(): Promise<void>;
   messages(subscriptionId?: string): PushMessage[];
   clear(): void;
-  subscriptionEndpoint(id?: string): string;
+  subscriptionEndpoint(id?: string, mode?: SubscriptionMode): string;
   expire(id: string): void;
+  // Push requests that reached a subscription's resource, answered or not.
+  attempts(id: string): number;
+}
+
+function parseMode(body: Buffer | null): SubscriptionMode {
+  try {
+    const m = JSON.parse(body?.toString("utf8") || "{}") as { mode?: string; status?: number; body?: string };
+    if (m.mode === "never-answers") return { kind: "never-answers" };
+    if (m.mode === "answers" && Number.isInteger(m.status) && m.status! >= 200 && m.status! <= 599) {
+      return { kind: "answers", status: m.status!, body: String(m.body ?? "") };
+    }
+  } catch {
+    /* a bare subscribe request */
+  }
+  return { kind: "normal" };
 }
 
 const fail = (status: number, reason: string) => ({ ok: false, status, reason }) as const;
@@ -206,12 +225,22 @@ export async function startPushService(options: { port?: number; host?: string }
   const host = options.host ?? "127.0.0.1";
   const { key, cert } = await makeCertificate();
   const subscriptions = new Map<string, "active" | "expired">();
+  const modes = new Map<string, SubscriptionMode>();
+  const tries = new Map<string, number>();
   let kept: PushMessage[] = [];
   let origin = "";
 
   async function receive(id: string, req: IncomingMessage, res: ServerResponse): Promise<void> {
     const state = subscriptions.get(id);
+    tries.set(id, (tries.get(id) ?? 0) + 1);
+    const mode = modes.get(id) ?? { kind: "normal" };
+    if (mode.kind === "never-answers") {
+      log("holding push to %s without an answer", id);
+      req.resume();
+      return;
+    }
     const body = await readBody(req);
+    if (mode.kind === "answers") return answer(res, mode.status, mode.body);
     const refuse = (status: number, reason: string, extra: Record<string, string> = {}) => {
       log("refused push to %s: %d %s", id, status, reason);
       answer(res, status, reason, extra);
@@ -252,13 +281,17 @@ export async function startPushService(options: { port?: number; host?: string }
       const sub = url.searchParams.get("subscription");
       return answer(res, 200, sub ? kept.filter((m) => m.subscriptionId === sub) : kept);
     }
+    if (url.pathname === "/attempts" && req.method === "GET") {
+      return answer(res, 200, { attempts: tries.get(url.searchParams.get("subscription") ?? "") ?? 0 });
+    }
     if (url.pathname === "/messages" && req.method === "DELETE") {
       kept = [];
       return answer(res, 204);
     }
     // RFC 8030 §4: a subscribe request yields the subscription and its push resource (Link rel=urn:ietf:params:push).
+    // The request body may ask for a behaviour: {"mode":"never-answers"} or {"mode":"answers","status":500,"body":"..."}.
     if (url.pathname === "/subscribe" && req.method === "POST") {
-      const endpoint = service.subscriptionEndpoint();
+      const endpoint = service.subscriptionEndpoint(undefined, parseMode(await readBody(req)));
       const id = endpoint.slice(endpoint.lastIndexOf("/") + 1);
       return answer(res, 201, { endpoint }, {
         location: `${origin}/subscription/${id}`,
@@ -298,11 +331,13 @@ export async function startPushService(options: { port?: number; host?: string }
     clear: () => {
       kept = [];
     },
-    subscriptionEndpoint(id = randomBytes(16).toString("base64url")) {
+    subscriptionEndpoint(id = randomBytes(16).toString("base64url"), mode) {
       if (!/^[A-Za-z0-9_-]+$/.test(id)) throw new Error("subscription id must be base64url characters");
       if (!subscriptions.has(id)) subscriptions.set(id, "active");
+      if (mode) modes.set(id, mode);
       return `${origin}/push/${id}`;
     },
+    attempts: (id) => tries.get(id) ?? 0,
     expire(id) {
       subscriptions.set(id, "expired");
       log("subscription %s expired", id);

@@ -2,6 +2,7 @@
 // On SIGTERM or SIGINT it stops taking connections, commits what it holds, then exits.
 import createDebug from "debug";
 import { env } from "@/lib/env";
+import { createDeliveryWorker } from "./delivery-worker";
 import { createDigestScheduler } from "./digest";
 import { createRuleRunner } from "./rule-runner";
 import { startIngest } from "./service";
@@ -11,6 +12,8 @@ const e = env();
 // The rule runner hears of new readings through LISTEN, from this node and every other writer.
 const rules = createRuleRunner({ listenUrl: e.DATABASE_URL });
 const digests = createDigestScheduler();
+// Pushes and alert e-mails leave the rule runner's chain: it queues them, this worker sends them.
+const deliveries = createDeliveryWorker({ listenUrl: e.DATABASE_URL });
 const ingest = await startIngest({
   port: e.MQTT_PORT,
   host: e.MQTT_HOST,
@@ -31,6 +34,7 @@ async function stop(signal: string) {
   try {
     await ingest.close();
     await rules.stop();
+    await deliveries.stop();
     await digests.stop();
     process.exit(0);
   } catch (err) {

@@ -2,6 +2,8 @@
 // is evaluated at most once per `coalesceMs`), sweeps every minute for silent probes and for
 // unclaimed act-now alerts, and applies the rules' transitions to the alerts table. All state is
 // in the database; the open-alert unique index keeps two ingest nodes from raising one alert twice.
+// Notifying only queues deliveries (lib/alerts/notify.ts); the delivery worker sends them, so no
+// push service is ever awaited in this chain.
 import createDebug from "debug";
 import pg from "pg";
 import { READINGS_CHANNEL } from "@/db/queries/readings";

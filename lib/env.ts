@@ -11,6 +11,11 @@ const envSchema = z.object({
   VAPID_PRIVATE_KEY: z.string().optional(),
   VAPID_SUBJECT: z.string().default("mailto:alerts@wormward.invalid"),
   PUSH_CA_FILE: z.string().optional(),
+  // Comma-separated push service hosts ("*.example.com" for a whole domain); empty = the browsers' own (lib/push-policy.ts).
+  PUSH_SERVICE_HOSTS: z.string().optional(),
+  // The local fake push service's origin (set by `npm start` and the tests); allowed on loopback.
+  PUSH_FAKE_ORIGIN: z.string().url().optional(),
+  PUSH_TIMEOUT_MS: z.coerce.number().int().min(100).max(120_000).default(10_000),
   SMTP_HOST: z.string().default("127.0.0.1"),
   SMTP_PORT: z.coerce.number().int().optional(),
   MAIL_FROM: z.string().default("Wormward <alerts@wormward.invalid>"),

@@ -29,6 +29,11 @@ export function makeMailer(options: MailerOptions): Mailer {
     host: options.host,
     port: options.port,
     secure: options.secure ?? false,
+    // nodemailer waits up to 2 min to connect and 10 min on a quiet socket; an alert's e-mail
+    // must end well inside a delivery worker's lease.
+    connectionTimeout: 10_000,
+    greetingTimeout: 10_000,
+    socketTimeout: 30_000,
     ...(options.auth ? { auth: options.auth } : {}),
   });
   return {

@@ -1,13 +1,17 @@
 // Who hears about an alert, and how: push to the crew's phones (heads-ups wait out a person's
-// quiet hours; act now never does), e-mail when a person has no phone that took the push, and
-// the 15-minute reminder of an unclaimed act-now alert to every keeper plus the owners' mail.
+// quiet hours; act now never does), e-mail when none of a person's phones took the push, and the
+// 15-minute reminder of an unclaimed act-now alert to every keeper plus the owners' mail.
+// Nothing is sent here: each send is a row in the delivery outbox (db/queries/deliveries.ts) that
+// the delivery workers (ingest/delivery-worker.ts) take, so the rule runner never waits on a
+// push service.
 import createDebug from "debug";
-import { alertContext, getAlertRow, listHeldDeliveries, markAlertSent, recordAlertEvents, takeHeldDelivery } from "@/db/queries/alerts";
-import { listCrew } from "@/db/queries/push";
+import { alertContext, getAlertRow, listHeldDeliveries, markAlertSent, takeHeldDelivery } from "@/db/queries/alerts";
+import { enqueueDeliveries, type NewDelivery } from "@/db/queries/deliveries";
+import { listCrew, listPushSubscriptions } from "@/db/queries/push";
 import type { Alert } from "@/db/schema";
+import { appMailer } from "@/lib/app-mailer";
 import { env } from "@/lib/env";
-import { makeMailer, type Mailer } from "@/lib/mail";
-import { pushToUsers } from "./deliver";
+import { pushConfigured } from "./deliver";
 import { inQuietHours } from "./quiet-hours";
 import { KIND_WORDS, LEVEL_WORDS } from "./words";
 
@@ -15,18 +19,11 @@ export { KIND_WORDS, LEVEL_WORDS };
 
 const log = createDebug("wormward:notify");
 
-
-let mailer: Mailer | null | undefined;
-function getMailer(): Mailer | null {
-  if (mailer !== undefined) return mailer;
-  const e = env();
-  mailer = e.SMTP_PORT ? makeMailer({ host: e.SMTP_HOST, port: e.SMTP_PORT, from: e.MAIL_FROM }) : null;
-  return mailer;
-}
-
 export type NotifyReason = "raised" | "escalated" | "reminder";
+type Reason = NotifyReason | "after quiet hours";
+export type MailContent = { subject: string; text: string };
 
-async function messageOf(alert: Alert, reason: NotifyReason | "after quiet hours") {
+async function messageOf(alert: Alert, reason: Reason) {
   const ctx = await alertContext(alert.id);
   const where = ctx ? `${ctx.binName}${ctx.zoneKind ? `, ${ctx.zoneName ?? `${ctx.zoneKind} zone`}` : ""}` : "";
   const title = `${reason === "reminder" ? "Still unclaimed · " : ""}${LEVEL_WORDS[alert.level]}: ${KIND_WORDS[alert.kind]}${where ? ` · ${where}` : ""}`;
@@ -44,48 +41,48 @@ async function messageOf(alert: Alert, reason: NotifyReason | "after quiet hours
     url: `/farms/${alert.farmId}#alert-${alert.id}`,
   };
   const text = `${alert.message}\n\nOpen Wormward to claim it: ${url}\n\nAmmonia and heat can harm worms quickly and, in a closed room, people too: ventilate before you work in the bin.`;
-  return { title, payload, text };
+  return { payload, mail: { subject: `[Wormward] ${title}`, text } satisfies MailContent };
+}
+
+// The e-mail row for a person; its key is shared with the fallback the worker adds when all of
+// that person's pushes failed, so a person gets one mail per notification either way.
+export function mailDelivery(alert: Pick<Alert, "id" | "farmId">, reason: string, userId: string, mail: MailContent, key = ""): NewDelivery {
+  return { dedupeKey: `${alert.id}:${reason}${key}:email:${userId}`, farmId: alert.farmId, alertId: alert.id, userId, channel: "email", reason, payload: { mail } };
+}
+
+async function deliveriesFor(alert: Alert, reason: Reason, people: { id: string; role: string }[], key = "") {
+  const { payload, mail } = await messageOf(alert, reason);
+  const subs = pushConfigured() ? await listPushSubscriptions(people.map((p) => p.id)) : [];
+  const mailOn = appMailer() !== null;
+  const rows: NewDelivery[] = subs.map((s) => ({
+    dedupeKey: `${alert.id}:${reason}${key}:push:${s.id}`,
+    farmId: alert.farmId,
+    alertId: alert.id,
+    userId: s.userId,
+    subscriptionId: s.id,
+    channel: "push",
+    reason,
+    // The worker mails this person under this key if none of their pushes gets through.
+    payload: { push: payload, ...(mailOn ? { mail, mailKey: mailDelivery(alert, reason, s.userId, mail, key).dedupeKey } : {}) },
+  }));
+  const withPhone = new Set(subs.map((s) => s.userId));
+  // Mail at once: whoever has no phone for alerts; on a reminder, the owners as well.
+  const mailNow = mailOn ? people.filter((p) => !withPhone.has(p.id) || (reason === "reminder" && p.role === "owner")) : [];
+  for (const p of mailNow) rows.push(mailDelivery(alert, reason, p.id, mail, key));
+  return { rows, pushes: subs.length, mails: mailNow.length };
 }
 
 export async function notifyAlert(alert: Alert, reason: NotifyReason, now = new Date()) {
-  const { title, payload, text } = await messageOf(alert, reason);
   const crew = await listCrew(alert.farmId);
   const awake = crew.filter((p) => alert.level === "act_now" || !inQuietHours(now, p.quietFrom, p.quietTo, p.timezone));
   const held = crew.filter((p) => !awake.includes(p));
   const targets = reason === "reminder" ? crew.filter((p) => p.role === "keeper" || p.role === "owner") : awake;
-
-  const outcomes = await pushToUsers(targets.map((p) => p.id), payload);
-  const reached = new Set(outcomes.filter((o) => o.ok).map((o) => o.userId));
-  const events: Parameters<typeof recordAlertEvents>[0] = outcomes.map((o) => ({
-    alertId: alert.id,
-    at: now,
-    type: o.ok ? "sent" : "send_failed",
-    userId: o.userId,
-    channel: "push",
-    detail: { reason, status: o.status, removed: o.removed, ...(o.message ? { message: o.message } : {}) },
-  }));
-  for (const p of held) events.push({ alertId: alert.id, at: now, type: "held", userId: p.id, channel: "push", detail: { reason: "quiet hours" } });
-
-  // Mail: everyone the push did not reach; on a reminder, the owners as well.
-  const mailTo = targets.filter((p) => !reached.has(p.id) || (reason === "reminder" && p.role === "owner"));
-  const m = getMailer();
-  if (m && mailTo.length) {
-    await Promise.all(
-      mailTo.map(async (p) => {
-        try {
-          await m.send({ to: p.email, subject: `[Wormward] ${title}`, text });
-          events.push({ alertId: alert.id, at: now, type: "sent", userId: p.id, channel: "email", detail: { reason } });
-        } catch (e) {
-          log("mail to user %s failed: %s", p.id, (e as Error).message);
-          events.push({ alertId: alert.id, at: now, type: "send_failed", userId: p.id, channel: "email", detail: { reason, message: (e as Error).message } });
-        }
-      }),
-    );
-  }
-  await recordAlertEvents(events);
+  const { rows, pushes, mails } = await deliveriesFor(alert, reason, targets);
+  const events = held.map((p) => ({ alertId: alert.id, at: now, type: "held", userId: p.id, channel: "push", detail: { reason: "quiet hours" } }));
+  await enqueueDeliveries(rows, events);
   await markAlertSent(alert.id, now);
-  log("alert %s %s: push %d/%d, mail %d, held %d", alert.id, reason, reached.size, targets.length, mailTo.length, held.length);
-  return { pushed: reached.size, mailed: mailTo.length, held: held.length };
+  log("alert %s %s: %d push(es) and %d mail(s) queued, %d held", alert.id, reason, pushes, mails, held.length);
+  return { queued: pushes, mailed: mails, held: held.length };
 }
 
 // A heads-up held back by quiet hours goes out when they end, if nobody has claimed or settled it.
@@ -101,24 +98,10 @@ export async function deliverHeldAlerts(now = new Date()) {
     const person = crew.get(`${alert.farmId}:${h.userId}`);
     if (!person || inQuietHours(now, person.quietFrom, person.quietTo, person.timezone)) continue;
     if (!(await takeHeldDelivery(h.id, now))) continue;
-    const { title, payload, text } = await messageOf(alert, "after quiet hours");
-    const outcomes = await pushToUsers([person.id], payload);
-    const events: Parameters<typeof recordAlertEvents>[0] = outcomes.map((o) => ({
-      alertId: alert.id, at: now, type: o.ok ? "sent" : "send_failed", userId: person.id, channel: "push",
-      detail: { reason: "after quiet hours", status: o.status, removed: o.removed },
-    }));
-    const m = getMailer();
-    if (!outcomes.some((o) => o.ok) && m) {
-      try {
-        await m.send({ to: person.email, subject: `[Wormward] ${title}`, text });
-        events.push({ alertId: alert.id, at: now, type: "sent", userId: person.id, channel: "email", detail: { reason: "after quiet hours" } });
-      } catch (e) {
-        log("mail to user %s failed: %s", person.id, (e as Error).message);
-      }
-    }
-    await recordAlertEvents(events);
+    const { rows } = await deliveriesFor(alert, "after quiet hours", [person], `:${h.id}`);
+    await enqueueDeliveries(rows);
     delivered += 1;
   }
-  if (delivered) log("delivered %d heads-up(s) held by quiet hours", delivered);
+  if (delivered) log("queued %d heads-up(s) held by quiet hours", delivered);
   return delivered;
 }

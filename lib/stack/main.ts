@@ -82,6 +82,8 @@ async function start() {
     MQTT_PORT: process.env.MQTT_PORT ?? "18830",
     SMTP_PORT: process.env.SMTP_PORT ?? "2525",
     PUSH_CA_FILE: path.join(dataDir, "push-ca.pem"),
+    // The fake push service below is the only push service on loopback the app may send to.
+    PUSH_FAKE_ORIGIN: "https://127.0.0.1:4431",
     DEBUG: process.env.DEBUG ?? "wormward:*",
   };
 

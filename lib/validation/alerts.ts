@@ -1,10 +1,19 @@
 import { z } from "zod";
+import { configuredAllowList, endpointProblem } from "@/lib/push-policy";
 import { longText, timeZone } from "./fields";
 
 const hhmm = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "Use a time like 22:00.");
 
 export const pushSubscriptionBody = z.object({
-  endpoint: z.string().url("The push endpoint must be a URL.").refine((u) => u.startsWith("https://"), "Push endpoints use https."),
+  // Only a browser push service's https endpoint: a subscription must not become a way for us to
+  // POST into our own network (OWASP Server-Side Request Forgery Prevention Cheat Sheet).
+  endpoint: z
+    .string()
+    .max(2048, "The push endpoint is too long.")
+    .superRefine((u, ctx) => {
+      const problem = endpointProblem(u, configuredAllowList());
+      if (problem) ctx.addIssue({ code: "custom", message: problem });
+    }),
   keys: z.object({
     p256dh: z.string().regex(/^[A-Za-z0-9_-]{80,100}$/, "p256dh must be a base64url P-256 public key."),
     auth: z.string().regex(/^[A-Za-z0-9_-]{16,24}$/, "auth must be a base64url 16-octet secret."),

@@ -82,6 +82,9 @@ export default async function setup(project: TestProject) {
   const mailbox = await startMailbox({ smtpPort: 0, httpPort: 0 });
   const caFile = path.join(root, ".data", `${clusterName}-push-ca.pem`);
   fs.writeFileSync(caFile, push.ca);
+  // The fake is the one push service on loopback that the app and the test workers may send to
+  // (lib/push-policy.ts); workers inherit this environment.
+  process.env.PUSH_FAKE_ORIGIN = push.url;
   const vapid = makeVapidKeys();
   let appUrl: string | null = null;
   if (fs.existsSync(path.join(root, ".next", "BUILD_ID"))) {
@@ -101,6 +104,7 @@ export default async function setup(project: TestProject) {
         VAPID_PUBLIC_KEY: vapid.publicKey,
         VAPID_PRIVATE_KEY: vapid.privateKey,
         PUSH_CA_FILE: caFile,
+        PUSH_FAKE_ORIGIN: push.url,
         SMTP_PORT: String(mailbox.smtpPort),
         // As behind one proxy (HAProxy `option forwardfor`): a test names a client address in
         // X-Forwarded-For; requests without one count as 127.0.0.1, filled in by `next start`.

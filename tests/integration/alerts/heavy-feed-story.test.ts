@@ -12,6 +12,7 @@ import { claimAlert } from "@/db/queries/alerts";
 import { insertFeeding } from "@/db/queries/feedings";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, alerts, memberships, rules, users } from "@/db/schema";
+import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { createRuleRunner, type RuleRunner } from "@/ingest/rule-runner";
 import { startIngest, type Ingest } from "@/ingest/service";
 import { probeBaseName } from "@/lib/metrics";
@@ -31,6 +32,7 @@ process.env.SMTP_PORT = String(inject("smtpPort"));
 let probe: TestProbe;
 let ingest: Ingest;
 let runner: RuleRunner;
+let worker: DeliveryWorker;
 let client: MqttClient;
 let keeper: TestSubscriber;
 let keeperId: string;
@@ -50,12 +52,15 @@ beforeAll(async () => {
   runner = createRuleRunner({ coalesceMs: 10, now: () => new Date(simNow) });
   ingest = await startIngest({ port: 0, onCommitted: (zoneIds) => runner.onCommitted(zoneIds) });
   client = await connectProbe(ingest.port, probe!);
+  // The sender, as on an ingest node: woken by NOTIFY when the rule runner queues a delivery.
+  worker = createDeliveryWorker({ listenUrl: process.env.DATABASE_URL });
 });
 
 afterAll(async () => {
   await client?.endAsync();
   await ingest?.close();
   await runner?.stop();
+  await worker?.stop();
 });
 
 async function zoneAlerts(kind = "heat") {
@@ -109,6 +114,7 @@ describe("a heavy feed heats the fresh zone", () => {
     expect(seen.find((s) => s.level === "act_now")!.minute).toBeGreaterThanOrEqual(190);
 
     // The fake push service received both notifications; decrypt them as the phone would (RFC 8291).
+    await worker.idle();
     const messages = await pushMessagesFor(keeper.id);
     expect(messages.length).toBeGreaterThanOrEqual(2);
     const payloads = messages.map((m) =>

@@ -5,6 +5,7 @@ import type { MqttClient } from "mqtt";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
 import { alertEvents, alerts, memberships, users } from "@/db/schema";
+import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { createRuleRunner, type RuleRunner } from "@/ingest/rule-runner";
 import { startIngest, type Ingest } from "@/ingest/service";
 import { probeBaseName } from "@/lib/metrics";
@@ -27,6 +28,7 @@ async function mailTo(address: string): Promise<Mail[]> {
 let probe: TestProbe;
 let ingest: Ingest;
 let runner: RuleRunner;
+let worker: DeliveryWorker;
 let client: MqttClient;
 let simNow = 0;
 const keeperEmail = `no-phone-${Date.now()}@example.org`;
@@ -42,12 +44,14 @@ beforeAll(async () => {
   runner = createRuleRunner({ coalesceMs: 10, now: () => new Date(simNow), sweepMs: 3_600_000 });
   ingest = await startIngest({ port: 0, onCommitted: (zoneIds) => runner.onCommitted(zoneIds) });
   client = await connectProbe(ingest.port, probe);
+  worker = createDeliveryWorker({ pollMs: 100, listenUrl: process.env.DATABASE_URL });
 });
 
 afterAll(async () => {
   await client?.endAsync();
   await ingest?.close();
   await runner?.stop();
+  await worker?.stop();
 });
 
 describe("e-mail when push is not possible", () => {
@@ -61,6 +65,7 @@ describe("e-mail when push is not possible", () => {
     const [alert] = await db().select().from(alerts).where(eq(alerts.zoneId, probe.zoneId));
     expect(alert?.kind).toBe("heat");
     expect(alert?.level).toBe("act_now");
+    await worker.idle();
 
     const keeperMail = await mailTo(keeperEmail);
     expect(keeperMail).toHaveLength(1);
@@ -70,6 +75,7 @@ describe("e-mail when push is not possible", () => {
     // Fifteen minutes on, nobody has claimed it: the reminder goes out, once, even from two sweeps.
     simNow += 16 * 60_000;
     await Promise.all([runner.sweep(), runner.sweep()]);
+    await worker.idle();
     expect(await mailTo(keeperEmail)).toHaveLength(2);
     const ownerMail = await mailTo(ownerEmail);
     expect(ownerMail.filter((m) => m.subject.startsWith("[Wormward] Still unclaimed"))).toHaveLength(1);

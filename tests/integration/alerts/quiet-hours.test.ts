@@ -1,11 +1,13 @@
-// Quiet hours hold back heads-ups only: an act-now alert reaches the same person at once.
+// Quiet hours hold back heads-ups only: an act-now alert reaches the same person at once. Pushes
+// go through the outbox and a real delivery worker to the fake push service.
 import { eq } from "drizzle-orm";
-import { beforeAll, describe, expect, it, inject } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
 import { raiseAlert } from "@/db/queries/alerts";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, memberships, users } from "@/db/schema";
 import { claimAlert } from "@/db/queries/alerts";
+import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { deliverHeldAlerts, notifyAlert } from "@/lib/alerts/notify";
 import { makeVapidKeys } from "@/lib/push";
 import { newSubscriber, pushMessagesFor, type TestSubscriber } from "../../helpers/push";
@@ -20,6 +22,7 @@ delete process.env.SMTP_PORT;
 let probe: TestProbe;
 let sleeper: TestSubscriber;
 let binId: string;
+let worker: DeliveryWorker;
 const night = new Date("2026-12-01T02:00:00Z");
 
 beforeAll(async () => {
@@ -30,6 +33,10 @@ beforeAll(async () => {
   sleeper = await newSubscriber();
   await savePushSubscription(u!.id, { endpoint: sleeper.json.endpoint, p256dh: sleeper.json.keys.p256dh, auth: sleeper.json.keys.auth });
   binId = ((await d.execute(`select bin_id as "binId" from zones where id = '${probe.zoneId}'`)).rows[0] as { binId: string }).binId;
+  worker = createDeliveryWorker({ pollMs: 100 });
+});
+afterAll(async () => {
+  await worker?.stop();
 });
 
 const base = () => ({ farmId: probe.farmId, binId, zoneId: probe.zoneId, probeId: null, value: 26, details: {} });
@@ -38,7 +45,8 @@ describe("quiet hours", () => {
   it("a heads-up at 02:00 is held back for a keeper whose quiet hours are 22:00–06:30", async () => {
     const a = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:soggy`, kind: "soggy", level: "heads_up", message: "Test bin: 88 % moisture" }, night);
     const r = await notifyAlert(a!, "raised", night);
-    expect(r).toMatchObject({ pushed: 0, held: 1 });
+    expect(r).toMatchObject({ queued: 0, held: 1 });
+    await worker.idle();
     expect(await pushMessagesFor(sleeper.id)).toHaveLength(0);
     const events = await db().select().from(alertEvents).where(eq(alertEvents.alertId, a!.id));
     expect(events.map((e) => e.type).sort()).toEqual(["held", "raised"]);
@@ -47,8 +55,11 @@ describe("quiet hours", () => {
   it("an act-now alert at 02:00 reaches the same keeper", async () => {
     const a = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:heat`, kind: "heat", level: "act_now", message: "Test bin: 34 °C" }, night);
     const r = await notifyAlert(a!, "raised", night);
-    expect(r).toMatchObject({ pushed: 1, held: 0 });
+    expect(r).toMatchObject({ queued: 1, held: 0 });
+    await worker.idle();
     expect(await pushMessagesFor(sleeper.id)).toHaveLength(1);
+    const sent = (await db().select().from(alertEvents).where(eq(alertEvents.alertId, a!.id))).filter((e) => e.type === "sent");
+    expect(sent.map((e) => e.channel)).toEqual(["push"]);
   });
 });
 
@@ -60,6 +71,7 @@ describe("when quiet hours end", () => {
     await notifyAlert(taken!, "raised", night);
     const userId = (await db().select({ userId: alertEvents.userId }).from(alertEvents).where(eq(alertEvents.alertId, taken!.id))).find((e) => e.userId)!.userId!;
     await claimAlert(taken!.id, userId);
+    await worker.idle();
     const before = (await pushMessagesFor(sleeper.id)).length;
 
     // Still night: nothing goes out.
@@ -69,6 +81,7 @@ describe("when quiet hours end", () => {
     const morning = new Date("2026-12-01T07:00:00Z");
     const [a, b] = await Promise.all([deliverHeldAlerts(morning), deliverHeldAlerts(morning)]);
     expect(a + b).toBe(2);
+    await worker.idle();
     const after = await pushMessagesFor(sleeper.id);
     expect(after.length - before).toBe(2);
     expect(await deliverHeldAlerts(morning)).toBe(0);

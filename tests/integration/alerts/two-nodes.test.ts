@@ -1,11 +1,13 @@
 // Two ingest nodes (two rule runners over one database) evaluating the same zone at the same
-// moment raise one alert, send it once, and a restart (a fresh runner) does not raise it again.
+// moment raise one alert, send it once (each node's delivery worker over the one outbox), and a
+// restart (a fresh runner) does not raise it again.
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
 import { raiseAlert } from "@/db/queries/alerts";
 import { insertReadings } from "@/db/queries/readings";
 import { alertEvents, alerts, memberships, users } from "@/db/schema";
+import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { createRuleRunner, type RuleRunner } from "@/ingest/rule-runner";
 import { createProbes, type TestProbe } from "../ingest/helpers";
 
@@ -14,6 +16,7 @@ process.env.SMTP_PORT = String(inject("smtpPort"));
 
 let probe: TestProbe;
 const runners: RuleRunner[] = [];
+const workers: DeliveryWorker[] = [];
 
 beforeAll(async () => {
   probe = (await createProbes(1))[0]!;
@@ -24,6 +27,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   for (const r of runners) await r.stop();
+  for (const w of workers) await w.stop();
 });
 
 describe("two ingest nodes", () => {
@@ -40,10 +44,12 @@ describe("two ingest nodes", () => {
   it("raise one alert between them, send it once, and a restarted node does not raise it again", async () => {
     const [a, b] = [createRuleRunner({ sweepMs: 3_600_000 }), createRuleRunner({ sweepMs: 3_600_000 })];
     runners.push(a, b);
+    workers.push(createDeliveryWorker({ pollMs: 50 }), createDeliveryWorker({ pollMs: 50 }));
     const [ta, tb] = await Promise.all([a.evaluate(probe.zoneId), b.evaluate(probe.zoneId)]);
     expect([...ta, ...tb].filter((t) => t.type === "raise").length).toBeGreaterThanOrEqual(1);
     const rows = (await db().select().from(alerts).where(eq(alerts.zoneId, probe.zoneId))).filter((r) => r.kind === "heat");
     expect(rows).toHaveLength(1);
+    await Promise.all(workers.map((w) => w.idle()));
     const events = await db().select().from(alertEvents).where(eq(alertEvents.alertId, rows[0]!.id));
     expect(events.filter((e) => e.type === "raised")).toHaveLength(1);
     expect(events.filter((e) => e.type === "sent" && e.channel === "email")).toHaveLength(1);

@@ -1,19 +1,15 @@
 import { isCrewAnywhere } from "@/db/queries/push";
-import { pushToUsers } from "@/lib/alerts/deliver";
+import { sendTestPush } from "@/lib/alerts/deliver";
 import { route } from "@/lib/api/route";
 import { requireUser } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
 
-// POST /api/push/test — sends a test notification to every phone of the caller
+// POST /api/push/test — sends a test notification to every phone of the caller; each result
+// carries the status and a reason in our words, never what the push service answered.
 export const POST = route(async () => {
   const userId = await requireUser();
   if (!(await isCrewAnywhere(userId))) throw new AppError("forbidden", "Alerts go to keepers and owners; a viewer gets none.");
-  const results = await pushToUsers([userId], {
-    kind: "test",
-    title: "Wormward test",
-    body: "Alerts will arrive on this phone like this one.",
-    url: "/",
-  });
+  const results = await sendTestPush(userId);
   if (results.length === 0) throw new AppError("not_found", "No phone of yours is set up for alerts yet.");
   return Response.json({ sent: results.filter((r) => r.ok).length, results });
 });
