@@ -1,5 +1,6 @@
 // aedes sends a QoS 1 PUBACK when authorizePublish calls back, so the message is stored there and
-// the callback waits for the commit (verified-techniques.md, "Acknowledging a QoS 1 publish…").
+// the callback waits for the commit (aedes 1.2 source, lib/handlers/publish.js: authorizePublish,
+// then enqueuePublish writes the PUBACK before broker.publish runs the `published` hook).
 import net from "node:net";
 import { Aedes, type AedesOptions, type AuthenticateError, type Client } from "aedes";
 import createDebug from "debug";

@@ -1,5 +1,6 @@
-// Starting values for the ingredient library, from the published tables in
-// shared/reference/check-values.md §3. C and N are % of dry mass, moisture % wet basis.
+// Starting values for the ingredient library, from the published tables each row names (Rynk et al.,
+// On-Farm Composting Handbook, NRAES-54 (1992), App. A; Cornell Waste Management Institute, "Compost
+// Chemistry"; U. Illinois "Composting Horse Bedding"). C and N are % of dry mass, moisture % wet basis.
 // Where a source gives only C:N and %N, carbon is %N × C:N (Cornell "C/N Ratio", F4).
 // sourceStatus is the weakest status among a row's numbers:
 //   V = read in the source; V-2nd = seen only in a secondary copy; M = from memory;

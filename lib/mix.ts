@@ -28,8 +28,8 @@ export const WATER: Amendment = { name: "water", moisturePct: 100 };
 export type Range = { low: number; high: number };
 export type MixTarget = { moisturePct: Range; cn: Range };
 
-// Worm beds are far wetter than hot compost (50–60 %, Rynk et al. NRAES-54 Table 2.1, V-2nd);
-// keep the two apart (check-values "Gaps and cautions").
+// Worm beds (70–91 %: Kaplan et al. 1980, Loehr et al. 1985, V) are far wetter than hot compost
+// (50–60 %, Rynk et al. NRAES-54 Table 2.1, V-2nd); keep the two apart.
 export const WORM_BED_TARGET: MixTarget = {
   // Kaplan et al. 1980: E. fetida max weight gain at 70–85 % moisture (V)
   moisturePct: { low: 70, high: 85 },

@@ -1,5 +1,5 @@
-// Species bands for alerts, charts and the Today page. Sources are the rows of
-// shared/reference/check-values.md §1–2; "V-2nd" = read only in a secondary copy,
+// Species bands for alerts, charts and the Today page. Each band names its published source beside it;
+// "V" = read in the source (an abstract where so marked), "V-2nd" = read only in a secondary copy,
 // "from memory" = not verified, "common practice" = a keeper's rule with no source.
 // Bounds read as: below lethalCold is "too cold", at or above lethalHeat is "too hot"
 // (Loehr et al. 1985: death at 35 °C); moisture outside lethalDry–lethalWet is "too dry"/"too wet"

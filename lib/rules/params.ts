@@ -1,7 +1,7 @@
 // The numbers every alert rule runs on: defaults per kind (most from the species profile), what an
 // owner may override per farm or per bin, and the resolved table the rules read. Each parameter names
 // its source; "common practice" = a keeper's rule of thumb with no published source, "from memory" =
-// a figure recalled but not verified (shared/reference/check-values.md).
+// a figure recalled but not verified; V = read in the published source itself.
 import type { AlertKind } from "@/db/schema";
 import { fail, ok, type Result } from "../result";
 import type { SpeciesProfile } from "../species";
@@ -54,7 +54,7 @@ export const RULE_PARAMETERS = {
     param("riseRateCPerHour", "After a feeding, heads-up on a rise faster than", "°C/h", COMMON, fixed(1)),
     param("riseWindowMinutes", "Rise measured (least squares) over the last", "min", COMMON, fixed(60)),
     param("riseDeadbandCPerHour", "Rise must slow this far below the limit to settle", "°C/h", COMMON, fixed(0.5)),
-    // Fresh feed can self-heat and kill the worms (Wikipedia "Vermicompost", check-values §2, V);
+    // Fresh feed can self-heat and kill the worms (Wikipedia "Vermicompost", "Climate and temperature", V);
     // how long to watch has no published figure.
     param("feedingWatchHours", "Watch a zone for a fast rise this long after a feeding", "h", COMMON, fixed(72)),
   ],
@@ -97,9 +97,9 @@ export const RULE_PARAMETERS = {
   ],
   ammonia: [
     // No verified worm threshold exists: the "0.5 mg/g" figure is unverified and is a concentration in
-    // the bedding, not in air (check-values §2), so these ppm lines are our own.
+    // the bedding, not in air (attributed to Edwards 1988, not found), so these ppm lines are our own.
     param("headsUpAtPpm", "Heads-up at or above", "ppm", `${COMMON} (no verified figure for worms)`, fixed(10)),
-    param("actNowAtPpm", "Act now at or above", "ppm", "from memory: NIOSH REL for people, 25 ppm (check-values §8, not verified)", fixed(25)),
+    param("actNowAtPpm", "Act now at or above", "ppm", "from memory: NIOSH REL for people, 25 ppm (NIOSH Pocket Guide to Chemical Hazards, ammonia; not verified)", fixed(25)),
     raise(10),
     settle(15),
     param("deadbandPpm", "Must fall this far below the heads-up line to settle", "ppm", COMMON, fixed(2)),

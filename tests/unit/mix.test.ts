@@ -42,8 +42,8 @@ describe("published worked examples", () => {
   });
 
   it("C:N of hay, kitchen scraps and coffee grounds is 34.7", () => {
-    // "How to calculate the carbon-to-nitrogen ratio of your compost mix – Do the Math" (docslib
-    // 12269573), check-values WE3: %C and %N are on an as-is basis, so moisture is entered as 0.
+    // "How to calculate the carbon-to-nitrogen ratio of your compost mix – Do the Math" handout
+    // (docslib.org/doc/12269573, publisher not named): %C and %N are on an as-is basis, so moisture is 0.
     // Masses are in lb there; the ratio does not depend on the mass unit.
     const items: MixItem[] = [
       { name: "hay", massKg: 50, moisturePct: 0, carbonPct: 40, nitrogenPct: 1 },
@@ -58,7 +58,7 @@ describe("published worked examples", () => {
   });
 
   it("vegetable waste and cardboard: moisture, C:N and water to 80 %", () => {
-    // check-values WE4 (constructed; results recomputed there independently, V-comp)
+    // a worked example of our own, recomputed independently; inputs from Rynk et al. NRAES-54 App. A (V-2nd)
     const items: MixItem[] = [
       { name: "vegetables", massKg: 1, moisturePct: 87, nitrogenPct: 2.7, cn: 19 },
       { name: "cardboard", massKg: 0.2, moisturePct: 8, nitrogenPct: 0.1, cn: 563 },
@@ -70,7 +70,7 @@ describe("published worked examples", () => {
   });
 
   it("cattle manure and straw: C:N with 10 kg, straw for C:N 30", () => {
-    // check-values WE5 (constructed, V-comp); F5 generalised
+    // a worked example of our own, recomputed independently; Cornell spreadsheet manure, Rynk straw; F5 generalised
     const manure: MixItem = { name: "cattle manure", massKg: 100, moisturePct: 81, carbonPct: 45.6, nitrogenPct: 2.4 };
     const straw = { name: "straw", moisturePct: 12, nitrogenPct: 0.7, cn: 80 };
     const ten = value(checkMix([manure, { ...straw, massKg: 10 }]));

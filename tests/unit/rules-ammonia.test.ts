@@ -25,7 +25,7 @@ function run(readings: ProbeSeries[], probes: ProbeContext[], feedings: FeedingC
 
 describe("ammonia where a probe measures it", () => {
   it("raises at 10 ppm held 10 min, escalates at 25 ppm, settles after 15 min at or below 8 ppm", () => {
-    // the ppm lines are our own (common practice / NIOSH REL from memory): check-values §2 has no verified worm figure
+    // the ppm lines are our own (common practice / NIOSH REL from memory): no published worm figure was verified
     const nh3 = [...hold(5, 10), ...hold(12, 20), ...hold(26, 20), ...hold(8.5, 20), ...hold(8, 20)];
     const { brief, events } = run([{ probeId: 9, metric: "ammonia", points: minuteSeries(nh3) }], [nh3Probe], [], nh3.length);
     expect(brief).toEqual(["20 raise heads_up", "40 escalate act_now", "85 settle act_now"]);
@@ -45,7 +45,7 @@ describe("ammonia risk where no probe measures it", () => {
   const flat = (n: number): ProbeSeries => ({ probeId: 7, metric: "temperature", points: minuteSeries(hold(22, n)) });
 
   it("a nitrogen-rich, wet feeding raises a heads-up after 10 min, explained in words", () => {
-    // Cornell "Compost Chemistry" (check-values §2, V): below ~30:1 excess nitrogen is lost as ammonia
+    // Cornell Waste Management Institute, "Compost Chemistry" (V): below ~30:1 excess nitrogen is lost as ammonia
     const feeding = { at: at(0), zoneId: "zone-1", mixCn: 18, mixMoisturePct: 88, totalKg: 10 };
     const { brief, events } = run([flat(60)], [tempProbe], [feeding], 60);
     expect(brief).toEqual(["10 raise heads_up"]);

@@ -153,7 +153,7 @@ describe("validateSenmlPayload", () => {
   });
 
   it("calibrates a raw moisture count with the probe's line and keeps the raw count too", () => {
-    // check-values.md §5, WE9 (constructed): θ = −0.0025·raw + 1.35, raw 450 → 0.225, i.e. 22.5 %
+    // a worked example of our own, recomputed independently: θ = −0.0025·raw + 1.35, raw 450 → 0.225, i.e. 22.5 %
     const calibrated = { ...probe, calibration: { slope: -0.25, intercept: 135 } };
     const r = validate([{ bn, bt: T, n: "moisture-raw", u: "count", v: 450 }], calibrated);
     expect(r.rejections).toEqual([]);

