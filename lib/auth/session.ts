@@ -1,3 +1,4 @@
+import createDebug from "debug";
 import { getServerSession } from "next-auth";
 import { notFound } from "next/navigation";
 import { cache } from "react";
@@ -7,12 +8,15 @@ import { authorize, type Who } from "./authorize";
 import { authOptions } from "./options";
 import { roleAllows, type Permission } from "./roles";
 
+const log = createDebug("wormward:page-access");
+
 // React's cache() lasts one server render: the shell, the farm layout and the page share one
 // session lookup (which checks the session version in the database) and one role lookup. Outside a
 // render (route handlers, server actions) it calls straight through, so those read fresh each time.
 export const currentUserId = cache(async (): Promise<string | null> => {
   const session = await getServerSession(authOptions);
   const id = (session?.user as { id?: string } | undefined)?.id;
+  log("session read: %s", id ?? "(signed out)");
   return id ?? null;
 });
 
@@ -27,7 +31,10 @@ export async function requireMember(target: Target, may: Permission): Promise<Wh
 }
 
 // cache() compares arguments by identity, so the lookups take plain strings and numbers.
-const roleOnce = cache((userId: string, farmId: string) => getRole(userId, farmId));
+const roleOnce = cache((userId: string, farmId: string) => {
+  log("role read: %s on %s", userId, farmId);
+  return getRole(userId, farmId);
+});
 const farmOfBinOnce = cache((binId: string) => farmOfTarget({ binId }));
 const farmOfZoneOnce = cache((zoneId: string) => farmOfTarget({ zoneId }));
 const farmOfProbeOnce = cache((probeId: number) => farmOfTarget({ probeId }));
