@@ -154,12 +154,13 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
     await deliverHeldAlerts(now());
   }
 
-  // LISTEN holds its connection for good, so it is checked out of the pool and never returned;
-  // on an error the connection is destroyed (release(err)) and a fresh one listens.
+  // LISTEN holds its connection for the runner's life, so it is checked out of the pool until
+  // stop(); on an error the connection is destroyed (release(err)) and a fresh one listens.
   const db = opts.pool ?? sharedPool();
   let listener: pg.PoolClient | null = null;
   let heard!: () => void;
   let ready = new Promise<void>((r) => (heard = r));
+  let isReady = false;
   // Notifications are handled one after another, in the order PostgreSQL delivers them.
   let handling: Promise<void> = Promise.resolve();
   const fences = new Map<string, () => void>();
@@ -179,7 +180,12 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
       if (lost) return;
       lost = true;
       listener = null;
-      ready = new Promise<void>((r) => (heard = r));
+      if (isReady) {
+        isReady = false;
+        ready = new Promise<void>((r) => (heard = r));
+      }
+      // A fence sent on the lost connection never comes back; what it waited for is lost with it.
+      for (const back of fences.values()) back();
       c.release(err);
       if (!stopped) {
         log("listener lost (%s); reconnecting", err.message);
@@ -202,6 +208,7 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
       await c.query(`listen ${READINGS_CHANNEL}; listen ${FENCE_CHANNEL}`);
       if (stopped) return drop(new Error("stopped"));
       listener = c;
+      isReady = true;
       heard();
       log("listening for committed readings");
     } catch (err) {
