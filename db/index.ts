@@ -10,7 +10,9 @@ const g = globalThis as unknown as { __wormwardPool?: pg.Pool; __wormwardDb?: Db
 
 export function pool(): pg.Pool {
   if (!g.__wormwardPool) {
-    g.__wormwardPool = new pg.Pool({ connectionString: env().DATABASE_URL, max: 10 });
+    // A connect that hangs (a lost route, not a refused port) fails after 5 s, so the ingest's
+    // writer retries and a page answers with an error instead of waiting for ever.
+    g.__wormwardPool = new pg.Pool({ connectionString: env().DATABASE_URL, max: 10, connectionTimeoutMillis: 5_000 });
     g.__wormwardPool.on("error", (err) => console.error("[wormward:db] idle client error:", err.message));
   }
   return g.__wormwardPool;

@@ -1,6 +1,7 @@
 // `tsx ingest/main.ts`: the long-running telemetry service started by `npm start`.
 // On SIGTERM or SIGINT it stops taking connections, commits what it holds, then exits.
 import createDebug from "debug";
+import { db, pool } from "@/db";
 import { env } from "@/lib/env";
 import { createDeliveryWorker } from "./delivery-worker";
 import { createDigestScheduler } from "./digest";
@@ -9,15 +10,16 @@ import { startIngest } from "./service";
 
 const log = createDebug("wormward:ingest");
 const e = env();
-// The rule runner hears of new readings through LISTEN, from this node and every other writer.
-const rules = createRuleRunner({ listenUrl: e.DATABASE_URL });
+// One pool for the process: the writer stores through it and the rule runner reads through it and
+// LISTENs on one of its connections, hearing of readings from this node and every other writer.
+const rules = createRuleRunner({ pool: pool() });
 const digests = createDigestScheduler();
 // Pushes and alert e-mails leave the rule runner's chain: it queues them, this worker sends them.
 const deliveries = createDeliveryWorker({ listenUrl: e.DATABASE_URL });
 const ingest = await startIngest({
   port: e.MQTT_PORT,
   host: e.MQTT_HOST,
-  databaseUrl: e.DATABASE_URL,
+  db: db(),
 });
 console.log(`ingest: MQTT on ${e.MQTT_HOST}:${ingest.port}`);
 

@@ -4,17 +4,21 @@
 // in the database; the open-alert unique index keeps two ingest nodes from raising one alert twice.
 // Notifying only queues deliveries (lib/alerts/notify.ts); the delivery worker sends them, so no
 // push service is ever awaited in this chain.
+import { randomUUID } from "node:crypto";
 import createDebug from "debug";
-import pg from "pg";
+import type pg from "pg";
+import { pool as sharedPool } from "@/db";
 import { READINGS_CHANNEL } from "@/db/queries/readings";
 import { escalateAlert, raiseAlert, settleOpenAlert, takeDueReminders, updateOpenAlert } from "@/db/queries/alerts";
 import { listMonitoredZones, loadZoneRuleContext, zonesOfProbes } from "@/db/queries/rule-inputs";
 import type { Metric } from "@/db/schema";
 import { deliverHeldAlerts, notifyAlert } from "@/lib/alerts/notify";
-import { evaluateZone, lookback, overridesFromRuleRows, resolveRules, type RuleKind, type RuleRow, type Transition } from "@/lib/rules";
+import { evaluateZone, lookback, overridesFromRuleRows, resolveRules, type ResolvedRules, type RuleKind, type RuleRow, type Transition } from "@/lib/rules";
 import { getSpecies, speciesProfiles } from "@/lib/species";
 
 const log = createDebug("wormward:rules");
+// Each runner's own "heard everything so far" marker; see caughtUp().
+const FENCE_CHANNEL = "wormward_rules_fence";
 
 export type RuleRunnerOptions = {
   coalesceMs?: number;
@@ -22,14 +26,17 @@ export type RuleRunnerOptions = {
   reminderAfterMs?: number;
   now?: () => Date;
   onTransition?: (t: Transition, at: Date) => void;
-  // LISTEN for committed readings from any writer (this node, the app's HTTP ingest, CSV imports).
-  listenUrl?: string;
+  // The process's one pool (the writer's too); one of its connections LISTENs for committed
+  // readings from any writer: this node, other nodes, the app's HTTP ingest, CSV imports.
+  pool?: pg.Pool;
 };
 
 export type RuleRunner = {
-  onCommitted: (zoneIds: string[]) => void;
+  /** Resolves once the LISTEN is in place (again after a reconnect). */
+  listening: () => Promise<void>;
   evaluate: (zoneId: string, kinds?: RuleKind[]) => Promise<Transition[]>;
   sweep: () => Promise<void>;
+  /** Resolves when every reading committed before the call has been heard and its zone evaluated. */
   idle: () => Promise<void>;
   stop: () => Promise<void>;
 };
@@ -44,14 +51,18 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
 
   async function evaluate(zoneId: string, kinds?: RuleKind[]): Promise<Transition[]> {
     const at = now();
+    // Resolved once: the same rules size the lookback and judge the readings.
+    let rules = null as ResolvedRules | null;
     const ctx = await loadZoneRuleContext(zoneId, at, {
       readings: !(kinds && kinds.every((k) => k === "silent_probe")),
-      windows: (species, rows, binId) =>
-        lookback(resolveRules(getSpecies(species) ?? speciesProfiles["eisenia-fetida"], overridesFromRuleRows(rows as RuleRow[], binId))),
+      windows: (species, rows, binId) => {
+        rules = resolveRules(getSpecies(species) ?? speciesProfiles["eisenia-fetida"], overridesFromRuleRows(rows as RuleRow[], binId));
+        return lookback(rules);
+      },
     });
     if (!ctx) return [];
     const species = getSpecies(ctx.bin.species);
-    if (!species) {
+    if (!species || !rules) {
       log("bin %s has unknown species %s; its rules are skipped", ctx.bin.id, ctx.bin.species);
       return [];
     }
@@ -66,7 +77,7 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
       now: at.getTime(),
       zone: { id: ctx.zone.id, kind: ctx.zone.kind, binName: ctx.bin.name, zoneName: ctx.zone.name },
       species,
-      overrides: overridesFromRuleRows(ctx.rules as RuleRow[], ctx.bin.id),
+      rules,
       readings: [...series.values()],
       recentFeedings: ctx.feedings.map((f) => ({ at: f.at.getTime(), zoneId: f.zoneId, mixMoisturePct: f.mixMoisturePct, mixCn: f.mixCn, totalKg: f.totalKg })),
       probes: ctx.probes.map((p) => ({
@@ -143,36 +154,83 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
     await deliverHeldAlerts(now());
   }
 
-  let listener: pg.Client | null = null;
-  async function listen(url: string, attempt = 0): Promise<void> {
+  // LISTEN holds its connection for the runner's life, so it is checked out of the pool until
+  // stop(); on an error the connection is destroyed (release(err)) and a fresh one listens.
+  const db = opts.pool ?? sharedPool();
+  let listener: pg.PoolClient | null = null;
+  let heard!: () => void;
+  let ready = new Promise<void>((r) => (heard = r));
+  let isReady = false;
+  // Notifications are handled one after another, in the order PostgreSQL delivers them.
+  let handling: Promise<void> = Promise.resolve();
+  const fences = new Map<string, () => void>();
+  async function listen(attempt = 0): Promise<void> {
     if (stopped) return;
-    const c = new pg.Client({ connectionString: url });
-    c.on("notification", (n) => {
-      void (async () => {
-        const ids = JSON.parse(n.payload ?? "[]") as number[] | "*";
-        const zones = ids === "*" ? await listMonitoredZones() : await zonesOfProbes(ids);
-        for (const z of zones) dirty.add(z);
-        flushSoon();
-      })().catch((err: Error) => log("notification not handled: %s", err.message));
-    });
-    c.on("error", (err) => {
-      log("listener lost (%s); reconnecting", err.message);
-      listener = null;
-      c.end().catch(() => undefined);
-      setTimeout(() => void listen(url, attempt + 1), Math.min(5_000, 200 * 2 ** attempt)).unref();
-    });
+    const retry = () => setTimeout(() => void listen(attempt + 1), Math.min(5_000, 200 * 2 ** attempt)).unref();
+    let c: pg.PoolClient;
     try {
-      await c.connect();
-      await c.query(`listen ${READINGS_CHANNEL}`);
-      listener = c;
-      log("listening for committed readings");
+      c = await db.connect();
     } catch (err) {
       log("listener not connected (%s); retrying", (err as Error).message);
-      c.end().catch(() => undefined);
-      setTimeout(() => void listen(url, attempt + 1), Math.min(5_000, 200 * 2 ** attempt)).unref();
+      retry();
+      return;
+    }
+    let lost = false;
+    const drop = (err: Error) => {
+      if (lost) return;
+      lost = true;
+      listener = null;
+      if (isReady) {
+        isReady = false;
+        ready = new Promise<void>((r) => (heard = r));
+      }
+      // A fence sent on the lost connection never comes back; what it waited for is lost with it.
+      for (const back of fences.values()) back();
+      c.release(err);
+      if (!stopped) {
+        log("listener lost (%s); reconnecting", err.message);
+        retry();
+      }
+    };
+    c.on("notification", (n) => {
+      handling = handling
+        .then(async () => {
+          if (n.channel === FENCE_CHANNEL) return fences.get(n.payload ?? "")?.();
+          const ids = JSON.parse(n.payload ?? "[]") as number[] | "*";
+          const zones = ids === "*" ? await listMonitoredZones() : await zonesOfProbes(ids);
+          for (const z of zones) dirty.add(z);
+          flushSoon();
+        })
+        .catch((err: Error) => log("notification not handled: %s", err.message));
+    });
+    c.on("error", drop);
+    try {
+      await c.query(`listen ${READINGS_CHANNEL}; listen ${FENCE_CHANNEL}`);
+      if (stopped) return drop(new Error("stopped"));
+      listener = c;
+      isReady = true;
+      heard();
+      log("listening for committed readings");
+    } catch (err) {
+      drop(err as Error);
     }
   }
-  if (opts.listenUrl) void listen(opts.listenUrl);
+  void listen();
+
+  // PostgreSQL delivers notifications in the order their transactions committed (NOTIFY, "Notes"),
+  // so once our own fence comes back, every reading committed before it has been heard.
+  async function caughtUp() {
+    if (stopped) return;
+    await ready;
+    const token = randomUUID();
+    const back = new Promise<void>((r) => fences.set(token, r));
+    try {
+      await db.query("select pg_notify($1, $2)", [FENCE_CHANNEL, token]);
+      await back;
+    } finally {
+      fences.delete(token);
+    }
+  }
 
   const sweeper = setInterval(() => {
     running = running.then(sweep).catch((err: Error) => log("sweep failed: %s", err.message));
@@ -180,13 +238,11 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
   sweeper.unref();
 
   return {
-    onCommitted(zoneIds) {
-      for (const z of zoneIds) dirty.add(z);
-      flushSoon();
-    },
+    listening: () => ready,
     evaluate,
     sweep,
     async idle() {
+      await caughtUp();
       while (timer || dirty.size) {
         await new Promise((r) => setTimeout(r, 50));
         if (!timer && dirty.size) flushSoon();
@@ -197,7 +253,12 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
       stopped = true;
       clearInterval(sweeper);
       if (timer) clearTimeout(timer);
-      await listener?.end().catch(() => undefined);
+      if (listener) {
+        const c = listener;
+        listener = null;
+        // UNLISTEN before the connection goes back: a pooled connection must not keep hearing.
+        await c.query("unlisten *").then(() => c.release(), (err: Error) => c.release(err));
+      }
       await running;
     },
   };

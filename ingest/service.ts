@@ -4,9 +4,7 @@
 import net from "node:net";
 import { Aedes, type AedesOptions, type AuthenticateError, type Client } from "aedes";
 import createDebug from "debug";
-import { drizzle } from "drizzle-orm/node-postgres";
-import pg from "pg";
-import { db as sharedDb, schema, type Db } from "@/db";
+import { db as sharedDb, type Db } from "@/db";
 import { getProbeByCode, verifyProbeToken } from "@/db/queries/probes";
 import type { Probe } from "@/db/schema";
 import { DEFAULT_LIMITS, excerptOf, rejectionText, summarizeRejections, validateSenmlPayload, type TelemetryLimits } from "@/lib/telemetry";
@@ -26,11 +24,11 @@ export const probeTopics = (code: string) => ({
 export type IngestOptions = {
   port: number;
   host?: string;
-  databaseUrl?: string;
+  /** The process's one database handle, shared with the rule runner (default: db() from DATABASE_URL). */
+  db?: Db;
   batch?: Partial<BatchOptions>;
   retry?: Partial<RetryOptions>;
   limits?: Partial<TelemetryLimits>;
-  onCommitted?: (zoneIds: string[], probeIds: number[]) => void | Promise<void>;
   probeTtlMs?: number;
   connections?: Partial<ConnectionLimits>;
   /** A connection that sends no CONNECT in this time is closed (aedes connectTimeout). */
@@ -70,12 +68,8 @@ function clientIdFits(client: Client, code: string): boolean {
 }
 
 export async function startIngest(opts: IngestOptions): Promise<Ingest> {
-  const ownPool = opts.databaseUrl
-    ? new pg.Pool({ connectionString: opts.databaseUrl, max: 5, connectionTimeoutMillis: 5000 })
-    : null;
-  ownPool?.on("error", (err) => log("idle database client error: %s", err.message));
-  const d: Db = ownPool ? drizzle(ownPool, { schema }) : sharedDb();
-  const writer = createWriter({ db: d, batch: opts.batch, retry: opts.retry, onCommitted: opts.onCommitted });
+  const d = opts.db ?? sharedDb();
+  const writer = createWriter({ db: d, batch: opts.batch, retry: opts.retry });
   const probeTtlMs = opts.probeTtlMs ?? 60_000;
   const sessions = new WeakMap<Client, Session>();
   const limits = { ...DEFAULT_LIMITS, ...opts.limits };
@@ -110,7 +104,7 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   });
 
   function statusJob(probe: Probe, status: { online?: boolean | null; seenAt?: Date }) {
-    return { readings: [], rejections: [], status: { probeId: probe.id, ...status }, zoneId: probe.zoneId, origin: originOf(probe) };
+    return { readings: [], rejections: [], status: { probeId: probe.id, ...status }, origin: originOf(probe) };
   }
 
   function setOnline(probe: Probe, online: boolean) {
@@ -130,7 +124,6 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
       readings: v.readings,
       rejections: refused ? [{ ...origin, ...refused }] : [],
       status: { probeId: probe.id, ...v.status },
-      zoneId: probe.zoneId,
       origin,
     });
   }
@@ -304,7 +297,6 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
         await new Promise<void>((r) => broker.close(() => r()));
         await serverClosed;
         await writer.close();
-        await ownPool?.end();
         log("ingest closed");
       })();
       return closed;

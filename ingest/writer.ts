@@ -11,7 +11,6 @@ export type WriteJob = {
   readings: ReadingInput[];
   rejections: RejectionInput[];
   status: ProbeStatusUpdate | null;
-  zoneId: string | null;
   origin: Omit<RejectionInput, "reason">;
 };
 
@@ -22,7 +21,6 @@ export type WriterOptions = {
   db: Db;
   batch?: Partial<BatchOptions>;
   retry?: Partial<RetryOptions>;
-  onCommitted?: (zoneIds: string[], probeIds: number[]) => void | Promise<void>;
 };
 
 export type Writer = {
@@ -100,11 +98,10 @@ export function createWriter(opts: WriterOptions): Writer {
   async function writeWithRetry(items: Pending[]) {
     for (let attempt = 0; ; attempt++) {
       try {
-        const { inserted, probeIds } = await writeBatch(items);
+        const { inserted } = await writeBatch(items);
         counts.batches++;
         counts.rows += inserted;
         for (const p of items) p.resolve();
-        notify(items, probeIds);
         return;
       } catch (err) {
         const why = rootMessage(err);
@@ -152,20 +149,6 @@ export function createWriter(opts: WriterOptions): Writer {
       await updateProbeStatus(statuses, tx);
       return stored;
     });
-  }
-
-  function notify(items: Pending[], probeIds: number[]) {
-    if (!opts.onCommitted || probeIds.length === 0) return;
-    const fresh = new Set(probeIds);
-    const zoneIds = new Set<string>();
-    for (const p of items) {
-      if (p.job.zoneId && p.job.readings.some((r) => fresh.has(r.probeId))) zoneIds.add(p.job.zoneId);
-    }
-    try {
-      Promise.resolve(opts.onCommitted([...zoneIds], probeIds)).catch((err: Error) => log("onCommitted failed: %s", err.message));
-    } catch (err) {
-      log("onCommitted failed: %s", (err as Error).message);
-    }
   }
 
   return {

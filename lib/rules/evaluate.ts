@@ -43,7 +43,7 @@ const KIND_WORDS: Record<RuleKind, string> = {
 
 /** The transitions one zone's readings call for now, in kind order, then probe-id order. */
 export function evaluateZone(input: ZoneRuleInput): Transition[] {
-  const rules = resolveRules(input.species, input.overrides);
+  const rules = input.rules ?? resolveRules(input.species, input.overrides);
   const w = wordsFor(input);
   const ctx = makeContext(input, rules, w);
   const wanted = new Set<RuleKind>(input.kinds ?? ALERT_KINDS);

@@ -3,7 +3,7 @@ import type { AlertKind, Metric, ZoneKind } from "@/db/schema";
 import type { SpeciesProfile } from "../species";
 import type { SeriesPoint } from "../trend";
 import type { UnitSystem } from "../units";
-import type { AlertLevel, RuleKind, RuleOverrides } from "./params";
+import type { AlertLevel, ResolvedRules, RuleKind, RuleOverrides } from "./params";
 
 export type ZoneContext = { id: string; kind: ZoneKind; binName: string; zoneName?: string | null };
 
@@ -51,6 +51,8 @@ export type ZoneRuleInput = {
   species: SpeciesProfile;
   /** Merged farm → bin (overridesFromRuleRows). */
   overrides?: RuleOverrides;
+  /** resolveRules(species, overrides) when the caller already has it (it sized the lookback). */
+  rules?: ResolvedRules;
   /** Over lookback().readingsMs. */
   readings: readonly ProbeSeries[];
   /** The bin's feedings over lookback().feedingsMs; other zones' are ignored. */

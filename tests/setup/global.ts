@@ -109,6 +109,8 @@ export default async function setup(project: TestProject) {
         // As behind one proxy (HAProxy `option forwardfor`): a test names a client address in
         // X-Forwarded-For; requests without one count as 127.0.0.1, filled in by `next start`.
         TRUSTED_PROXY_HOPS: "1",
+        // One line per session and role lookup of a page, which tests/integration/pages counts.
+        DEBUG: [process.env.DEBUG, "wormward:page-access"].filter(Boolean).join(","),
       },
       stdio: ["ignore", log, log],
     });

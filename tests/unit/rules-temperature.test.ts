@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { evaluateZone, replay, type FeedingContext, type OpenAlert, type ProbeSeries, type RuleOverrides, type Transition } from "@/lib/rules";
+import { evaluateZone, replay, resolveRules, type FeedingContext, type OpenAlert, type ProbeSeries, type RuleOverrides, type Transition } from "@/lib/rules";
 import { speciesProfiles } from "@/lib/species";
 import { ratePerHour } from "@/lib/trend";
 
@@ -130,6 +130,17 @@ describe("heat by the species band (E. fetida: comfortable to 25 °C, warm stres
     expect(run(values, { overrides: { heat: { thresholds: { headsUpAboveC: 26.5 } } } }).brief).toEqual([]);
     expect(run(values, { overrides: { heat: { thresholds: { raiseMinutes: 3 } } } }).brief).toEqual(["33 raise heat heads_up"]);
     expect(run(values, { overrides: { heat: { enabled: false } } }).brief).toEqual([]);
+  });
+
+  it("rules the caller already resolved are the ones applied, not resolved again from overrides", () => {
+    // The rule runner resolves once to size its lookback and hands the result on.
+    const hot = { probeId: 7, metric: "temperature" as const, points: minuteSeries([...hold(24, 30), ...hold(26, 50)]) };
+    const input = { now: at(79), zone, species: fetida, readings: [hot], recentFeedings: [], probes: [probe(7)], openAlerts: [], kinds: ["heat" as const] };
+    expect(evaluateZone(input).map((t) => `${t.type} ${t.kind}`)).toEqual(["raise heat"]);
+    const quiet = resolveRules(fetida, { heat: { thresholds: { headsUpAboveC: 26.5 } } });
+    expect(evaluateZone({ ...input, rules: quiet })).toEqual([]);
+    // Given both, the resolved rules win: overrides are not read a second time.
+    expect(evaluateZone({ ...input, rules: quiet, overrides: { heat: { thresholds: { headsUpAboveC: 20 } } } })).toEqual([]);
   });
 
   it("a kind turned off settles its open alert", () => {

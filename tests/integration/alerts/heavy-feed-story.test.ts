@@ -50,7 +50,8 @@ beforeAll(async () => {
   const [{ binId }] = (await d.execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows as [{ binId: string }];
   await d.insert(rules).values({ farmId: probe!.farmId, binId, kind: "heat", thresholds: { actNowAtC: 25 } });
   runner = createRuleRunner({ coalesceMs: 10, now: () => new Date(simNow) });
-  ingest = await startIngest({ port: 0, onCommitted: (zoneIds) => runner.onCommitted(zoneIds) });
+  ingest = await startIngest({ port: 0 });
+  await runner.listening(); // it hears of readings only through LISTEN, as in production
   client = await connectProbe(ingest.port, probe!);
   // The sender, as on an ingest node: woken by NOTIFY when the rule runner queues a delivery.
   worker = createDeliveryWorker({ listenUrl: process.env.DATABASE_URL });

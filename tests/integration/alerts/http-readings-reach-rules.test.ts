@@ -16,8 +16,8 @@ let runner: RuleRunner;
 
 beforeAll(async () => {
   probe = (await createProbes(1))[0]!;
-  runner = createRuleRunner({ coalesceMs: 20, listenUrl: process.env.DATABASE_URL });
-  await new Promise((r) => setTimeout(r, 300)); // the listener connects
+  runner = createRuleRunner({ coalesceMs: 20 });
+  await runner.listening();
 });
 afterAll(async () => {
   await runner?.stop();

@@ -42,7 +42,8 @@ beforeAll(async () => {
     await d.insert(memberships).values({ userId: u!.id, farmId: probe.farmId, role });
   }
   runner = createRuleRunner({ coalesceMs: 10, now: () => new Date(simNow), sweepMs: 3_600_000 });
-  ingest = await startIngest({ port: 0, onCommitted: (zoneIds) => runner.onCommitted(zoneIds) });
+  ingest = await startIngest({ port: 0 });
+  await runner.listening(); // it hears of readings only through LISTEN, as in production
   client = await connectProbe(ingest.port, probe);
   worker = createDeliveryWorker({ pollMs: 100, listenUrl: process.env.DATABASE_URL });
 });

@@ -48,7 +48,8 @@ beforeAll(async () => {
   const slow = await farmWith(await Promise.all(Array.from({ length: SLOTS }, () => newSubscriber({ mode: "never-answers" }))));
   const quick = await farmWith([await newSubscriber()]);
   runner = createRuleRunner({ coalesceMs: 10, now: () => new Date(simNow), sweepMs: 3_600_000 });
-  ingest = await startIngest({ port: 0, onCommitted: (zoneIds) => runner.onCommitted(zoneIds) });
+  ingest = await startIngest({ port: 0 });
+  await runner.listening(); // it hears of readings only through LISTEN, as in production
   a = { ...slow, client: await connectProbe(ingest.port, slow.probe) };
   b = { ...quick, client: await connectProbe(ingest.port, quick.probe) };
   // As on an ingest node: woken by NOTIFY when the rule runner queues a delivery; at most half its

@@ -1,8 +1,10 @@
 // An owner registers a probe: the token is shown once, stored only as a hash, and works with the
 // broker; replacing it locks the old token out.
+import { drizzle } from "drizzle-orm/node-postgres";
 import { connectAsync } from "mqtt";
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
+import { schema } from "@/db";
 import { startIngest, type Ingest } from "@/ingest/service";
 import { probeBaseName } from "@/lib/metrics";
 import { hashToken } from "@/lib/auth/tokens";
@@ -13,6 +15,7 @@ let owner: Session;
 let farmId: string;
 let zoneId: string;
 let ingest: Ingest;
+let appPool: pg.Pool;
 
 beforeAll(async () => {
   db = new pg.Client({ connectionString: inject("appDbUrl") });
@@ -20,10 +23,12 @@ beforeAll(async () => {
   owner = await signIn("noor@alder-row.example", "alder-row-demo");
   farmId = (await db.query(`select id from farms where name = 'Alder Row Worm Farm'`)).rows[0].id;
   zoneId = (await db.query(`select z.id from zones z join bins b on b.id = z.bin_id where b.name = 'Shed Tote'`)).rows[0].id;
-  ingest = await startIngest({ port: 0, databaseUrl: inject("appDbUrl") });
+  appPool = new pg.Pool({ connectionString: inject("appDbUrl"), max: 3 });
+  ingest = await startIngest({ port: 0, db: drizzle(appPool, { schema }) });
 });
 afterAll(async () => {
   await ingest?.close();
+  await appPool?.end();
   await db?.end();
 });
 

@@ -1,9 +1,10 @@
 // The batching writer against the real database: batches close by count and by time, a message
-// the database refuses cannot hold back the others, and onCommitted follows each commit.
+// the database refuses cannot hold back the others, and each commit of new readings is announced
+// on the readings channel (the rule runner's only way to hear of them).
 import { sql } from "drizzle-orm";
 import { afterEach, beforeAll, describe, expect, it } from "vitest";
-import { db } from "@/db";
-import type { ReadingInput } from "@/db/queries/readings";
+import { db, pool } from "@/db";
+import { READINGS_CHANNEL, type ReadingInput } from "@/db/queries/readings";
 import type { Metric } from "@/db/schema";
 import { createWriter, type WriteJob, type Writer } from "@/ingest/writer";
 import { countReadings, createProbes, rejectionsOf, waitFor, type TestProbe } from "./helpers";
@@ -22,7 +23,7 @@ afterEach(async () => {
 
 function job(p: TestProbe, readings: ReadingInput[]): WriteJob {
   const origin = { farmId: p.farmId, probeId: p.id, source: "mqtt" as const, topic: `wormward/${p.code}/up`, excerpt: "[...]" };
-  return { readings, rejections: [], status: { probeId: p.id, seenAt: new Date() }, zoneId: p.zoneId, origin };
+  return { readings, rejections: [], status: { probeId: p.id, seenAt: new Date() }, origin };
 }
 const temps = (p: TestProbe, n: number, from = 0): ReadingInput[] =>
   Array.from({ length: n }, (_, i) => ({ probeId: p.id, metric: "temperature", ts: new Date(t0 + (from + i) * 1000), value: 20 + (i % 7) }));
@@ -80,22 +81,29 @@ describe("the batching writer", () => {
     expect(rows[0]!.reason).toMatch(/^store-failed: .*pressure/);
   });
 
-  it("calls onCommitted with the zones and probes of new readings once they are visible, and not for repeats", async () => {
+  it("announces new readings on the readings channel once they are visible, and not repeats", async () => {
     const p = fleet[0]!;
-    const calls: { zoneIds: string[]; probeIds: number[]; visible: number }[] = [];
-    writer = createWriter({
-      db: db(),
-      batch: { maxWaitMs: 10 },
-      onCommitted: async (zoneIds, probeIds) => {
-        const r = await db().execute<{ n: number }>(sql`select count(*)::int as n from readings where probe_id = ${p.id} and ts = ${new Date(t0 + 5000 * 1000).toISOString()}`);
-        calls.push({ zoneIds, probeIds, visible: r.rows[0]!.n });
-      },
-    });
-    await writer.submit(job(p, temps(p, 1, 5000)));
-    await waitFor("onCommitted", async () => calls.length, (n) => n === 1, 5000);
-    expect(calls).toEqual([{ zoneIds: [p.zoneId], probeIds: [p.id], visible: 1 }]);
-    await writer.submit(job(p, temps(p, 1, 5000)));
-    await new Promise((r) => setTimeout(r, 100));
-    expect(calls).toHaveLength(1);
+    const heard: { probeIds: unknown; visible: number }[] = [];
+    const listener = await pool().connect();
+    try {
+      listener.on("notification", (n) => {
+        if (n.channel !== READINGS_CHANNEL) return;
+        // Counted from another connection: what any rule runner would see on hearing it.
+        void db()
+          .execute<{ n: number }>(sql`select count(*)::int as n from readings where probe_id = ${p.id} and ts = ${new Date(t0 + 5000 * 1000).toISOString()}`)
+          .then((r) => heard.push({ probeIds: JSON.parse(n.payload ?? "null"), visible: r.rows[0]!.n }));
+      });
+      await listener.query(`listen ${READINGS_CHANNEL}`);
+      writer = createWriter({ db: db(), batch: { maxWaitMs: 10 } });
+      await writer.submit(job(p, temps(p, 1, 5000)));
+      await waitFor("the announcement", async () => heard.length, (n) => n === 1, 5000);
+      expect(heard).toEqual([{ probeIds: [p.id], visible: 1 }]);
+      await writer.submit(job(p, temps(p, 1, 5000)));
+      await new Promise((r) => setTimeout(r, 200));
+      expect(heard).toHaveLength(1);
+    } finally {
+      await listener.query("unlisten *");
+      listener.release();
+    }
   });
 });

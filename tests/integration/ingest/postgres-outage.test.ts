@@ -30,11 +30,12 @@ beforeAll(async () => {
   await admin.end();
   const url = cluster.adminUrl.replace(/\/postgres$/, "/outage_test");
   await runMigrations(url);
-  pool = new pg.Pool({ connectionString: url, max: 2 });
+  // One handle for the test's own queries and the ingest, as ingest/main.ts hands it one.
+  pool = new pg.Pool({ connectionString: url, max: 5, connectionTimeoutMillis: 5000 });
   pool.on("error", () => {}); // its idle clients die with the server on purpose
   d = drizzle(pool, { schema });
   [probe] = (await createProbes(1, { d })) as [TestProbe];
-  ingest = await startIngest({ port: 0, databaseUrl: url, retry: { minMs: 100, maxMs: 1000 } });
+  ingest = await startIngest({ port: 0, db: d, retry: { minMs: 100, maxMs: 1000 } });
 });
 
 afterAll(async () => {

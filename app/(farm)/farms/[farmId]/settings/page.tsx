@@ -4,8 +4,7 @@ import { listBins } from "@/db/queries/bins";
 import { getFarm } from "@/db/queries/farms";
 import { BinArchive } from "@/components/settings/bin-archive";
 import { FarmForm } from "@/components/settings/farm-form";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { requirePageMember } from "@/lib/auth/session";
 import { archiveBinAction, bringBackBin, saveFarm } from "./actions";
 import { timeZoneOrUtc } from "@/lib/validation/fields";
 
@@ -13,13 +12,7 @@ export const metadata: Metadata = { title: "Settings" };
 
 export default async function SettingsPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
-  let role: string;
-  try {
-    role = (await requireMember({ farmId }, "read")).role;
-  } catch (e) {
-    if (e instanceof AppError) notFound();
-    throw e;
-  }
+  const { role } = await requirePageMember({ farmId }, "read");
   const farm = await getFarm(farmId);
   if (!farm) notFound();
   const heading = (

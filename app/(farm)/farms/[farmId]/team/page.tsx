@@ -5,8 +5,7 @@ import { listPendingInvitations, listTeam } from "@/db/queries/team";
 import { InviteForm } from "@/components/team/invite-form";
 import { MemberList } from "@/components/team/member-card";
 import { PendingInvitations } from "@/components/team/pending-invitations";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { requirePageMember } from "@/lib/auth/session";
 import { changeRole, invite, remove, revoke } from "./actions";
 import { timeZoneOrUtc } from "@/lib/validation/fields";
 
@@ -14,13 +13,7 @@ export const metadata: Metadata = { title: "Team" };
 
 export default async function TeamPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
-  let who;
-  try {
-    who = await requireMember({ farmId }, "read");
-  } catch (e) {
-    if (e instanceof AppError) notFound();
-    throw e;
-  }
+  const who = await requirePageMember({ farmId }, "read");
   const farm = await getFarm(farmId);
   if (!farm) notFound();
   const owner = who.role === "owner";

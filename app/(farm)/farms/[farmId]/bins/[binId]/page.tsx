@@ -14,8 +14,7 @@ import { LogbookList } from "@/components/logbook/logbook-list";
 import { QuickLogForms } from "@/components/logbook/quick-log-forms";
 import { listLogbook } from "@/db/queries/logbook";
 import { StatusMark } from "@/components/ui/status-mark";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { requirePageMember } from "@/lib/auth/session";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/species";
 import { feedingsKey, ingredientsKey, logbookKey } from "@/lib/swr-keys";
 import { formatPercent, formatTemperature } from "@/lib/units";
@@ -32,17 +31,7 @@ export default async function BinPage({
   searchParams: Promise<{ zone?: string | string[] }>;
 }) {
   const { farmId, binId } = await params;
-  let role: string;
-  let userId: string;
-  try {
-    const who = await requireMember({ binId }, "read");
-    if (who.farmId !== farmId) notFound();
-    role = who.role;
-    userId = who.userId;
-  } catch (e) {
-    if (e instanceof AppError) notFound();
-    throw e;
-  }
+  const { role, userId } = await requirePageMember({ farmId, binId }, "read");
   const canLog = role !== "viewer";
   const [bin, farm, feedings, library, logbook] = await Promise.all([getBin(binId), getFarm(farmId), listFeedings(binId), canLog ? listIngredients(farmId) : null, listLogbook(binId)]);
   if (!bin || !farm) notFound();

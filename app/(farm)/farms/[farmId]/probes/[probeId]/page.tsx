@@ -3,23 +3,14 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getProbePlace } from "@/db/queries/logbook";
 import { ProbeCalibration } from "@/components/probes/probe-calibration";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { requirePageMember } from "@/lib/auth/session";
 
 export const metadata: Metadata = { title: "Probe calibration" };
 
 export default async function ProbePage({ params }: { params: Promise<{ farmId: string; probeId: string }> }) {
   const { farmId, probeId } = await params;
   const id = Number(probeId);
-  let role: string;
-  try {
-    const who = await requireMember({ probeId: id }, "read");
-    if (who.farmId !== farmId) notFound();
-    role = who.role;
-  } catch (e) {
-    if (e instanceof AppError) notFound();
-    throw e;
-  }
+  const { role } = await requirePageMember({ farmId, probeId: id }, "read");
   const probe = await getProbePlace(id);
   if (!probe) notFound();
   return (

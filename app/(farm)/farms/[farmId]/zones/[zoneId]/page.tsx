@@ -12,8 +12,7 @@ import type { ChartMetric } from "@/components/charts/zone-chart";
 import { ZoneCharts } from "@/components/charts/zone-charts";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
 import { StatusMark } from "@/components/ui/status-mark";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { requirePageMember } from "@/lib/auth/session";
 import { overridesFromRuleRows, resolveRules } from "@/lib/rules/params";
 import { getSpecies } from "@/lib/species";
 import { feedingsKey, zoneSeriesKey } from "@/lib/swr-keys";
@@ -62,15 +61,7 @@ function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => s
 
 export default async function ZonePage({ params }: { params: Promise<{ farmId: string; zoneId: string }> }) {
   const { farmId, zoneId } = await params;
-  let role: string;
-  try {
-    const who = await requireMember({ zoneId }, "read");
-    if (who.farmId !== farmId) notFound();
-    role = who.role;
-  } catch (e) {
-    if (e instanceof AppError) notFound();
-    throw e;
-  }
+  const { role } = await requirePageMember({ farmId, zoneId }, "read");
   const view = await getZoneView(zoneId);
   if (!view) notFound();
   const { zone, bin, unitSystem: system } = view;

@@ -6,8 +6,7 @@ import { getFarm } from "@/db/queries/farms";
 import { listRulesForBin } from "@/db/queries/rules";
 import { RulesTable, type RulesData } from "@/components/rules/rules-table";
 import { KIND_WORDS } from "@/lib/alerts/notify";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { requirePageMember } from "@/lib/auth/session";
 import { defaultRuleTable, overridesFromRuleRows, resolveRules, type RuleRow } from "@/lib/rules";
 import { getSpecies } from "@/lib/species";
 
@@ -15,15 +14,7 @@ export const metadata: Metadata = { title: "Alert rules" };
 
 export default async function BinRulesPage({ params }: { params: Promise<{ farmId: string; binId: string }> }) {
   const { farmId, binId } = await params;
-  let role: string;
-  try {
-    const who = await requireMember({ binId }, "read");
-    if (who.farmId !== farmId) notFound();
-    role = who.role;
-  } catch (e) {
-    if (e instanceof AppError) notFound();
-    throw e;
-  }
+  const { role } = await requirePageMember({ farmId, binId }, "read");
   const [bin, farm, rows] = await Promise.all([getBin(binId), getFarm(farmId), listRulesForBin(farmId, binId)]);
   const species = bin ? getSpecies(bin.species) : null;
   if (!bin || !farm || !species) notFound();
