@@ -131,6 +131,9 @@ Logs are in .data/*.log. Press Ctrl-C to stop.`);
 async function test(extra: string[]) {
   ensureOsPackages(["chromium", "mosquitto-clients", "openssl"]);
   fs.mkdirSync(dataDir, { recursive: true });
+  console.log("Linting (eslint) and checking the format (prettier)…");
+  run(bin("eslint"), [".", "--max-warnings", "0"]);
+  run(bin("prettier"), ["--check", "--log-level", "warn", "."]);
   console.log("Type-checking the whole repository (tsc --noEmit)…");
   run(bin("tsc"), ["--noEmit", "-p", "tsconfig.json"]);
   console.log("Building the web app for the browser and API tests (next build)…");

@@ -78,8 +78,14 @@ describe("the simulated probe fleet", () => {
     // Temperatures sit in each zone's band (fresh warmest), inside a day's swing and noise.
     const fresh = await temps(farm.probes[0]!.id);
     const curing = await temps(farm.probes[2]!.id);
-    for (const t of fresh) expect(t).toBeGreaterThan(21.5), expect(t).toBeLessThan(24.5);
-    for (const t of curing) expect(t).toBeGreaterThan(18.5), expect(t).toBeLessThan(21.5);
+    for (const t of fresh) {
+      expect(t).toBeGreaterThan(21.5);
+      expect(t).toBeLessThan(24.5);
+    }
+    for (const t of curing) {
+      expect(t).toBeGreaterThan(18.5);
+      expect(t).toBeLessThan(21.5);
+    }
   });
 
   it("keeps unacknowledged messages while the broker is away and resends them: none lost, none doubled", async () => {

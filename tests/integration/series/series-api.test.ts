@@ -72,7 +72,10 @@ describe("the series API", () => {
     const n = a.series[0]!.t.length;
     expect(n).toBeGreaterThan(600);
     expect(n).toBeLessThanOrEqual(1000);
-    for (const v of a.series[0]!.mean) expect(v).toBeGreaterThanOrEqual(70), expect(v).toBeLessThanOrEqual(74);
+    for (const v of a.series[0]!.mean) {
+      expect(v).toBeGreaterThanOrEqual(70);
+      expect(v).toBeLessThanOrEqual(74);
+    }
   });
 
   it("another farm's zone or probe gets 404, even for an owner", async () => {

@@ -70,6 +70,8 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
   const rules = profile ? resolveRules(profile, overridesFromRuleRows(await listRulesForBin(farmId, bin.id), bin.id)) : null;
   const ammonia: AmmoniaLines = { headsUpAtPpm: rules?.ammonia.t.headsUpAtPpm ?? 10, actNowAtPpm: rules?.ammonia.t.actNowAtPpm ?? 25 };
   const metrics: ChartMetric[] = ["temperature", "moisture", ...(view.metrics.includes("ammonia") || view.latest.ammonia ? (["ammonia"] as const) : [])];
+  // A server component renders once per request, so reading the clock here is what we mean.
+  // eslint-disable-next-line react-hooks/purity
   const since = new Date(Date.now() - 30 * 86_400_000);
   const [binRow, feedings, alerts, ...series] = await Promise.all([
     getBin(bin.id),
