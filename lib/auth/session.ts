@@ -41,7 +41,7 @@ const farmOfProbeOnce = cache((probeId: number) => farmOfTarget({ probeId }));
 
 // What a page under /farms/[farmId] names: the farm of its URL and, for a bin, zone or probe page,
 // the thing it shows, which must belong to that farm.
-export type PageTarget = { farmId: string } & ({} | { binId: string } | { zoneId: string } | { probeId: number });
+export type PageTarget = { farmId: string } & (Record<never, never> | { binId: string } | { zoneId: string } | { probeId: number });
 
 function farmOfPageThing(t: PageTarget): Promise<string | null> | string {
   if ("binId" in t) return farmOfBinOnce(t.binId);
