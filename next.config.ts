@@ -19,7 +19,11 @@ const config: NextConfig = {
     { source: "/api/:path*", headers: [{ key: "Content-Security-Policy", value: API_POLICY }, ...common] },
     { source: "/api/auth/:path*", headers: [{ key: "Content-Security-Policy", value: AUTH_PAGES_POLICY }] },
     // HSTS over TLS only (RFC 6797 §7.2); pages also send it when APP_URL is https.
-    { source: "/api/:path*", has: [{ type: "header", key: "x-forwarded-proto", value: "https" }], headers: [{ key: "Strict-Transport-Security", value: HSTS }] },
+    {
+      source: "/api/:path*",
+      has: [{ type: "header", key: "x-forwarded-proto", value: "https" }],
+      headers: [{ key: "Strict-Transport-Security", value: HSTS }],
+    },
     {
       source: "/sw.js",
       headers: [

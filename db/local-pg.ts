@@ -109,9 +109,7 @@ export async function startCluster(opts: ClusterOptions = {}): Promise<Cluster> 
     fs.writeFileSync(pwFile, state.password, { mode: 0o600 });
     chownToPostgres(home);
     console.log(`Creating a PostgreSQL cluster in ${dataDir}`);
-    runPg(path.join(binDir, "initdb"), [
-      "-D", dataDir, "-U", "wormward", "--pwfile", pwFile, "--auth=scram-sha-256", "-E", "UTF8", "--locale=C.UTF-8",
-    ]);
+    runPg(path.join(binDir, "initdb"), ["-D", dataDir, "-U", "wormward", "--pwfile", pwFile, "--auth=scram-sha-256", "-E", "UTF8", "--locale=C.UTF-8"]);
     fs.rmSync(pwFile);
     fs.writeFileSync(statePath, JSON.stringify(state), { mode: 0o600 });
   }
@@ -124,8 +122,15 @@ export async function startCluster(opts: ClusterOptions = {}): Promise<Cluster> 
     log("cluster %s already running", dataDir);
   } else {
     runPg(path.join(binDir, "pg_ctl"), [
-      "-D", dataDir, "-l", path.join(home, "server.log"), "-w", "-t", "60",
-      "-o", `-p ${state.port} -c listen_addresses=127.0.0.1 -c unix_socket_directories='${dataDir}' -c fsync=on`,
+      "-D",
+      dataDir,
+      "-l",
+      path.join(home, "server.log"),
+      "-w",
+      "-t",
+      "60",
+      "-o",
+      `-p ${state.port} -c listen_addresses=127.0.0.1 -c unix_socket_directories='${dataDir}' -c fsync=on`,
       "start",
     ]);
     log("started cluster %s on port %d", dataDir, state.port);
@@ -168,8 +173,15 @@ export function pgCtl(name: string, action: "stop" | "start") {
     runPg(path.join(binDir, "pg_ctl"), ["-D", dataDir, "-m", "fast", "-w", "stop"], { allowFail: true });
   } else {
     runPg(path.join(binDir, "pg_ctl"), [
-      "-D", dataDir, "-l", path.join(home, "server.log"), "-w", "-t", "60",
-      "-o", `-p ${state.port} -c listen_addresses=127.0.0.1 -c unix_socket_directories='${dataDir}'`,
+      "-D",
+      dataDir,
+      "-l",
+      path.join(home, "server.log"),
+      "-w",
+      "-t",
+      "60",
+      "-o",
+      `-p ${state.port} -c listen_addresses=127.0.0.1 -c unix_socket_directories='${dataDir}'`,
       "start",
     ]);
   }

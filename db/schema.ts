@@ -27,24 +27,8 @@ export const unitSystemEnum = pgEnum("unit_system", ["metric", "imperial"]);
 export const binStyleEnum = pgEnum("bin_style", ["flow-through", "tray stack", "tote", "bed", "windrow"]);
 export const zoneKindEnum = pgEnum("zone_kind", ["fresh", "working", "curing"]);
 // The numeric metrics of lib/metrics.ts (firmware is text and lives on the probe row).
-export const metricEnum = pgEnum("metric", [
-  "temperature",
-  "moisture",
-  "moisture-raw",
-  "ammonia",
-  "battery-voltage",
-  "battery-level",
-  "signal",
-]);
-export const alertKindEnum = pgEnum("alert_kind", [
-  "heat",
-  "chill",
-  "drying",
-  "soggy",
-  "ammonia",
-  "silent_probe",
-  "probe_fault",
-]);
+export const metricEnum = pgEnum("metric", ["temperature", "moisture", "moisture-raw", "ammonia", "battery-voltage", "battery-level", "signal"]);
+export const alertKindEnum = pgEnum("alert_kind", ["heat", "chill", "drying", "soggy", "ammonia", "silent_probe", "probe_fault"]);
 export const alertLevelEnum = pgEnum("alert_level", ["heads_up", "act_now"]);
 export const alertStateEnum = pgEnum("alert_state", ["raised", "claimed", "settled"]);
 export const ingredientKindEnum = pgEnum("ingredient_kind", ["bedding", "feedstock", "water"]);
@@ -181,7 +165,10 @@ export const probes = pgTable(
     code: text("code").notNull(),
     label: text("label"),
     tokenHash: text("token_hash").notNull(),
-    metrics: text("metrics").array().notNull().default(sql`'{}'::text[]`),
+    metrics: text("metrics")
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     reportIntervalS: integer("report_interval_s").notNull().default(60),
     calibration: jsonb("calibration").$type<{
       slope: number;
@@ -300,7 +287,9 @@ export const alerts = pgTable(
   },
   (t) => [
     // Two ingest nodes racing to raise the same alert: the second insert conflicts here.
-    uniqueIndex("alerts_open_subject_uq").on(t.subject).where(sql`state <> 'settled'`),
+    uniqueIndex("alerts_open_subject_uq")
+      .on(t.subject)
+      .where(sql`state <> 'settled'`),
     // Today shows a farm's open alerts, newest first.
     index("alerts_farm_state_idx").on(t.farmId, t.state, t.raisedAt),
   ],
@@ -371,7 +360,9 @@ export const deliveries = pgTable(
   (t) => [
     uniqueIndex("deliveries_dedupe_uq").on(t.dedupeKey),
     // Workers claim the oldest due rows that are still to be sent.
-    index("deliveries_due_idx").on(t.nextAttemptAt).where(sql`state in ('pending', 'sending')`),
+    index("deliveries_due_idx")
+      .on(t.nextAttemptAt)
+      .where(sql`state in ('pending', 'sending')`),
     index("deliveries_alert_idx").on(t.alertId),
   ],
 );

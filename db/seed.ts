@@ -19,10 +19,31 @@ export const DEMO_PEOPLE = [
 
 type DemoBin = { name: string; style: BinStyle; species: string; size: [number, number, number]; zones: ZoneKind[]; notes: string };
 const DEMO_BINS: DemoBin[] = [
-  { name: "Long Bed North", style: "flow-through", species: "eisenia-fetida", size: [240, 90, 60], zones: ["fresh", "working", "curing"], notes: "Fed from the north end; mesh floor, harvest bar at the south end." },
+  {
+    name: "Long Bed North",
+    style: "flow-through",
+    species: "eisenia-fetida",
+    size: [240, 90, 60],
+    zones: ["fresh", "working", "curing"],
+    notes: "Fed from the north end; mesh floor, harvest bar at the south end.",
+  },
   { name: "Shed Tote", style: "tote", species: "eisenia-hortensis", size: [60, 40, 35], zones: ["working"], notes: "Kept for bait worms." },
-  { name: "Tray Tower", style: "tray stack", species: "eudrilus-eugeniae", size: [50, 50, 80], zones: ["fresh", "working", "curing"], notes: "Top tray fed; needs the heater below 15 °C." },
-  { name: "Greenhouse Windrow", style: "windrow", species: "perionyx-excavatus", size: [600, 120, 45], zones: ["fresh", "working", "curing"], notes: "Under shade cloth from May to September." },
+  {
+    name: "Tray Tower",
+    style: "tray stack",
+    species: "eudrilus-eugeniae",
+    size: [50, 50, 80],
+    zones: ["fresh", "working", "curing"],
+    notes: "Top tray fed; needs the heater below 15 °C.",
+  },
+  {
+    name: "Greenhouse Windrow",
+    style: "windrow",
+    species: "perionyx-excavatus",
+    size: [600, 120, 45],
+    zones: ["fresh", "working", "curing"],
+    notes: "Under shade cloth from May to September.",
+  },
 ];
 
 export type DemoProbe = { code: string; token: string; bin: string; zone: ZoneKind; metrics: string[] };
@@ -31,7 +52,20 @@ export type DemoProbe = { code: string; token: string; bin: string; zone: ZoneKi
 export async function seedIngredients(d: Db) {
   await d
     .insert(ingredients)
-    .values(library.map((i) => ({ key: i.key, name: i.name, kind: i.kind, moisturePct: i.moisturePct, carbonPct: i.carbonPct, nitrogenPct: i.nitrogenPct, cn: i.cn, source: i.source, sourceStatus: i.sourceStatus, note: i.note ?? null })))
+    .values(
+      library.map((i) => ({
+        key: i.key,
+        name: i.name,
+        kind: i.kind,
+        moisturePct: i.moisturePct,
+        carbonPct: i.carbonPct,
+        nitrogenPct: i.nitrogenPct,
+        cn: i.cn,
+        source: i.source,
+        sourceStatus: i.sourceStatus,
+        note: i.note ?? null,
+      })),
+    )
     .onConflictDoNothing();
 }
 
@@ -55,15 +89,38 @@ export async function seedDemo(d: Db, opts: { probesFile?: string; historyHours?
     for (const b of DEMO_BINS) {
       const [bin] = await tx
         .insert(bins)
-        .values({ farmId: farm!.id, name: b.name, style: b.style, species: b.species, lengthCm: b.size[0], widthCm: b.size[1], depthCm: b.size[2], notes: b.notes })
+        .values({
+          farmId: farm!.id,
+          name: b.name,
+          style: b.style,
+          species: b.species,
+          lengthCm: b.size[0],
+          widthCm: b.size[1],
+          depthCm: b.size[2],
+          notes: b.notes,
+        })
         .returning();
       for (const [i, kind] of b.zones.entries()) {
-        const [zone] = await tx.insert(zones).values({ binId: bin!.id, position: i + 1, kind }).returning();
+        const [zone] = await tx
+          .insert(zones)
+          .values({ binId: bin!.id, position: i + 1, kind })
+          .returning();
         n += 1;
         const code = `alder-${String(n).padStart(2, "0")}`;
         const token = randomBytes(18).toString("base64url");
         const metrics = ["temperature", "moisture", "battery-voltage", "signal", ...(b.style === "flow-through" && kind === "fresh" ? ["ammonia"] : [])];
-        await tx.insert(probes).values({ farmId: farm!.id, zoneId: zone!.id, code, label: `${b.name} · ${kind}`, tokenHash: hashToken(token), metrics, lastSeenAt: new Date(), batteryV: 3.9, signalDbm: -67, firmware: "ww-0.4.2" });
+        await tx.insert(probes).values({
+          farmId: farm!.id,
+          zoneId: zone!.id,
+          code,
+          label: `${b.name} · ${kind}`,
+          tokenHash: hashToken(token),
+          metrics,
+          lastSeenAt: new Date(),
+          batteryV: 3.9,
+          signalDbm: -67,
+          firmware: "ww-0.4.2",
+        });
         demoProbes.push({ code, token, bin: b.name, zone: kind, metrics });
       }
     }
@@ -94,7 +151,11 @@ async function seedHistory(d: Db, demoProbes: DemoProbe[], hours: number) {
       if (p.metrics.includes("ammonia")) rows.push({ probeId, metric: "ammonia", ts: new Date(t), value: +(2 + Math.abs(wobble) * 4).toFixed(2) });
     }
   }
-  for (let i = 0; i < rows.length; i += 2000) await d.insert(readings).values(rows.slice(i, i + 2000)).onConflictDoNothing();
+  for (let i = 0; i < rows.length; i += 2000)
+    await d
+      .insert(readings)
+      .values(rows.slice(i, i + 2000))
+      .onConflictDoNothing();
   // Hourly rollups for the seeded history, cut in UTC like the ingest writer's.
   await d.execute(sql`
     insert into reading_rollups (probe_id, metric, hour, min, max, sum, count)

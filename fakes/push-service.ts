@@ -141,7 +141,14 @@ export function checkVapidAuthorization(
   const params = new Map<string, string>();
   for (const pair of match[1].split(",")) {
     const eq = pair.indexOf("=");
-    if (eq > 0) params.set(pair.slice(0, eq).trim().toLowerCase(), pair.slice(eq + 1).trim().replace(/^"(.*)"$/, "$1"));
+    if (eq > 0)
+      params.set(
+        pair.slice(0, eq).trim().toLowerCase(),
+        pair
+          .slice(eq + 1)
+          .trim()
+          .replace(/^"(.*)"$/, "$1"),
+      );
   }
   const t = params.get("t");
   const k = params.get("k");
@@ -188,9 +195,23 @@ async function makeCertificate(): Promise<{ key: string; cert: string }> {
     const keyFile = path.join(dir, "key.pem");
     const certFile = path.join(dir, "cert.pem");
     await run("openssl", [
-      "req", "-x509", "-newkey", "ec", "-pkeyopt", "ec_paramgen_curve:prime256v1", "-nodes",
-      "-keyout", keyFile, "-out", certFile, "-days", "30", "-subj", "/CN=wormward fake push service",
-      "-addext", "subjectAltName=IP:127.0.0.1,DNS:localhost",
+      "req",
+      "-x509",
+      "-newkey",
+      "ec",
+      "-pkeyopt",
+      "ec_paramgen_curve:prime256v1",
+      "-nodes",
+      "-keyout",
+      keyFile,
+      "-out",
+      certFile,
+      "-days",
+      "30",
+      "-subj",
+      "/CN=wormward fake push service",
+      "-addext",
+      "subjectAltName=IP:127.0.0.1,DNS:localhost",
     ]);
     return { key: await readFile(keyFile, "utf8"), cert: await readFile(certFile, "utf8") };
   } finally {
@@ -293,10 +314,15 @@ export async function startPushService(options: { port?: number; host?: string }
     if (url.pathname === "/subscribe" && req.method === "POST") {
       const endpoint = service.subscriptionEndpoint(undefined, parseMode(await readBody(req)));
       const id = endpoint.slice(endpoint.lastIndexOf("/") + 1);
-      return answer(res, 201, { endpoint }, {
-        location: `${origin}/subscription/${id}`,
-        link: `<${endpoint}>; rel="urn:ietf:params:push"`,
-      });
+      return answer(
+        res,
+        201,
+        { endpoint },
+        {
+          location: `${origin}/subscription/${id}`,
+          link: `<${endpoint}>; rel="urn:ietf:params:push"`,
+        },
+      );
     }
     // RFC 8030 §7.3: the user agent deletes its subscription; later pushes to it answer 410 Gone.
     const sub = url.pathname.match(/^\/subscription\/([A-Za-z0-9_-]+)$/);
@@ -326,8 +352,7 @@ export async function startPushService(options: { port?: number; host?: string }
     url: origin,
     port,
     ca: cert,
-    messages: (subscriptionId) =>
-      kept.filter((m) => subscriptionId === undefined || m.subscriptionId === subscriptionId).map((m) => structuredClone(m)),
+    messages: (subscriptionId) => kept.filter((m) => subscriptionId === undefined || m.subscriptionId === subscriptionId).map((m) => structuredClone(m)),
     clear: () => {
       kept = [];
     },

@@ -25,9 +25,7 @@ export const DEFAULT_CONNECTION_LIMITS: ConnectionLimits = {
   maxOpenPerAddress: 1000,
 };
 
-export type Admission =
-  | { ok: true; key: string; accepted(): void; closed(): void }
-  | { ok: false; key: string; why: "attempts" | "pending" | "open" };
+export type Admission = { ok: true; key: string; accepted(): void; closed(): void } | { ok: false; key: string; why: "attempts" | "pending" | "open" };
 
 type Entry = { tokens: number; at: number; pending: number; open: number };
 
@@ -44,7 +42,10 @@ export function addressKey(address: string | undefined): string {
   const left = head ? head.split(":") : [];
   const right = address.includes("::") ? (tail ? tail.split(":") : []) : [];
   const groups = [...left, ...Array(8 - left.length - right.length).fill("0"), ...right];
-  return `${groups.slice(0, 4).map((g) => parseInt(g, 16).toString(16)).join(":")}::/64`;
+  return `${groups
+    .slice(0, 4)
+    .map((g) => parseInt(g, 16).toString(16))
+    .join(":")}::/64`;
 }
 
 export function createConnectionLimits(limits: ConnectionLimits, now: () => number = Date.now) {

@@ -66,8 +66,7 @@ export function createDeliveryWorker(opts: DeliveryWorkerOptions = {}): Delivery
   let lastPrune = 0;
 
   // Exponential backoff with full jitter, so retries from many farms do not arrive in step.
-  const backoff = (attempt: number, hint?: number) =>
-    Math.min(maxBackoffMs, Math.max(hint ?? 0, backoffMs * 2 ** (attempt - 1) * (0.5 + Math.random() / 2)));
+  const backoff = (attempt: number, hint?: number) => Math.min(maxBackoffMs, Math.max(hint ?? 0, backoffMs * 2 ** (attempt - 1) * (0.5 + Math.random() / 2)));
 
   function mailFallback(d: ClaimedDelivery): NewDelivery | null {
     const p = d.payload as { mail?: MailContent; mailKey?: string };
@@ -77,7 +76,13 @@ export function createDeliveryWorker(opts: DeliveryWorkerOptions = {}): Delivery
 
   function event(d: ClaimedDelivery, ok: boolean, detail: Record<string, unknown>): Ending["event"] {
     if (!d.alertId) return null;
-    return { alertId: d.alertId, type: ok ? "sent" : "send_failed", userId: d.userId, channel: d.channel, detail: { reason: d.reason, attempts: d.attempts, ...detail } };
+    return {
+      alertId: d.alertId,
+      type: ok ? "sent" : "send_failed",
+      userId: d.userId,
+      channel: d.channel,
+      detail: { reason: d.reason, attempts: d.attempts, ...detail },
+    };
   }
 
   async function sendPushRow(d: ClaimedDelivery) {
@@ -187,10 +192,13 @@ export function createDeliveryWorker(opts: DeliveryWorkerOptions = {}): Delivery
       /* the poll tries again */
     }
     if (timer) clearTimeout(timer);
-    timer = setTimeout(() => {
-      timer = null;
-      void pump();
-    }, Math.max(10, wait));
+    timer = setTimeout(
+      () => {
+        timer = null;
+        void pump();
+      },
+      Math.max(10, wait),
+    );
     timer.unref();
   }
 

@@ -89,7 +89,16 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
         metrics: p.metrics,
         refusals: ctx.refusals.filter((r) => r.probeId === p.id).map((r) => ({ at: r.at.getTime(), reason: r.reason })),
       })),
-      openAlerts: ctx.openAlerts.map((a) => ({ subject: a.subject, kind: a.kind, level: a.level, state: a.state, raisedAt: a.raisedAt.getTime(), details: a.details, value: a.value, message: a.message })),
+      openAlerts: ctx.openAlerts.map((a) => ({
+        subject: a.subject,
+        kind: a.kind,
+        level: a.level,
+        state: a.state,
+        raisedAt: a.raisedAt.getTime(),
+        details: a.details,
+        value: a.value,
+        message: a.message,
+      })),
       kinds,
       unitSystem: ctx.farm.unitSystem,
       timeZone: ctx.farm.timezone,
@@ -257,7 +266,10 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
         const c = listener;
         listener = null;
         // UNLISTEN before the connection goes back: a pooled connection must not keep hearing.
-        await c.query("unlisten *").then(() => c.release(), (err: Error) => c.release(err));
+        await c.query("unlisten *").then(
+          () => c.release(),
+          (err: Error) => c.release(err),
+        );
       }
       await running;
     },

@@ -157,7 +157,10 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   // over 16 KiB, and acknowledged so that the probe does not send it again.
   async function onReadPast(probe: Probe, packet: { topic: string; retain: boolean }, bytes: number) {
     packet.retain = false;
-    const reason = rejectionText({ code: "too-large", reason: `a packet of ${bytes} bytes was read past; payloads of at most ${limits.maxBytes} bytes are accepted` });
+    const reason = rejectionText({
+      code: "too-large",
+      reason: `a packet of ${bytes} bytes was read past; payloads of at most ${limits.maxBytes} bytes are accepted`,
+    });
     log("probe %s: publish of %d bytes to %s read past", probe.code, bytes, packet.topic);
     await writer.submit({ ...statusJob(probe, { seenAt: new Date() }), rejections: [{ ...originOf(probe, packet.topic), reason }] });
   }

@@ -70,10 +70,13 @@ export function createWriter(opts: WriterOptions): Writer {
       timer = null;
       running = drain();
     } else {
-      timer ??= setTimeout(() => {
-        timer = null;
-        if (!running) running = drain();
-      }, Math.max(0, queue[0]!.at + batch.maxWaitMs - Date.now()));
+      timer ??= setTimeout(
+        () => {
+          timer = null;
+          if (!running) running = drain();
+        },
+        Math.max(0, queue[0]!.at + batch.maxWaitMs - Date.now()),
+      );
     }
   }
 

@@ -25,7 +25,11 @@ export type OvenDrySample = {
 
 function netMasses(s: OvenDrySample): Result<{ wet: number; dry: number }> {
   const tare = s.tareG ?? 0;
-  for (const [field, v] of [["wetMassG", s.wetMassG], ["dryMassG", s.dryMassG], ["tareG", tare]] as const) {
+  for (const [field, v] of [
+    ["wetMassG", s.wetMassG],
+    ["dryMassG", s.dryMassG],
+    ["tareG", tare],
+  ] as const) {
     if (typeof v !== "number" || !Number.isFinite(v)) return fail(field, "Must be a number.");
     if (v < 0) return fail(field, "Cannot be negative.");
   }

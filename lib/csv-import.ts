@@ -34,7 +34,15 @@ const METRIC_ALIASES: Record<string, Metric> = {
   signal: "signal",
   rssi: "signal",
 };
-export const IMPORT_METRICS = ["temperature", "moisture", "moisture-raw", "ammonia", "battery-voltage", "battery-level", "signal"] as const satisfies readonly Metric[];
+export const IMPORT_METRICS = [
+  "temperature",
+  "moisture",
+  "moisture-raw",
+  "ammonia",
+  "battery-voltage",
+  "battery-level",
+  "signal",
+] as const satisfies readonly Metric[];
 const SPEC_OF = (metric: Metric): MetricSpec => METRICS[metric];
 
 type Convert = (v: number) => number;
@@ -104,7 +112,11 @@ export function decodeFile(bytes: Uint8Array): string {
 
 /** The delimiter of the header line: the most frequent of , ; and tab outside quotes. */
 export function sniffDelimiter(text: string): string {
-  const counts = new Map<string, number>([[",", 0], [";", 0], ["\t", 0]]);
+  const counts = new Map<string, number>([
+    [",", 0],
+    [";", 0],
+    ["\t", 0],
+  ]);
   let quoted = false;
   for (const ch of text) {
     if (ch === '"') quoted = !quoted;
@@ -157,7 +169,12 @@ export function readCsv(text: string): CsvTable {
 
 /** The header cells of a file's first line, for the mapping form. */
 export function readHeader(text: string): { delimiter: string; header: string[] } {
-  const firstLines = text.slice(0, 64 * 1024).split(/\r?\n/).filter((l) => l.trim() !== "").slice(0, 1).join("\n");
+  const firstLines = text
+    .slice(0, 64 * 1024)
+    .split(/\r?\n/)
+    .filter((l) => l.trim() !== "")
+    .slice(0, 1)
+    .join("\n");
   const { delimiter, header } = readCsv(firstLines);
   return { delimiter, header };
 }
@@ -224,17 +241,18 @@ const visible = (s: string) => s.replace(/[\p{Cc}\p{Cs}]/gu, (c) => `U+${c.codeP
 const quote = (s: string) => `"${visible(s.length > 40 ? `${s.slice(0, 40)}…` : s)}"`;
 
 /** Applies a mapping to a read table: readings to store and bad rows with line and reason. */
-export function mapRows(
-  table: CsvTable,
-  mapping: ImportMapping,
-  ctx: { probes: ReadonlyMap<string, number>; now: number },
-): MappedRows {
+export function mapRows(table: CsvTable, mapping: ImportMapping, ctx: { probes: ReadonlyMap<string, number>; now: number }): MappedRows {
   const bad: BadRow[] = [...table.bad];
   const index = (name: string | undefined) => (name === undefined ? -1 : table.header.indexOf(name));
   const missing = (["time", "value", "probe", "metric", "unit"] as const).filter((k) => mapping[k] !== undefined && index(mapping[k]) < 0);
   if (missing.length > 0) {
     const which = missing.map((k) => `${k} column ${quote(mapping[k]!)}`).join(", ");
-    return { readings: [], bad: [{ line: 1, reason: `the header has no ${which}; it has ${table.header.map(quote).join(", ")}` }], repeats: 0, total: table.rows.length };
+    return {
+      readings: [],
+      bad: [{ line: 1, reason: `the header has no ${which}; it has ${table.header.map(quote).join(", ")}` }],
+      repeats: 0,
+      total: table.rows.length,
+    };
   }
   const col = { time: index(mapping.time), value: index(mapping.value), probe: index(mapping.probe), metric: index(mapping.metric), unit: index(mapping.unit) };
   const seen = new Map<string, { line: number; value: number }>();
@@ -255,8 +273,14 @@ export function mapRows(
 
     const code = mapping.probe ? cell(col.probe) : mapping.probeCode!;
     const probeId = ctx.probes.get(code);
-    if (code === "") { fail("probe", mapping.probe, "empty"); continue; }
-    if (probeId === undefined) { fail("probe", mapping.probe, `no probe ${quote(code)} on this farm`); continue; }
+    if (code === "") {
+      fail("probe", mapping.probe, "empty");
+      continue;
+    }
+    if (probeId === undefined) {
+      fail("probe", mapping.probe, `no probe ${quote(code)} on this farm`);
+      continue;
+    }
 
     const metricName = mapping.metric ? cell(col.metric) : mapping.metricFixed!;
     const metric = metricFromName(metricName);
@@ -267,22 +291,41 @@ export function mapRows(
 
     const timeCell = cell(col.time);
     const t = parseTime(timeCell, mapping.timezone);
-    if (timeCell === "") { fail("time", mapping.time, "empty"); continue; }
+    if (timeCell === "") {
+      fail("time", mapping.time, "empty");
+      continue;
+    }
     if (t === null) {
-      fail("time", mapping.time, `${quote(timeCell)} is not a time we can read; write 2024-05-01T14:30:00Z, 2024-05-01 14:30 (read in ${mapping.timezone}) or Unix seconds`);
+      fail(
+        "time",
+        mapping.time,
+        `${quote(timeCell)} is not a time we can read; write 2024-05-01T14:30:00Z, 2024-05-01 14:30 (read in ${mapping.timezone}) or Unix seconds`,
+      );
       continue;
     }
     // The same bounds as the logbook (lib/validation/fields.ts): a logger clock may run a little
     // ahead; one that lost power restarts at 1970 or 2000, and nothing before 2000 is a reading.
-    if (t > ctx.now + FUTURE_SLACK_MS) { fail("time", mapping.time, `${quote(timeCell)} is in the future; is the logger's clock right?`); continue; }
-    if (t < EARLIEST_MS) { fail("time", mapping.time, `${quote(timeCell)} is before 2000; the logger's clock was probably not set`); continue; }
+    if (t > ctx.now + FUTURE_SLACK_MS) {
+      fail("time", mapping.time, `${quote(timeCell)} is in the future; is the logger's clock right?`);
+      continue;
+    }
+    if (t < EARLIEST_MS) {
+      fail("time", mapping.time, `${quote(timeCell)} is before 2000; the logger's clock was probably not set`);
+      continue;
+    }
 
     const valueCell = cell(col.value);
     const raw = parseNumber(valueCell, table.delimiter);
-    if (raw === null) { fail("value", mapping.value, valueCell === "" ? "empty" : `${quote(valueCell)} is not a number`); continue; }
+    if (raw === null) {
+      fail("value", mapping.value, valueCell === "" ? "empty" : `${quote(valueCell)} is not a number`);
+      continue;
+    }
     const unitCell = mapping.unit ? cell(col.unit) : "";
     const convert = unitConverter(metric, unitCell);
-    if (!convert) { fail("unit", mapping.unit, `${quote(unitCell)} is not a unit we know for ${metric}`); continue; }
+    if (!convert) {
+      fail("unit", mapping.unit, `${quote(unitCell)} is not a unit we know for ${metric}`);
+      continue;
+    }
     const value = convert(raw);
     const spec = SPEC_OF(metric);
     if (spec.errorCodes.some((c) => Math.abs(value - c) < 1e-9)) {
@@ -290,7 +333,11 @@ export function mapRows(
       continue;
     }
     if (spec.range && (value < spec.range.min || value > spec.range.max)) {
-      fail("value", mapping.value, `${+value.toFixed(3)} ${spec.displayUnit} is outside what the sensor can read (${spec.range.min}…${spec.range.max} ${spec.displayUnit})`);
+      fail(
+        "value",
+        mapping.value,
+        `${+value.toFixed(3)} ${spec.displayUnit} is outside what the sensor can read (${spec.range.min}…${spec.range.max} ${spec.displayUnit})`,
+      );
       continue;
     }
 
@@ -307,4 +354,3 @@ export function mapRows(
   bad.sort((a, b) => a.line - b.line);
   return { readings, bad, repeats, total: table.rows.length };
 }
-

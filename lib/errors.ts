@@ -1,16 +1,7 @@
 import { ZodError } from "zod";
 import { BODY_CAPS, capWords, mediaType, readCappedBody } from "./api/body";
 
-export type ErrorCode =
-  | "unauthenticated"
-  | "forbidden"
-  | "not_found"
-  | "invalid"
-  | "bad_request"
-  | "conflict"
-  | "too_large"
-  | "unsupported_media"
-  | "internal";
+export type ErrorCode = "unauthenticated" | "forbidden" | "not_found" | "invalid" | "bad_request" | "conflict" | "too_large" | "unsupported_media" | "internal";
 
 // One table from error code to HTTP status for the whole API.
 export const statusOf: Record<ErrorCode, number> = {

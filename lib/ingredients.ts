@@ -23,8 +23,7 @@ export type Ingredient = {
   note?: string;
 };
 
-const RYNK =
-  "Rynk et al., On-Farm Composting Handbook, NRAES-54 (1992), App. A, as transcribed by Missouri S&T 'Compost calculator' (G. Bertrand)";
+const RYNK = "Rynk et al., On-Farm Composting Handbook, NRAES-54 (1992), App. A, as transcribed by Missouri S&T 'Compost calculator' (G. Bertrand)";
 const CORNELL_CHEM = "Cornell Waste Management Institute, 'Compost Chemistry' (c. 1996)";
 
 export const ingredients: readonly Ingredient[] = [

@@ -69,7 +69,16 @@ export async function lookupInvitation(token: string, now = new Date()): Promise
   if (r.invitation.acceptedAt) return { state: "used" };
   if (r.invitation.expiresAt <= now) return { state: "expired" };
   const { invitation: i } = r;
-  return { state: "open", farmId: i.farmId, farmName: r.farmName, email: i.email, role: i.role, invitedByName: r.invitedByName, expiresAt: i.expiresAt, hasAccount: !!(await getUserByEmail(i.email)) };
+  return {
+    state: "open",
+    farmId: i.farmId,
+    farmName: r.farmName,
+    email: i.email,
+    role: i.role,
+    invitedByName: r.invitedByName,
+    expiresAt: i.expiresAt,
+    hasAccount: !!(await getUserByEmail(i.email)),
+  };
 }
 
 export const INVITATION_REFUSALS = {

@@ -23,16 +23,7 @@ import type { ResolvedRecord } from "./senml";
 export const PROBE_URN_PREFIX = "urn:dev:wormward:";
 const PROBE_ID = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
 
-export const METRIC_KEYS = [
-  "temperature",
-  "moisture",
-  "moisture-raw",
-  "ammonia",
-  "battery-voltage",
-  "battery-level",
-  "signal",
-  "firmware",
-] as const;
+export const METRIC_KEYS = ["temperature", "moisture", "moisture-raw", "ammonia", "battery-voltage", "battery-level", "signal", "firmware"] as const;
 export type MetricKey = (typeof METRIC_KEYS)[number];
 
 /** Stored value = sent value × scale + offset. A unit of null means "no unit given". */
@@ -172,10 +163,7 @@ export function probeBaseName(probeId: string): string {
 export type MetricMatch = { probeId: string; metric: MetricKey; rule: UnitRule | null };
 
 /** Which probe and metric a resolved SenML name and unit are, and how to convert the value. */
-export function metricFromSenml(
-  name: string,
-  unit: string | undefined,
-): { ok: true; match: MetricMatch } | { ok: false; reason: string } {
+export function metricFromSenml(name: string, unit: string | undefined): { ok: true; match: MetricMatch } | { ok: false; reason: string } {
   if (!name.startsWith(PROBE_URN_PREFIX)) return { ok: false, reason: `name "${name}" is not ${PROBE_URN_PREFIX}<probe>:<metric>` };
   const rest = name.slice(PROBE_URN_PREFIX.length);
   const colon = rest.indexOf(":");

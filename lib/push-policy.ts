@@ -83,13 +83,33 @@ export function endpointProblem(endpoint: string, allow: PushAllowList): string 
 // plus "this network", benchmarking, multicast and reserved space that no push service uses.
 const blocked = new net.BlockList();
 for (const [net4, bits] of [
-  ["0.0.0.0", 8], ["10.0.0.0", 8], ["100.64.0.0", 10], ["127.0.0.0", 8], ["169.254.0.0", 16], ["172.16.0.0", 12],
-  ["192.0.0.0", 24], ["192.0.2.0", 24], ["192.168.0.0", 16], ["198.18.0.0", 15], ["198.51.100.0", 24], ["203.0.113.0", 24],
-  ["224.0.0.0", 4], ["240.0.0.0", 4],
-] as const) blocked.addSubnet(net4, bits, "ipv4");
+  ["0.0.0.0", 8],
+  ["10.0.0.0", 8],
+  ["100.64.0.0", 10],
+  ["127.0.0.0", 8],
+  ["169.254.0.0", 16],
+  ["172.16.0.0", 12],
+  ["192.0.0.0", 24],
+  ["192.0.2.0", 24],
+  ["192.168.0.0", 16],
+  ["198.18.0.0", 15],
+  ["198.51.100.0", 24],
+  ["203.0.113.0", 24],
+  ["224.0.0.0", 4],
+  ["240.0.0.0", 4],
+] as const)
+  blocked.addSubnet(net4, bits, "ipv4");
 for (const [net6, bits] of [
-  ["::", 128], ["::1", 128], ["fc00::", 7], ["fe80::", 10], ["fec0::", 10], ["ff00::", 8], ["100::", 64], ["2001:db8::", 32],
-] as const) blocked.addSubnet(net6, bits, "ipv6");
+  ["::", 128],
+  ["::1", 128],
+  ["fc00::", 7],
+  ["fe80::", 10],
+  ["fec0::", 10],
+  ["ff00::", 8],
+  ["100::", 64],
+  ["2001:db8::", 32],
+] as const)
+  blocked.addSubnet(net6, bits, "ipv6");
 
 // Addresses that carry an IPv4 address inside an IPv6 one are judged by the IPv4 address:
 // IPv4-mapped (RFC 4291 §2.5.5.2; BlockList applies IPv4 rules to these itself), NAT64

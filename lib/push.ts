@@ -29,8 +29,7 @@ export interface SendPushOptions {
 // status is null when no HTTP answer came back (refused address, connection, TLS failure, timeout).
 // `reason` is always in our own words: a push service's answer body is never passed on or stored.
 export type SendPushResult =
-  | { ok: true; status: number }
-  | { ok: false; gone: boolean; retry: boolean; status: number | null; reason: string; retryAfterMs?: number };
+  { ok: true; status: number } | { ok: false; gone: boolean; retry: boolean; status: number | null; reason: string; retryAfterMs?: number };
 
 export const DEFAULT_PUSH_TTL = 24 * 60 * 60;
 // web-push sets no timeout of its own; a push service that never answers would hold a send forever.
@@ -71,11 +70,7 @@ function retryAfter(headers: Record<string, unknown> | undefined): number | unde
   return Number.isFinite(at) ? Math.max(0, at - Date.now()) : undefined;
 }
 
-export async function sendPush(
-  subscription: PushSubscriptionJson,
-  payload: string | object,
-  options: SendPushOptions,
-): Promise<SendPushResult> {
+export async function sendPush(subscription: PushSubscriptionJson, payload: string | object, options: SendPushOptions): Promise<SendPushResult> {
   const origin = safeOrigin(subscription.endpoint);
   const problem = endpointProblem(subscription.endpoint, options.allow);
   if (problem) {

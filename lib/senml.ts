@@ -20,9 +20,7 @@ export type ResolvedRecord = {
 
 export type SenmlRecordError = { index: number; reason: string };
 
-export type SenmlParseResult =
-  | { ok: true; records: ResolvedRecord[]; errors: SenmlRecordError[] }
-  | { ok: false; reason: string };
+export type SenmlParseResult = { ok: true; records: ResolvedRecord[]; errors: SenmlRecordError[] } | { ok: false; reason: string };
 
 export type SenmlOptions = {
   /** "Now" in seconds since the epoch, for relative times; defaults to the clock. */
@@ -175,14 +173,7 @@ export function parseSenml(input: unknown, opts: SenmlOptions = {}): SenmlParseR
 }
 
 /** Resolves one record into `out`; returns why it was refused, or null. */
-function resolveOne(
-  rec: unknown,
-  index: number,
-  base: BaseState,
-  now: number,
-  version: number,
-  out: ResolvedRecord[],
-): string | null {
+function resolveOne(rec: unknown, index: number, base: BaseState, now: number, version: number, out: ResolvedRecord[]): string | null {
   if (!isObject(rec)) return "a record must be a JSON object (RFC 8428 §5)";
   // Base fields are read first, even from a record refused later, so that later records inherit them (§4).
   const baseProblem = readBases(rec, index, base);
@@ -206,11 +197,7 @@ function resolveOne(
   const valueFields = (["v", "vs", "vb", "vd"] as const).filter((l) => l in rec);
   const numeric = valueFields.length === 0 || valueFields[0] === "v";
   const inheritProblem =
-    inherited("bn") ??
-    inherited("bt") ??
-    inherited("bs") ??
-    (!("u" in rec) ? inherited("bu") : null) ??
-    (numeric ? inherited("bv") : null);
+    inherited("bn") ?? inherited("bt") ?? inherited("bs") ?? (!("u" in rec) ? inherited("bu") : null) ?? (numeric ? inherited("bv") : null);
   if (inheritProblem) return inheritProblem;
 
   const name = (baseString(base.bn) ?? "") + ((rec.n as string | undefined) ?? "");

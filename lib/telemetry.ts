@@ -81,7 +81,13 @@ export function summarizeRejections(rs: readonly Rejection[]): { reason: string;
     }
   }
   for (let i = 0; i < rs.length && firsts.length < REASONS_KEPT; i++) if (!firsts.includes(i)) firsts.push(i);
-  return { reason: reasonLines(firsts.sort((a, b) => a - b).map((i) => rejectionText(rs[i]!)), rs.length), records: rs.length };
+  return {
+    reason: reasonLines(
+      firsts.sort((a, b) => a - b).map((i) => rejectionText(rs[i]!)),
+      rs.length,
+    ),
+    records: rs.length,
+  };
 }
 
 /** The first reasons, one a line and each clipped, and how many more there were out of `total`. */
@@ -100,7 +106,10 @@ const shownTime = (ms: number, seconds: number) => (Math.abs(ms) <= MAX_DATE_MS 
 // PostgreSQL text cannot hold U+0000.
 export function excerptOf(payload: Buffer | string, maxBytes = 200): string {
   const buf = typeof payload === "string" ? Buffer.from(payload, "utf8") : payload;
-  return buf.subarray(0, maxBytes).toString("utf8").replace(/\u0000/g, "\uFFFD");
+  return buf
+    .subarray(0, maxBytes)
+    .toString("utf8")
+    .replace(/\u0000/g, "\uFFFD");
 }
 
 type Checked = { ok: true; key: MetricKey; value: number | string; time: number } | { ok: false; rejection: Rejection };
@@ -147,14 +156,9 @@ function checkRecord(probe: TelemetryProbe, rec: ResolvedRecord, limits: Telemet
   return { ok: true, key: metric, value, time: ms };
 }
 
-const validCalibration = (c: TelemetryProbe["calibration"]) =>
-  c && Number.isFinite(c.slope) && Number.isFinite(c.intercept) ? c : null;
+const validCalibration = (c: TelemetryProbe["calibration"]) => (c && Number.isFinite(c.slope) && Number.isFinite(c.intercept) ? c : null);
 
-export function validateSenmlPayload(
-  probe: TelemetryProbe,
-  payload: Buffer | string,
-  opts: ValidateOptions = {},
-): ValidatedPayload {
+export function validateSenmlPayload(probe: TelemetryProbe, payload: Buffer | string, opts: ValidateOptions = {}): ValidatedPayload {
   const limits = { ...DEFAULT_LIMITS, ...opts.limits };
   const now = opts.now ?? new Date();
   const status: ProbeStatus = { seenAt: now };

@@ -40,38 +40,66 @@ export function AddBinForm({ farmId }: { farmId: string }) {
 
   const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3";
   return (
-    <section className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+    <section className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
       {!open ? (
-        <button onClick={() => { setOpen(true); setDone(null); }} className="min-h-12 rounded-xl bg-soil-800 px-4 font-bold text-white">Add a bin</button>
+        <button
+          onClick={() => {
+            setOpen(true);
+            setDone(null);
+          }}
+          className="bg-soil-800 min-h-12 rounded-xl px-4 font-bold text-white"
+        >
+          Add a bin
+        </button>
       ) : (
         <form onSubmit={submit} className="space-y-3">
           <h2 className="text-lg font-bold">Add a bin</h2>
           <label className="block">
             <span className="block font-bold">Name</span>
             <input name="name" required maxLength={80} aria-invalid={!!errors.name} className={input} />
-            {errors.name && <span className="text-sm text-clay-700">{errors.name}</span>}
+            {errors.name && <span className="text-clay-700 text-sm">{errors.name}</span>}
           </label>
           <label className="block">
             <span className="block font-bold">Style</span>
-            <select name="style" className={input} defaultValue="tote">{STYLES.map((s) => <option key={s}>{s}</option>)}</select>
+            <select name="style" className={input} defaultValue="tote">
+              {STYLES.map((s) => (
+                <option key={s}>{s}</option>
+              ))}
+            </select>
           </label>
           <label className="block">
             <span className="block font-bold">Species</span>
-            <select name="species" className={input}>{SPECIES.map(([v, l]) => <option key={v} value={v}>{l}</option>)}</select>
+            <select name="species" className={input}>
+              {SPECIES.map(([v, l]) => (
+                <option key={v} value={v}>
+                  {l}
+                </option>
+              ))}
+            </select>
           </label>
           <label className="block">
             <span className="block font-bold">Zones (feeding side to harvest side)</span>
-            <select name="zoneCount" className={input} defaultValue="3">{[1, 2, 3, 4, 5, 6].map((n) => <option key={n}>{n}</option>)}</select>
-            {errors.zoneCount && <span className="text-sm text-clay-700">{errors.zoneCount}</span>}
+            <select name="zoneCount" className={input} defaultValue="3">
+              {[1, 2, 3, 4, 5, 6].map((n) => (
+                <option key={n}>{n}</option>
+              ))}
+            </select>
+            {errors.zoneCount && <span className="text-clay-700 text-sm">{errors.zoneCount}</span>}
           </label>
           <div className="flex gap-2">
-            <button disabled={busy} className="min-h-12 rounded-xl bg-leaf-700 px-4 font-bold text-white disabled:opacity-60">{busy ? "Adding…" : "Add"}</button>
-            <button type="button" onClick={() => setOpen(false)} className="min-h-12 rounded-xl px-4 ring-1 ring-soil-300">Cancel</button>
+            <button disabled={busy} className="bg-leaf-700 min-h-12 rounded-xl px-4 font-bold text-white disabled:opacity-60">
+              {busy ? "Adding…" : "Add"}
+            </button>
+            <button type="button" onClick={() => setOpen(false)} className="ring-soil-300 min-h-12 rounded-xl px-4 ring-1">
+              Cancel
+            </button>
           </div>
-          {errors.form && <p className="text-sm text-clay-700">{errors.form}</p>}
+          {errors.form && <p className="text-clay-700 text-sm">{errors.form}</p>}
         </form>
       )}
-      <p aria-live="polite" className="mt-2 text-sm text-leaf-700">{done}</p>
+      <p aria-live="polite" className="text-leaf-700 mt-2 text-sm">
+        {done}
+      </p>
     </section>
   );
 }

@@ -37,7 +37,10 @@ const BAND_FILL = "rgba(79, 125, 58, 0.18)";
 
 function medianStep(t: readonly number[]): number {
   if (t.length < 2) return 60;
-  const d = t.slice(1).map((x, i) => x - t[i]!).sort((a, b) => a - b);
+  const d = t
+    .slice(1)
+    .map((x, i) => x - t[i]!)
+    .sort((a, b) => a - b);
   return d[Math.floor(d.length / 2)]!;
 }
 
@@ -102,10 +105,7 @@ export function ZoneChart(p: Props) {
   const [picked, setPicked] = useState<string | null>(null);
 
   const clock = useMemo(() => clockFormat(p.timezone), [p.timezone]);
-  const conv = useMemo(
-    () => (p.metric === "temperature" ? (v: number) => temperatureForDisplay(v, p.system) : (v: number) => v),
-    [p.metric, p.system],
-  );
+  const conv = useMemo(() => (p.metric === "temperature" ? (v: number) => temperatureForDisplay(v, p.system) : (v: number) => v), [p.metric, p.system]);
   const aggregated = data?.bucketSeconds != null;
   const tables = useMemo(() => (data ? tablesOf(data, conv, aggregated) : []), [data, conv, aggregated]);
   const xMin = data ? Date.parse(data.from) / 1000 : 0;
@@ -169,7 +169,12 @@ export function ZoneChart(p: Props) {
       axes: [
         { ...axis, space: 64, values: timeLabels(p.timezone) },
         // 1-2-5 steps only, so whole-number ticks never have to print 22.5 as "23"
-        { ...axis, size: 44, incrs: [0.1, 0.2, 0.5, 1, 2, 5, 10, 20, 50, 100, 200, 500], values: (_u, splits, _i, _s, incr) => splits.map((v) => formatNumber(v, incr < 1 ? 1 : 0)) },
+        {
+          ...axis,
+          size: 44,
+          incrs: [0.1, 0.2, 0.5, 1, 2, 5, 10, 20, 50, 100, 200, 500],
+          values: (_u, splits, _i, _s, incr) => splits.map((v) => formatNumber(v, incr < 1 ? 1 : 0)),
+        },
       ],
       series,
       bands,
@@ -227,17 +232,21 @@ export function ZoneChart(p: Props) {
     : `${p.title}, ${p.rangeWords}: no readings.`;
 
   return (
-    <figure className="rounded-2xl bg-white p-3 ring-1 ring-soil-300" data-metric={p.metric}>
+    <figure className="ring-soil-300 rounded-2xl bg-white p-3 ring-1" data-metric={p.metric}>
       <figcaption className="flex items-baseline justify-between gap-2">
         <h3 className="text-lg font-bold">{p.title}</h3>
-        <span className="tabular text-sm text-soil-700">
-          {data?.source === "rollup" ? "hourly means, low–high shaded" : aggregated ? `${Math.round(data!.bucketSeconds! / 60)}-min means, low–high shaded` : "every reading"}
+        <span className="tabular text-soil-700 text-sm">
+          {data?.source === "rollup"
+            ? "hourly means, low–high shaded"
+            : aggregated
+              ? `${Math.round(data!.bucketSeconds! / 60)}-min means, low–high shaded`
+              : "every reading"}
         </span>
       </figcaption>
       {!data ? (
-        <p className="flex h-52 items-center text-soil-700">{error ? error.message : isLoading ? "Loading readings…" : "No readings."}</p>
+        <p className="text-soil-700 flex h-52 items-center">{error ? error.message : isLoading ? "Loading readings…" : "No readings."}</p>
       ) : !summary ? (
-        <p className="flex h-24 items-center text-soil-700">No readings in the {p.rangeWords}.</p>
+        <p className="text-soil-700 flex h-24 items-center">No readings in the {p.rangeWords}.</p>
       ) : (
         <div className="relative mt-1">
           <div
@@ -281,17 +290,19 @@ export function ZoneChart(p: Props) {
           )}
         </div>
       )}
-      <p aria-live="polite" className="tabular mt-1 min-h-6 text-sm text-soil-800">
+      <p aria-live="polite" className="tabular text-soil-800 mt-1 min-h-6 text-sm">
         {pickedMark ? pickedMark.detail : (readout ?? (summary ? `Latest ${p.describe(summary.last.v)}` : ""))}
       </p>
-      <p className="mt-1 flex items-center gap-3 text-xs text-soil-700">
+      <p className="text-soil-700 mt-1 flex items-center gap-3 text-xs">
         <span className="inline-flex items-center gap-1">
           {/* Classes, not style=: the content security policy refuses style attributes in HTML. */}
           <span aria-hidden="true" className="inline-block h-3 w-4 rounded-sm bg-[rgba(79,125,58,0.18)] outline outline-1 outline-[rgba(79,125,58,0.5)]" />
           {p.band.words}
         </span>
         <span className="inline-flex items-center gap-1">
-          <svg viewBox="0 0 16 14" width="12" height="11" aria-hidden="true"><path d="M8 1 15 13H1Z" fill="#faf6ee" stroke="#3f2e22" strokeWidth="2" /></svg>
+          <svg viewBox="0 0 16 14" width="12" height="11" aria-hidden="true">
+            <path d="M8 1 15 13H1Z" fill="#faf6ee" stroke="#3f2e22" strokeWidth="2" />
+          </svg>
           feeding
         </span>
       </p>

@@ -69,8 +69,10 @@ export function ZoneCharts(p: Props) {
   return (
     <section aria-labelledby="charts-h" className="space-y-3">
       <div className="flex items-baseline justify-between">
-        <h2 id="charts-h" className="text-xl font-bold">Charts</h2>
-        <span className="text-sm text-soil-700">{r.words}</span>
+        <h2 id="charts-h" className="text-xl font-bold">
+          Charts
+        </h2>
+        <span className="text-soil-700 text-sm">{r.words}</span>
       </div>
       <SegmentedControl label="Chart window" options={RANGES} value={range} onChange={choose} />
       {p.metrics.map((m) => (

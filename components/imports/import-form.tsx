@@ -25,10 +25,16 @@ const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyl
 function Field({ id, label, hint, error, children }: { id: string; label: string; hint?: string; error?: string; children: React.ReactNode }) {
   return (
     <div>
-      <label htmlFor={id} className="mb-1 block font-bold">{label}</label>
+      <label htmlFor={id} className="mb-1 block font-bold">
+        {label}
+      </label>
       {children}
-      {hint && <p className="mt-1 text-sm text-soil-500">{hint}</p>}
-      {error && <p id={`${id}-error`} className="mt-1 font-bold text-clay-700">⚠ {error}</p>}
+      {hint && <p className="text-soil-500 mt-1 text-sm">{hint}</p>}
+      {error && (
+        <p id={`${id}-error`} className="text-clay-700 mt-1 font-bold">
+          ⚠ {error}
+        </p>
+      )}
     </div>
   );
 }
@@ -67,7 +73,11 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
     const head = await f.slice(0, 64 * 1024).text();
     const { header: cols } = readHeader(head);
     setHeader(cols);
-    setPreview(readCsv(head).rows.slice(0, 3).map((r) => r.cells));
+    setPreview(
+      readCsv(head)
+        .rows.slice(0, 3)
+        .map((r) => r.cells),
+    );
     const g = guessMapping(cols);
     setTime(g.time ?? NONE);
     setValue(g.value ?? NONE);
@@ -111,26 +121,39 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
 
   const errorFor = (...fields: string[]) => (failure?.field && fields.includes(failure.field) ? failure.message : undefined);
   const columnSelect = (field: string, v: string, set: (s: string) => void, opts: { fixed?: string; optional?: boolean }) => (
-    <select id={`${uid}-${field}`} value={v} onChange={(e) => set(e.target.value)} className={input}
-      aria-invalid={errorFor(field) ? true : undefined} aria-describedby={errorFor(field) ? `${uid}-${field}-error` : undefined}>
+    <select
+      id={`${uid}-${field}`}
+      value={v}
+      onChange={(e) => set(e.target.value)}
+      className={input}
+      aria-invalid={errorFor(field) ? true : undefined}
+      aria-describedby={errorFor(field) ? `${uid}-${field}-error` : undefined}
+    >
       {(opts.optional || v === NONE) && <option value={NONE}>{opts.optional ? "— none —" : "Choose a column"}</option>}
       {opts.fixed && <option value={FIXED}>{opts.fixed}</option>}
       {header.map((h) => (
-        <option key={h} value={h}>{h}</option>
+        <option key={h} value={h}>
+          {h}
+        </option>
       ))}
     </select>
   );
 
   return (
-    <form onSubmit={onSubmit} className="space-y-5 rounded-2xl bg-white p-4 shadow-sm ring-1 ring-soil-300">
-      <Field id={`${uid}-file`} label="Logger file (CSV)" hint="One reading per row: a time, a value, and the probe and metric as columns or chosen below." error={errorFor("file")}>
+    <form onSubmit={onSubmit} className="ring-soil-300 space-y-5 rounded-2xl bg-white p-4 shadow-sm ring-1">
+      <Field
+        id={`${uid}-file`}
+        label="Logger file (CSV)"
+        hint="One reading per row: a time, a value, and the probe and metric as columns or chosen below."
+        error={errorFor("file")}
+      >
         <input
           ref={fileInput}
           id={`${uid}-file`}
           type="file"
           accept=".csv,.txt,text/csv"
           onChange={(e) => void onFile(e.target.files?.[0] ?? null)}
-          className="block w-full rounded-xl border border-dashed border-soil-500 bg-paper p-4 text-lg file:mr-3 file:h-12 file:rounded-lg file:border-0 file:bg-soil-800 file:px-4 file:font-bold file:text-soil-100"
+          className="border-soil-500 bg-paper file:bg-soil-800 file:text-soil-100 block w-full rounded-xl border border-dashed p-4 text-lg file:mr-3 file:h-12 file:rounded-lg file:border-0 file:px-4 file:font-bold"
         />
       </Field>
 
@@ -139,13 +162,25 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
           {preview.length > 0 && (
             <div className="overflow-x-auto">
               <table className="tabular min-w-full text-left text-sm">
-                <caption className="mb-1 text-left text-sm text-soil-500">First rows of {file?.name}</caption>
+                <caption className="text-soil-500 mb-1 text-left text-sm">First rows of {file?.name}</caption>
                 <thead>
-                  <tr>{header.map((h) => <th key={h} className="border-b border-soil-300 px-2 py-1">{h}</th>)}</tr>
+                  <tr>
+                    {header.map((h) => (
+                      <th key={h} className="border-soil-300 border-b px-2 py-1">
+                        {h}
+                      </th>
+                    ))}
+                  </tr>
                 </thead>
                 <tbody>
                   {preview.map((row, i) => (
-                    <tr key={i}>{header.map((h, j) => <td key={h} className="px-2 py-1">{row[j] ?? ""}</td>)}</tr>
+                    <tr key={i}>
+                      {header.map((h, j) => (
+                        <td key={h} className="px-2 py-1">
+                          {row[j] ?? ""}
+                        </td>
+                      ))}
+                    </tr>
                   ))}
                 </tbody>
               </table>
@@ -153,8 +188,12 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
           )}
           <fieldset className="space-y-4">
             <legend className="mb-2 text-xl font-bold">Which column is which?</legend>
-            <Field id={`${uid}-time`} label="Time" error={errorFor("time")}>{columnSelect("time", time, setTime, {})}</Field>
-            <Field id={`${uid}-value`} label="Value" error={errorFor("value")}>{columnSelect("value", value, setValue, {})}</Field>
+            <Field id={`${uid}-time`} label="Time" error={errorFor("time")}>
+              {columnSelect("time", time, setTime, {})}
+            </Field>
+            <Field id={`${uid}-value`} label="Value" error={errorFor("value")}>
+              {columnSelect("value", value, setValue, {})}
+            </Field>
             <Field id={`${uid}-probe`} label="Probe" error={probe === FIXED ? undefined : errorFor("probe", "probeCode")}>
               {columnSelect("probe", probe, setProbe, { fixed: "One probe for the whole file" })}
             </Field>
@@ -162,7 +201,9 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
               <Field id={`${uid}-probe-code`} label="Which probe?" error={errorFor("probeCode")}>
                 <select id={`${uid}-probe-code`} value={probeCode} onChange={(e) => setProbeCode(e.target.value)} className={input}>
                   {probes.map((p) => (
-                    <option key={p.code} value={p.code}>{p.label ? `${p.label} (${p.code})` : p.code}</option>
+                    <option key={p.code} value={p.code}>
+                      {p.label ? `${p.label} (${p.code})` : p.code}
+                    </option>
                   ))}
                 </select>
               </Field>
@@ -174,30 +215,55 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
               <Field id={`${uid}-metric-fixed`} label="Which metric?">
                 <select id={`${uid}-metric-fixed`} value={metricFixed} onChange={(e) => setMetricFixed(e.target.value)} className={input}>
                   {IMPORT_METRICS.map((m) => (
-                    <option key={m} value={m}>{METRICS[m].label}{METRICS[m].displayUnit ? ` (${METRICS[m].displayUnit})` : ""}{m === "battery-voltage" || m === "battery-level" ? ` — ${m === "battery-voltage" ? "volts" : "percent"}` : ""}</option>
+                    <option key={m} value={m}>
+                      {METRICS[m].label}
+                      {METRICS[m].displayUnit ? ` (${METRICS[m].displayUnit})` : ""}
+                      {m === "battery-voltage" || m === "battery-level" ? ` — ${m === "battery-voltage" ? "volts" : "percent"}` : ""}
+                    </option>
                   ))}
                 </select>
               </Field>
             )}
-            <Field id={`${uid}-unit`} label="Unit column (if any)" hint="Without one, values are read as °C, % wet basis, ppm, V and dBm." error={errorFor("unit")}>
+            <Field
+              id={`${uid}-unit`}
+              label="Unit column (if any)"
+              hint="Without one, values are read as °C, % wet basis, ppm, V and dBm."
+              error={errorFor("unit")}
+            >
               {columnSelect("unit", unit, setUnit, { optional: true })}
             </Field>
-            <Field id={`${uid}-tz`} label="Time zone of times without one" hint="Times like 2025-05-01 14:30 are read in this zone; times ending in Z or +02:00 keep their own." error={errorFor("timezone")}>
-              <input id={`${uid}-tz`} value={tz} onChange={(e) => setTz(e.target.value)} className={input} autoComplete="off" spellCheck={false}
-                aria-invalid={errorFor("timezone") ? true : undefined} aria-describedby={errorFor("timezone") ? `${uid}-tz-error` : undefined} />
+            <Field
+              id={`${uid}-tz`}
+              label="Time zone of times without one"
+              hint="Times like 2025-05-01 14:30 are read in this zone; times ending in Z or +02:00 keep their own."
+              error={errorFor("timezone")}
+            >
+              <input
+                id={`${uid}-tz`}
+                value={tz}
+                onChange={(e) => setTz(e.target.value)}
+                className={input}
+                autoComplete="off"
+                spellCheck={false}
+                aria-invalid={errorFor("timezone") ? true : undefined}
+                aria-describedby={errorFor("timezone") ? `${uid}-tz-error` : undefined}
+              />
             </Field>
           </fieldset>
         </>
       )}
 
       <div aria-live="polite" className="space-y-2">
-        {failure && !failure.field && <p className="rounded-xl bg-clay-100 p-3 font-bold text-clay-700">⚠ {failure.message}</p>}
-        {failure?.field && <p className="font-bold text-clay-700">⚠ Fix the field marked above.</p>}
+        {failure && !failure.field && <p className="bg-clay-100 text-clay-700 rounded-xl p-3 font-bold">⚠ {failure.message}</p>}
+        {failure?.field && <p className="text-clay-700 font-bold">⚠ Fix the field marked above.</p>}
         {outcome && <Result outcome={outcome} />}
       </div>
 
-      <button type="submit" disabled={busy || !file || header.length === 0}
-        className="h-14 w-full rounded-xl bg-leaf-700 text-lg font-bold text-white disabled:opacity-60">
+      <button
+        type="submit"
+        disabled={busy || !file || header.length === 0}
+        className="bg-leaf-700 h-14 w-full rounded-xl text-lg font-bold text-white disabled:opacity-60"
+      >
         {busy ? "Importing…" : "Import readings"}
       </button>
     </form>
@@ -208,19 +274,28 @@ function Result({ outcome }: { outcome: Outcome }) {
   const i = outcome.import;
   if (outcome.duplicate) {
     return (
-      <p className="rounded-xl bg-straw-100 p-3 text-straw-800">
+      <p className="bg-straw-100 text-straw-800 rounded-xl p-3">
         <strong>Already imported.</strong> This file was imported on {when(i.createdAt)} with the same columns; nothing was added.
       </p>
     );
   }
   return (
-    <div className="rounded-xl bg-leaf-100 p-3 text-leaf-700">
+    <div className="bg-leaf-100 text-leaf-700 rounded-xl p-3">
       <p className="tabular">
         <strong>✓ {rows(i.rowsStored, "readings")} stored</strong>
         {outcome.alreadyStored > 0 && <> · {outcome.alreadyStored} already there</>}
-        {i.rowsRejected > 0 && <> · <span className="text-clay-700">⚠ {rows(i.rowsRejected, "rows")} refused</span></>}
+        {i.rowsRejected > 0 && (
+          <>
+            {" "}
+            · <span className="text-clay-700">⚠ {rows(i.rowsRejected, "rows")} refused</span>
+          </>
+        )}
       </p>
-      {outcome.earlier.length > 0 && <p className="mt-1 text-sm">This file was imported before ({when(outcome.earlier[0]!.createdAt)}) with other columns; readings already stored were skipped.</p>}
+      {outcome.earlier.length > 0 && (
+        <p className="mt-1 text-sm">
+          This file was imported before ({when(outcome.earlier[0]!.createdAt)}) with other columns; readings already stored were skipped.
+        </p>
+      )}
       {i.report.length > 0 && <BadRows report={i.report} truncated={outcome.reportTruncated} total={i.rowsRejected} />}
     </div>
   );
@@ -228,11 +303,13 @@ function Result({ outcome }: { outcome: Outcome }) {
 
 export function BadRows({ report, truncated, total }: { report: { line: number; reason: string }[]; truncated: boolean; total: number }) {
   return (
-    <details className="mt-2 text-soil-900" open={report.length <= 10}>
+    <details className="text-soil-900 mt-2" open={report.length <= 10}>
       <summary className="min-h-11 cursor-pointer py-2 font-bold">Refused rows, by line</summary>
       <ol className="tabular space-y-1 text-sm">
         {report.map((b) => (
-          <li key={`${b.line}-${b.reason}`}><strong>Line {b.line}:</strong> {b.reason}</li>
+          <li key={`${b.line}-${b.reason}`}>
+            <strong>Line {b.line}:</strong> {b.reason}
+          </li>
         ))}
       </ol>
       {truncated && <p className="mt-1 text-sm">…and {total - report.length} more not listed.</p>}

@@ -50,10 +50,21 @@ function cnOf(i: IngredientRow) {
 const complete = (i: IngredientRow) => i.moisturePct != null && i.nitrogenPct != null && cnOf(i) != null;
 const amendmentOf = (i: IngredientRow): Amendment => ({ name: i.name, moisturePct: i.moisturePct!, nitrogenPct: i.nitrogenPct!, cn: cnOf(i)! });
 
-
 let nextKey = 1;
 
-export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { farmId: string; binId: string; zones: Zone[]; defaultZoneId: string | null; system: UnitSystem }) {
+export function FeedingForm({
+  farmId,
+  binId,
+  zones,
+  defaultZoneId,
+  system,
+}: {
+  farmId: string;
+  binId: string;
+  zones: Zone[];
+  defaultZoneId: string | null;
+  system: UnitSystem;
+}) {
   const { data: lib } = useIngredients(farmId);
   const { mutate } = useSWRConfig();
   const [rows, setRows] = useState<Row[]>([]);
@@ -84,7 +95,20 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
 
   function addFromLibrary(i: IngredientRow) {
     const key = nextKey++;
-    setRows((rs) => [...rs, { key, ingredientId: i.id, name: i.name, source: i.source, sourceStatus: i.sourceStatus, mass: "", moisture: text(i.moisturePct), nitrogen: text(i.nitrogenPct), cn: text(cnOf(i)) }]);
+    setRows((rs) => [
+      ...rs,
+      {
+        key,
+        ingredientId: i.id,
+        name: i.name,
+        source: i.source,
+        sourceStatus: i.sourceStatus,
+        mass: "",
+        moisture: text(i.moisturePct),
+        nitrogen: text(i.nitrogenPct),
+        cn: text(cnOf(i)),
+      },
+    ]);
     focusNext.current = `item-${key}-massKg`;
     setQuery("");
     setStatus(null);
@@ -111,7 +135,12 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
   const hints: string[] = [];
   if (mix?.ok) {
     const m = mix.value;
-    const moistureFix = m.issues.includes("too wet") && bedding ? { with: amendmentOf(bedding), name: bedding.name } : m.issues.includes("too dry") ? { with: WATER, name: "water" } : null;
+    const moistureFix =
+      m.issues.includes("too wet") && bedding
+        ? { with: amendmentOf(bedding), name: bedding.name }
+        : m.issues.includes("too dry")
+          ? { with: WATER, name: "water" }
+          : null;
     if (moistureFix) {
       const q = amendmentForMoisture(items, moistureFix.with, MOISTURE_AIM);
       if (q.ok) hints.push(`Add ${formatMass(q.value, system, { digits: 2 })} of ${moistureFix.name} to reach ${MOISTURE_AIM} % moisture.`);
@@ -120,7 +149,8 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
       const q = beddingForCn(items, amendmentOf(bedding), CN_AIM);
       if (q.ok) hints.push(`Add ${formatMass(q.value, system, { digits: 2 })} of ${bedding.name} to reach C:N ${CN_AIM}.`);
     }
-    if (m.issues.includes("too rich in carbon")) hints.push(`More food or less bedding brings C:N under ${WORM_BED_TARGET.cn.high}; the bed will work slowly as it is.`);
+    if (m.issues.includes("too rich in carbon"))
+      hints.push(`More food or less bedding brings C:N under ${WORM_BED_TARGET.cn.high}; the bed will work slowly as it is.`);
   }
 
   async function submit(e: React.FormEvent) {
@@ -166,17 +196,21 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
   }
 
   const err = (i: number, f: Field) => errors[`items.${i}.${f}`];
-  const input = "tabular h-12 w-full scroll-mb-40 rounded-xl border border-soil-300 bg-paper px-3 text-lg aria-[invalid=true]:border-2 aria-[invalid=true]:border-clay-700";
+  const input =
+    "tabular h-12 w-full scroll-mb-40 rounded-xl border border-soil-300 bg-paper px-3 text-lg aria-[invalid=true]:border-2 aria-[invalid=true]:border-clay-700";
 
   // A plain render helper, not a component: a component declared here would remount on every keystroke.
   function numberField(row: Row, i: number, f: Exclude<Field, "name">, label: string) {
     const id = `item-${row.key}-${f}`;
     const value = f === "massKg" ? row.mass : f === "moisturePct" ? row.moisture : f === "nitrogenPct" ? row.nitrogen : row.cn;
-    const patch = (v: string): Partial<Row> => (f === "massKg" ? { mass: v } : f === "moisturePct" ? { moisture: v } : f === "nitrogenPct" ? { nitrogen: v } : { cn: v });
+    const patch = (v: string): Partial<Row> =>
+      f === "massKg" ? { mass: v } : f === "moisturePct" ? { moisture: v } : f === "nitrogenPct" ? { nitrogen: v } : { cn: v };
     const e = err(i, f);
     return (
       <div key={f}>
-        <label htmlFor={id} className="block text-sm font-bold">{label}</label>
+        <label htmlFor={id} className="block text-sm font-bold">
+          {label}
+        </label>
         <input
           id={id}
           name={`items.${i}.${f}`}
@@ -191,22 +225,38 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
           aria-describedby={e ? `${id}-error` : undefined}
           className={input}
         />
-        {e && <p id={`${id}-error`} className="mt-1 text-sm font-bold text-clay-700">{e}</p>}
+        {e && (
+          <p id={`${id}-error`} className="text-clay-700 mt-1 text-sm font-bold">
+            {e}
+          </p>
+        )}
       </div>
     );
   }
 
   return (
-    <form id="log" onSubmit={submit} noValidate className="space-y-4 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+    <form id="log" onSubmit={submit} noValidate className="ring-soil-300 space-y-4 rounded-2xl bg-white p-4 ring-1">
       <h2 className="text-xl font-bold">Log a feeding</h2>
 
       <div>
-        <label htmlFor="feeding-zone" className="block font-bold">Where</label>
-        <select id="feeding-zone" value={zoneId} onChange={(e) => setZoneId(e.target.value)} aria-invalid={!!errors.zoneId} className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg">
-          {zones.map((z) => <option key={z.id} value={z.id}>{zoneWords(z)}</option>)}
+        <label htmlFor="feeding-zone" className="block font-bold">
+          Where
+        </label>
+        <select
+          id="feeding-zone"
+          value={zoneId}
+          onChange={(e) => setZoneId(e.target.value)}
+          aria-invalid={!!errors.zoneId}
+          className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3 text-lg"
+        >
+          {zones.map((z) => (
+            <option key={z.id} value={z.id}>
+              {zoneWords(z)}
+            </option>
+          ))}
           <option value="">Whole bin</option>
         </select>
-        {errors.zoneId && <p className="mt-1 text-sm font-bold text-clay-700">{errors.zoneId}</p>}
+        {errors.zoneId && <p className="text-clay-700 mt-1 text-sm font-bold">{errors.zoneId}</p>}
       </div>
 
       <fieldset className="space-y-2">
@@ -217,20 +267,21 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
           placeholder="Find: scraps, cardboard, straw…"
           value={query}
           onChange={(e) => setQuery(e.target.value)}
-          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
+          className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3 text-lg"
         />
         <ul aria-label="Library ingredients" className="flex max-h-56 flex-wrap gap-2 overflow-y-auto py-1">
           {matches.map((i) => (
             <li key={i.id}>
-              <button type="button" onClick={() => addFromLibrary(i)} className="min-h-11 rounded-full bg-soil-100 px-3 text-left ring-1 ring-soil-300">
-                <span aria-hidden="true">+ </span>{i.name}
+              <button type="button" onClick={() => addFromLibrary(i)} className="bg-soil-100 ring-soil-300 min-h-11 rounded-full px-3 text-left ring-1">
+                <span aria-hidden="true">+ </span>
+                {i.name}
                 <span className="sr-only"> ({i.kind})</span>
               </button>
             </li>
           ))}
-          {lib && matches.length === 0 && <li className="text-sm text-soil-700">Nothing in the library by that name; add it by hand.</li>}
+          {lib && matches.length === 0 && <li className="text-soil-700 text-sm">Nothing in the library by that name; add it by hand.</li>}
         </ul>
-        <button type="button" onClick={addByHand} className="min-h-12 w-full rounded-xl px-4 font-bold ring-1 ring-soil-500">
+        <button type="button" onClick={addByHand} className="ring-soil-500 min-h-12 w-full rounded-xl px-4 font-bold ring-1">
           Add an item by hand
         </button>
       </fieldset>
@@ -238,23 +289,36 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
       {rows.length > 0 && (
         <ol aria-label="Items in this feeding" className="space-y-3">
           {rows.map((r, i) => (
-            <li key={r.key} className="rounded-xl bg-paper p-3 ring-1 ring-soil-300">
+            <li key={r.key} className="bg-paper ring-soil-300 rounded-xl p-3 ring-1">
               <div className="flex items-start justify-between gap-2">
                 {r.ingredientId ? (
                   <h3 className="pt-2 text-lg font-bold">{r.name}</h3>
                 ) : (
                   <div className="grow">
-                    <label htmlFor={`item-${r.key}-name`} className="block text-sm font-bold">Name</label>
-                    <input id={`item-${r.key}-name`} value={r.name} onChange={(e) => update(r.key, { name: e.target.value })} aria-invalid={!!err(i, "name")} className={input} />
-                    {err(i, "name") && <p className="mt-1 text-sm font-bold text-clay-700">{err(i, "name")}</p>}
+                    <label htmlFor={`item-${r.key}-name`} className="block text-sm font-bold">
+                      Name
+                    </label>
+                    <input
+                      id={`item-${r.key}-name`}
+                      value={r.name}
+                      onChange={(e) => update(r.key, { name: e.target.value })}
+                      aria-invalid={!!err(i, "name")}
+                      className={input}
+                    />
+                    {err(i, "name") && <p className="text-clay-700 mt-1 text-sm font-bold">{err(i, "name")}</p>}
                   </div>
                 )}
-                <button type="button" onClick={() => remove(r.key)} aria-label={`Remove ${r.name || `item ${i + 1}`}`} className="min-h-11 min-w-11 rounded-lg text-2xl leading-none ring-1 ring-soil-300">
+                <button
+                  type="button"
+                  onClick={() => remove(r.key)}
+                  aria-label={`Remove ${r.name || `item ${i + 1}`}`}
+                  className="ring-soil-300 min-h-11 min-w-11 rounded-lg text-2xl leading-none ring-1"
+                >
                   ×
                 </button>
               </div>
               {r.source && (
-                <p className="mt-1 text-xs text-soil-700">
+                <p className="text-soil-700 mt-1 text-xs">
                   Source ({STATUS_WORDS[r.sourceStatus ?? ""] ?? r.sourceStatus}): {r.source}. Change the values for your own batch.
                 </p>
               )}
@@ -268,12 +332,17 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
           ))}
         </ol>
       )}
-      {errors.items && <p className="text-sm font-bold text-clay-700">{errors.items}</p>}
+      {errors.items && <p className="text-clay-700 text-sm font-bold">{errors.items}</p>}
 
       {/* Pinned to the bottom of the screen while items are typed above it, so the thumb never loses the numbers. */}
-      <section aria-labelledby="mix-h" className={`rounded-xl bg-soil-100 p-3 ring-1 ring-soil-300 ${rows.length ? "sticky bottom-2 z-10 shadow-[0_-6px_16px_rgba(31,22,17,0.15)]" : ""}`}>
+      <section
+        aria-labelledby="mix-h"
+        className={`bg-soil-100 ring-soil-300 rounded-xl p-3 ring-1 ${rows.length ? "sticky bottom-2 z-10 shadow-[0_-6px_16px_rgba(31,22,17,0.15)]" : ""}`}
+      >
         <div className="flex flex-wrap items-center justify-between gap-2">
-          <h3 id="mix-h" className="font-bold">Mix check</h3>
+          <h3 id="mix-h" className="font-bold">
+            Mix check
+          </h3>
           {mix?.ok && (
             <div className="flex flex-wrap items-center gap-1" id="mix-verdict">
               {mix.value.issues.length === 0 ? <MixVerdictMark verdict="balanced" /> : mix.value.issues.map((w) => <MixVerdictMark key={w} verdict={w} />)}
@@ -281,44 +350,66 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
           )}
         </div>
         {!mix ? (
-          <p className="text-sm text-soil-700">Add items to see the mix&apos;s moisture and C:N.</p>
+          <p className="text-soil-700 text-sm">Add items to see the mix&apos;s moisture and C:N.</p>
         ) : !mix.ok ? (
           <p className="text-sm" id="mix-waiting">
-            Can&apos;t check the mix yet. {failedRow ? `${failedRow.name || "The unnamed item"}: ` : ""}{mix.error.message}
+            Can&apos;t check the mix yet. {failedRow ? `${failedRow.name || "The unnamed item"}: ` : ""}
+            {mix.error.message}
           </p>
         ) : (
           <dl className="mt-1 grid grid-cols-3 gap-2">
             <div>
-              <dt className="text-xs uppercase tracking-wide text-soil-700">Total</dt>
-              <dd id="mix-total" className="tabular text-xl font-bold">{formatMass(mix.value.totalMassKg, system, { digits: 2 })}</dd>
+              <dt className="text-soil-700 text-xs tracking-wide uppercase">Total</dt>
+              <dd id="mix-total" className="tabular text-xl font-bold">
+                {formatMass(mix.value.totalMassKg, system, { digits: 2 })}
+              </dd>
             </div>
             <div>
-              <dt className="text-xs uppercase tracking-wide text-soil-700">Moisture</dt>
-              <dd className="tabular text-xl font-bold"><span id="mix-moisture">{formatNumber(mix.value.moisturePct, 1)}</span> %</dd>
+              <dt className="text-soil-700 text-xs tracking-wide uppercase">Moisture</dt>
+              <dd className="tabular text-xl font-bold">
+                <span id="mix-moisture">{formatNumber(mix.value.moisturePct, 1)}</span> %
+              </dd>
             </div>
             <div>
-              <dt className="text-xs uppercase tracking-wide text-soil-700">C:N</dt>
-              <dd id="mix-cn" className="tabular text-xl font-bold">{mix.value.cn == null ? "—" : formatNumber(mix.value.cn, 1)}</dd>
+              <dt className="text-soil-700 text-xs tracking-wide uppercase">C:N</dt>
+              <dd id="mix-cn" className="tabular text-xl font-bold">
+                {mix.value.cn == null ? "—" : formatNumber(mix.value.cn, 1)}
+              </dd>
             </div>
           </dl>
         )}
       </section>
       {mix?.ok && (
-        <div aria-label="What would balance the mix" role="group" className="rounded-xl p-3 ring-1 ring-soil-300">
-          <p className="text-sm text-soil-700">
-            Worm bed aim: moisture {WORM_BED_TARGET.moisturePct.low}–{WORM_BED_TARGET.moisturePct.high} %, C:N {WORM_BED_TARGET.cn.low}–{WORM_BED_TARGET.cn.high}.
-            {hints.length === 0 ? " This mix sits inside both." : ""}
+        <div aria-label="What would balance the mix" role="group" className="ring-soil-300 rounded-xl p-3 ring-1">
+          <p className="text-soil-700 text-sm">
+            Worm bed aim: moisture {WORM_BED_TARGET.moisturePct.low}–{WORM_BED_TARGET.moisturePct.high} %, C:N {WORM_BED_TARGET.cn.low}–
+            {WORM_BED_TARGET.cn.high}.{hints.length === 0 ? " This mix sits inside both." : ""}
           </p>
           {hints.length > 0 && (
             <ul id="mix-hints" className="mt-2 list-disc space-y-1 pl-5">
-              {hints.map((h) => <li key={h} className="tabular">{h}</li>)}
+              {hints.map((h) => (
+                <li key={h} className="tabular">
+                  {h}
+                </li>
+              ))}
             </ul>
           )}
           {hints.length > 0 && beddings.length > 1 && bedding && (
             <div className="mt-2">
-              <label htmlFor="hint-bedding" className="block text-sm font-bold">Bedding for these hints</label>
-              <select id="hint-bedding" value={bedding.id} onChange={(e) => setBeddingId(e.target.value)} className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3">
-                {beddings.map((b) => <option key={b.id} value={b.id}>{b.name}</option>)}
+              <label htmlFor="hint-bedding" className="block text-sm font-bold">
+                Bedding for these hints
+              </label>
+              <select
+                id="hint-bedding"
+                value={bedding.id}
+                onChange={(e) => setBeddingId(e.target.value)}
+                className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3"
+              >
+                {beddings.map((b) => (
+                  <option key={b.id} value={b.id}>
+                    {b.name}
+                  </option>
+                ))}
               </select>
             </div>
           )}
@@ -326,11 +417,19 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
       )}
 
       <div>
-        <label htmlFor="feeding-notes" className="block font-bold">Notes (optional)</label>
-        <textarea id="feeding-notes" value={notes} onChange={(e) => setNotes(e.target.value)} rows={2} className="w-full rounded-xl border border-soil-300 bg-paper p-3" />
+        <label htmlFor="feeding-notes" className="block font-bold">
+          Notes (optional)
+        </label>
+        <textarea
+          id="feeding-notes"
+          value={notes}
+          onChange={(e) => setNotes(e.target.value)}
+          rows={2}
+          className="border-soil-300 bg-paper w-full rounded-xl border p-3"
+        />
       </div>
 
-      <aside aria-label="Caution" className="rounded-xl bg-straw-100 p-3 text-sm ring-1 ring-straw-600">
+      <aside aria-label="Caution" className="bg-straw-100 ring-straw-600 rounded-xl p-3 text-sm ring-1">
         <p className="font-bold">Careful</p>
         <ul className="list-disc pl-5">
           <li>A big load of fresh food can heat up by itself and give off ammonia: feed a little at a time and watch the zone&apos;s temperature.</li>
@@ -339,14 +438,18 @@ export function FeedingForm({ farmId, binId, zones, defaultZoneId, system }: { f
         </ul>
       </aside>
 
-      <button disabled={busy} className="min-h-14 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">
+      <button disabled={busy} className="bg-leaf-700 min-h-14 w-full rounded-xl px-4 text-lg font-bold text-white disabled:opacity-60">
         {busy ? "Logging…" : "Log this feeding"}
       </button>
       <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>
         {status && (
           <span className="inline-flex items-center gap-1">
             <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
-              {status.ok ? <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" /> : <path d="M2 2 10 10M10 2 2 10" stroke="currentColor" strokeWidth="2" />}
+              {status.ok ? (
+                <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" />
+              ) : (
+                <path d="M2 2 10 10M10 2 2 10" stroke="currentColor" strokeWidth="2" />
+              )}
             </svg>
             {status.text}
           </span>

@@ -36,4 +36,4 @@ function feedingCheck(f: Pick<Feeding, "items">) {
 }
 
 export const zoneWords = (z: { kind: string; name: string | null } | null | undefined) =>
-  z ? (z.name?.trim() || `${z.kind[0]!.toUpperCase()}${z.kind.slice(1)} zone`) : "Whole bin";
+  z ? z.name?.trim() || `${z.kind[0]!.toUpperCase()}${z.kind.slice(1)} zone` : "Whole bin";

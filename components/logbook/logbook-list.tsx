@@ -16,7 +16,11 @@ const KINDS: Record<LogbookItem["kind"], { word: string; shape: React.ReactNode;
   watering: { word: "Water", cls: "bg-slate-100 text-slate-700", shape: <path d="M6 0.5C8 4 10.5 6 10.5 8a4.5 4.5 0 0 1-9 0C1.5 6 4 4 6 0.5Z" /> },
   harvest: { word: "Harvest", cls: "bg-soil-100 text-soil-800", shape: <rect x="1" y="1" width="10" height="10" rx="1" /> },
   note: { word: "Note", cls: "bg-straw-100 text-straw-800", shape: <path d="M1 2h10v2H1zM1 5h10v2H1zM1 8h7v2H1z" /> },
-  sample: { word: "Oven-dry sample", cls: "bg-clay-100 text-clay-700", shape: <circle cx="6" cy="6" r="4.5" fill="none" stroke="currentColor" strokeWidth="2" /> },
+  sample: {
+    word: "Oven-dry sample",
+    cls: "bg-clay-100 text-clay-700",
+    shape: <circle cx="6" cy="6" r="4.5" fill="none" stroke="currentColor" strokeWidth="2" />,
+  },
 };
 
 const UNDO_MS = 24 * 3600_000;
@@ -28,7 +32,13 @@ function what(e: LogbookItem, system: UnitSystem): string {
     case "harvest":
       return e.massKg == null ? "" : `${formatMass(e.massKg, system, { digits: 2 })} of castings`;
     case "feeding":
-      return [e.massKg != null ? formatMass(e.massKg, system, { digits: 2 }) : null, e.mixMoisturePct != null ? `moisture ${formatPercent(e.mixMoisturePct, { digits: 1 })}` : null, e.mixCn != null ? `C:N ${formatNumber(e.mixCn, 1)}` : null].filter(Boolean).join(" · ");
+      return [
+        e.massKg != null ? formatMass(e.massKg, system, { digits: 2 }) : null,
+        e.mixMoisturePct != null ? `moisture ${formatPercent(e.mixMoisturePct, { digits: 1 })}` : null,
+        e.mixCn != null ? `C:N ${formatNumber(e.mixCn, 1)}` : null,
+      ]
+        .filter(Boolean)
+        .join(" · ");
     case "sample":
       return `${e.moistureWbPct == null ? "—" : formatPercent(e.moistureWbPct, { digits: 1 })} moisture (wet basis)${e.rawReading != null ? ` · probe raw ${formatNumber(e.rawReading, 0)}` : ""}`;
     case "note":
@@ -37,7 +47,21 @@ function what(e: LogbookItem, system: UnitSystem): string {
 }
 
 // The bin's whole logbook, newest first; the author (or an owner) may undo an entry for 24 h.
-export function LogbookList({ binId, zones, system, timezone, userId, isOwner }: { binId: string; zones: Zone[]; system: UnitSystem; timezone: string; userId: string; isOwner: boolean }) {
+export function LogbookList({
+  binId,
+  zones,
+  system,
+  timezone,
+  userId,
+  isOwner,
+}: {
+  binId: string;
+  zones: Zone[];
+  system: UnitSystem;
+  timezone: string;
+  userId: string;
+  isOwner: boolean;
+}) {
   const { data, error, mutate } = useLogbook(binId);
   const { mutate: mutateKey } = useSWRConfig();
   const clock = useMemo(() => clockFormat(timezone), [timezone]);
@@ -65,7 +89,7 @@ export function LogbookList({ binId, zones, system, timezone, userId, isOwner }:
       {data.entries.length === 0 ? (
         <p className="text-soil-700">Nothing logged yet.</p>
       ) : (
-        <ol aria-label="Logbook, newest first" className="divide-y divide-soil-100">
+        <ol aria-label="Logbook, newest first" className="divide-soil-100 divide-y">
           {data.entries.map((e) => {
             const k = KINDS[e.kind];
             const mayUndo = isOwner || (e.byUserId === userId && now - Date.parse(e.createdAt) < UNDO_MS);
@@ -73,19 +97,25 @@ export function LogbookList({ binId, zones, system, timezone, userId, isOwner }:
               <li key={`${e.kind}-${e.id}`} className="py-2" data-kind={e.kind} data-entry-id={e.id}>
                 <div className="flex flex-wrap items-baseline justify-between gap-x-2">
                   <span className={`inline-flex items-center gap-1 rounded-full px-2 py-0.5 text-sm font-bold ${k.cls}`}>
-                    <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true" fill="currentColor">{k.shape}</svg>
+                    <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true" fill="currentColor">
+                      {k.shape}
+                    </svg>
                     {k.word}
                   </span>
-                  <span className="tabular text-sm text-soil-700">{clock(e.at)}</span>
+                  <span className="tabular text-soil-700 text-sm">{clock(e.at)}</span>
                 </div>
                 <p className="tabular mt-1">{what(e, system)}</p>
-                <p className="text-sm text-soil-700">
+                <p className="text-soil-700 text-sm">
                   {zoneWords(zones.find((z) => z.id === e.zoneId))} · by {e.byName ?? "someone no longer on the farm"}
                 </p>
                 {e.notes && <p className="text-sm italic">{e.notes}</p>}
                 {mayUndo && (
-                  <button type="button" onClick={() => undo(e)} className="mt-1 min-h-11 rounded-lg px-3 text-sm ring-1 ring-soil-300">
-                    Undo<span className="sr-only"> {k.word.toLowerCase()} of {clock(e.at)}</span>
+                  <button type="button" onClick={() => undo(e)} className="ring-soil-300 mt-1 min-h-11 rounded-lg px-3 text-sm ring-1">
+                    Undo
+                    <span className="sr-only">
+                      {" "}
+                      {k.word.toLowerCase()} of {clock(e.at)}
+                    </span>
                   </button>
                 )}
               </li>
@@ -93,7 +123,9 @@ export function LogbookList({ binId, zones, system, timezone, userId, isOwner }:
           })}
         </ol>
       )}
-      <p role="status" aria-live="polite" className="min-h-6 text-sm font-bold">{status}</p>
+      <p role="status" aria-live="polite" className="min-h-6 text-sm font-bold">
+        {status}
+      </p>
     </>
   );
 }

@@ -67,39 +67,77 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
 
   const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg";
   return (
-    <form onSubmit={submit} noValidate aria-labelledby={id("h")} className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-      <h2 id={id("h")} className="text-xl font-bold">{t.title}</h2>
+    <form onSubmit={submit} noValidate aria-labelledby={id("h")} className="ring-soil-300 space-y-3 rounded-2xl bg-white p-4 ring-1">
+      <h2 id={id("h")} className="text-xl font-bold">
+        {t.title}
+      </h2>
       <div className="grid grid-cols-2 gap-3">
         <div className={kind === "note" ? "col-span-2" : ""}>
-          <label htmlFor={id("zone")} className="block font-bold">Where</label>
+          <label htmlFor={id("zone")} className="block font-bold">
+            Where
+          </label>
           <select id={id("zone")} value={zoneId} onChange={(e) => setZoneId(e.target.value)} aria-invalid={!!errors.zoneId} className={input}>
             <option value="">Whole bin</option>
-            {zones.map((z) => <option key={z.id} value={z.id}>{zoneWords(z)}</option>)}
+            {zones.map((z) => (
+              <option key={z.id} value={z.id}>
+                {zoneWords(z)}
+              </option>
+            ))}
           </select>
-          {errors.zoneId && <p className="mt-1 text-sm font-bold text-clay-700">{errors.zoneId}</p>}
+          {errors.zoneId && <p className="text-clay-700 mt-1 text-sm font-bold">{errors.zoneId}</p>}
         </div>
         {kind !== "note" && (
           <div>
-            <label htmlFor={id("amount")} className="block font-bold">{kind === "watering" ? "Water" : "Castings"} ({unit})</label>
-            <input id={id("amount")} inputMode="decimal" value={amount} onChange={(e) => setAmount(e.target.value)} aria-invalid={!!errors[field]} aria-describedby={errors[field] ? id("amount-error") : undefined} className={`${input} tabular`} />
-            {errors[field] && <p id={id("amount-error")} className="mt-1 text-sm font-bold text-clay-700">{errors[field]}</p>}
+            <label htmlFor={id("amount")} className="block font-bold">
+              {kind === "watering" ? "Water" : "Castings"} ({unit})
+            </label>
+            <input
+              id={id("amount")}
+              inputMode="decimal"
+              value={amount}
+              onChange={(e) => setAmount(e.target.value)}
+              aria-invalid={!!errors[field]}
+              aria-describedby={errors[field] ? id("amount-error") : undefined}
+              className={`${input} tabular`}
+            />
+            {errors[field] && (
+              <p id={id("amount-error")} className="text-clay-700 mt-1 text-sm font-bold">
+                {errors[field]}
+              </p>
+            )}
           </div>
         )}
       </div>
       {kind === "note" ? (
         <div>
-          <label htmlFor={id("text")} className="block font-bold">Note</label>
-          <textarea id={id("text")} value={amount} onChange={(e) => setAmount(e.target.value)} rows={2} aria-invalid={!!errors.text} aria-describedby={errors.text ? id("text-error") : undefined} className="w-full rounded-xl border border-soil-300 bg-paper p-3" />
-          {errors.text && <p id={id("text-error")} className="mt-1 text-sm font-bold text-clay-700">{errors.text}</p>}
+          <label htmlFor={id("text")} className="block font-bold">
+            Note
+          </label>
+          <textarea
+            id={id("text")}
+            value={amount}
+            onChange={(e) => setAmount(e.target.value)}
+            rows={2}
+            aria-invalid={!!errors.text}
+            aria-describedby={errors.text ? id("text-error") : undefined}
+            className="border-soil-300 bg-paper w-full rounded-xl border p-3"
+          />
+          {errors.text && (
+            <p id={id("text-error")} className="text-clay-700 mt-1 text-sm font-bold">
+              {errors.text}
+            </p>
+          )}
         </div>
       ) : (
         <div>
-          <label htmlFor={id("notes")} className="block font-bold">Notes (optional)</label>
+          <label htmlFor={id("notes")} className="block font-bold">
+            Notes (optional)
+          </label>
           <input id={id("notes")} value={notes} onChange={(e) => setNotes(e.target.value)} className={input} />
         </div>
       )}
       {kind === "harvest" && (
-        <aside aria-label="Caution" className="rounded-xl bg-straw-100 p-3 text-sm ring-1 ring-straw-600">
+        <aside aria-label="Caution" className="bg-straw-100 ring-straw-600 rounded-xl p-3 text-sm ring-1">
           <p className="font-bold">Careful</p>
           <ul className="list-disc pl-5">
             <li>Castings and leachate are not food: put them on the soil, not on produce about to be eaten.</li>
@@ -107,13 +145,19 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
           </ul>
         </aside>
       )}
-      {kind === "watering" && <p className="text-sm text-soil-700">Add water a little at a time: a soggy bed starves the worms of air.</p>}
-      <button disabled={busy} className="min-h-12 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">{busy ? "Logging…" : t.button}</button>
+      {kind === "watering" && <p className="text-soil-700 text-sm">Add water a little at a time: a soggy bed starves the worms of air.</p>}
+      <button disabled={busy} className="bg-leaf-700 min-h-12 w-full rounded-xl px-4 text-lg font-bold text-white disabled:opacity-60">
+        {busy ? "Logging…" : t.button}
+      </button>
       <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>
         {status && (
           <span className="inline-flex items-center gap-1">
             <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
-              {status.ok ? <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" /> : <path d="M2 2 10 10M10 2 2 10" stroke="currentColor" strokeWidth="2" />}
+              {status.ok ? (
+                <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" />
+              ) : (
+                <path d="M2 2 10 10M10 2 2 10" stroke="currentColor" strokeWidth="2" />
+              )}
             </svg>
             {status.text}
           </span>

@@ -6,7 +6,17 @@ import { fetcher } from "@/lib/fetcher";
 import { probeCalibrationKey } from "@/lib/swr-keys";
 import { formatNumber } from "@/lib/units";
 
-type Sample = { id: string; at: string; wetMassG: number; dryMassG: number; tareG: number; ovenTempC: number | null; rawReading: number | null; moistureWbPct: number; byName: string | null };
+type Sample = {
+  id: string;
+  at: string;
+  wetMassG: number;
+  dryMassG: number;
+  tareG: number;
+  ovenTempC: number | null;
+  rawReading: number | null;
+  moistureWbPct: number;
+  byName: string | null;
+};
 type Residual = { sampleId: string; raw: number; moisturePct: number; residual: number };
 type CalibrationView = {
   calibration: { slope: number; intercept: number; r2: number; fittedAt: string; points: number } | null;
@@ -46,7 +56,11 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
     setErrors(errs);
     if (Object.keys(errs).length) return setStatus({ ok: false, text: "Not recorded: check the marked fields." });
     setBusy(true);
-    const res = await fetch(`/api/probes/${probeId}/samples`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) }).catch(() => null);
+    const res = await fetch(`/api/probes/${probeId}/samples`, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: JSON.stringify(body),
+    }).catch(() => null);
     const out = await res?.json().catch(() => null);
     setBusy(false);
     if (!res?.ok) {
@@ -54,7 +68,12 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
       return setStatus({ ok: false, text: `Not recorded: ${out?.error?.message ?? "no connection."}` });
     }
     form.reset();
-    const raw = out.rawFrom === "probe" ? ` The probe read ${formatNumber(out.sample.rawReading, 0)} then.` : out.rawFrom === "none" ? " No probe reading within 10 minutes: this sample cannot join a fit." : "";
+    const raw =
+      out.rawFrom === "probe"
+        ? ` The probe read ${formatNumber(out.sample.rawReading, 0)} then.`
+        : out.rawFrom === "none"
+          ? " No probe reading within 10 minutes: this sample cannot join a fit."
+          : "";
     setStatus({ ok: true, text: `Recorded: ${formatNumber(out.sample.moistureWbPct, 1)} % moisture (wet basis).${raw}` });
     await mutate();
   }
@@ -62,7 +81,11 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
   async function fit() {
     const res = await fetch(`/api/probes/${probeId}/calibration`, { method: "POST" }).catch(() => null);
     const out = await res?.json().catch(() => null);
-    setFitStatus(res?.ok ? { ok: true, text: `Fitted from ${out.calibration.points} samples.` } : { ok: false, text: `Not fitted: ${out?.error?.message ?? "no connection."}` });
+    setFitStatus(
+      res?.ok
+        ? { ok: true, text: `Fitted from ${out.calibration.points} samples.` }
+        : { ok: false, text: `Not fitted: ${out?.error?.message ?? "no connection."}` },
+    );
     await mutate();
   }
 
@@ -77,24 +100,54 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
   const cal = data?.calibration;
   return (
     <div className="space-y-4">
-      <section aria-labelledby="cal-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="cal-h" className="text-xl font-bold">Calibration</h2>
+      <section aria-labelledby="cal-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+        <h2 id="cal-h" className="text-xl font-bold">
+          Calibration
+        </h2>
         {!data ? (
           <p className="text-soil-700">{error ? error.message : "Loading…"}</p>
         ) : cal ? (
           <>
-            <p className="tabular mt-1" id="cal-line">moisture % = {formatNumber(cal.slope, 4)} × raw + {formatNumber(cal.intercept, 2)}</p>
+            <p className="tabular mt-1" id="cal-line">
+              moisture % = {formatNumber(cal.slope, 4)} × raw + {formatNumber(cal.intercept, 2)}
+            </p>
             <dl className="tabular mt-2 grid grid-cols-3 gap-2">
-              <div><dt className="text-xs uppercase text-soil-700">Slope</dt><dd className="font-bold">{formatNumber(cal.slope, 4)}</dd></div>
-              <div><dt className="text-xs uppercase text-soil-700">Intercept</dt><dd className="font-bold">{formatNumber(cal.intercept, 2)}</dd></div>
-              <div><dt className="text-xs uppercase text-soil-700">R²</dt><dd className="font-bold">{formatNumber(cal.r2, 3)}</dd></div>
+              <div>
+                <dt className="text-soil-700 text-xs uppercase">Slope</dt>
+                <dd className="font-bold">{formatNumber(cal.slope, 4)}</dd>
+              </div>
+              <div>
+                <dt className="text-soil-700 text-xs uppercase">Intercept</dt>
+                <dd className="font-bold">{formatNumber(cal.intercept, 2)}</dd>
+              </div>
+              <div>
+                <dt className="text-soil-700 text-xs uppercase">R²</dt>
+                <dd className="font-bold">{formatNumber(cal.r2, 3)}</dd>
+              </div>
             </dl>
-            <p className="text-sm text-soil-700">From {cal.points} samples, fitted {new Date(cal.fittedAt).toLocaleString("en-GB")}. The line holds only between the lowest and highest raw readings sampled.</p>
+            <p className="text-soil-700 text-sm">
+              From {cal.points} samples, fitted {new Date(cal.fittedAt).toLocaleString("en-GB")}. The line holds only between the lowest and highest raw
+              readings sampled.
+            </p>
             {data.residuals.length > 0 && (
               <table className="tabular mt-2 w-full text-sm">
                 <caption className="text-left font-bold">Residuals (sample − line)</caption>
-                <thead><tr><th className="text-left">Raw</th><th className="text-right">Sample %</th><th className="text-right">Residual</th></tr></thead>
-                <tbody>{data.residuals.map((r) => <tr key={r.sampleId}><td>{formatNumber(r.raw, 0)}</td><td className="text-right">{formatNumber(r.moisturePct, 1)}</td><td className="text-right">{formatNumber(r.residual, 2)}</td></tr>)}</tbody>
+                <thead>
+                  <tr>
+                    <th className="text-left">Raw</th>
+                    <th className="text-right">Sample %</th>
+                    <th className="text-right">Residual</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {data.residuals.map((r) => (
+                    <tr key={r.sampleId}>
+                      <td>{formatNumber(r.raw, 0)}</td>
+                      <td className="text-right">{formatNumber(r.moisturePct, 1)}</td>
+                      <td className="text-right">{formatNumber(r.residual, 2)}</td>
+                    </tr>
+                  ))}
+                </tbody>
               </table>
             )}
           </>
@@ -103,48 +156,83 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
         )}
         {canFit && data && (
           <div className="mt-3 flex flex-wrap gap-2">
-            <button type="button" onClick={fit} className="min-h-12 rounded-xl bg-leaf-700 px-4 font-bold text-white">Fit calibration</button>
-            {cal && <button type="button" onClick={clear} className="min-h-12 rounded-xl px-4 ring-1 ring-soil-500">Clear</button>}
+            <button type="button" onClick={fit} className="bg-leaf-700 min-h-12 rounded-xl px-4 font-bold text-white">
+              Fit calibration
+            </button>
+            {cal && (
+              <button type="button" onClick={clear} className="ring-soil-500 min-h-12 rounded-xl px-4 ring-1">
+                Clear
+              </button>
+            )}
           </div>
         )}
-        <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${fitStatus?.ok ? "text-leaf-700" : "text-clay-700"}`}>{fitStatus?.text}</p>
+        <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${fitStatus?.ok ? "text-leaf-700" : "text-clay-700"}`}>
+          {fitStatus?.text}
+        </p>
       </section>
 
       {canLog && (
-        <form onSubmit={record} noValidate className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+        <form onSubmit={record} noValidate className="ring-soil-300 space-y-3 rounded-2xl bg-white p-4 ring-1">
           <h2 className="text-xl font-bold">Record an oven-dry sample</h2>
-          {!placed && <p className="font-bold text-clay-700">Place this probe in a zone first: a sample belongs to the bed around it.</p>}
-          <p className="text-sm text-soil-700">Take a handful of bedding beside the probe, weigh it, dry it to constant mass, weigh again. Give masses with the container and its mass as well, or net masses and no container.</p>
+          {!placed && <p className="text-clay-700 font-bold">Place this probe in a zone first: a sample belongs to the bed around it.</p>}
+          <p className="text-soil-700 text-sm">
+            Take a handful of bedding beside the probe, weigh it, dry it to constant mass, weigh again. Give masses with the container and its mass as well, or
+            net masses and no container.
+          </p>
           <div className="grid grid-cols-2 gap-3">
             {FIELDS.map(([name, label]) => (
               <div key={name}>
-                <label htmlFor={`sample-${name}`} className="block font-bold">{label}</label>
-                <input id={`sample-${name}`} name={name} inputMode="decimal" defaultValue={name === "ovenTempC" ? "70" : ""} aria-invalid={!!errors[name]} aria-describedby={errors[name] ? `sample-${name}-error` : undefined} className={input} />
-                {errors[name] && <p id={`sample-${name}-error`} className="mt-1 text-sm font-bold text-clay-700">{errors[name]}</p>}
+                <label htmlFor={`sample-${name}`} className="block font-bold">
+                  {label}
+                </label>
+                <input
+                  id={`sample-${name}`}
+                  name={name}
+                  inputMode="decimal"
+                  defaultValue={name === "ovenTempC" ? "70" : ""}
+                  aria-invalid={!!errors[name]}
+                  aria-describedby={errors[name] ? `sample-${name}-error` : undefined}
+                  className={input}
+                />
+                {errors[name] && (
+                  <p id={`sample-${name}-error`} className="text-clay-700 mt-1 text-sm font-bold">
+                    {errors[name]}
+                  </p>
+                )}
               </div>
             ))}
           </div>
-          <p className="text-sm text-soil-700">
-            Oven temperature: ASTM D2216 dries soil at 110 ± 5 °C, but notes that organic material can decompose there; compost methods use lower
-            temperatures such as 70 °C (TMECC 03.09). Use the same temperature for every sample of a probe. Leave the raw reading empty to take the probe&apos;s own
-            reading nearest the time of sampling (within 10 minutes).
+          <p className="text-soil-700 text-sm">
+            Oven temperature: ASTM D2216 dries soil at 110 ± 5 °C, but notes that organic material can decompose there; compost methods use lower temperatures
+            such as 70 °C (TMECC 03.09). Use the same temperature for every sample of a probe. Leave the raw reading empty to take the probe&apos;s own reading
+            nearest the time of sampling (within 10 minutes).
           </p>
-          <p className="text-sm text-soil-700">Wash your hands after handling bedding; let the oven and sample cool before weighing.</p>
-          <button disabled={busy || !placed} className="min-h-12 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">{busy ? "Recording…" : "Record sample"}</button>
-          <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>{status?.text}{errors.form && !status ? errors.form : ""}</p>
+          <p className="text-soil-700 text-sm">Wash your hands after handling bedding; let the oven and sample cool before weighing.</p>
+          <button disabled={busy || !placed} className="bg-leaf-700 min-h-12 w-full rounded-xl px-4 text-lg font-bold text-white disabled:opacity-60">
+            {busy ? "Recording…" : "Record sample"}
+          </button>
+          <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>
+            {status?.text}
+            {errors.form && !status ? errors.form : ""}
+          </p>
         </form>
       )}
 
-      <section aria-labelledby="samples-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="samples-h" className="text-xl font-bold">Samples</h2>
+      <section aria-labelledby="samples-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+        <h2 id="samples-h" className="text-xl font-bold">
+          Samples
+        </h2>
         {data && data.samples.length === 0 && <p className="text-soil-700">No samples yet.</p>}
         {data && data.samples.length > 0 && (
-          <ol aria-label="Samples, newest first" className="divide-y divide-soil-100">
+          <ol aria-label="Samples, newest first" className="divide-soil-100 divide-y">
             {data.samples.map((s) => (
               <li key={s.id} className="tabular py-2 text-sm">
-                <b>{formatNumber(s.moistureWbPct, 1)} %</b> wet basis · raw {s.rawReading == null ? "—" : formatNumber(s.rawReading, 0)} · wet {formatNumber(s.wetMassG, 1)} g, dry {formatNumber(s.dryMassG, 1)} g{s.tareG ? `, container ${formatNumber(s.tareG, 1)} g` : ""}
+                <b>{formatNumber(s.moistureWbPct, 1)} %</b> wet basis · raw {s.rawReading == null ? "—" : formatNumber(s.rawReading, 0)} · wet{" "}
+                {formatNumber(s.wetMassG, 1)} g, dry {formatNumber(s.dryMassG, 1)} g{s.tareG ? `, container ${formatNumber(s.tareG, 1)} g` : ""}
                 {s.ovenTempC != null ? ` · ${formatNumber(s.ovenTempC, 0)} °C` : ""}
-                <span className="block text-soil-700">{new Date(s.at).toLocaleString("en-GB")} · by {s.byName ?? "someone no longer on the farm"}</span>
+                <span className="text-soil-700 block">
+                  {new Date(s.at).toLocaleString("en-GB")} · by {s.byName ?? "someone no longer on the farm"}
+                </span>
               </li>
             ))}
           </ol>

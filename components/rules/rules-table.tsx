@@ -18,7 +18,19 @@ export const rulesKey = (binId: string) => `/api/bins/${binId}/rules`;
 type Message = { ok?: string; error?: string; fieldErrors?: Record<string, string> };
 
 // Every alert kind of one bin; owners change, save or reset one kind at a time, everyone else reads.
-export function RulesTable({ binId, initial, words, system, canEdit }: { binId: string; initial: RulesData; words: Record<string, string>; system: UnitSystem; canEdit: boolean }) {
+export function RulesTable({
+  binId,
+  initial,
+  words,
+  system,
+  canEdit,
+}: {
+  binId: string;
+  initial: RulesData;
+  words: Record<string, string>;
+  system: UnitSystem;
+  canEdit: boolean;
+}) {
   const { data, mutate } = useSWR<RulesData>(rulesKey(binId), fetcher, { fallbackData: initial });
   const rules = data ?? initial;
   const [messages, setMessages] = useState<Record<string, Message>>({});
@@ -57,7 +69,7 @@ export function RulesTable({ binId, initial, words, system, canEdit }: { binId: 
     <div className="space-y-4">
       <nav aria-label="Alert kinds" className="flex flex-wrap gap-2">
         {rules.defaults.map((d) => (
-          <a key={d.kind} href={`#rule-${d.kind}`} className="flex min-h-11 items-center rounded-full bg-white px-3 ring-1 ring-soil-300">
+          <a key={d.kind} href={`#rule-${d.kind}`} className="ring-soil-300 flex min-h-11 items-center rounded-full bg-white px-3 ring-1">
             {words[d.kind] ?? d.kind}
           </a>
         ))}

@@ -13,24 +13,31 @@ export function PendingInvitations({ farmId, invitations, action }: { farmId: st
   const [state, formAction, pending] = useActionState(action, {});
   return (
     <section aria-labelledby="pending-h">
-      <h2 id="pending-h" className="mb-2 text-xl font-bold">Waiting to join ({invitations.length})</h2>
-      <p aria-live="polite" className={`mb-2 text-sm empty:mb-0 ${state.error ? "text-clay-700" : "text-leaf-700"}`}>{state.error ?? state.ok}</p>
+      <h2 id="pending-h" className="mb-2 text-xl font-bold">
+        Waiting to join ({invitations.length})
+      </h2>
+      <p aria-live="polite" className={`mb-2 text-sm empty:mb-0 ${state.error ? "text-clay-700" : "text-leaf-700"}`}>
+        {state.error ?? state.ok}
+      </p>
       {invitations.length === 0 && <p className="text-soil-500">No open invitations.</p>}
       <ul className="space-y-3">
         {invitations.map((i) => (
-          <li key={i.id} className="rounded-xl bg-white p-3 ring-1 ring-soil-300">
+          <li key={i.id} className="ring-soil-300 rounded-xl bg-white p-3 ring-1">
             <div className="flex items-start justify-between gap-2">
               <p className="font-bold break-all">{i.email}</p>
               <RoleBadge role={i.role} />
             </div>
-            <p className="text-sm text-soil-700">
+            <p className="text-soil-700 text-sm">
               {i.invitedByName ? `Invited by ${i.invitedByName} · ` : ""}link works until {i.expires}
             </p>
             <form action={formAction} className="mt-2">
               <input type="hidden" name="farmId" value={farmId} />
               <input type="hidden" name="invitationId" value={i.id} />
-              <button disabled={pending} aria-label={`Revoke the invitation to ${i.email}`}
-                className="min-h-11 rounded-lg px-3 font-bold text-clay-700 ring-1 ring-clay-500 disabled:opacity-60">
+              <button
+                disabled={pending}
+                aria-label={`Revoke the invitation to ${i.email}`}
+                className="text-clay-700 ring-clay-500 min-h-11 rounded-lg px-3 font-bold ring-1 disabled:opacity-60"
+              >
                 Revoke
               </button>
             </form>

@@ -15,7 +15,6 @@ import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/units";
 type Zone = Today["bins"][number]["zones"][number];
 type Bin = Today["bins"][number];
 
-
 function ago(iso: string) {
   const min = Math.round((Date.now() - Date.parse(iso)) / 60_000);
   if (min < 1) return "just now";
@@ -32,16 +31,18 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
   const mBand = species && m ? classifyMoisture(species, m.value) : null;
   const zoneName = zone.name ?? `${zone.kind[0]!.toUpperCase()}${zone.kind.slice(1)} zone`;
   return (
-    <li className="border-t border-soil-100 py-3 first:border-t-0">
+    <li className="border-soil-100 border-t py-3 first:border-t-0">
       <div className="flex items-baseline justify-between gap-2">
         <h3 className="font-bold">
-          <Link href={`/farms/${farmId}/zones/${zone.id}`} className="inline-flex min-h-11 items-center underline underline-offset-4">{zoneName}</Link>
+          <Link href={`/farms/${farmId}/zones/${zone.id}`} className="inline-flex min-h-11 items-center underline underline-offset-4">
+            {zoneName}
+          </Link>
         </h3>
-        <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
+        <span className="text-soil-500 text-xs">{t ? ago(t.ts) : "no readings yet"}</span>
       </div>
       <div className="mt-2 grid grid-cols-2 gap-3">
         <div>
-          <div className="text-xs uppercase tracking-wide text-soil-500">Temperature</div>
+          <div className="text-soil-500 text-xs tracking-wide uppercase">Temperature</div>
           <div className="tabular text-2xl font-bold">{t ? formatTemperature(t.value, units) : "—"}</div>
           <StatusMark band={tBand} />
           {species && (
@@ -54,7 +55,7 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
           )}
         </div>
         <div>
-          <div className="text-xs uppercase tracking-wide text-soil-500">Moisture</div>
+          <div className="text-soil-500 text-xs tracking-wide uppercase">Moisture</div>
           <div className="tabular text-2xl font-bold">{m ? formatPercent(m.value) : "—"}</div>
           <StatusMark band={mBand} />
           {species && (
@@ -82,25 +83,35 @@ function ClaimButton({ alertId, farmId }: { alertId: string; farmId: string }) {
   }
   return (
     <div className="mt-2">
-      <button onClick={claim} className="min-h-11 rounded-lg bg-soil-800 px-4 font-bold text-white">I&apos;m on it</button>
-      <span aria-live="polite" className="ml-2 text-sm">{note}</span>
+      <button onClick={claim} className="bg-soil-800 min-h-11 rounded-lg px-4 font-bold text-white">
+        I&apos;m on it
+      </button>
+      <span aria-live="polite" className="ml-2 text-sm">
+        {note}
+      </span>
     </div>
   );
 }
 
 export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: UnitSystem; canLog: boolean }) {
   const { data, error } = useToday(farmId);
-  if (!data) return <p className="p-4 text-soil-700">{error ? error.message : "Loading…"}</p>;
+  if (!data) return <p className="text-soil-700 p-4">{error ? error.message : "Loading…"}</p>;
   return (
     <div className="space-y-4 p-3">
-      <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="alerts-h" className="text-lg font-bold">Open alerts</h2>
+      <section aria-labelledby="alerts-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+        <h2 id="alerts-h" className="text-lg font-bold">
+          Open alerts
+        </h2>
         {data.alerts.length === 0 ? (
-          <p className="mt-1 text-soil-700">None. Every bin is quiet.</p>
+          <p className="text-soil-700 mt-1">None. Every bin is quiet.</p>
         ) : (
           <ul className="mt-2 space-y-2">
             {data.alerts.map((a) => (
-              <li key={a.id} id={`alert-${a.id}`} className={`rounded-xl p-3 ring-1 ${a.level === "act_now" ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}>
+              <li
+                key={a.id}
+                id={`alert-${a.id}`}
+                className={`rounded-xl p-3 ring-1 ${a.level === "act_now" ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}
+              >
                 <div className="flex justify-between gap-2 font-bold">
                   <span className="flex items-center gap-1">
                     <svg viewBox="0 0 16 16" width="16" height="16" aria-hidden="true">
@@ -113,7 +124,9 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
                     {a.level === "act_now" ? "Act now" : "Heads-up"} · {KIND_WORDS[a.kind] ?? a.kind}
                     {a.binName ? ` · ${a.binName}` : ""}
                   </span>
-                  <span className="text-sm font-normal">{a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(String(a.raisedAt))}`}</span>
+                  <span className="text-sm font-normal">
+                    {a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(String(a.raisedAt))}`}
+                  </span>
                 </div>
                 <p className="text-sm">{a.message}</p>
                 {canLog && a.state === "raised" && <ClaimButton alertId={a.id} farmId={farmId} />}
@@ -123,21 +136,23 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
         )}
       </section>
       {data.bins.length === 0 && (
-        <p className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-          No bins yet. An owner adds bins and their zones; probes then report here.
-        </p>
+        <p className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">No bins yet. An owner adds bins and their zones; probes then report here.</p>
       )}
       {data.bins.map((bin) => {
         const species = getSpecies(bin.species);
         return (
-          <section key={bin.id} aria-label={bin.name} className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+          <section key={bin.id} aria-label={bin.name} className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
             <header className="mb-1">
               <h2 className="text-xl font-bold">
-                <Link href={`/farms/${farmId}/bins/${bin.id}`} className="inline-flex min-h-11 items-center underline underline-offset-4">{bin.name}</Link>
+                <Link href={`/farms/${farmId}/bins/${bin.id}`} className="inline-flex min-h-11 items-center underline underline-offset-4">
+                  {bin.name}
+                </Link>
               </h2>
-              <p className="text-sm text-soil-700">
+              <p className="text-soil-700 text-sm">
                 {bin.style} · <i>{species?.name ?? bin.species}</i>
-                {species ? ` · comfortable ${formatTemperature(species.temperatureC.comfortLow, units, { digits: 0 })}–${formatTemperature(species.temperatureC.comfortHigh, units, { digits: 0 })}` : ""}
+                {species
+                  ? ` · comfortable ${formatTemperature(species.temperatureC.comfortLow, units, { digits: 0 })}–${formatTemperature(species.temperatureC.comfortHigh, units, { digits: 0 })}`
+                  : ""}
               </p>
             </header>
             {bin.zones.length === 0 ? (

@@ -3,12 +3,7 @@ import { db } from "@/db";
 import { alerts, bins, memberships, probes, zones } from "@/db/schema";
 import type { Role } from "@/db/schema";
 
-export type Target =
-  | { farmId: string }
-  | { binId: string }
-  | { zoneId: string }
-  | { probeId: number }
-  | { alertId: string };
+export type Target = { farmId: string } | { binId: string } | { zoneId: string } | { probeId: number } | { alertId: string };
 
 const uuidRe = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
@@ -23,11 +18,7 @@ export async function farmOfTarget(target: Target): Promise<string | null> {
   }
   if ("zoneId" in target) {
     if (!uuidRe.test(target.zoneId)) return null;
-    const [r] = await d
-      .select({ farmId: bins.farmId })
-      .from(zones)
-      .innerJoin(bins, eq(bins.id, zones.binId))
-      .where(eq(zones.id, target.zoneId));
+    const [r] = await d.select({ farmId: bins.farmId }).from(zones).innerJoin(bins, eq(bins.id, zones.binId)).where(eq(zones.id, target.zoneId));
     return r?.farmId ?? null;
   }
   if ("probeId" in target) {

@@ -4,9 +4,7 @@ import { alertEvents, alerts, bins, users, zones } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 
 export async function listAlerts(farmId: string, opts: { open?: boolean; limit?: number } = {}) {
-  const where = opts.open
-    ? and(eq(alerts.farmId, farmId), inArray(alerts.state, ["raised", "claimed"]))
-    : eq(alerts.farmId, farmId);
+  const where = opts.open ? and(eq(alerts.farmId, farmId), inArray(alerts.state, ["raised", "claimed"])) : eq(alerts.farmId, farmId);
   return db()
     .select({
       alert: alerts,

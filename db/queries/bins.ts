@@ -40,7 +40,10 @@ export async function createBin(
 ) {
   const { zoneKinds, ...bin } = input;
   return db().transaction(async (tx) => {
-    const [b] = await tx.insert(bins).values({ ...bin, farmId }).returning();
+    const [b] = await tx
+      .insert(bins)
+      .values({ ...bin, farmId })
+      .returning();
     const zs = await tx
       .insert(zones)
       .values(zoneKinds.map((kind, i) => ({ binId: b!.id, position: i + 1, kind })))
@@ -70,13 +73,13 @@ export async function getZone(id: string) {
 
 export async function addZone(binId: string, input: { kind: ZoneKind; name?: string | null }) {
   return db().transaction(async (tx) => {
-    const live = await tx
-      .select({ position: zones.position, archivedAt: zones.archivedAt })
-      .from(zones)
-      .where(eq(zones.binId, binId));
+    const live = await tx.select({ position: zones.position, archivedAt: zones.archivedAt }).from(zones).where(eq(zones.binId, binId));
     if (live.filter((z) => !z.archivedAt).length >= 6) throw new AppError("invalid", "A bin has at most 6 zones.", "kind");
     const position = Math.max(0, ...live.map((z) => z.position)) + 1;
-    const [z] = await tx.insert(zones).values({ binId, position, kind: input.kind, name: input.name ?? null }).returning();
+    const [z] = await tx
+      .insert(zones)
+      .values({ binId, position, kind: input.kind, name: input.name ?? null })
+      .returning();
     return z!;
   });
 }

@@ -105,7 +105,13 @@ export async function nextDueIn(): Promise<number | null> {
 export async function retryDelivery(d: Pick<Delivery, "id" | "attempts">, inMs: number, status: number | null, reason: string) {
   const r = await db()
     .update(deliveries)
-    .set({ state: "pending", nextAttemptAt: sql`now() + ${Math.round(inMs)} * interval '1 millisecond'`, lockedUntil: null, lastStatus: status, lastReason: reason })
+    .set({
+      state: "pending",
+      nextAttemptAt: sql`now() + ${Math.round(inMs)} * interval '1 millisecond'`,
+      lockedUntil: null,
+      lastStatus: status,
+      lastReason: reason,
+    })
     .where(and(eq(deliveries.id, d.id), eq(deliveries.state, "sending"), eq(deliveries.attempts, d.attempts)))
     .returning({ id: deliveries.id });
   return r.length === 1;
@@ -147,7 +153,11 @@ export async function endDelivery(d: Pick<Delivery, "id" | "attempts" | "alertId
       ).rows as { open: number; sent: number }[];
       if (left && left.open === 0 && left.sent === 0) {
         const m = end.mailFallback;
-        const r = await tx.insert(deliveries).values({ ...m, subscriptionId: null }).onConflictDoNothing({ target: deliveries.dedupeKey }).returning({ id: deliveries.id });
+        const r = await tx
+          .insert(deliveries)
+          .values({ ...m, subscriptionId: null })
+          .onConflictDoNothing({ target: deliveries.dedupeKey })
+          .returning({ id: deliveries.id });
         mailed = r.length > 0;
         if (mailed) await tx.execute(sql`select pg_notify(${DELIVERIES_CHANNEL}, '')`);
       }
@@ -161,15 +171,18 @@ export async function endDelivery(d: Pick<Delivery, "id" | "attempts" | "alertId
 export async function pruneDeliveries(olderThanMs = 7 * 24 * 3600_000) {
   const r = await db()
     .delete(deliveries)
-    .where(and(inArray(deliveries.state, ["sent", "failed", "gone", "dropped"]), sql`${deliveries.createdAt} < now() - ${olderThanMs} * interval '1 millisecond'`))
+    .where(
+      and(inArray(deliveries.state, ["sent", "failed", "gone", "dropped"]), sql`${deliveries.createdAt} < now() - ${olderThanMs} * interval '1 millisecond'`),
+    )
     .returning({ id: deliveries.id });
   return r.length;
 }
 
 export async function listDeliveries(where: { alertId?: string; userId?: string }) {
-  const conds = [
-    ...(where.alertId ? [eq(deliveries.alertId, where.alertId)] : []),
-    ...(where.userId ? [eq(deliveries.userId, where.userId)] : []),
-  ];
-  return db().select().from(deliveries).where(conds.length ? and(...conds) : undefined).orderBy(deliveries.id);
+  const conds = [...(where.alertId ? [eq(deliveries.alertId, where.alertId)] : []), ...(where.userId ? [eq(deliveries.userId, where.userId)] : [])];
+  return db()
+    .select()
+    .from(deliveries)
+    .where(conds.length ? and(...conds) : undefined)
+    .orderBy(deliveries.id);
 }

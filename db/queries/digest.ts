@@ -36,7 +36,11 @@ export type DigestFeedings = { binId: string; count: number; totalKg: number | n
 export async function getDigestData(farmId: string, from: Date, to: Date) {
   const d = db();
   const [binRows, zoneRows, ranges, alertRows, feedingRows] = await Promise.all([
-    d.select({ id: bins.id, name: bins.name }).from(bins).where(and(eq(bins.farmId, farmId), isNull(bins.archivedAt))).orderBy(bins.name),
+    d
+      .select({ id: bins.id, name: bins.name })
+      .from(bins)
+      .where(and(eq(bins.farmId, farmId), isNull(bins.archivedAt)))
+      .orderBy(bins.name),
     d
       .select({ id: zones.id, binId: zones.binId, kind: zones.kind, name: zones.name, position: zones.position })
       .from(zones)

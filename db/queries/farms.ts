@@ -8,10 +8,7 @@ export async function getFarm(id: string) {
   return f ?? null;
 }
 
-export async function createFarm(
-  ownerId: string,
-  input: { name: string; unitSystem: "metric" | "imperial"; timezone: string },
-) {
+export async function createFarm(ownerId: string, input: { name: string; unitSystem: "metric" | "imperial"; timezone: string }) {
   return db().transaction(async (tx) => {
     const [farm] = await tx.insert(farms).values(input).returning();
     await tx.insert(memberships).values({ userId: ownerId, farmId: farm!.id, role: "owner" });

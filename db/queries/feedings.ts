@@ -37,9 +37,7 @@ export async function listFeedings(binId: string, opts: { since?: Date; limit?: 
     .orderBy(desc(feedings.at))
     .limit(opts.limit ?? 50);
   const ids = rows.map((r) => r.feeding.id);
-  const items = ids.length
-    ? await db().select().from(feedingItems).where(inArray(feedingItems.feedingId, ids))
-    : [];
+  const items = ids.length ? await db().select().from(feedingItems).where(inArray(feedingItems.feedingId, ids)) : [];
   return rows.map((r) => ({ ...r.feeding, byName: r.byName, items: items.filter((i) => i.feedingId === r.feeding.id) }));
 }
 export type FeedingEntry = Awaited<ReturnType<typeof listFeedings>>[number];

@@ -2,16 +2,7 @@ import { createHash } from "node:crypto";
 import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { imports, probes } from "@/db/schema";
-import {
-  checkMapping,
-  decodeFile,
-  mapRows,
-  readCsv,
-  MAX_IMPORT_ROWS,
-  MAX_REPORTED,
-  type BadRow,
-  type ImportMapping,
-} from "@/lib/csv-import";
+import { checkMapping, decodeFile, mapRows, readCsv, MAX_IMPORT_ROWS, MAX_REPORTED, type BadRow, type ImportMapping } from "@/lib/csv-import";
 import { AppError } from "@/lib/errors";
 import { REASONS_KEPT, reasonLines } from "@/lib/telemetry";
 import { insertReadings, recordRejections } from "./readings";
@@ -95,7 +86,17 @@ export async function importCsv(input: {
     if (firstBad) {
       const lines = mapped.bad.slice(0, REASONS_KEPT).map((b) => `line ${b.line}: ${b.reason}`);
       await recordRejections(
-        [{ farmId: input.farmId, probeId: null, source: "csv", topic: null, reason: reasonLines(lines, mapped.bad.length), records: mapped.bad.length, excerpt: `${input.fileName.slice(0, 120)} line ${firstBad.line}` }],
+        [
+          {
+            farmId: input.farmId,
+            probeId: null,
+            source: "csv",
+            topic: null,
+            reason: reasonLines(lines, mapped.bad.length),
+            records: mapped.bad.length,
+            excerpt: `${input.fileName.slice(0, 120)} line ${firstBad.line}`,
+          },
+        ],
         tx,
       );
     }

@@ -23,7 +23,10 @@ export async function usableIngredientIds(farmId: string, ids: string[]): Promis
 
 export async function addIngredient(farmId: string, input: Omit<typeof ingredients.$inferInsert, "farmId" | "id" | "createdAt">) {
   try {
-    const [row] = await db().insert(ingredients).values({ ...input, farmId }).returning();
+    const [row] = await db()
+      .insert(ingredients)
+      .values({ ...input, farmId })
+      .returning();
     return row!;
   } catch (e) {
     const code = (e as { code?: string; cause?: { code?: string } }).cause?.code ?? (e as { code?: string }).code;

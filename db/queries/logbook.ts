@@ -10,7 +10,6 @@ const tables = { feeding: feedings, watering: wateringsTable, harvest: harvests,
 
 type Common = { farmId: string; binId: string; zoneId: string | null; at: Date; byUserId: string; notes: string | null };
 
-
 export async function insertWatering(w: Common & { litres: number }) {
   await assertZoneInBin(w.binId, w.zoneId);
   const [row] = await db().insert(wateringsTable).values(w).returning();
@@ -98,11 +97,41 @@ export async function listLogbook(binId: string, opts: { limit?: number } = {}):
   });
   const d = db();
   const [f, w, h, n, s] = await Promise.all([
-    d.select({ ...base(feedings), totalKg: feedings.totalKg, mixMoisturePct: feedings.mixMoisturePct, mixCn: feedings.mixCn }).from(feedings).leftJoin(users, eq(users.id, feedings.byUserId)).where(eq(feedings.binId, binId)).orderBy(desc(feedings.at)).limit(limit),
-    d.select({ ...base(wateringsTable), litres: wateringsTable.litres }).from(wateringsTable).leftJoin(users, eq(users.id, wateringsTable.byUserId)).where(eq(wateringsTable.binId, binId)).orderBy(desc(wateringsTable.at)).limit(limit),
-    d.select({ ...base(harvests), massKg: harvests.massKg }).from(harvests).leftJoin(users, eq(users.id, harvests.byUserId)).where(eq(harvests.binId, binId)).orderBy(desc(harvests.at)).limit(limit),
-    d.select({ ...base(logNotes), text: logNotes.text }).from(logNotes).leftJoin(users, eq(users.id, logNotes.byUserId)).where(eq(logNotes.binId, binId)).orderBy(desc(logNotes.at)).limit(limit),
-    d.select({ ...base(ovenDrySamples), moistureWbPct: ovenDrySamples.moistureWbPct, rawReading: ovenDrySamples.rawReading }).from(ovenDrySamples).leftJoin(users, eq(users.id, ovenDrySamples.byUserId)).where(eq(ovenDrySamples.binId, binId)).orderBy(desc(ovenDrySamples.at)).limit(limit),
+    d
+      .select({ ...base(feedings), totalKg: feedings.totalKg, mixMoisturePct: feedings.mixMoisturePct, mixCn: feedings.mixCn })
+      .from(feedings)
+      .leftJoin(users, eq(users.id, feedings.byUserId))
+      .where(eq(feedings.binId, binId))
+      .orderBy(desc(feedings.at))
+      .limit(limit),
+    d
+      .select({ ...base(wateringsTable), litres: wateringsTable.litres })
+      .from(wateringsTable)
+      .leftJoin(users, eq(users.id, wateringsTable.byUserId))
+      .where(eq(wateringsTable.binId, binId))
+      .orderBy(desc(wateringsTable.at))
+      .limit(limit),
+    d
+      .select({ ...base(harvests), massKg: harvests.massKg })
+      .from(harvests)
+      .leftJoin(users, eq(users.id, harvests.byUserId))
+      .where(eq(harvests.binId, binId))
+      .orderBy(desc(harvests.at))
+      .limit(limit),
+    d
+      .select({ ...base(logNotes), text: logNotes.text })
+      .from(logNotes)
+      .leftJoin(users, eq(users.id, logNotes.byUserId))
+      .where(eq(logNotes.binId, binId))
+      .orderBy(desc(logNotes.at))
+      .limit(limit),
+    d
+      .select({ ...base(ovenDrySamples), moistureWbPct: ovenDrySamples.moistureWbPct, rawReading: ovenDrySamples.rawReading })
+      .from(ovenDrySamples)
+      .leftJoin(users, eq(users.id, ovenDrySamples.byUserId))
+      .where(eq(ovenDrySamples.binId, binId))
+      .orderBy(desc(ovenDrySamples.at))
+      .limit(limit),
   ]);
   const all: LogbookEntry[] = [
     ...f.map(({ totalKg, ...r }) => ({ ...r, kind: "feeding" as const, massKg: totalKg ?? undefined })),
@@ -133,7 +162,15 @@ export async function deleteLogEntry(kind: LogKind, id: string): Promise<boolean
 
 export async function getProbePlace(probeId: number) {
   const [row] = await db()
-    .select({ id: probes.id, farmId: probes.farmId, code: probes.code, label: probes.label, zoneId: probes.zoneId, binId: zones.binId, calibration: probes.calibration })
+    .select({
+      id: probes.id,
+      farmId: probes.farmId,
+      code: probes.code,
+      label: probes.label,
+      zoneId: probes.zoneId,
+      binId: zones.binId,
+      calibration: probes.calibration,
+    })
     .from(probes)
     .leftJoin(zones, eq(zones.id, probes.zoneId))
     .where(eq(probes.id, probeId));
@@ -154,7 +191,17 @@ export async function nearestRawReading(probeId: number, at: Date, windowMs = 10
   return row ?? null;
 }
 
-export async function insertSample(s: Common & { probeId: number; wetMassG: number; dryMassG: number; tareG: number; ovenTempC: number | null; rawReading: number | null; moistureWbPct: number }) {
+export async function insertSample(
+  s: Common & {
+    probeId: number;
+    wetMassG: number;
+    dryMassG: number;
+    tareG: number;
+    ovenTempC: number | null;
+    rawReading: number | null;
+    moistureWbPct: number;
+  },
+) {
   const [row] = await db().insert(ovenDrySamples).values(s).returning();
   return row!;
 }

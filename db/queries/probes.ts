@@ -83,10 +83,21 @@ export async function listFarmProbesWithStatus(farmId: string) {
   return r.rows;
 }
 
-export async function createProbe(input: { farmId: string; zoneId: string | null; code: string; label: string | null; metrics: string[]; reportIntervalS: number; token: string }) {
+export async function createProbe(input: {
+  farmId: string;
+  zoneId: string | null;
+  code: string;
+  label: string | null;
+  metrics: string[];
+  reportIntervalS: number;
+  token: string;
+}) {
   const { token, ...row } = input;
   try {
-    const [p] = await db().insert(probes).values({ ...row, tokenHash: hashToken(token) }).returning();
+    const [p] = await db()
+      .insert(probes)
+      .values({ ...row, tokenHash: hashToken(token) })
+      .returning();
     return p!;
   } catch (e) {
     const code = (e as { code?: string; cause?: { code?: string } }).cause?.code ?? (e as { code?: string }).code;
@@ -105,7 +116,11 @@ export async function updateProbe(id: number, patch: Partial<Pick<Probe, "zoneId
 }
 
 export async function replaceProbeToken(id: number, token: string) {
-  const [p] = await db().update(probes).set({ tokenHash: hashToken(token) }).where(eq(probes.id, id)).returning();
+  const [p] = await db()
+    .update(probes)
+    .set({ tokenHash: hashToken(token) })
+    .where(eq(probes.id, id))
+    .returning();
   return p ?? null;
 }
 

@@ -2,10 +2,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import { db } from "@/db";
 import { memberships, pushSubscriptions, users } from "@/db/schema";
 
-export async function savePushSubscription(
-  userId: string,
-  sub: { endpoint: string; p256dh: string; auth: string; userAgent?: string | null },
-) {
+export async function savePushSubscription(userId: string, sub: { endpoint: string; p256dh: string; auth: string; userAgent?: string | null }) {
   // A browser re-subscribing keeps one row per person and endpoint; another person's row is never touched.
   const [row] = await db()
     .insert(pushSubscriptions)
@@ -38,7 +35,15 @@ export async function listPushSubscriptions(userIds: string[]) {
 // Who hears about a farm's alerts: its owners and keepers (viewers only read).
 export async function listCrew(farmId: string) {
   return db()
-    .select({ id: users.id, name: users.name, email: users.email, role: memberships.role, quietFrom: users.quietFrom, quietTo: users.quietTo, timezone: users.timezone })
+    .select({
+      id: users.id,
+      name: users.name,
+      email: users.email,
+      role: memberships.role,
+      quietFrom: users.quietFrom,
+      quietTo: users.quietTo,
+      timezone: users.timezone,
+    })
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(and(eq(memberships.farmId, farmId), inArray(memberships.role, ["owner", "keeper"])));

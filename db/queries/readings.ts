@@ -21,10 +21,7 @@ const byKey = (a: ReadingInput, b: ReadingInput) =>
   a.probeId - b.probeId || (a.metric < b.metric ? -1 : a.metric > b.metric ? 1 : 0) || a.ts.getTime() - b.ts.getTime();
 
 // Rollups merge only the rows this statement inserted (RETURNING), so a resent reading never counts twice.
-export async function insertReadings(
-  rows: readonly ReadingInput[],
-  ex: Executor = db(),
-): Promise<{ inserted: number; probeIds: number[] }> {
+export async function insertReadings(rows: readonly ReadingInput[], ex: Executor = db()): Promise<{ inserted: number; probeIds: number[] }> {
   if (rows.length === 0) return { inserted: 0, probeIds: [] };
   // Key order: concurrent writers lock rows in the same order, so they cannot deadlock.
   const sorted = [...rows].sort(byKey);

@@ -19,7 +19,10 @@ export async function loadZoneRuleContext(
     .innerJoin(farms, eq(farms.id, bins.farmId))
     .where(eq(zones.id, zoneId));
   if (!z || z.zone.archivedAt || z.bin.archivedAt) return null;
-  const zoneProbes = await d.select().from(probes).where(and(eq(probes.zoneId, zoneId), isNull(probes.archivedAt)));
+  const zoneProbes = await d
+    .select()
+    .from(probes)
+    .where(and(eq(probes.zoneId, zoneId), isNull(probes.archivedAt)));
   const probeIds = zoneProbes.map((p) => p.id);
   const since = (ms: number) => new Date(now.getTime() - ms);
   const ruleRows = await d.select().from(rules).where(eq(rules.farmId, z.bin.farmId));
@@ -31,7 +34,10 @@ export async function loadZoneRuleContext(
           where probe_id = any(${sql.param(probeIds)}::int[]) and ts >= ${since(windows.readingsMs).toISOString()} and ts <= ${now.toISOString()}
           order by probe_id, metric, ts`)
       : Promise.resolve({ rows: [] }),
-    d.select().from(feedings).where(and(eq(feedings.binId, z.bin.id), gte(feedings.at, since(windows.feedingsMs)))),
+    d
+      .select()
+      .from(feedings)
+      .where(and(eq(feedings.binId, z.bin.id), gte(feedings.at, since(windows.feedingsMs)))),
     probeIds.length
       ? d
           .select({ probeId: rejectedMessages.probeId, at: rejectedMessages.receivedAt, reason: rejectedMessages.reason })
@@ -42,13 +48,18 @@ export async function loadZoneRuleContext(
       .select()
       .from(alerts)
       .where(
-        and(
-          inArray(alerts.state, ["raised", "claimed"]),
-          or(eq(alerts.zoneId, zoneId), probeIds.length ? inArray(alerts.probeId, probeIds) : sql`false`),
-        ),
+        and(inArray(alerts.state, ["raised", "claimed"]), or(eq(alerts.zoneId, zoneId), probeIds.length ? inArray(alerts.probeId, probeIds) : sql`false`)),
       ),
   ]);
-  return { ...z, probes: zoneProbes, readings: readingRows.rows as { probeId: number; metric: string; ts: Date; value: number }[], rules: ruleRows, feedings: feedingRows, refusals: refusalRows, openAlerts: openRows };
+  return {
+    ...z,
+    probes: zoneProbes,
+    readings: readingRows.rows as { probeId: number; metric: string; ts: Date; value: number }[],
+    rules: ruleRows,
+    feedings: feedingRows,
+    refusals: refusalRows,
+    openAlerts: openRows,
+  };
 }
 
 // Zones that have live probes: the minute sweep looks at these for silence.

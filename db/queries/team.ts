@@ -5,13 +5,15 @@ import { farms, invitations, memberships, users, type Role } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 
 export async function listTeam(farmId: string) {
-  return db()
-    .select({ userId: users.id, name: users.name, email: users.email, role: memberships.role, joinedAt: memberships.createdAt })
-    .from(memberships)
-    .innerJoin(users, eq(users.id, memberships.userId))
-    .where(eq(memberships.farmId, farmId))
-    // Owners first, then keepers, then viewers (the enum's order), each by name.
-    .orderBy(asc(memberships.role), asc(users.name));
+  return (
+    db()
+      .select({ userId: users.id, name: users.name, email: users.email, role: memberships.role, joinedAt: memberships.createdAt })
+      .from(memberships)
+      .innerJoin(users, eq(users.id, memberships.userId))
+      .where(eq(memberships.farmId, farmId))
+      // Owners first, then keepers, then viewers (the enum's order), each by name.
+      .orderBy(asc(memberships.role), asc(users.name))
+  );
 }
 
 const inviter = alias(users, "inviter");

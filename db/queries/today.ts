@@ -44,12 +44,7 @@ async function sparklines(farmId: string, hours = 24): Promise<SparkPoint[]> {
 }
 
 export async function getToday(farmId: string) {
-  const [binList, latest, spark, open] = await Promise.all([
-    listBins(farmId),
-    latestByZone(farmId),
-    sparklines(farmId),
-    listAlerts(farmId, { open: true }),
-  ]);
+  const [binList, latest, spark, open] = await Promise.all([listBins(farmId), latestByZone(farmId), sparklines(farmId), listAlerts(farmId, { open: true })]);
   return {
     bins: binList.map((b) => ({
       ...b,

@@ -42,7 +42,9 @@ export function summarize(data: DigestData, units: UnitSystem): BinSummary[] {
     const kinds = counts
       .filter((a) => a.raised > 0)
       .sort((a, b) => (a.level === b.level ? a.kind.localeCompare(b.kind) : a.level === "act_now" ? -1 : 1))
-      .map((a) => `${a.raised} ${LEVEL_WORDS[a.level as keyof typeof LEVEL_WORDS].toLowerCase()} ${KIND_WORDS[a.kind as keyof typeof KIND_WORDS].toLowerCase()}`);
+      .map(
+        (a) => `${a.raised} ${LEVEL_WORDS[a.level as keyof typeof LEVEL_WORDS].toLowerCase()} ${KIND_WORDS[a.kind as keyof typeof KIND_WORDS].toLowerCase()}`,
+      );
     lines.push(raised || settled ? `Alerts: ${raised} raised${kinds.length ? ` (${kinds.join(", ")})` : ""}, ${settled} settled` : "Alerts: none");
     for (const z of data.zones.filter((z) => z.binId === bin.id)) {
       const label = z.name ?? `${z.kind[0]!.toUpperCase()}${z.kind.slice(1)} zone`;

@@ -47,7 +47,15 @@ async function messageOf(alert: Alert, reason: Reason) {
 // The e-mail row for a person; its key is shared with the fallback the worker adds when all of
 // that person's pushes failed, so a person gets one mail per notification either way.
 export function mailDelivery(alert: Pick<Alert, "id" | "farmId">, reason: string, userId: string, mail: MailContent, key = ""): NewDelivery {
-  return { dedupeKey: `${alert.id}:${reason}${key}:email:${userId}`, farmId: alert.farmId, alertId: alert.id, userId, channel: "email", reason, payload: { mail } };
+  return {
+    dedupeKey: `${alert.id}:${reason}${key}:email:${userId}`,
+    farmId: alert.farmId,
+    alertId: alert.id,
+    userId,
+    channel: "email",
+    reason,
+    payload: { mail },
+  };
 }
 
 async function deliveriesFor(alert: Alert, reason: Reason, people: { id: string; role: string }[], key = "") {

@@ -28,7 +28,9 @@ export function logEntryRoutes<S extends z.ZodType<Common>, R>(o: {
     const { binId } = await params;
     const who = await requireMember({ binId }, "log");
     const { zoneId, at, notes, ...rest } = o.schema.parse(await readJson(req));
-    const row = { ...rest, farmId: who.farmId, binId, zoneId: zoneId ?? null, at: at ?? new Date(), byUserId: who.userId, notes: notes ?? null } as LogEntryRow<z.infer<S>>;
+    const row = { ...rest, farmId: who.farmId, binId, zoneId: zoneId ?? null, at: at ?? new Date(), byUserId: who.userId, notes: notes ?? null } as LogEntryRow<
+      z.infer<S>
+    >;
     return Response.json({ [o.one]: await o.insert(row) }, { status: 201 });
   });
   return { GET, POST };

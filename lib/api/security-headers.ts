@@ -81,5 +81,9 @@ export function servedOverHttps(req: Request): boolean {
 
 /** All security headers for one response. */
 export function securityHeaders(contentPolicy: string, https: boolean): [string, string][] {
-  return [["Content-Security-Policy", contentPolicy], ...Object.entries(COMMON_HEADERS), ...(https ? [["Strict-Transport-Security", HSTS] as [string, string]] : [])];
+  return [
+    ["Content-Security-Policy", contentPolicy],
+    ...Object.entries(COMMON_HEADERS),
+    ...(https ? [["Strict-Transport-Security", HSTS] as [string, string]] : []),
+  ];
 }

@@ -106,7 +106,7 @@ function estimatedVerdict(ctx: RuleContext): Verdict | null {
     reasons.push(
       risk.lowCn
         ? `the feeding at ${when} was rich in nitrogen (C:N ${formatNumber(cn, 0)}, below ${formatNumber(r.riskCnBelow, 0)}:1; ` +
-          "below about 30:1 the extra nitrogen leaves as ammonia)"
+            "below about 30:1 the extra nitrogen leaves as ammonia)"
         : `the feeding at ${when} was balanced (C:N ${formatNumber(cn, 0)})`,
     );
     if (risk.wet) reasons.push(`its mix was wet (${w.pct(risk.feeding.mixMoisturePct!)})`);

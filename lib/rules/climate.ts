@@ -46,8 +46,7 @@ export function heatVerdict(ctx: RuleContext): Verdict | null {
       // The least-squares window is what makes the rise "sustained"; it needs no extra hold.
       { id: "fast-rise", level: "heads_up", holdMs: 0, holds: (i) => fastRise(i, r.riseRateCPerHour) },
     ];
-    const clear = (i: number) =>
-      s[i]!.v <= r.headsUpAboveC - r.deadbandC && !fastRise(i, r.riseRateCPerHour - r.riseDeadbandCPerHour);
+    const clear = (i: number) => s[i]!.v <= r.headsUpAboveC - r.deadbandC && !fastRise(i, r.riseRateCPerHour - r.riseDeadbandCPerHour);
     const j = judge(view, triggers, clear, r.settleMinutes * MINUTE);
     const f = watched(j.i);
     extra.set(j, { rate: rate(j.i), feedingAt: f?.at ?? null, feedingKg: f?.totalKg ?? null });
@@ -61,8 +60,7 @@ export function heatVerdict(ctx: RuleContext): Verdict | null {
       const { rate, feedingAt, feedingKg } = extra.get(worst)!;
       const now = withTrend(w.temp(worst.last.v), w.tempTrend(rate));
       // The feeding's clock time, not "n h ago": a message that changes every minute is churn.
-      const feed =
-        feedingAt === null ? "" : ` since the ${feedingKg ? `${formatNumber(feedingKg, 1)} kg ` : ""}feeding at ${w.clock(feedingAt)}`;
+      const feed = feedingAt === null ? "" : ` since the ${feedingKg ? `${formatNumber(feedingKg, 1)} kg ` : ""}feeding at ${w.clock(feedingAt)}`;
       let message: string;
       switch (worst.held?.id) {
         case "warm-stress":
@@ -168,8 +166,7 @@ export function dryingVerdict(ctx: RuleContext): Verdict | null {
       // A day's least-squares line is already smooth; it needs no extra hold.
       { id: "drying-trend", level: "heads_up", holdMs: 0, holds: (i) => crossesWithin(i, r.trendHorizonHours * HOUR) },
     ];
-    const clear = (i: number) =>
-      s[i]!.v >= r.headsUpBelowPct + r.deadbandPct && !crossesWithin(i, r.trendSettleHorizonHours * HOUR);
+    const clear = (i: number) => s[i]!.v >= r.headsUpBelowPct + r.deadbandPct && !crossesWithin(i, r.trendSettleHorizonHours * HOUR);
     const j = judge(view, triggers, clear, r.settleMinutes * MINUTE);
     trends.set(j, trend(j.i));
     return j;
@@ -192,8 +189,7 @@ export function dryingVerdict(ctx: RuleContext): Verdict | null {
           break;
         case "drying-trend":
           message =
-            `${w.place}: ${now}; at this rate it drops below ${w.pct(r.headsUpBelowPct)} ` +
-            `in about ${w.span(at! - worst.last.t)} (around ${w.clock(at!)}).`;
+            `${w.place}: ${now}; at this rate it drops below ${w.pct(r.headsUpBelowPct)} ` + `in about ${w.span(at! - worst.last.t)} (around ${w.clock(at!)}).`;
           break;
         default:
           message = `${w.place}: ${now}, near the bottom of the comfortable ${band}.`;

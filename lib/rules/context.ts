@@ -39,8 +39,7 @@ export function makeContext(input: ZoneRuleInput, rules: ResolvedRules, w: Words
   const { now } = input;
   const probes = new Map(input.probes.map((p) => [p.id, p]));
   const silent = rules.silent_probe.t;
-  const silentAfterMs = (p: ProbeContext | undefined) =>
-    Math.max(silent.missedReports * (p?.reportIntervalS ?? 60) * 1000, silent.minSilentMinutes * MINUTE);
+  const silentAfterMs = (p: ProbeContext | undefined) => Math.max(silent.missedReports * (p?.reportIntervalS ?? 60) * 1000, silent.minSilentMinutes * MINUTE);
 
   const grouped = new Map<string, { probeId: number; metric: Metric; points: { t: number; v: number }[] }>();
   for (const r of input.readings) {
@@ -59,9 +58,7 @@ export function makeContext(input: ZoneRuleInput, rules: ResolvedRules, w: Words
     .filter((v) => v.raw.length > 0)
     .sort((a, b) => a.probeId - b.probeId);
 
-  const mine = input.recentFeedings
-    .filter((f) => Number.isFinite(f.at) && (f.zoneId == null || f.zoneId === input.zone.id))
-    .sort((a, b) => b.at - a.at);
+  const mine = input.recentFeedings.filter((f) => Number.isFinite(f.at) && (f.zoneId == null || f.zoneId === input.zone.id)).sort((a, b) => b.at - a.at);
 
   return {
     input,
@@ -97,11 +94,7 @@ export const rank = (l: AlertLevel | null | undefined) => (l ? RANK[l] : 0);
 export function worstOf(judged: readonly Judged[], extremity: (j: Judged) => number): Judged | null {
   let best: Judged | null = null;
   for (const j of judged) {
-    if (
-      !best ||
-      rank(j.held?.level) > rank(best.held?.level) ||
-      (rank(j.held?.level) === rank(best.held?.level) && extremity(j) > extremity(best))
-    ) {
+    if (!best || rank(j.held?.level) > rank(best.held?.level) || (rank(j.held?.level) === rank(best.held?.level) && extremity(j) > extremity(best))) {
       best = j;
     }
   }

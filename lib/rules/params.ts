@@ -6,15 +6,7 @@ import type { AlertKind } from "@/db/schema";
 import { fail, ok, type Result } from "../result";
 import type { SpeciesProfile } from "../species";
 
-export const ALERT_KINDS = [
-  "heat",
-  "chill",
-  "drying",
-  "soggy",
-  "ammonia",
-  "silent_probe",
-  "probe_fault",
-] as const satisfies readonly AlertKind[];
+export const ALERT_KINDS = ["heat", "chill", "drying", "soggy", "ammonia", "silent_probe", "probe_fault"] as const satisfies readonly AlertKind[];
 export type RuleKind = (typeof ALERT_KINDS)[number];
 // Fails to compile when db/schema.ts gains a kind this list lacks.
 const everyKind: AlertKind extends RuleKind ? true : never = true;
@@ -67,12 +59,8 @@ export const RULE_PARAMETERS = {
   ],
   drying: [
     param("headsUpBelowPct", "Heads-up below", "%", "species: bottom of the comfortable moisture band", (s) => s.moisturePct.comfortLow),
-    param(
-      "actNowBelowPct",
-      "Act now below",
-      "%",
-      `${COMMON}: half-way from the band to the species' survival limit`,
-      (s) => mid(s.moisturePct.lethalDry, s.moisturePct.comfortLow),
+    param("actNowBelowPct", "Act now below", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
+      mid(s.moisturePct.lethalDry, s.moisturePct.comfortLow),
     ),
     raise(10),
     settle(15),
@@ -84,12 +72,8 @@ export const RULE_PARAMETERS = {
   ],
   soggy: [
     param("headsUpAbovePct", "Heads-up above", "%", "species: top of the comfortable moisture band", (s) => s.moisturePct.comfortHigh),
-    param(
-      "actNowAbovePct",
-      "Act now above",
-      "%",
-      `${COMMON}: half-way from the band to the species' survival limit`,
-      (s) => mid(s.moisturePct.comfortHigh, s.moisturePct.lethalWet),
+    param("actNowAbovePct", "Act now above", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
+      mid(s.moisturePct.comfortHigh, s.moisturePct.lethalWet),
     ),
     raise(10),
     settle(15),
@@ -99,7 +83,13 @@ export const RULE_PARAMETERS = {
     // No verified worm threshold exists: the "0.5 mg/g" figure is unverified and is a concentration in
     // the bedding, not in air (attributed to Edwards 1988, not found), so these ppm lines are our own.
     param("headsUpAtPpm", "Heads-up at or above", "ppm", `${COMMON} (no verified figure for worms)`, fixed(10)),
-    param("actNowAtPpm", "Act now at or above", "ppm", "from memory: NIOSH REL for people, 25 ppm (NIOSH Pocket Guide to Chemical Hazards, ammonia; not verified)", fixed(25)),
+    param(
+      "actNowAtPpm",
+      "Act now at or above",
+      "ppm",
+      "from memory: NIOSH REL for people, 25 ppm (NIOSH Pocket Guide to Chemical Hazards, ammonia; not verified)",
+      fixed(25),
+    ),
     raise(10),
     settle(15),
     param("deadbandPpm", "Must fall this far below the heads-up line to settle", "ppm", COMMON, fixed(2)),
@@ -153,8 +143,7 @@ export function defaultRuleTable(species: SpeciesProfile) {
 }
 
 // Durations, steps and deadbands below zero would turn the hysteresis inside out.
-const mustNotBeNegative = (p: ParamSpec) =>
-  ["min", "h", "reports", "count"].includes(p.unit) || /Step|[dD]eadband/.test(p.key);
+const mustNotBeNegative = (p: ParamSpec) => ["min", "h", "reports", "count"].includes(p.unit) || /Step|[dD]eadband/.test(p.key);
 
 /** An override checked against the table: known keys, finite numbers, no negative durations or steps. */
 export function checkThresholds(kind: RuleKind, thresholds: Record<string, unknown>): Result<Record<string, number>> {

@@ -54,8 +54,7 @@ export function refusalFault(reason: string): RefusalFault | null {
 }
 
 /** Every fault in one rejected_messages row: a row stands for a message and keeps one reason a line. */
-export const refusalFaults = (reason: string): RefusalFault[] =>
-  reason.split("\n").flatMap((line) => refusalFault(line) ?? []);
+export const refusalFaults = (reason: string): RefusalFault[] => reason.split("\n").flatMap((line) => refusalFault(line) ?? []);
 
 export { valueFault };
 

@@ -31,12 +31,7 @@ export function firstAtOrAfter(s: readonly Sample[], t: number): number {
  * fails). A gap wider than `maxGapMs` breaks a run: nobody knows what happened while the probe
  * was silent. Stops walking back once `enoughMs` is reached.
  */
-export function heldFor(
-  s: readonly { t: number }[],
-  holds: (i: number) => boolean,
-  maxGapMs: number,
-  enoughMs = Number.POSITIVE_INFINITY,
-): number {
+export function heldFor(s: readonly { t: number }[], holds: (i: number) => boolean, maxGapMs: number, enoughMs = Number.POSITIVE_INFINITY): number {
   const last = s.length - 1;
   if (last < 0 || !holds(last)) return -1;
   const end = s[last]!.t;
@@ -45,12 +40,8 @@ export function heldFor(
   return end - s[k]!.t;
 }
 
-export const holdsFor = (
-  s: readonly { t: number }[],
-  holds: (i: number) => boolean,
-  maxGapMs: number,
-  needMs: number,
-): boolean => heldFor(s, holds, maxGapMs, needMs) >= needMs;
+export const holdsFor = (s: readonly { t: number }[], holds: (i: number) => boolean, maxGapMs: number, needMs: number): boolean =>
+  heldFor(s, holds, maxGapMs, needMs) >= needMs;
 
 /** Least-squares rate per hour over the window ending at sample i; null unless readings cover it. */
 export function rateAt(s: readonly Sample[], i: number, windowMs: number, maxGapMs: number): number | null {

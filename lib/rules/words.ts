@@ -1,13 +1,6 @@
 // Plain words for alert messages: where, what value, which way it is going. Numbers are stored
 // metric; the farm's unit system only changes how a message prints them.
-import {
-  UNIT_LABELS,
-  celsiusDeltaToFahrenheit,
-  formatNumber,
-  formatTemperature,
-  temperatureForDisplay,
-  type UnitSystem,
-} from "../units";
+import { UNIT_LABELS, celsiusDeltaToFahrenheit, formatNumber, formatTemperature, temperatureForDisplay, type UnitSystem } from "../units";
 import type { ProbeContext, ZoneRuleInput } from "./types";
 
 const MINUTE = 60_000;

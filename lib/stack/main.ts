@@ -139,11 +139,11 @@ async function test(extra: string[]) {
   console.log("Building the web app for the browser and API tests (next build)…");
   run(bin("next"), ["build"], { ...process.env, NEXT_TELEMETRY_DISABLED: "1", WORMWARD_TYPECHECKED: "1" });
   const results = path.join(dataDir, "test-results.json");
-  const r = spawnSync(
-    bin("vitest"),
-    ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${results}`, ...extra],
-    { cwd: root, stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } },
-  );
+  const r = spawnSync(bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${results}`, ...extra], {
+    cwd: root,
+    stdio: "inherit",
+    env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" },
+  });
   process.exit(r.status ?? 1);
 }
 

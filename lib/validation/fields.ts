@@ -18,11 +18,9 @@ type TextOptions = { min?: number; max: number; empty?: string };
 function text(what: string, o: TextOptions, re: RegExp) {
   let s = z.string({ message: `${what} must be text.` }).trim();
   if (o.min) s = s.min(o.min, o.empty ?? `${what} cannot be empty.`);
-  return s
-    .max(o.max, `Keep ${what.toLowerCase()} under ${o.max} characters.`)
-    .superRefine((v, ctx) => {
-      if (re.test(v)) ctx.addIssue({ code: "custom", message: controlMessage(what, v, re) });
-    });
+  return s.max(o.max, `Keep ${what.toLowerCase()} under ${o.max} characters.`).superRefine((v, ctx) => {
+    if (re.test(v)) ctx.addIssue({ code: "custom", message: controlMessage(what, v, re) });
+  });
 }
 
 /** One line of plain text (a name, a label): trimmed, no control characters at all. */
@@ -65,8 +63,7 @@ export function quantity(what: string, unit: string, o: QuantityOptions) {
 // non-zero percentage finer than 0.001 % is a typo or an attack, not a measurement.
 const PCT_RESOLUTION = 0.001;
 /** A percentage 0–100; `positive` refuses 0 (nitrogen, which a C:N divides by). */
-export const percent = (what: string, o: { positive?: boolean } = {}) =>
-  quantity(what, "%", { min: PCT_RESOLUTION, max: 100, zero: !o.positive });
+export const percent = (what: string, o: { positive?: boolean } = {}) => quantity(what, "%", { min: PCT_RESOLUTION, max: 100, zero: !o.positive });
 
 // Smallest positive normal float8 (IEEE 754 binary64); below it a value is subnormal.
 const FLOAT8_MIN_NORMAL = 2.2250738585072014e-308;

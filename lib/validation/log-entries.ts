@@ -21,7 +21,12 @@ export const sampleCreate = z.object({
   dryMassG: grams("Dry mass", true),
   tareG: grams("Container mass", true).optional(),
   // Ovens for moisture run 60–110 °C (TMECC 70 ± 5, ASTM D2216 110 ± 5); outside that, likely a typo.
-  ovenTempC: z.number({ message: "Oven temperature must be a number." }).min(40, "Oven temperature below 40 °C will not dry the sample.").max(130, "Oven temperature above 130 °C burns organic matter.").nullable().optional(),
+  ovenTempC: z
+    .number({ message: "Oven temperature must be a number." })
+    .min(40, "Oven temperature below 40 °C will not dry the sample.")
+    .max(130, "Oven temperature above 130 °C burns organic matter.")
+    .nullable()
+    .optional(),
   // A raw count from the probe's ADC or capacitance timer; 32-bit counters are the widest in use.
   rawReading: finiteNumber("Raw reading", { min: -4_294_967_296, max: 4_294_967_296 }).nullable().optional(),
   at: loggedAt.optional(),

@@ -77,7 +77,10 @@ async function setUpProbes(d: Db): Promise<BenchProbe[]> {
   for (let i = 0; i < PROBES; i++) {
     const code = `bench-${i}`;
     const token = `bench-token-${i}-${Math.random().toString(36).slice(2)}`;
-    const [p] = await d.insert(probes).values({ farmId: farm!.id, zoneId: zone!.id, code, tokenHash: hashToken(token) }).returning();
+    const [p] = await d
+      .insert(probes)
+      .values({ farmId: farm!.id, zoneId: zone!.id, code, tokenHash: hashToken(token) })
+      .returning();
     out.push({ id: p!.id, code, token });
   }
   return out;
@@ -228,7 +231,9 @@ async function main() {
     const port = await freePort();
     service = await startService(url, port);
     const pgVersion = (await pool.query("show server_version")).rows[0].server_version as string;
-    console.log(`Wormward ingest bench: PostgreSQL ${pgVersion} (cluster ${CLUSTER}, 127.0.0.1:${cluster.port}), ingest/main.ts on 127.0.0.1:${port} with its default batching, ${os.cpus().length} CPU(s), Node ${process.version}`);
+    console.log(
+      `Wormward ingest bench: PostgreSQL ${pgVersion} (cluster ${CLUSTER}, 127.0.0.1:${cluster.port}), ingest/main.ts on 127.0.0.1:${port} with its default batching, ${os.cpus().length} CPU(s), Node ${process.version}`,
+    );
 
     const s = await sustained(port, fleet, d);
     const mqttRate = s.rows.length / s.seconds;

@@ -17,7 +17,9 @@ beforeAll(async () => {
   browser = await launchBrowser();
   farmId = await demoFarmId();
   const keeper = await signIn("tomas@alder-row.example", "alder-row-demo");
-  const bins = (await (await keeper.fetch(`/api/farms/${farmId}/bins`)).json()) as { bins: { id: string; name: string; zones?: { id: string; kind: string }[] }[] };
+  const bins = (await (await keeper.fetch(`/api/farms/${farmId}/bins`)).json()) as {
+    bins: { id: string; name: string; zones?: { id: string; kind: string }[] }[];
+  };
   const bed = bins.bins.find((b) => b.name === "Long Bed North")!;
   binId = bed.id;
   const zones = (await (await keeper.fetch(`/api/bins/${binId}/zones`)).json()) as { zones: { id: string; kind: string }[] };
@@ -28,7 +30,8 @@ afterAll(async () => {
 });
 
 // Next's runtime announces itself on window once its (nonced) scripts have run and hydrated the page.
-const nextRan = (page: Page) => expect.poll(() => page.evaluate(() => Boolean((window as unknown as { next?: { version?: string } }).next?.version))).toBe(true);
+const nextRan = (page: Page) =>
+  expect.poll(() => page.evaluate(() => Boolean((window as unknown as { next?: { version?: string } }).next?.version))).toBe(true);
 const violationsOf = (page: Page) => page.evaluate(() => (window as unknown as { __cspViolations: Violation[] }).__cspViolations);
 
 // A phone-sized context whose every document listens from its first line for what the policy
@@ -104,7 +107,10 @@ describe("the content security policy", () => {
     // inline handler in the served HTML, under the response's own policy and nonce.
     await page.route(`${appUrl()}/sign-in`, async (r) => {
       const res = await r.fetch();
-      const html = (await res.text()).replace("</body>", `<script>window.pwned = "script"</script><img id="planted" src="/icon.svg" onload="window.pwned = 'handler'"></body>`);
+      const html = (await res.text()).replace(
+        "</body>",
+        `<script>window.pwned = "script"</script><img id="planted" src="/icon.svg" onload="window.pwned = 'handler'"></body>`,
+      );
       await r.fulfill({ response: res, body: html });
     });
     await page.goto(`${appUrl()}/sign-in`);

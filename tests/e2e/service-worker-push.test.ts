@@ -53,7 +53,12 @@ describe("the service worker", () => {
     await expect.poll(() => page.evaluate(() => (window as unknown as { pushes: unknown[] }).pushes.length), { timeout: 10_000 }).toBe(1);
     const shown = await page.evaluate(async () => {
       const reg = await navigator.serviceWorker.ready;
-      return (await reg.getNotifications()).map((n) => ({ title: n.title, body: n.body, tag: n.tag, actions: (n as unknown as { actions: { action: string; title: string }[] }).actions }));
+      return (await reg.getNotifications()).map((n) => ({
+        title: n.title,
+        body: n.body,
+        tag: n.tag,
+        actions: (n as unknown as { actions: { action: string; title: string }[] }).actions,
+      }));
     });
     expect(shown).toHaveLength(1);
     expect(shown[0]!.title).toContain("Long Bed North");

@@ -134,8 +134,14 @@ describe("farm settings, on a phone", () => {
     const person: Person = await makePerson(c, "Units Owner");
     await addToFarm(c, own, person.id, "owner");
     const s = await signIn(person.email, person.password);
-    const made = (await (await s.fetch(`/api/farms/${own}/bins`, { method: "POST", json: { name: "Cellar Tote", style: "tote", species: "eisenia-fetida", zoneCount: 1 } })).json()) as { bin: { zones: { id: string }[] } };
-    const probe = await c.query(`insert into probes (farm_id, zone_id, code, token_hash) values ($1, $2, $3, 'x') returning id`, [own, made.bin.zones[0]!.id, `units-${uniq()}`]);
+    const made = (await (
+      await s.fetch(`/api/farms/${own}/bins`, { method: "POST", json: { name: "Cellar Tote", style: "tote", species: "eisenia-fetida", zoneCount: 1 } })
+    ).json()) as { bin: { zones: { id: string }[] } };
+    const probe = await c.query(`insert into probes (farm_id, zone_id, code, token_hash) values ($1, $2, $3, 'x') returning id`, [
+      own,
+      made.bin.zones[0]!.id,
+      `units-${uniq()}`,
+    ]);
     const c0 = 21.3;
     await c.query(`insert into readings (probe_id, metric, ts, value) values ($1, 'temperature', now(), $2)`, [probe.rows[0].id, c0]);
     const p = await signedIn(person.email, person.password);
@@ -149,7 +155,10 @@ describe("farm settings, on a phone", () => {
 
     await p.goto(`${appUrl()}/farms/${own}`);
     // visible, not merely streamed into a hidden holder behind the loading screen
-    await p.getByText(formatTemperature(c0, "imperial")).first().waitFor({ state: "visible", ...SLOW });
+    await p
+      .getByText(formatTemperature(c0, "imperial"))
+      .first()
+      .waitFor({ state: "visible", ...SLOW });
     expect(await p.getByText(/°C/).count()).toBe(0);
     await p.screenshot({ path: screenshotPath("today-imperial") });
 
@@ -158,7 +167,10 @@ describe("farm settings, on a phone", () => {
     await p.getByRole("button", { name: "Save farm settings" }).click();
     await expect.poll(() => p.getByText(/Saved\. Temperatures in °C/).count(), SLOW).toBe(1);
     await p.goto(`${appUrl()}/farms/${own}`);
-    await p.getByText(formatTemperature(c0, "metric")).first().waitFor({ state: "visible", ...SLOW });
+    await p
+      .getByText(formatTemperature(c0, "metric"))
+      .first()
+      .waitFor({ state: "visible", ...SLOW });
     expect(await p.getByText(/°F/).count()).toBe(0);
     const f = await c.query(`select unit_system from farms where id = $1`, [own]);
     expect(f.rows[0].unit_system).toBe("metric");
@@ -182,7 +194,10 @@ describe("farm settings, on a phone", () => {
     const person: Person = await makePerson(c, "Settings Owner");
     await addToFarm(c, own, person.id, "owner");
     const s = await signIn(person.email, person.password);
-    const made = await s.fetch(`/api/farms/${own}/bins`, { method: "POST", json: { name: "Porch Tote", style: "tote", species: "eisenia-fetida", zoneCount: 1 } });
+    const made = await s.fetch(`/api/farms/${own}/bins`, {
+      method: "POST",
+      json: { name: "Porch Tote", style: "tote", species: "eisenia-fetida", zoneCount: 1 },
+    });
     expect(made.status).toBe(201);
 
     const p = await signedIn(person.email, person.password);

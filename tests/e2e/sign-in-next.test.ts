@@ -45,7 +45,11 @@ async function signInWith(query: string) {
   await page.getByRole("button", { name: "Sign in" }).click();
   await page.waitForURL((u) => u.pathname !== "/sign-in", { timeout: 20_000 }).catch(() => undefined);
   await page.waitForLoadState("load");
-  const heading = await page.getByRole("heading", { level: 1 }).first().textContent().catch(() => null);
+  const heading = await page
+    .getByRole("heading", { level: 1 })
+    .first()
+    .textContent()
+    .catch(() => null);
   const url = page.url();
   await context.close();
   return { url, heading, elsewhere };

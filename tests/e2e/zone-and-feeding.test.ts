@@ -149,11 +149,17 @@ describe("the zone page and logging a feeding", () => {
     expect(await form.locator("#mix-cn").textContent()).toBe(formatNumber(alone.cn!, 1));
     expect(await form.locator("#mix-verdict").textContent()).toContain(alone.verdict);
     const aim = Math.round((WORM_BED_TARGET.moisturePct.low + WORM_BED_TARGET.moisturePct.high) / 2);
-    const cardForMoisture = mustOk(amendmentForMoisture([asItem(veg, vegKg)], { name: card.name, moisturePct: card.moisturePct!, nitrogenPct: card.nitrogenPct!, cn: card.cn! }, aim));
-    const cardForCn = mustOk(beddingForCn([asItem(veg, vegKg)], { name: card.name, moisturePct: card.moisturePct!, nitrogenPct: card.nitrogenPct!, cn: card.cn! }, 25));
+    const cardForMoisture = mustOk(
+      amendmentForMoisture([asItem(veg, vegKg)], { name: card.name, moisturePct: card.moisturePct!, nitrogenPct: card.nitrogenPct!, cn: card.cn! }, aim),
+    );
+    const cardForCn = mustOk(
+      beddingForCn([asItem(veg, vegKg)], { name: card.name, moisturePct: card.moisturePct!, nitrogenPct: card.nitrogenPct!, cn: card.cn! }, 25),
+    );
     const hints = await form.locator("#mix-hints").textContent();
-    if (alone.issues.includes("too wet")) expect(hints).toContain(`Add ${formatMass(cardForMoisture, "metric", { digits: 2 })} of ${card.name} to reach ${aim} % moisture.`);
-    if (alone.issues.includes("too rich in nitrogen")) expect(hints).toContain(`Add ${formatMass(cardForCn, "metric", { digits: 2 })} of ${card.name} to reach C:N 25.`);
+    if (alone.issues.includes("too wet"))
+      expect(hints).toContain(`Add ${formatMass(cardForMoisture, "metric", { digits: 2 })} of ${card.name} to reach ${aim} % moisture.`);
+    if (alone.issues.includes("too rich in nitrogen"))
+      expect(hints).toContain(`Add ${formatMass(cardForCn, "metric", { digits: 2 })} of ${card.name} to reach C:N 25.`);
     expect(alone.issues.length).toBeGreaterThan(0);
     await page.screenshot({ path: screenshotPath("feeding-form-scraps-alone"), fullPage: true });
 
@@ -189,7 +195,10 @@ describe("the zone page and logging a feeding", () => {
     await page.screenshot({ path: screenshotPath("bin-logbook-after-feeding") });
 
     // Back on the zone's chart the feeding is a mark on the time axis; tapping it says what was fed.
-    await page.getByRole("region", { name: "Zones" }).getByRole("link", { name: /Fresh zone/ }).click();
+    await page
+      .getByRole("region", { name: "Zones" })
+      .getByRole("link", { name: /Fresh zone/ })
+      .click();
     await page.waitForURL(/\/zones\//);
     const marks = page.getByRole("list", { name: "Feedings on the temperature chart" }).getByRole("button");
     await expect.poll(() => marks.count()).toBeGreaterThan(0);
@@ -209,7 +218,9 @@ describe("the zone page and logging a feeding", () => {
     expect(centre).toBeLessThanOrEqual(plot.left + plot.width + 1);
     await marks.nth(ours).click();
     const detail = page.locator('figure[data-metric="temperature"] p[aria-live="polite"]');
-    await expect.poll(() => detail.textContent()).toContain(`${total} · moisture ${formatNumber(both.moisturePct, 1)} % · C:N ${formatNumber(both.cn!, 1)} · ${both.verdict}`);
+    await expect
+      .poll(() => detail.textContent())
+      .toContain(`${total} · moisture ${formatNumber(both.moisturePct, 1)} % · C:N ${formatNumber(both.cn!, 1)} · ${both.verdict}`);
     await page.locator('figure[data-metric="temperature"]').scrollIntoViewIfNeeded();
     await page.screenshot({ path: screenshotPath("zone-feeding-mark") });
     expect(pageErrors.get(page)).toEqual([]);
@@ -256,7 +267,10 @@ describe("the zone page and logging a feeding", () => {
     const bins = ((await (await keeper.fetch(`/api/farms/${farmId}/bins`)).json()) as { bins: { id: string; name: string }[] }).bins;
     const binId = bins.find((b) => b.name === "Long Bed North")!.id;
     const straw = lib("straw");
-    const res = await keeper.fetch(`/api/bins/${binId}/feedings`, { method: "POST", json: { zoneId: null, items: [{ ...asItem(straw, 0.75), ingredientId: straw.id }] } });
+    const res = await keeper.fetch(`/api/bins/${binId}/feedings`, {
+      method: "POST",
+      json: { zoneId: null, items: [{ ...asItem(straw, 0.75), ingredientId: straw.id }] },
+    });
     expect(res.status).toBe(201);
     const straws = mustOk(checkMix([asItem(straw, 0.75)]));
 
@@ -274,7 +288,10 @@ describe("the zone page and logging a feeding", () => {
     expect(await page.getByRole("button", { name: "Log this feeding" }).count()).toBe(0);
     await page.screenshot({ path: screenshotPath("bin-viewer"), fullPage: true });
 
-    await page.getByRole("region", { name: "Zones" }).getByRole("link", { name: /Fresh zone/ }).click();
+    await page
+      .getByRole("region", { name: "Zones" })
+      .getByRole("link", { name: /Fresh zone/ })
+      .click();
     await page.waitForURL(/\/zones\//);
     await page.locator('figure[data-metric="temperature"] canvas').waitFor();
     expect(await page.getByRole("link", { name: "Log a feeding here" }).count()).toBe(0);

@@ -18,7 +18,12 @@ const attr = (tag: string, name: string) => {
 /** The visible words of an HTML page, entities decoded, for asserting on messages. */
 export function pageText(html: string): string {
   // React separates text runs with empty comments; they are not word breaks.
-  return decode(html.replace(/<!--[\s\S]*?-->/g, "").replace(/<script[\s\S]*?<\/script>/g, " ").replace(/<[^>]+>/g, " ")).replace(/\s+/g, " ");
+  return decode(
+    html
+      .replace(/<!--[\s\S]*?-->/g, "")
+      .replace(/<script[\s\S]*?<\/script>/g, " ")
+      .replace(/<[^>]+>/g, " "),
+  ).replace(/\s+/g, " ");
 }
 
 export type Submitted = { status: number; location: string | null; html: string; text: string };

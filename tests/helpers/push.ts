@@ -3,9 +3,12 @@ import fs from "node:fs";
 import https from "node:https";
 import { inject } from "vitest";
 
-
 // Talks to the fake push service (self-signed for 127.0.0.1) trusting only its own CA.
-export function pushRequest(method: string, urlPath: string, body?: unknown): Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: string }> {
+export function pushRequest(
+  method: string,
+  urlPath: string,
+  body?: unknown,
+): Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: string }> {
   const url = new URL(urlPath, inject("pushServiceUrl"));
   return new Promise((resolve, reject) => {
     const req = https.request(url, { method, ca: fs.readFileSync(inject("pushCaFile")) }, (res) => {

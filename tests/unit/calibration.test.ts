@@ -1,14 +1,6 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import {
-  applyCalibration,
-  dryToWetBasis,
-  fitCalibration,
-  moistureDryBasis,
-  moistureWetBasis,
-  wetToDryBasis,
-  withinCalibratedRange,
-} from "@/lib/calibration";
+import { applyCalibration, dryToWetBasis, fitCalibration, moistureDryBasis, moistureWetBasis, wetToDryBasis, withinCalibratedRange } from "@/lib/calibration";
 import type { Result } from "@/lib/result";
 
 function value<T>(r: Result<T>): T {
@@ -82,12 +74,14 @@ describe("probe calibration", () => {
   });
 
   it("reports residuals and a lower R² for scattered samples", () => {
-    const cal = value(fitCalibration([
-      { raw: 300, moisturePct: 80 },
-      { raw: 400, moisturePct: 72 },
-      { raw: 500, moisturePct: 61 },
-      { raw: 600, moisturePct: 55 },
-    ]));
+    const cal = value(
+      fitCalibration([
+        { raw: 300, moisturePct: 80 },
+        { raw: 400, moisturePct: 72 },
+        { raw: 500, moisturePct: 61 },
+        { raw: 600, moisturePct: 55 },
+      ]),
+    );
     expect(cal.r2).toBeGreaterThan(0.9);
     expect(cal.r2).toBeLessThan(1);
     expect(cal.residuals.reduce((s, r) => s + r, 0)).toBeCloseTo(0, 10);
@@ -110,12 +104,24 @@ describe("probe calibration", () => {
   });
 
   it("refuses fewer than two distinct raw readings, with a reason", () => {
-    for (const points of [[], [{ raw: 400, moisturePct: 70 }], [{ raw: 400, moisturePct: 70 }, { raw: 400, moisturePct: 75 }]]) {
+    for (const points of [
+      [],
+      [{ raw: 400, moisturePct: 70 }],
+      [
+        { raw: 400, moisturePct: 70 },
+        { raw: 400, moisturePct: 75 },
+      ],
+    ]) {
       const r = fitCalibration(points);
       expect(r).toMatchObject({ ok: false, error: { field: "points" } });
       if (!r.ok) expect(r.error.message).toMatch(/two/);
     }
-    expect(fitCalibration([{ raw: 1, moisturePct: Number.NaN }, { raw: 2, moisturePct: 3 }])).toMatchObject({
+    expect(
+      fitCalibration([
+        { raw: 1, moisturePct: Number.NaN },
+        { raw: 2, moisturePct: 3 },
+      ]),
+    ).toMatchObject({
       ok: false,
       error: { field: "points.0.moisturePct" },
     });
@@ -131,7 +137,12 @@ describe("probe calibration", () => {
   });
 
   it("gives R² of 1 when every sample has the same moisture", () => {
-    const cal = value(fitCalibration([{ raw: 1, moisturePct: 70 }, { raw: 2, moisturePct: 70 }]));
+    const cal = value(
+      fitCalibration([
+        { raw: 1, moisturePct: 70 },
+        { raw: 2, moisturePct: 70 },
+      ]),
+    );
     expect(cal).toMatchObject({ slope: 0, intercept: 70, r2: 1 });
   });
 });

@@ -24,9 +24,7 @@ function sourceFiles(): string[] {
 
 /** "file:line: text" for every line that points at a notes file. */
 function pointersIn(file: string, text: string): string[] {
-  return text
-    .split("\n")
-    .flatMap((line, i) => (POINTER.test(line) ? [`${file}:${i + 1}: ${line.trim()}`] : []));
+  return text.split("\n").flatMap((line, i) => (POINTER.test(line) ? [`${file}:${i + 1}: ${line.trim()}`] : []));
 }
 
 describe("comments cite the published source itself", () => {
@@ -40,15 +38,15 @@ describe("comments cite the published source itself", () => {
 
   it("a pointer to the notes names its file and line", () => {
     const text = [
-      "// Cornell Waste Management Institute, \"Compost Chemistry\" (V)",
+      '// Cornell Waste Management Institute, "Compost Chemistry" (V)',
       "const x = 1; // check-values §2",
       "/* see shared/reference/ for more */",
-      "it(\"acks after commit (verified-techniques.md)\", () => {});",
+      'it("acks after commit (verified-techniques.md)", () => {});',
     ].join("\n");
     expect(pointersIn("lib/example.ts", text)).toEqual([
       "lib/example.ts:2: const x = 1; // check-values §2",
       "lib/example.ts:3: /* see shared/reference/ for more */",
-      "lib/example.ts:4: it(\"acks after commit (verified-techniques.md)\", () => {});",
+      'lib/example.ts:4: it("acks after commit (verified-techniques.md)", () => {});',
     ]);
   });
 

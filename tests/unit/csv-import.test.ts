@@ -33,7 +33,9 @@ describe("reading the file", () => {
   });
 
   it("a quote never closed is reported at its line and the rows before it are kept", () => {
-    const t = readCsv('time,probe,metric,value\n2025-05-01T00:00:00Z,alder-01,temperature,21\n2025-05-01T00:01:00Z,"alder-01,temperature,22\n2025-05-01T00:02:00Z,alder-01,temperature,23\n');
+    const t = readCsv(
+      'time,probe,metric,value\n2025-05-01T00:00:00Z,alder-01,temperature,21\n2025-05-01T00:01:00Z,"alder-01,temperature,22\n2025-05-01T00:02:00Z,alder-01,temperature,23\n',
+    );
     expect(t.rows).toHaveLength(1);
     expect(t.bad).toEqual([{ line: 3, reason: expect.stringMatching(/never closed.*lines 3–4/) }]);
   });
@@ -149,7 +151,14 @@ describe("mapping rows to readings", () => {
   });
 
   it("a fixed probe and metric apply to every row, with units converted", () => {
-    const m = importMapping.parse({ time: "When", value: "Reading", unit: "Unit", probeCode: "alder-02", metricFixed: "temperature", timezone: "Europe/Dublin" });
+    const m = importMapping.parse({
+      time: "When",
+      value: "Reading",
+      unit: "Unit",
+      probeCode: "alder-02",
+      metricFixed: "temperature",
+      timezone: "Europe/Dublin",
+    });
     const csv = "When;Reading;Unit\n2025-07-15 09:00;68;°F\n2025-07-15 09:01;20,5;Cel\n2025-07-15 09:02;300;K\n2025-07-15 09:03;20;bar\n";
     const out = mapRows(readCsv(csv), m, { probes, now: NOW });
     expect(out.readings.map((r) => [r.ts.toISOString(), +r.value.toFixed(6)])).toEqual([
@@ -161,7 +170,8 @@ describe("mapping rows to readings", () => {
   });
 
   it("a row repeated in the file is counted once; a conflicting repeat is reported", () => {
-    const csv = "time,probe,metric,value\n2025-05-01T00:00:00Z,alder-01,temp,20\n2025-05-01T00:00:00Z,alder-01,temp,20\n2025-05-01T00:00:00Z,alder-01,temp,25\n";
+    const csv =
+      "time,probe,metric,value\n2025-05-01T00:00:00Z,alder-01,temp,20\n2025-05-01T00:00:00Z,alder-01,temp,20\n2025-05-01T00:00:00Z,alder-01,temp,25\n";
     const out = mapRows(readCsv(csv), long, { probes, now: NOW });
     expect(out.readings).toHaveLength(1);
     expect(out.repeats).toBe(1);
@@ -171,7 +181,14 @@ describe("mapping rows to readings", () => {
   it("a mapping naming a column the file does not have is refused before any row", () => {
     const out = mapRows(readCsv("Zeit,Wert\n2025-05-01T00:00:00Z,20\n"), long, { probes, now: NOW });
     expect(out.readings).toEqual([]);
-    expect(out.bad).toEqual([{ line: 1, reason: expect.stringMatching(/^the header has no time column "time", value column "value", probe column "probe", metric column "metric"; it has "Zeit", "Wert"$/) }]);
+    expect(out.bad).toEqual([
+      {
+        line: 1,
+        reason: expect.stringMatching(
+          /^the header has no time column "time", value column "value", probe column "probe", metric column "metric"; it has "Zeit", "Wert"$/,
+        ),
+      },
+    ]);
   });
 
   it("the mapping needs a probe and a metric, from a column or fixed, and a real time zone", () => {

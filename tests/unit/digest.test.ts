@@ -54,7 +54,12 @@ describe("the digest text", () => {
   };
 
   it("uses the farm's units: °F and lb for an imperial farm", () => {
-    const d = renderDigest({ farm: { id: "f1", name: "Back Yard", unitSystem: "imperial", timezone: "America/Chicago" }, date: "2026-02-03", data, appUrl: "http://app.test" });
+    const d = renderDigest({
+      farm: { id: "f1", name: "Back Yard", unitSystem: "imperial", timezone: "America/Chicago" },
+      date: "2026-02-03",
+      data,
+      appUrl: "http://app.test",
+    });
     expect(d.subject).toBe("[Wormward] Back Yard: your day, Tuesday 3 February 2026");
     // 20 °C = 68 °F, 25 °C = 77 °F; 4.5359237 kg = 10 lb exactly (1 lb = 0.45359237 kg).
     expect(d.text).toContain("  Working zone: temperature 68.0–77.0 °F, moisture 80 %\n");
@@ -65,7 +70,12 @@ describe("the digest text", () => {
   });
 
   it("escapes names in the HTML part", () => {
-    const d = renderDigest({ farm: { id: "f1", name: "<Worms & Co>", unitSystem: "metric", timezone: "UTC" }, date: "2026-02-03", data, appUrl: "http://app.test" });
+    const d = renderDigest({
+      farm: { id: "f1", name: "<Worms & Co>", unitSystem: "metric", timezone: "UTC" },
+      date: "2026-02-03",
+      data,
+      appUrl: "http://app.test",
+    });
     expect(d.html).toContain("&lt;Worms &amp; Co&gt;");
     expect(d.html).not.toContain("<Worms");
   });

@@ -4,7 +4,8 @@ import { isCrossSiteChange } from "@/lib/api/same-origin";
 import { pagePolicy } from "@/lib/api/security-headers";
 
 const OURS = ["https://worms.example"];
-const req = (method: string, headers: Record<string, string>) => new Request("https://worms.example/api/bins", { method, headers: { host: "worms.example", ...headers } });
+const req = (method: string, headers: Record<string, string>) =>
+  new Request("https://worms.example/api/bins", { method, headers: { host: "worms.example", ...headers } });
 
 describe("isCrossSiteChange", () => {
   it("a POST from another origin is a cross-site change; from ours, or with no Origin, it is not", () => {
@@ -27,9 +28,15 @@ describe("isCrossSiteChange", () => {
   });
 
   it("the app reached by its own host under another name than APP_URL is ours", () => {
-    const lan = new Request("http://192.168.1.20:3000/api/bins", { method: "POST", headers: { host: "192.168.1.20:3000", origin: "http://192.168.1.20:3000" } });
+    const lan = new Request("http://192.168.1.20:3000/api/bins", {
+      method: "POST",
+      headers: { host: "192.168.1.20:3000", origin: "http://192.168.1.20:3000" },
+    });
     expect(isCrossSiteChange(lan, OURS)).toBe(false);
-    const other = new Request("http://192.168.1.20:3000/api/bins", { method: "POST", headers: { host: "192.168.1.20:3000", origin: "http://192.168.1.20:8080" } });
+    const other = new Request("http://192.168.1.20:3000/api/bins", {
+      method: "POST",
+      headers: { host: "192.168.1.20:3000", origin: "http://192.168.1.20:8080" },
+    });
     expect(isCrossSiteChange(other, OURS)).toBe(true);
   });
 });
@@ -38,13 +45,16 @@ describe("readCappedBody", () => {
   // A body of `total` bytes offered in 1 KiB chunks, counting what the reader pulled.
   function offered(total: number) {
     const counter = { pulled: 0 };
-    const body = new ReadableStream<Uint8Array>({
-      pull(ctrl) {
-        if (counter.pulled >= total) return ctrl.close();
-        counter.pulled += 1024;
-        ctrl.enqueue(new Uint8Array(1024));
+    const body = new ReadableStream<Uint8Array>(
+      {
+        pull(ctrl) {
+          if (counter.pulled >= total) return ctrl.close();
+          counter.pulled += 1024;
+          ctrl.enqueue(new Uint8Array(1024));
+        },
       },
-    }, { highWaterMark: 0 });
+      { highWaterMark: 0 },
+    );
     return { counter, req: new Request("http://x/", { method: "POST", body, duplex: "half" } as RequestInit) };
   }
 
@@ -61,7 +71,10 @@ describe("readCappedBody", () => {
         throw new Error("read");
       },
     });
-    const r = await readCappedBody(new Request("http://x/", { method: "POST", body, duplex: "half", headers: { "content-length": "10485760" } } as RequestInit), 65536);
+    const r = await readCappedBody(
+      new Request("http://x/", { method: "POST", body, duplex: "half", headers: { "content-length": "10485760" } } as RequestInit),
+      65536,
+    );
     expect(r).toEqual({ ok: false, size: "10485760 bytes" });
   });
 

@@ -88,7 +88,10 @@ describe("units", () => {
   });
 
   it("ignores a base unit inherited by the firmware string", () => {
-    const [, fw] = readingsOf([{ bn: base, bu: "Cel", n: "temp", v: 20 }, { n: "fw", vs: "2.0.0" }]);
+    const [, fw] = readingsOf([
+      { bn: base, bu: "Cel", n: "temp", v: 20 },
+      { n: "fw", vs: "2.0.0" },
+    ]);
     expect(fw).toMatchObject({ ok: true, reading: { metric: "firmware", text: "2.0.0" } });
   });
 });

@@ -1,15 +1,6 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import {
-  WATER,
-  WORM_BED_TARGET,
-  amendmentForMoisture,
-  beddingForCn,
-  checkMix,
-  mixCarbonToNitrogen,
-  mixMoisture,
-  type MixItem,
-} from "@/lib/mix";
+import { WATER, WORM_BED_TARGET, amendmentForMoisture, beddingForCn, checkMix, mixCarbonToNitrogen, mixMoisture, type MixItem } from "@/lib/mix";
 import type { Result } from "@/lib/result";
 
 function value<T>(r: Result<T>): T {
@@ -231,7 +222,11 @@ describe("properties", () => {
         fc.array(fc.record({ massKg: anyNumber, moisturePct: anyNumber, nitrogenPct: anyNumber, cn: anyNumber }), { maxLength: 4 }),
         anyNumber,
         (items, target) => {
-          for (const r of [checkMix(items), amendmentForMoisture(items, WATER, target), beddingForCn(items, { moisturePct: 10, nitrogenPct: 0.1, cn: 500 }, target)]) {
+          for (const r of [
+            checkMix(items),
+            amendmentForMoisture(items, WATER, target),
+            beddingForCn(items, { moisturePct: 10, nitrogenPct: 0.1, cn: 500 }, target),
+          ]) {
             if (r.ok) expect(allFinite(r.value)).toBe(true);
             else expect(r.error.message).not.toMatch(/NaN|Infinity/);
           }

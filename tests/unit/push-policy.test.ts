@@ -8,9 +8,28 @@ const allow = { hosts: DEFAULT_PUSH_SERVICE_HOSTS, fakeOrigin: "https://127.0.0.
 describe("addresses a push is never sent to", () => {
   // RFC 6890 special-purpose ranges; RFC 1918; RFC 6598; RFC 3927; RFC 4193; RFC 4291 §2.5.5.2.
   it.each([
-    "127.0.0.1", "127.255.0.9", "10.0.0.1", "172.16.4.4", "172.31.255.255", "192.168.1.1", "169.254.169.254", "100.64.0.1", "0.0.0.0",
-    "224.0.0.1", "::1", "::", "fc00::1", "fd12:3456::1", "fe80::1", "::ffff:127.0.0.1", "::ffff:10.0.0.1", "::ffff:a9fe:a9fe",
-    "64:ff9b::7f00:1", "2002:7f00:1::", "2002:c0a8:101::1", "not-an-address",
+    "127.0.0.1",
+    "127.255.0.9",
+    "10.0.0.1",
+    "172.16.4.4",
+    "172.31.255.255",
+    "192.168.1.1",
+    "169.254.169.254",
+    "100.64.0.1",
+    "0.0.0.0",
+    "224.0.0.1",
+    "::1",
+    "::",
+    "fc00::1",
+    "fd12:3456::1",
+    "fe80::1",
+    "::ffff:127.0.0.1",
+    "::ffff:10.0.0.1",
+    "::ffff:a9fe:a9fe",
+    "64:ff9b::7f00:1",
+    "2002:7f00:1::",
+    "2002:c0a8:101::1",
+    "not-an-address",
   ])("%s is refused", (a) => expect(isBlockedAddress(a)).toBe(true));
 
   it.each(["142.250.74.10", "17.57.146.20", "8.8.8.8", "172.32.0.1", "2a00:1450:4009:81f::200a", "::ffff:8.8.8.8", "2002:808:808::1"])(
@@ -29,7 +48,8 @@ describe("push endpoints a subscription may name", () => {
       "https://wns2-par02p.notify.windows.com/w/?token=abc",
       "https://FCM.googleapis.com./fcm/send/abc",
       "https://127.0.0.1:4431/push/abc", // the configured fake
-    ]) expect(endpointProblem(e, allow), e).toBeNull();
+    ])
+      expect(endpointProblem(e, allow), e).toBeNull();
   });
 
   it("refuses other hosts, a wildcard's bare domain, plain http, credentials and the fake's host on another port", () => {

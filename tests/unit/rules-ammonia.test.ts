@@ -55,10 +55,9 @@ describe("ammonia risk where no probe measures it", () => {
     );
     expect(events[0]!.details).toMatchObject({ mode: "estimate", lowCn: true, wet: true, mixCn: 18, feedingAt: at(0) });
     // once an hour of readings shows the rate, the message says so
-    const later = replay(
-      { zone, species: fetida, readings: [flat(90)], recentFeedings: [feeding], probes: [tempProbe], kinds: ["ammonia"], openAlerts: [] },
-      [at(89)],
-    );
+    const later = replay({ zone, species: fetida, readings: [flat(90)], recentFeedings: [feeding], probes: [tempProbe], kinds: ["ammonia"], openAlerts: [] }, [
+      at(89),
+    ]);
     expect(later[0]!.transitions[0]!.message).toContain("its mix was wet (88.0 %) and the zone is not warming.");
   });
 
@@ -107,7 +106,15 @@ describe("ammonia risk where no probe measures it", () => {
     const feeding = { at: at(0), zoneId: "zone-1", mixCn: 27, mixMoisturePct: 90 };
     expect(run([flat(30)], [tempProbe], [feeding], 30).brief).toEqual([]);
     const steps = replay(
-      { zone, species: fetida, overrides: { ammonia: { thresholds: { riskCnBelow: 30 } } }, readings: [flat(30)], recentFeedings: [feeding], probes: [tempProbe], kinds: ["ammonia"] },
+      {
+        zone,
+        species: fetida,
+        overrides: { ammonia: { thresholds: { riskCnBelow: 30 } } },
+        readings: [flat(30)],
+        recentFeedings: [feeding],
+        probes: [tempProbe],
+        kinds: ["ammonia"],
+      },
       [at(10)],
     );
     expect(steps[0]!.transitions).toEqual([expect.objectContaining({ type: "raise" })]);

@@ -168,10 +168,30 @@ describe("determinism", () => {
           probes: [{ ...probes[0]!, metrics: ["temperature", "moisture"] }],
           openAlerts: [],
         };
-        const a = evaluateZone({ ...base, readings: [{ probeId: 7, metric: "temperature", points: temp }, { probeId: 7, metric: "moisture", points: wet }] });
-        const b = evaluateZone({ ...base, readings: [{ probeId: 7, metric: "moisture", points: shuffled(wet) }, { probeId: 7, metric: "temperature", points: shuffled(temp) }] });
+        const a = evaluateZone({
+          ...base,
+          readings: [
+            { probeId: 7, metric: "temperature", points: temp },
+            { probeId: 7, metric: "moisture", points: wet },
+          ],
+        });
+        const b = evaluateZone({
+          ...base,
+          readings: [
+            { probeId: 7, metric: "moisture", points: shuffled(wet) },
+            { probeId: 7, metric: "temperature", points: shuffled(temp) },
+          ],
+        });
         expect(b).toEqual(a);
-        expect(evaluateZone({ ...base, readings: [{ probeId: 7, metric: "temperature", points: temp }, { probeId: 7, metric: "moisture", points: wet }] })).toEqual(a);
+        expect(
+          evaluateZone({
+            ...base,
+            readings: [
+              { probeId: 7, metric: "temperature", points: temp },
+              { probeId: 7, metric: "moisture", points: wet },
+            ],
+          }),
+        ).toEqual(a);
       }),
       { numRuns: 100 },
     );

@@ -74,9 +74,7 @@ describe("drying (E. fetida: comfortable from 70 %, Kaplan et al. 1980)", () => 
     const values = Array.from({ length: 361 }, (_, m) => 80 - (2 * m) / 60);
     expect(run(values, { from: 200 }).brief).toEqual(["311 raise drying heads_up"]);
     // with a 4 h minimum the trend speaks first, at minute 240
-    expect(run(values, { from: 200, overrides: { drying: { thresholds: { trendMinSpanHours: 4 } } } }).brief[0]).toBe(
-      "240 raise drying heads_up",
-    );
+    expect(run(values, { from: 200, overrides: { drying: { thresholds: { trendMinSpanHours: 4 } } } }).brief[0]).toBe("240 raise drying heads_up");
   });
 
   it("a trend alert settles only once the crossing is more than 18 h off, held 15 min", () => {

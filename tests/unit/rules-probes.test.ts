@@ -52,9 +52,7 @@ describe("silent probe", () => {
     const base = { zone, species: fetida, recentFeedings: [], openAlerts: [], kinds: ["silent_probe"] as const };
     const readings: ProbeSeries[] = [{ probeId: 4, metric: "temperature", points: minuteSeries([22]) }];
     expect(evaluateZone({ ...base, now: at(15), readings, probes: [probe({ lastSeenAt: at(12) })] })).toEqual([]);
-    expect(evaluateZone({ ...base, now: at(15), readings, probes: [probe()] })).toEqual([
-      expect.objectContaining({ type: "raise", kind: "silent_probe" }),
-    ]);
+    expect(evaluateZone({ ...base, now: at(15), readings, probes: [probe()] })).toEqual([expect.objectContaining({ type: "raise", kind: "silent_probe" })]);
     expect(evaluateZone({ ...base, now: at(15), readings: [], probes: [probe()] })).toEqual([]);
   });
 
@@ -118,7 +116,10 @@ describe("probe fault", () => {
 
   it("a fault behind another refusal in the same message's row still raises", () => {
     // One rejected_messages row per message: an unknown metric first, then the error code.
-    const payload = JSON.stringify([{ bn: "urn:dev:wormward:p-4:", n: "ph", v: 7 }, { n: "temp", u: "Cel", v: 85 }]);
+    const payload = JSON.stringify([
+      { bn: "urn:dev:wormward:p-4:", n: "ph", v: 7 },
+      { n: "temp", u: "Cel", v: 85 },
+    ]);
     const row = summarizeRejections(validateSenmlPayload({ id: 4, code: "p-4" }, payload, { now: new Date(t0) }).rejections)!;
     expect(row.records).toBe(2);
     expect(refusalFault(row.reason)).toBeNull(); // the first line alone is no fault

@@ -36,9 +36,7 @@ function run(values: readonly number[], opts: Opts = {}) {
     },
     minutes,
   );
-  const events = steps.flatMap((s) =>
-    s.transitions.filter((t) => t.type !== "update").map((t) => ({ minute: (s.at - t0) / MIN, ...t })),
-  );
+  const events = steps.flatMap((s) => s.transitions.filter((t) => t.type !== "update").map((t) => ({ minute: (s.at - t0) / MIN, ...t })));
   return { steps, events, brief: events.map((e) => `${e.minute} ${e.type} ${e.kind} ${e.level}`) };
 }
 
@@ -174,7 +172,9 @@ describe("heat by rate of rise after a feeding", () => {
     expect(events[0]!.message).toBe(
       "Long Bed North, fresh zone: 22.0 °C and rising 2.0 °C/h since the 12.0 kg feeding at 06:00. Still inside 15.0–25.0 °C, but heating fast.",
     );
-    expect(events[1]!.message).toBe("Long Bed North, fresh zone: 30.3 °C and rising 2.0 °C/h, at or above 30.0 °C where red wigglers suffer. Cool the bed now.");
+    expect(events[1]!.message).toBe(
+      "Long Bed North, fresh zone: 30.3 °C and rising 2.0 °C/h, at or above 30.0 °C where red wigglers suffer. Cool the bed now.",
+    );
   });
 
   it("watches for 72 h after the feeding and no longer", () => {
@@ -194,7 +194,7 @@ describe("heat by rate of rise after a feeding", () => {
     const slow = Array.from({ length: 200 }, (_, m) => 20 + (0.9 * m) / 60);
     expect(run(slow, { feedings: [feedingHere(0)] }).brief).toEqual([]);
     // flat for two hours with one 10-minute burst of +1.5 °C in the middle
-    const burst = [...hold(21, 60), ...Array.from({ length: 10 }, (_, k) => 21 + (0.15 * (k + 1))), ...hold(21, 60)];
+    const burst = [...hold(21, 60), ...Array.from({ length: 10 }, (_, k) => 21 + 0.15 * (k + 1)), ...hold(21, 60)];
     expect(run(burst, { feedings: [feedingHere(0)] }).brief).toEqual([]);
   });
 

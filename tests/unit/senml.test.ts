@@ -26,9 +26,7 @@ describe("RFC 8428 examples", () => {
     const pack = `[
       {"n":"urn:dev:ow:10e2073a01080063","u":"Cel","v":23.1}
     ]`;
-    expectRecords(records(parseSenml(pack, { now: NOW })), [
-      { name: "urn:dev:ow:10e2073a01080063", unit: "Cel", value: 23.1, time: NOW },
-    ]);
+    expectRecords(records(parseSenml(pack, { now: NOW })), [{ name: "urn:dev:ow:10e2073a01080063", unit: "Cel", value: 23.1, time: NOW }]);
   });
 
   it("multiple data points with a base name", () => {
@@ -131,9 +129,12 @@ describe("RFC 8428 examples", () => {
       {"n":"urn:dev:ow:10e2073a01080063","u":"lat","t":1.320067644e+09,
        "v":60.07967}
     ]`;
-    const expected = (JSON.parse(resolved) as { n: string; u: string; t: number; v: number }[]).map(
-      (r): ResolvedRecord => ({ name: r.n, unit: r.u, time: r.t, value: r.v }),
-    );
+    const expected = (JSON.parse(resolved) as { n: string; u: string; t: number; v: number }[]).map((r): ResolvedRecord => ({
+      name: r.n,
+      unit: r.u,
+      time: r.t,
+      value: r.v,
+    }));
     expect(records(parseSenml(pack, { now: NOW }))).toEqual(expected);
     // a resolved pack is a fixed point (§4.6: no base values, no relative times)
     expect(records(parseSenml(resolved, { now: NOW }))).toEqual(expected);
@@ -225,7 +226,15 @@ describe("resolution rules", () => {
 
   it("the sum of base time and time decides relative or absolute", () => {
     // RFC 8428 §4.5.3: "Time and Base Time are added together"
-    const rs = records(parseSenml([{ bt: -120, n: "x", t: 30, v: 1 }, { n: "y", t: 2 ** 28 + 200, v: 1 }], { now: NOW }));
+    const rs = records(
+      parseSenml(
+        [
+          { bt: -120, n: "x", t: 30, v: 1 },
+          { n: "y", t: 2 ** 28 + 200, v: 1 },
+        ],
+        { now: NOW },
+      ),
+    );
     // chronological order (§4.6) puts the 1978 absolute time first
     expect(rs.map((r) => [r.name, r.time])).toEqual([
       ["y", 2 ** 28 + 80],
@@ -251,7 +260,16 @@ describe("resolution rules", () => {
 
   it("keeps the record's unit over the base unit and omits an absent one", () => {
     // RFC 8428 §4.5.2
-    const rs = records(parseSenml([{ n: "a", v: 1 }, { bu: "V", n: "b", v: 1 }, { n: "c", u: "A", v: 1 }], { now: NOW }));
+    const rs = records(
+      parseSenml(
+        [
+          { n: "a", v: 1 },
+          { bu: "V", n: "b", v: 1 },
+          { n: "c", u: "A", v: 1 },
+        ],
+        { now: NOW },
+      ),
+    );
     expect(rs.map((r) => r.unit)).toEqual([undefined, "V", "A"]);
     expect("unit" in rs[0]!).toBe(false);
   });
@@ -305,7 +323,11 @@ describe("bad records are reported, good ones kept", () => {
   });
 
   it("refuses records that inherit a bad base name, until a good one", () => {
-    const r = refused([{ bn: 7, n: "a", v: 1 }, { n: "b", v: 1 }, { bn: "ok:", n: "c", v: 1 }]);
+    const r = refused([
+      { bn: 7, n: "a", v: 1 },
+      { n: "b", v: 1 },
+      { bn: "ok:", n: "c", v: 1 },
+    ]);
     expect(r.records.map((x) => x.name)).toEqual(["ok:c"]);
     expect(r.errors.map((e) => e.index)).toEqual([0, 1]);
     expect(r.errors[1]!.reason).toMatch(/record 0/);
@@ -313,13 +335,23 @@ describe("bad records are reported, good ones kept", () => {
 
   it("a time far outside any calendar is still a record: the ingest, not the parser, judges its date", () => {
     // RFC 8428 §4.5.3: bt and t are seconds, with no upper bound in the RFC itself
-    const r = refused([{ n: "a", v: 1, t: 1e13 }, { n: "b", v: 1, bt: 1e300 }]);
+    const r = refused([
+      { n: "a", v: 1, t: 1e13 },
+      { n: "b", v: 1, bt: 1e300 },
+    ]);
     expect(r.errors).toEqual([]);
-    expect(r.records.map((x) => [x.name, x.time])).toEqual([["a", 1e13], ["b", 1e300]]);
+    expect(r.records.map((x) => [x.name, x.time])).toEqual([
+      ["a", 1e13],
+      ["b", 1e300],
+    ]);
   });
 
   it("a bad base unit only matters to records without their own unit", () => {
-    const r = refused([{ bu: 3, n: "a", u: "V", v: 1 }, { n: "b", u: "A", v: 1 }, { n: "c", v: 1 }]);
+    const r = refused([
+      { bu: 3, n: "a", u: "V", v: 1 },
+      { n: "b", u: "A", v: 1 },
+      { n: "c", v: 1 },
+    ]);
     expect(r.records.map((x) => x.name)).toEqual(["b"]);
     expect(r.errors.map((e) => e.index)).toEqual([0, 2]);
   });

@@ -1,15 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { z } from "zod";
-import {
-  MOISTURE_BANDS,
-  SPECIES_IDS,
-  TEMPERATURE_BANDS,
-  classifyMoisture,
-  classifyTemperature,
-  getSpecies,
-  speciesProfiles,
-} from "@/lib/species";
+import { MOISTURE_BANDS, SPECIES_IDS, TEMPERATURE_BANDS, classifyMoisture, classifyTemperature, getSpecies, speciesProfiles } from "@/lib/species";
 
 const fetida = speciesProfiles["eisenia-fetida"];
 
@@ -88,17 +80,12 @@ describe("species profiles", () => {
 
   it("bands never go down as the temperature or moisture goes up", () => {
     fc.assert(
-      fc.property(
-        fc.constantFrom(...SPECIES_IDS),
-        fc.double({ min: -30, max: 70, noNaN: true }),
-        fc.double({ min: 0, max: 40, noNaN: true }),
-        (id, c, dc) => {
-          const p = speciesProfiles[id];
-          const a = classifyTemperature(p, c);
-          const b = classifyTemperature(p, c + dc);
-          expect(a && b && TEMPERATURE_BANDS.indexOf(a) <= TEMPERATURE_BANDS.indexOf(b)).toBe(true);
-        },
-      ),
+      fc.property(fc.constantFrom(...SPECIES_IDS), fc.double({ min: -30, max: 70, noNaN: true }), fc.double({ min: 0, max: 40, noNaN: true }), (id, c, dc) => {
+        const p = speciesProfiles[id];
+        const a = classifyTemperature(p, c);
+        const b = classifyTemperature(p, c + dc);
+        expect(a && b && TEMPERATURE_BANDS.indexOf(a) <= TEMPERATURE_BANDS.indexOf(b)).toBe(true);
+      }),
     );
     fc.assert(
       fc.property(fc.constantFrom(...SPECIES_IDS), fc.double({ min: 0, max: 100, noNaN: true }), fc.double({ min: 0, max: 100, noNaN: true }), (id, x, y) => {

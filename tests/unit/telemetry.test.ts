@@ -130,7 +130,10 @@ describe("validateSenmlPayload", () => {
 
   it("a value that adds up to Infinity is refused, not stored", () => {
     // RFC 8428 §4.5.4: bv and v add; two large finite numbers overflow.
-    const r = validate([{ bn, bt: T, n: "temp", u: "Cel", v: 20 }, { bv: 1.5e308, n: "moisture-raw", v: 1.5e308 }]);
+    const r = validate([
+      { bn, bt: T, n: "temp", u: "Cel", v: 20 },
+      { bv: 1.5e308, n: "moisture-raw", v: 1.5e308 },
+    ]);
     expect(codes(r)).toEqual(["out-of-range"]);
     expect(r.rejections[0]!.reason).toMatch(/Infinity/);
     expect(rows(r)).toEqual([["temperature", T, 20]]);
@@ -165,7 +168,13 @@ describe("validateSenmlPayload", () => {
   it("stores only the raw count of an uncalibrated probe, and prefers a probe's own moisture value", () => {
     expect(rows(validate([{ bn, bt: T, n: "moisture-raw", v: 450 }]))).toEqual([["moisture-raw", T, 450]]);
     const calibrated = { ...probe, calibration: { slope: -0.25, intercept: 135 } };
-    const both = validate([{ bn, bt: T, n: "moisture-raw", v: 450 }, { n: "moisture", u: "/100", v: 70 }], calibrated);
+    const both = validate(
+      [
+        { bn, bt: T, n: "moisture-raw", v: 450 },
+        { n: "moisture", u: "/100", v: 70 },
+      ],
+      calibrated,
+    );
     expect(rows(both).sort()).toEqual([
       ["moisture", T, 70],
       ["moisture-raw", T, 450],
@@ -221,8 +230,18 @@ describe("summarizeRejections", () => {
     ];
     const s = summarizeRejections(validate(pack).rejections)!;
     expect(s.records).toBe(13);
-    expect(refusalFaults(s.reason).map((f) => [f.suffix, f.cause]).sort()).toEqual(
-      [["moisture", "out-of-range"], ["temp", "error-code"], ["temp", "out-of-range"], ["temp", "out-of-range"], ["temp", "out-of-range"]].sort(),
+    expect(
+      refusalFaults(s.reason)
+        .map((f) => [f.suffix, f.cause])
+        .sort(),
+    ).toEqual(
+      [
+        ["moisture", "out-of-range"],
+        ["temp", "error-code"],
+        ["temp", "out-of-range"],
+        ["temp", "out-of-range"],
+        ["temp", "out-of-range"],
+      ].sort(),
     );
   });
 

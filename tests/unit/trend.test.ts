@@ -41,7 +41,12 @@ describe("rate of change", () => {
   it("cannot tell a rate from one reading or one instant", () => {
     expect(ratePerHour([])).toBeNull();
     expect(ratePerHour([{ t: t0, v: 20 }])).toBeNull();
-    expect(ratePerHour([{ t: t0, v: 20 }, { t: t0, v: 21 }])).toBeNull();
+    expect(
+      ratePerHour([
+        { t: t0, v: 20 },
+        { t: t0, v: 21 },
+      ]),
+    ).toBeNull();
     expect(ratePerHour(line(20, 1, 10), { windowMs: 0 })).toBeNull();
   });
 

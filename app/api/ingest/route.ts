@@ -6,7 +6,9 @@ import { DEFAULT_LIMITS } from "@/lib/telemetry";
 
 // RFC 6750 §3: a 401 names the scheme, and error="invalid_token" when credentials were given.
 function unauthorized(given: boolean): Response {
-  const res = errorResponse(new AppError("unauthenticated", given ? "The probe code or token is wrong, or the probe is archived." : "Send Authorization: Bearer <probe code>.<token>."));
+  const res = errorResponse(
+    new AppError("unauthenticated", given ? "The probe code or token is wrong, or the probe is archived." : "Send Authorization: Bearer <probe code>.<token>."),
+  );
   res.headers.set("WWW-Authenticate", `Bearer realm="wormward"${given ? ', error="invalid_token"' : ""}`);
   return res;
 }

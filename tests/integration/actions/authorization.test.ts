@@ -87,7 +87,8 @@ const rows: Row[] = [
     page: (i) => `/farms/${i.farm}/team`,
     fields: (i) => ({ farmId: i.farm, email: `invited-${i.bin.slice(0, 8)}@example.org`, role: "keeper" }),
     allowed: OWNER,
-    changed: async (i) => (await q(`select 1 from invitations where farm_id = $1 and email = $2`, [i.farm, `invited-${i.bin.slice(0, 8)}@example.org`])).length > 0,
+    changed: async (i) =>
+      (await q(`select 1 from invitations where farm_id = $1 and email = $2`, [i.farm, `invited-${i.bin.slice(0, 8)}@example.org`])).length > 0,
   },
   {
     action: `${team}#revoke`,
@@ -128,10 +129,23 @@ let otherIds: Ids;
 
 async function scratchIds(farmId: string, opts: { archived?: boolean } = {}): Promise<Ids> {
   const tag = Math.random().toString(36).slice(2, 10);
-  const bin = (await q(`insert into bins (farm_id, name, style, species, archived_at) values ($1, $2, 'tote', 'eisenia-fetida', $3) returning id`, [farmId, `Action bin ${tag}`, opts.archived ? new Date() : null]))[0].id;
-  const member = (await q(`insert into users (email, name, password_hash) values ($1, 'Scratch Keeper', 'x') returning id`, [`member-${tag}@example.org`]))[0].id;
+  const bin = (
+    await q(`insert into bins (farm_id, name, style, species, archived_at) values ($1, $2, 'tote', 'eisenia-fetida', $3) returning id`, [
+      farmId,
+      `Action bin ${tag}`,
+      opts.archived ? new Date() : null,
+    ])
+  )[0].id;
+  const member = (await q(`insert into users (email, name, password_hash) values ($1, 'Scratch Keeper', 'x') returning id`, [`member-${tag}@example.org`]))[0]
+    .id;
   await q(`insert into memberships (user_id, farm_id, role) values ($1, $2, 'keeper')`, [member, farmId]);
-  const invitation = (await q(`insert into invitations (farm_id, email, role, token_hash, expires_at) values ($1, $2, 'viewer', $3, now() + interval '1 day') returning id`, [farmId, `open-${tag}@example.org`, `scratch-${tag}`]))[0].id;
+  const invitation = (
+    await q(`insert into invitations (farm_id, email, role, token_hash, expires_at) values ($1, $2, 'viewer', $3, now() + interval '1 day') returning id`, [
+      farmId,
+      `open-${tag}@example.org`,
+      `scratch-${tag}`,
+    ])
+  )[0].id;
   await q(`update farms set name = $2 where id = $1`, [farmId, `Action farm ${tag}`]);
   return { farm: farmId, bin, member, invitation };
 }
@@ -141,10 +155,21 @@ beforeAll(async () => {
   await db.connect();
   const hash = await hashPassword("action-test-pass");
   const person = async (label: string) =>
-    (await q(`insert into users (email, name, password_hash) values ($1, $2, $3) returning id, email`, [`${label}-${Date.now()}-${Math.random().toString(36).slice(2, 6)}@example.org`, label, hash]))[0] as { id: string; email: string };
+    (
+      await q(`insert into users (email, name, password_hash) values ($1, $2, $3) returning id, email`, [
+        `${label}-${Date.now()}-${Math.random().toString(36).slice(2, 6)}@example.org`,
+        label,
+        hash,
+      ])
+    )[0] as { id: string; email: string };
   const [owner, keeper, viewer, otherOwner] = [await person("owner"), await person("keeper"), await person("viewer"), await person("other-owner")];
   farm = (await q(`insert into farms (name) values ('Zz Action Test Farm') returning id`, []))[0].id;
-  await q(`insert into memberships (user_id, farm_id, role) values ($1, $4, 'owner'), ($2, $4, 'keeper'), ($3, $4, 'viewer')`, [owner.id, keeper.id, viewer.id, farm]);
+  await q(`insert into memberships (user_id, farm_id, role) values ($1, $4, 'owner'), ($2, $4, 'keeper'), ($3, $4, 'viewer')`, [
+    owner.id,
+    keeper.id,
+    viewer.id,
+    farm,
+  ]);
   const otherFarm = (await q(`insert into farms (name) values ('Zz Other Action Farm') returning id`, []))[0].id;
   await q(`insert into memberships (user_id, farm_id, role) values ($1, $2, 'owner')`, [otherOwner.id, otherFarm]);
   otherIds = { ...(await scratchIds(otherFarm)) };
@@ -166,7 +191,11 @@ describe("every server action checks the session and the role", () => {
       for (const caller of callers) {
         const allowed = caller !== "signed-out" && caller !== "other-farm" && row.allowed.includes(caller);
         const title =
-          caller === "signed-out" ? "signed out changes nothing" : caller === "other-farm" ? "an owner naming another farm's ids changes nothing there" : `${caller} ${allowed ? "takes effect" : "is refused and changes nothing"}`;
+          caller === "signed-out"
+            ? "signed out changes nothing"
+            : caller === "other-farm"
+              ? "an owner naming another farm's ids changes nothing there"
+              : `${caller} ${allowed ? "takes effect" : "is refused and changes nothing"}`;
         it(title, async () => {
           const ids = caller === "other-farm" ? { ...otherIds } : await scratchIds(farm, { archived: name === "bringBackBin" });
           if (caller === "other-farm" && name === "bringBackBin") await q(`update bins set archived_at = now() where id = $1`, [ids.bin]);
@@ -204,9 +233,14 @@ describe("every server action checks the session and the role", () => {
     });
     for (const role of ["viewer", "keeper", "owner"] as Role[]) {
       it(`${role} changes their own quiet hours and no one else's`, async () => {
-        const res = await callAction(sessions[role], "app/(farm)/me/actions.ts#saveQuietHours", "/me", { ...fields, quietFrom: `2${["viewer", "keeper", "owner"].indexOf(role)}:30` });
+        const res = await callAction(sessions[role], "app/(farm)/me/actions.ts#saveQuietHours", "/me", {
+          ...fields,
+          quietFrom: `2${["viewer", "keeper", "owner"].indexOf(role)}:30`,
+        });
         expect(said(res.text), res.text.slice(0, 400)).toMatchObject({ ok: true });
-        const changed = await q(`select name from users where quiet_from = $1 and timezone = 'Europe/Lisbon'`, [`2${["viewer", "keeper", "owner"].indexOf(role)}:30`]);
+        const changed = await q(`select name from users where quiet_from = $1 and timezone = 'Europe/Lisbon'`, [
+          `2${["viewer", "keeper", "owner"].indexOf(role)}:30`,
+        ]);
         expect(changed.map((r) => r.name)).toEqual([role]);
       });
     }

@@ -23,7 +23,10 @@ let probe: TestProbe & { binId: string };
 let worker: DeliveryWorker;
 beforeAll(async () => {
   const [p] = await createProbes(1);
-  const [u] = await db().insert(users).values({ email: `phones-${Date.now()}@example.org`, name: "Three phones", passwordHash: "x" }).returning();
+  const [u] = await db()
+    .insert(users)
+    .values({ email: `phones-${Date.now()}@example.org`, name: "Three phones", passwordHash: "x" })
+    .returning();
   userId = u!.id;
   await db().insert(memberships).values({ userId, farmId: p!.farmId, role: "keeper" });
   const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${p!.zoneId}'`)).rows[0] as { binId: string }).binId;
@@ -39,12 +42,24 @@ describe("dead push subscriptions", () => {
     const live = await newSubscriber();
     const gone = await newSubscriber();
     const unknown = await newSubscriber();
-    for (const s of [live, gone, unknown]) await savePushSubscription(userId, { endpoint: s.json.endpoint, p256dh: s.json.keys.p256dh, auth: s.json.keys.auth });
+    for (const s of [live, gone, unknown])
+      await savePushSubscription(userId, { endpoint: s.json.endpoint, p256dh: s.json.keys.p256dh, auth: s.json.keys.auth });
     expect((await pushRequest("DELETE", `/subscription/${gone.id}`)).status).toBe(204);
     const unknownEndpoint = unknown.json.endpoint.replace(/[^/]+$/, "never-subscribed");
     await db().update(pushSubscriptions).set({ endpoint: unknownEndpoint }).where(eq(pushSubscriptions.endpoint, unknown.json.endpoint));
 
-    const alert = await raiseAlert({ farmId: probe.farmId, binId: probe.binId, zoneId: probe.zoneId, probeId: null, subject: `zone:${probe.zoneId}:heat`, kind: "heat", level: "act_now", value: 33, message: "Test bin: 33 °C", details: {} });
+    const alert = await raiseAlert({
+      farmId: probe.farmId,
+      binId: probe.binId,
+      zoneId: probe.zoneId,
+      probeId: null,
+      subject: `zone:${probe.zoneId}:heat`,
+      kind: "heat",
+      level: "act_now",
+      value: 33,
+      message: "Test bin: 33 °C",
+      details: {},
+    });
     expect(await notifyAlert(alert!, "raised")).toMatchObject({ queued: 3 });
     worker.kick();
     await worker.idle();

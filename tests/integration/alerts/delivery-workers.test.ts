@@ -33,12 +33,27 @@ beforeAll(async () => {
   phones = await Promise.all(Array.from({ length: N }, () => newSubscriber()));
   // Ten keepers with four phones each.
   for (let k = 0; k < N / 4; k++) {
-    const [u] = await db().insert(users).values({ email: `crew-${k}-${probe!.code}@example.org`, name: `Keeper ${k}`, passwordHash: "x" }).returning();
+    const [u] = await db()
+      .insert(users)
+      .values({ email: `crew-${k}-${probe!.code}@example.org`, name: `Keeper ${k}`, passwordHash: "x" })
+      .returning();
     await db().insert(memberships).values({ userId: u!.id, farmId: probe!.farmId, role: "keeper" });
-    for (const s of phones.slice(k * 4, k * 4 + 4)) await savePushSubscription(u!.id, { endpoint: s.json.endpoint, p256dh: s.json.keys.p256dh, auth: s.json.keys.auth });
+    for (const s of phones.slice(k * 4, k * 4 + 4))
+      await savePushSubscription(u!.id, { endpoint: s.json.endpoint, p256dh: s.json.keys.p256dh, auth: s.json.keys.auth });
   }
   const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows[0] as { binId: string }).binId;
-  const alert = await raiseAlert({ farmId: probe!.farmId, binId, zoneId: probe!.zoneId, probeId: null, subject: `zone:${probe!.zoneId}:heat`, kind: "heat", level: "act_now", value: 35, message: "Test bin: 35 °C", details: {} });
+  const alert = await raiseAlert({
+    farmId: probe!.farmId,
+    binId,
+    zoneId: probe!.zoneId,
+    probeId: null,
+    subject: `zone:${probe!.zoneId}:heat`,
+    kind: "heat",
+    level: "act_now",
+    value: 35,
+    message: "Test bin: 35 °C",
+    details: {},
+  });
   alertId = alert!.id;
   // Queued with no worker running, then twice over: the repeat adds no row (dedupe key).
   expect(await notifyAlert(alert!, "raised")).toMatchObject({ queued: N });
@@ -49,11 +64,13 @@ beforeAll(async () => {
 describe("the delivery outbox", () => {
   it("two delivery workers send each delivery once", async () => {
     // Both start at the same moment and race for the same rows.
-    workers.push(
-      createDeliveryWorker({ concurrency: 4, perFarm: N, pollMs: 20 }),
-      createDeliveryWorker({ concurrency: 4, perFarm: N, pollMs: 20 }),
+    workers.push(createDeliveryWorker({ concurrency: 4, perFarm: N, pollMs: 20 }), createDeliveryWorker({ concurrency: 4, perFarm: N, pollMs: 20 }));
+    await waitFor(
+      "every delivery to end",
+      () => listDeliveries({ alertId }),
+      (rows) => rows.every((d) => d.state === "sent"),
+      30_000,
     );
-    await waitFor("every delivery to end", () => listDeliveries({ alertId }), (rows) => rows.every((d) => d.state === "sent"), 30_000);
     await Promise.all(workers.map((w) => w.idle()));
 
     const rows = await listDeliveries({ alertId });
@@ -75,11 +92,25 @@ describe("a worker that dies mid-send", () => {
   it("leaves its delivery to another worker once its lease runs out, under the same Topic", async () => {
     const phone = await newSubscriber();
     const [probe] = await createProbes(1);
-    const [u] = await db().insert(users).values({ email: `lease-${probe!.code}@example.org`, name: "Keeper", passwordHash: "x" }).returning();
+    const [u] = await db()
+      .insert(users)
+      .values({ email: `lease-${probe!.code}@example.org`, name: "Keeper", passwordHash: "x" })
+      .returning();
     await db().insert(memberships).values({ userId: u!.id, farmId: probe!.farmId, role: "keeper" });
     await savePushSubscription(u!.id, { endpoint: phone.json.endpoint, p256dh: phone.json.keys.p256dh, auth: phone.json.keys.auth });
     const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows[0] as { binId: string }).binId;
-    const alert = await raiseAlert({ farmId: probe!.farmId, binId, zoneId: probe!.zoneId, probeId: null, subject: `zone:${probe!.zoneId}:soggy`, kind: "soggy", level: "act_now", value: 92, message: "Test bin: 92 %", details: {} });
+    const alert = await raiseAlert({
+      farmId: probe!.farmId,
+      binId,
+      zoneId: probe!.zoneId,
+      probeId: null,
+      subject: `zone:${probe!.zoneId}:soggy`,
+      kind: "soggy",
+      level: "act_now",
+      value: 92,
+      message: "Test bin: 92 %",
+      details: {},
+    });
     // The running workers are busy elsewhere for this test: stop them, then take the row as a worker
     // would and "die" (never end it), with a short lease.
     for (const w of workers.splice(0)) await w.stop();
@@ -90,7 +121,12 @@ describe("a worker that dies mid-send", () => {
     workers.push(survivor);
     await new Promise((r) => setTimeout(r, 200));
     expect(await pushMessagesFor(phone.id)).toHaveLength(0); // still the dead worker's
-    const [done] = await waitFor("the row to be sent", () => listDeliveries({ alertId: alert!.id }), (r) => r[0]?.state === "sent", 10_000);
+    const [done] = await waitFor(
+      "the row to be sent",
+      () => listDeliveries({ alertId: alert!.id }),
+      (r) => r[0]?.state === "sent",
+      10_000,
+    );
     expect(done!.attempts).toBe(2);
     const got = (await pushMessagesFor(phone.id)) as unknown as { headers: { topic: string } }[];
     expect(got).toHaveLength(1);

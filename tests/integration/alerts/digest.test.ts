@@ -29,11 +29,17 @@ const at = (iso: string) => new Date(iso);
 
 beforeAll(async () => {
   const d = db();
-  const [farm] = await d.insert(farms).values({ name: `Digest farm ${tag}`, timezone: "Europe/Dublin" }).returning();
+  const [farm] = await d
+    .insert(farms)
+    .values({ name: `Digest farm ${tag}`, timezone: "Europe/Dublin" })
+    .returning();
   farmId = farm!.id;
   const ids: Record<string, string> = {};
   for (const [role, email] of Object.entries(people)) {
-    const [u] = await d.insert(users).values({ email, name: `The ${role}`, passwordHash: "x" }).returning();
+    const [u] = await d
+      .insert(users)
+      .values({ email, name: `The ${role}`, passwordHash: "x" })
+      .returning();
     await d.insert(memberships).values({ userId: u!.id, farmId, role: role as "owner" | "keeper" | "viewer" });
     ids[role] = u!.id;
   }
@@ -43,7 +49,12 @@ beforeAll(async () => {
   const [curing] = await d.insert(zones).values({ binId: bed!.id, position: 2, kind: "curing" }).returning();
   await d.insert(zones).values({ binId: tote!.id, position: 1, kind: "working" });
   const probe = async (zoneId: string, n: number) =>
-    (await d.insert(probes).values({ farmId, zoneId, code: `dg${tag}-${n}`, tokenHash: `h${tag}${n}` }).returning())[0]!.id;
+    (
+      await d
+        .insert(probes)
+        .values({ farmId, zoneId, code: `dg${tag}-${n}`, tokenHash: `h${tag}${n}` })
+        .returning()
+    )[0]!.id;
   const pFresh = await probe(fresh!.id, 1);
   const pCuring = await probe(curing!.id, 2);
 
@@ -63,8 +74,15 @@ beforeAll(async () => {
 
   const alert = (binId: string, zoneId: string | null, kind: "heat" | "drying" | "chill", level: "heads_up" | "act_now", raised: string, settled?: string) =>
     d.insert(alerts).values({
-      farmId, binId, zoneId, kind, level, subject: `digest:${tag}:${kind}:${raised}`, message: "test",
-      raisedAt: at(raised), ...(settled ? { state: "settled" as const, settledAt: at(settled) } : {}),
+      farmId,
+      binId,
+      zoneId,
+      kind,
+      level,
+      subject: `digest:${tag}:${kind}:${raised}`,
+      message: "test",
+      raisedAt: at(raised),
+      ...(settled ? { state: "settled" as const, settledAt: at(settled) } : {}),
     });
   await alert(bed!.id, fresh!.id, "heat", "act_now", "2026-07-14T10:00:00Z");
   await alert(bed!.id, fresh!.id, "drying", "heads_up", "2026-07-14T15:00:00Z", "2026-07-14T18:00:00Z");
@@ -72,7 +90,18 @@ beforeAll(async () => {
   await alert(tote!.id, null, "heat", "heads_up", "2026-07-13T12:00:00Z"); // 13 July local
 
   const feeding = (iso: string, kg: number) =>
-    insertFeeding({ farmId, binId: bed!.id, zoneId: fresh!.id, at: at(iso), byUserId: ids.keeper!, notes: null, mixMoisturePct: null, mixCn: null, totalKg: kg, items: [{ ingredientId: null, name: "vegetable scraps", massKg: kg, moisturePct: 87, carbonPct: null, nitrogenPct: null }] });
+    insertFeeding({
+      farmId,
+      binId: bed!.id,
+      zoneId: fresh!.id,
+      at: at(iso),
+      byUserId: ids.keeper!,
+      notes: null,
+      mixMoisturePct: null,
+      mixCn: null,
+      totalKg: kg,
+      items: [{ ingredientId: null, name: "vegetable scraps", massKg: kg, moisturePct: 87, carbonPct: null, nitrogenPct: null }],
+    });
   await feeding("2026-07-14T08:00:00Z", 5);
   await feeding("2026-07-14T17:00:00Z", 7.5);
   await feeding("2026-07-13T17:00:00Z", 40); // 13 July local

@@ -41,7 +41,10 @@ let simNow = 0;
 beforeAll(async () => {
   probe = (await createProbes(1))[0]!;
   const d = db();
-  const [k] = await d.insert(users).values({ email: `keeper-${probe!.code}@example.org`, name: "Story Keeper", passwordHash: "x" }).returning();
+  const [k] = await d
+    .insert(users)
+    .values({ email: `keeper-${probe!.code}@example.org`, name: "Story Keeper", passwordHash: "x" })
+    .returning();
   keeperId = k!.id;
   await d.insert(memberships).values({ userId: keeperId, farmId: probe!.farmId, role: "keeper" });
   keeper = await newSubscriber();
@@ -72,7 +75,18 @@ describe("a heavy feed heats the fresh zone", () => {
   it("raises a heads-up, then act now, pushes it to the keeper, is claimed, and settles when the zone cools", async () => {
     const start = Date.now() - 6 * 3600_000;
     const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe.zoneId}'`)).rows[0] as { binId: string }).binId;
-    await insertFeeding({ farmId: probe.farmId, binId, zoneId: probe.zoneId, at: new Date(start), byUserId: keeperId, notes: "heavy feed", mixMoisturePct: 82, mixCn: 18, totalKg: 12, items: [{ ingredientId: null, name: "vegetable scraps", massKg: 12, moisturePct: 87, carbonPct: 51.3, nitrogenPct: 2.7 }] });
+    await insertFeeding({
+      farmId: probe.farmId,
+      binId,
+      zoneId: probe.zoneId,
+      at: new Date(start),
+      byUserId: keeperId,
+      notes: "heavy feed",
+      mixMoisturePct: 82,
+      mixCn: 18,
+      totalKg: 12,
+      items: [{ ingredientId: null, name: "vegetable scraps", massKg: 12, moisturePct: 87, carbonPct: 51.3, nitrogenPct: 2.7 }],
+    });
 
     const seen: { minute: number; type: string; level: string }[] = [];
     let escalatedAtReal = 0;
@@ -118,8 +132,11 @@ describe("a heavy feed heats the fresh zone", () => {
     await worker.idle();
     const messages = await pushMessagesFor(keeper.id);
     expect(messages.length).toBeGreaterThanOrEqual(2);
-    const payloads = messages.map((m) =>
-      JSON.parse(ece.decrypt(Buffer.from(m.body, "base64url"), { version: "aes128gcm", privateKey: keeper.ecdh, authSecret: keeper.authSecret }).toString("utf8")) as { level: string; bin: string; zone: string; body: string; alertId: string; value: number },
+    const payloads = messages.map(
+      (m) =>
+        JSON.parse(
+          ece.decrypt(Buffer.from(m.body, "base64url"), { version: "aes128gcm", privateKey: keeper.ecdh, authSecret: keeper.authSecret }).toString("utf8"),
+        ) as { level: string; bin: string; zone: string; body: string; alertId: string; value: number },
     );
     const urgent = payloads.find((p) => p.level === "act_now" && p.alertId === alert.id)!;
     expect(urgent.alertId).toBe(alert.id);

@@ -26,9 +26,19 @@ afterAll(async () => {
 describe("readings from outside the broker", () => {
   it("a committed batch of hot readings raises a heat alert without any MQTT message", async () => {
     const now = Date.now();
-    const rows = Array.from({ length: 15 }, (_, i) => ({ probeId: probe.id, metric: "temperature" as const, ts: new Date(now - (14 - i) * 60_000), value: 34 }));
+    const rows = Array.from({ length: 15 }, (_, i) => ({
+      probeId: probe.id,
+      metric: "temperature" as const,
+      ts: new Date(now - (14 - i) * 60_000),
+      value: 34,
+    }));
     await insertReadings(rows);
-    const found = await waitFor("a heat alert", () => db().select().from(alerts).where(eq(alerts.zoneId, probe.zoneId)), (a) => a.length > 0, 10_000);
+    const found = await waitFor(
+      "a heat alert",
+      () => db().select().from(alerts).where(eq(alerts.zoneId, probe.zoneId)),
+      (a) => a.length > 0,
+      10_000,
+    );
     expect(found[0]).toMatchObject({ kind: "heat", level: "act_now", state: "raised" });
   });
 });

@@ -37,7 +37,10 @@ const ownerEmail = `owner-${Date.now()}@example.org`;
 beforeAll(async () => {
   probe = (await createProbes(1))[0]!;
   const d = db();
-  for (const [email, role] of [[keeperEmail, "keeper"], [ownerEmail, "owner"]] as const) {
+  for (const [email, role] of [
+    [keeperEmail, "keeper"],
+    [ownerEmail, "owner"],
+  ] as const) {
     const [u] = await d.insert(users).values({ email, name: role, passwordHash: "x" }).returning();
     await d.insert(memberships).values({ userId: u!.id, farmId: probe.farmId, role });
   }
@@ -60,7 +63,11 @@ describe("e-mail when push is not possible", () => {
     const start = Date.now() - 3600_000;
     for (let m = 0; m <= 14; m++) {
       simNow = start + m * 60_000;
-      await client.publishAsync(`wormward/${probe.code}/up`, JSON.stringify([{ bn: probeBaseName(probe.code), bt: simNow / 1000, n: "temp", u: "Cel", v: 33.5 }]), { qos: 1 });
+      await client.publishAsync(
+        `wormward/${probe.code}/up`,
+        JSON.stringify([{ bn: probeBaseName(probe.code), bt: simNow / 1000, n: "temp", u: "Cel", v: 33.5 }]),
+        { qos: 1 },
+      );
       await runner.idle();
     }
     const [alert] = await db().select().from(alerts).where(eq(alerts.zoneId, probe.zoneId));

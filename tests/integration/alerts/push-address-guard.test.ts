@@ -45,20 +45,28 @@ afterAll(async () => {
 describe("the address check before each send", () => {
   it("a listed push service whose name resolves to a loopback address is refused before any connection", async () => {
     const keys = (await newSubscriber()).json.keys;
-    const r = await sendPush({ endpoint: `https://localhost:${port}/push/abc`, keys }, { title: "x" }, {
-      vapid: { ...vapid, subject: "mailto:alerts@wormward.test" },
-      allow: { hosts: ["localhost"], fakeOrigin: inject("pushServiceUrl") },
-      timeoutMs: 2_000,
-    });
+    const r = await sendPush(
+      { endpoint: `https://localhost:${port}/push/abc`, keys },
+      { title: "x" },
+      {
+        vapid: { ...vapid, subject: "mailto:alerts@wormward.test" },
+        allow: { hosts: ["localhost"], fakeOrigin: inject("pushServiceUrl") },
+        timeoutMs: 2_000,
+      },
+    );
     expect(r).toEqual({ ok: false, gone: false, retry: false, status: null, reason: "the push service's name points inside a private network" });
     expect(connections).toBe(0);
     // The same trap, named by its address with the check skipped as for the fake, is reachable:
     // the count above is not zero because nothing could connect.
-    const reached = await sendPush({ endpoint: `https://127.0.0.1:${port}/push/abc`, keys }, { title: "x" }, {
-      vapid: { ...vapid, subject: "mailto:alerts@wormward.test" },
-      allow: { hosts: [], fakeOrigin: `https://127.0.0.1:${port}` },
-      timeoutMs: 2_000,
-    });
+    const reached = await sendPush(
+      { endpoint: `https://127.0.0.1:${port}/push/abc`, keys },
+      { title: "x" },
+      {
+        vapid: { ...vapid, subject: "mailto:alerts@wormward.test" },
+        allow: { hosts: [], fakeOrigin: `https://127.0.0.1:${port}` },
+        timeoutMs: 2_000,
+      },
+    );
     expect(reached).toMatchObject({ ok: false, status: null, retry: true });
     expect(connections).toBe(1);
     connections = 0;
@@ -66,7 +74,10 @@ describe("the address check before each send", () => {
 
   it("a delivery worker refuses stored subscriptions on such names and on private addresses, once, without retrying", async () => {
     const [probe] = await createProbes(1);
-    const [u] = await db().insert(users).values({ email: `guard-${probe!.code}@example.org`, name: "Guarded", passwordHash: "x" }).returning();
+    const [u] = await db()
+      .insert(users)
+      .values({ email: `guard-${probe!.code}@example.org`, name: "Guarded", passwordHash: "x" })
+      .returning();
     await db().insert(memberships).values({ userId: u!.id, farmId: probe!.farmId, role: "keeper" });
     const keys = (await newSubscriber()).json.keys;
     // Rows as an older build stored them, before the allow-list: straight into the table.
@@ -74,13 +85,28 @@ describe("the address check before each send", () => {
       await db().insert(pushSubscriptions).values({ userId: u!.id, endpoint, p256dh: keys.p256dh, auth: keys.auth });
     }
     const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows[0] as { binId: string }).binId;
-    const alert = await raiseAlert({ farmId: probe!.farmId, binId, zoneId: probe!.zoneId, probeId: null, subject: `zone:${probe!.zoneId}:heat`, kind: "heat", level: "act_now", value: 34, message: "Test bin: 34 °C", details: {} });
+    const alert = await raiseAlert({
+      farmId: probe!.farmId,
+      binId,
+      zoneId: probe!.zoneId,
+      probeId: null,
+      subject: `zone:${probe!.zoneId}:heat`,
+      kind: "heat",
+      level: "act_now",
+      value: 34,
+      message: "Test bin: 34 °C",
+      details: {},
+    });
     expect(await notifyAlert(alert!, "raised")).toMatchObject({ queued: 3 });
     worker.kick();
     await worker.idle({ includeRetries: true });
 
     const rows = await listDeliveries({ alertId: alert!.id });
-    expect(rows.map((d) => [d.state, d.attempts, d.lastStatus])).toEqual([["failed", 1, null], ["failed", 1, null], ["failed", 1, null]]);
+    expect(rows.map((d) => [d.state, d.attempts, d.lastStatus])).toEqual([
+      ["failed", 1, null],
+      ["failed", 1, null],
+      ["failed", 1, null],
+    ]);
     expect(rows.map((d) => d.lastReason).sort()).toEqual([
       "the push service's name points inside a private network",
       "this push endpoint is not one we send to",

@@ -31,13 +31,27 @@ describe("the push test does not return what the push service said", () => {
   it("nor is it stored with the alert: a 400 and a 503 with bodies leave the status and our words", async () => {
     const secret = "internal-relay=10.9.8.7 session=abcd1234 <pre>Traceback</pre>";
     const [probe] = await createProbes(1);
-    const [u] = await db().insert(users).values({ email: `answers-${probe!.code}@example.org`, name: "Two phones", passwordHash: "x" }).returning();
+    const [u] = await db()
+      .insert(users)
+      .values({ email: `answers-${probe!.code}@example.org`, name: "Two phones", passwordHash: "x" })
+      .returning();
     await db().insert(memberships).values({ userId: u!.id, farmId: probe!.farmId, role: "keeper" });
     const refusing = await newSubscriber({ mode: "answers", status: 400, body: secret });
     const failing = await newSubscriber({ mode: "answers", status: 503, body: secret });
     for (const s of [refusing, failing]) await savePushSubscription(u!.id, { endpoint: s.json.endpoint, p256dh: s.json.keys.p256dh, auth: s.json.keys.auth });
     const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows[0] as { binId: string }).binId;
-    const alert = await raiseAlert({ farmId: probe!.farmId, binId, zoneId: probe!.zoneId, probeId: null, subject: `zone:${probe!.zoneId}:heat`, kind: "heat", level: "act_now", value: 34, message: "Test bin: 34 °C", details: {} });
+    const alert = await raiseAlert({
+      farmId: probe!.farmId,
+      binId,
+      zoneId: probe!.zoneId,
+      probeId: null,
+      subject: `zone:${probe!.zoneId}:heat`,
+      kind: "heat",
+      level: "act_now",
+      value: 34,
+      message: "Test bin: 34 °C",
+      details: {},
+    });
 
     await notifyAlert(alert!, "raised");
     worker.kick();

@@ -28,7 +28,10 @@ const night = new Date("2026-12-01T02:00:00Z");
 beforeAll(async () => {
   probe = (await createProbes(1))[0]!;
   const d = db();
-  const [u] = await d.insert(users).values({ email: `sleeper-${probe.code}@example.org`, name: "Sleeper", passwordHash: "x", quietFrom: "22:00", quietTo: "06:30", timezone: "UTC" }).returning();
+  const [u] = await d
+    .insert(users)
+    .values({ email: `sleeper-${probe.code}@example.org`, name: "Sleeper", passwordHash: "x", quietFrom: "22:00", quietTo: "06:30", timezone: "UTC" })
+    .returning();
   await d.insert(memberships).values({ userId: u!.id, farmId: probe.farmId, role: "keeper" });
   sleeper = await newSubscriber();
   await savePushSubscription(u!.id, { endpoint: sleeper.json.endpoint, p256dh: sleeper.json.keys.p256dh, auth: sleeper.json.keys.auth });
@@ -43,7 +46,10 @@ const base = () => ({ farmId: probe.farmId, binId, zoneId: probe.zoneId, probeId
 
 describe("quiet hours", () => {
   it("a heads-up at 02:00 is held back for a keeper whose quiet hours are 22:00–06:30", async () => {
-    const a = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:soggy`, kind: "soggy", level: "heads_up", message: "Test bin: 88 % moisture" }, night);
+    const a = await raiseAlert(
+      { ...base(), subject: `zone:${probe.zoneId}:soggy`, kind: "soggy", level: "heads_up", message: "Test bin: 88 % moisture" },
+      night,
+    );
     const r = await notifyAlert(a!, "raised", night);
     expect(r).toMatchObject({ queued: 0, held: 1 });
     await worker.idle();
@@ -65,11 +71,16 @@ describe("quiet hours", () => {
 
 describe("when quiet hours end", () => {
   it("a held heads-up still waiting for a person is delivered once; a claimed one is not", async () => {
-    const waiting = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:drying`, kind: "drying", level: "heads_up", message: "Test bin: 69 % and drying" }, night);
+    const waiting = await raiseAlert(
+      { ...base(), subject: `zone:${probe.zoneId}:drying`, kind: "drying", level: "heads_up", message: "Test bin: 69 % and drying" },
+      night,
+    );
     const taken = await raiseAlert({ ...base(), subject: `zone:${probe.zoneId}:chill`, kind: "chill", level: "heads_up", message: "Test bin: 14 °C" }, night);
     await notifyAlert(waiting!, "raised", night);
     await notifyAlert(taken!, "raised", night);
-    const userId = (await db().select({ userId: alertEvents.userId }).from(alertEvents).where(eq(alertEvents.alertId, taken!.id))).find((e) => e.userId)!.userId!;
+    const userId = (await db().select({ userId: alertEvents.userId }).from(alertEvents).where(eq(alertEvents.alertId, taken!.id))).find(
+      (e) => e.userId,
+    )!.userId!;
     await claimAlert(taken!.id, userId);
     await worker.idle();
     const before = (await pushMessagesFor(sleeper.id)).length;

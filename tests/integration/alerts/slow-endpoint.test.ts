@@ -90,7 +90,12 @@ describe("one farm's slow push endpoint", () => {
     const alertA = (await heatAlertOf(a))!;
     expect(alertA.raisedAt.getTime()).toBeLessThan((await heatAlertOf(b))!.raisedAt.getTime());
 
-    const [pushB] = await waitFor("farm B's push", () => pushMessagesFor(b.subs[0]!.id), (m) => m.length > 0, 20_000);
+    const [pushB] = await waitFor(
+      "farm B's push",
+      () => pushMessagesFor(b.subs[0]!.id),
+      (m) => m.length > 0,
+      20_000,
+    );
     const latency = Date.parse(pushB!.receivedAt) - bRaisedByPublishAt;
     console.log(`farm B publish-to-push while farm A's push service hangs: ${latency} ms (push timeout ${TIMEOUT_MS} ms)`);
     expect(latency).toBeLessThan(TIMEOUT_MS);
@@ -101,17 +106,27 @@ describe("one farm's slow push endpoint", () => {
 
     // Farm A's deliveries end as timeouts after their retries, with nothing from the other end stored.
     const why = `no answer from the push service within ${TIMEOUT_MS / 1000} s`;
-    const ended = await waitFor("farm A's deliveries to end", () => listDeliveries({ alertId: alertA.id }), (r) => r.filter((d) => d.channel === "push").every((d) => d.state === "failed"), 60_000);
-    expect(ended.filter((d) => d.channel === "push").map((d) => ({ state: d.state, attempts: d.attempts, status: d.lastStatus, reason: d.lastReason }))).toEqual(
-      Array(SLOTS).fill({ state: "failed", attempts: ATTEMPTS, status: null, reason: why }),
+    const ended = await waitFor(
+      "farm A's deliveries to end",
+      () => listDeliveries({ alertId: alertA.id }),
+      (r) => r.filter((d) => d.channel === "push").every((d) => d.state === "failed"),
+      60_000,
     );
+    expect(
+      ended.filter((d) => d.channel === "push").map((d) => ({ state: d.state, attempts: d.attempts, status: d.lastStatus, reason: d.lastReason })),
+    ).toEqual(Array(SLOTS).fill({ state: "failed", attempts: ATTEMPTS, status: null, reason: why }));
     expect(await Promise.all(a.subs.map((s) => pushAttemptsFor(s.id)))).toEqual(Array(SLOTS).fill(ATTEMPTS));
     const events = await db().select().from(alertEvents).where(eq(alertEvents.alertId, alertA.id));
     expect(events.filter((e) => e.channel === "push").map((e) => ({ type: e.type, detail: e.detail }))).toEqual(
       Array(SLOTS).fill({ type: "send_failed", detail: { reason: "raised", attempts: ATTEMPTS, status: null, why, removed: false } }),
     );
     // No push reached farm A's keeper, so the alert goes by e-mail; farm B's keeper, reached, gets none.
-    await waitFor("farm A's e-mail", () => mailTo(a.email), (m) => m.length === 1, 10_000);
+    await waitFor(
+      "farm A's e-mail",
+      () => mailTo(a.email),
+      (m) => m.length === 1,
+      10_000,
+    );
     expect((await mailTo(a.email))[0]!.subject).toMatch(/Act now: Heat/);
     expect(await mailTo(b.email)).toHaveLength(0);
   });

@@ -20,10 +20,15 @@ const workers: DeliveryWorker[] = [];
 
 beforeAll(async () => {
   probe = (await createProbes(1))[0]!;
-  const [u] = await db().insert(users).values({ email: `two-nodes-${probe.code}@example.org`, name: "Keeper", passwordHash: "x" }).returning();
+  const [u] = await db()
+    .insert(users)
+    .values({ email: `two-nodes-${probe.code}@example.org`, name: "Keeper", passwordHash: "x" })
+    .returning();
   await db().insert(memberships).values({ userId: u!.id, farmId: probe.farmId, role: "keeper" });
   const now = Date.now();
-  await insertReadings(Array.from({ length: 15 }, (_, i) => ({ probeId: probe.id, metric: "temperature" as const, ts: new Date(now - (14 - i) * 60_000), value: 33 })));
+  await insertReadings(
+    Array.from({ length: 15 }, (_, i) => ({ probeId: probe.id, metric: "temperature" as const, ts: new Date(now - (14 - i) * 60_000), value: 33 })),
+  );
 });
 afterAll(async () => {
   for (const r of runners) await r.stop();
@@ -35,7 +40,20 @@ describe("two ingest nodes", () => {
     const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe.zoneId}'`)).rows[0] as { binId: string }).binId;
     const subject = `zone:${probe.zoneId}:soggy`;
     const made = await Promise.all(
-      Array.from({ length: 5 }, () => raiseAlert({ farmId: probe.farmId, binId, zoneId: probe.zoneId, probeId: null, subject, kind: "soggy", level: "heads_up", value: 91, message: "91 %", details: {} })),
+      Array.from({ length: 5 }, () =>
+        raiseAlert({
+          farmId: probe.farmId,
+          binId,
+          zoneId: probe.zoneId,
+          probeId: null,
+          subject,
+          kind: "soggy",
+          level: "heads_up",
+          value: 91,
+          message: "91 %",
+          details: {},
+        }),
+      ),
     );
     expect(made.filter(Boolean)).toHaveLength(1);
     expect(await db().select().from(alerts).where(eq(alerts.subject, subject))).toHaveLength(1);

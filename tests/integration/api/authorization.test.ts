@@ -36,7 +36,14 @@ const rows: Row[] = [
   { method: "GET", route: "farms", path: () => "/api/farms", allowed: ALL, farmScoped: false },
   { method: "POST", route: "farms", path: () => "/api/farms", body: () => ({ name: "Zz farm of my own" }), allowed: ALL, farmScoped: false, last: true },
   { method: "GET", route: "farms/[farmId]", path: (i) => `/api/farms/${i.farm}`, allowed: ALL, farmScoped: true },
-  { method: "PATCH", route: "farms/[farmId]", path: (i) => `/api/farms/${i.farm}`, body: () => ({ timezone: "Europe/Dublin" }), allowed: OWNER, farmScoped: true },
+  {
+    method: "PATCH",
+    route: "farms/[farmId]",
+    path: (i) => `/api/farms/${i.farm}`,
+    body: () => ({ timezone: "Europe/Dublin" }),
+    allowed: OWNER,
+    farmScoped: true,
+  },
   { method: "GET", route: "farms/[farmId]/today", path: (i) => `/api/farms/${i.farm}/today`, allowed: ALL, farmScoped: true },
   { method: "GET", route: "farms/[farmId]/bins", path: (i) => `/api/farms/${i.farm}/bins`, allowed: ALL, farmScoped: true },
   { method: "POST", route: "farms/[farmId]/bins", path: (i) => `/api/farms/${i.farm}/bins`, body: newBin, allowed: OWNER, farmScoped: true },
@@ -52,22 +59,94 @@ const rows: Row[] = [
   { method: "GET", route: "farms/[farmId]/alerts", path: (i) => `/api/farms/${i.farm}/alerts?state=all`, allowed: ALL, farmScoped: true },
   { method: "GET", route: "alerts/[alertId]", path: (i) => `/api/alerts/${i.alert}`, allowed: ALL, farmScoped: true },
   { method: "POST", route: "alerts/[alertId]/claim", path: (i) => `/api/alerts/${i.alert}/claim`, allowed: CREW, farmScoped: true },
-  { method: "POST", route: "alerts/[alertId]/settle", path: (i) => `/api/alerts/${i.alert}/settle`, body: () => ({ note: "probe was out of the bed" }), allowed: CREW, farmScoped: true },
+  {
+    method: "POST",
+    route: "alerts/[alertId]/settle",
+    path: (i) => `/api/alerts/${i.alert}/settle`,
+    body: () => ({ note: "probe was out of the bed" }),
+    allowed: CREW,
+    farmScoped: true,
+  },
   { method: "GET", route: "bins/[binId]/feedings", path: (i) => `/api/bins/${i.bin}/feedings`, allowed: ALL, farmScoped: true },
   { method: "POST", route: "bins/[binId]/feedings", path: (i) => `/api/bins/${i.bin}/feedings`, body: feeding, allowed: CREW, farmScoped: true },
   { method: "GET", route: "farms/[farmId]/ingredients", path: (i) => `/api/farms/${i.farm}/ingredients`, allowed: ALL, farmScoped: true },
-  { method: "POST", route: "farms/[farmId]/ingredients", path: (i) => `/api/farms/${i.farm}/ingredients`, body: () => ({ name: `Spent grain ${Math.random().toString(36).slice(2, 7)}`, kind: "feedstock", moisturePct: 75, nitrogenPct: 4, cn: 12, source: "our lab report, March" }), allowed: CREW, farmScoped: true },
+  {
+    method: "POST",
+    route: "farms/[farmId]/ingredients",
+    path: (i) => `/api/farms/${i.farm}/ingredients`,
+    body: () => ({
+      name: `Spent grain ${Math.random().toString(36).slice(2, 7)}`,
+      kind: "feedstock",
+      moisturePct: 75,
+      nitrogenPct: 4,
+      cn: 12,
+      source: "our lab report, March",
+    }),
+    allowed: CREW,
+    farmScoped: true,
+  },
   { method: "GET", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules`, allowed: ALL, farmScoped: true },
-  { method: "PUT", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules`, body: () => ({ kind: "heat", thresholds: { actNowAtC: 28 } }), allowed: OWNER, farmScoped: true },
+  {
+    method: "PUT",
+    route: "bins/[binId]/rules",
+    path: (i) => `/api/bins/${i.bin}/rules`,
+    body: () => ({ kind: "heat", thresholds: { actNowAtC: 28 } }),
+    allowed: OWNER,
+    farmScoped: true,
+  },
   { method: "DELETE", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules?kind=heat`, allowed: OWNER, farmScoped: true },
   { method: "GET", route: "farms/[farmId]/probes", path: (i) => `/api/farms/${i.farm}/probes`, allowed: ALL, farmScoped: true },
-  { method: "POST", route: "farms/[farmId]/probes", path: (i) => `/api/farms/${i.farm}/probes`, body: () => ({ code: `new-${Math.random().toString(36).slice(2, 9)}` }), allowed: OWNER, farmScoped: true },
-  { method: "PATCH", route: "probes/[probeId]", path: (i) => `/api/probes/${i.probe}`, body: () => ({ label: "by the drain" }), allowed: OWNER, farmScoped: true },
+  {
+    method: "POST",
+    route: "farms/[farmId]/probes",
+    path: (i) => `/api/farms/${i.farm}/probes`,
+    body: () => ({ code: `new-${Math.random().toString(36).slice(2, 9)}` }),
+    allowed: OWNER,
+    farmScoped: true,
+  },
+  {
+    method: "PATCH",
+    route: "probes/[probeId]",
+    path: (i) => `/api/probes/${i.probe}`,
+    body: () => ({ label: "by the drain" }),
+    allowed: OWNER,
+    farmScoped: true,
+  },
   { method: "POST", route: "probes/[probeId]/token", path: (i) => `/api/probes/${i.probe}/token`, allowed: OWNER, farmScoped: true },
   { method: "GET", route: "push/key", path: () => "/api/push/key", allowed: ALL, farmScoped: false },
-  { method: "POST", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => lastSub, setup: async () => { lastSub = await newSubscription(); }, allowed: CREW, farmScoped: false },
-  { method: "DELETE", route: "push/subscriptions", path: () => "/api/push/subscriptions", body: () => ({ endpoint: lastSub?.endpoint }), setup: async (s) => { lastSub = await newSubscription(); await s.fetch("/api/push/subscriptions", { method: "POST", json: lastSub }); }, allowed: CREW, farmScoped: false },
-  { method: "POST", route: "push/test", path: () => "/api/push/test", setup: async (s) => { await s.fetch("/api/push/subscriptions", { method: "POST", json: await newSubscription() }); }, allowed: CREW, farmScoped: false },
+  {
+    method: "POST",
+    route: "push/subscriptions",
+    path: () => "/api/push/subscriptions",
+    body: () => lastSub,
+    setup: async () => {
+      lastSub = await newSubscription();
+    },
+    allowed: CREW,
+    farmScoped: false,
+  },
+  {
+    method: "DELETE",
+    route: "push/subscriptions",
+    path: () => "/api/push/subscriptions",
+    body: () => ({ endpoint: lastSub?.endpoint }),
+    setup: async (s) => {
+      lastSub = await newSubscription();
+      await s.fetch("/api/push/subscriptions", { method: "POST", json: lastSub });
+    },
+    allowed: CREW,
+    farmScoped: false,
+  },
+  {
+    method: "POST",
+    route: "push/test",
+    path: () => "/api/push/test",
+    setup: async (s) => {
+      await s.fetch("/api/push/subscriptions", { method: "POST", json: await newSubscription() });
+    },
+    allowed: CREW,
+    farmScoped: false,
+  },
   { method: "GET", route: "farms/[farmId]/imports", path: (i) => `/api/farms/${i.farm}/imports`, allowed: ALL, farmScoped: true },
   { method: "POST", route: "farms/[farmId]/imports", path: (i) => `/api/farms/${i.farm}/imports`, body: () => csvImport(), allowed: OWNER, farmScoped: true },
   { method: "GET", route: "zones/[zoneId]/series", path: (i) => `/api/zones/${i.zone}/series?metric=temperature`, allowed: ALL, farmScoped: true },
@@ -75,24 +154,98 @@ const rows: Row[] = [
   { method: "GET", route: "probes/[probeId]/series", path: (i) => `/api/probes/${i.probe}/series?metric=temperature`, allowed: ALL, farmScoped: true },
   // The team (behaviour, the last owner and invitation links: tests/integration/team/).
   { method: "GET", route: "farms/[farmId]/members", path: (i) => `/api/farms/${i.farm}/members`, allowed: ALL, farmScoped: true },
-  { method: "PATCH", route: "farms/[farmId]/members/[userId]", path: (i) => `/api/farms/${i.farm}/members/${scratchMember}`, body: () => ({ role: "viewer" }), setup: async () => { scratchMember = await newMember(); }, allowed: OWNER, farmScoped: true },
-  { method: "DELETE", route: "farms/[farmId]/members/[userId]", path: (i) => `/api/farms/${i.farm}/members/${scratchMember}`, setup: async () => { scratchMember = await newMember(); }, allowed: OWNER, farmScoped: true },
+  {
+    method: "PATCH",
+    route: "farms/[farmId]/members/[userId]",
+    path: (i) => `/api/farms/${i.farm}/members/${scratchMember}`,
+    body: () => ({ role: "viewer" }),
+    setup: async () => {
+      scratchMember = await newMember();
+    },
+    allowed: OWNER,
+    farmScoped: true,
+  },
+  {
+    method: "DELETE",
+    route: "farms/[farmId]/members/[userId]",
+    path: (i) => `/api/farms/${i.farm}/members/${scratchMember}`,
+    setup: async () => {
+      scratchMember = await newMember();
+    },
+    allowed: OWNER,
+    farmScoped: true,
+  },
   { method: "GET", route: "farms/[farmId]/invitations", path: (i) => `/api/farms/${i.farm}/invitations`, allowed: OWNER, farmScoped: true },
-  { method: "POST", route: "farms/[farmId]/invitations", path: (i) => `/api/farms/${i.farm}/invitations`, body: () => ({ email: `invitee-${Math.random().toString(36).slice(2, 9)}@example.org`, role: "keeper" }), allowed: OWNER, farmScoped: true },
-  { method: "DELETE", route: "farms/[farmId]/invitations/[invitationId]", path: (i) => `/api/farms/${i.farm}/invitations/${scratchInvitation}`, setup: async () => { scratchInvitation = await newInvitation(); }, allowed: OWNER, farmScoped: true },
+  {
+    method: "POST",
+    route: "farms/[farmId]/invitations",
+    path: (i) => `/api/farms/${i.farm}/invitations`,
+    body: () => ({ email: `invitee-${Math.random().toString(36).slice(2, 9)}@example.org`, role: "keeper" }),
+    allowed: OWNER,
+    farmScoped: true,
+  },
+  {
+    method: "DELETE",
+    route: "farms/[farmId]/invitations/[invitationId]",
+    path: (i) => `/api/farms/${i.farm}/invitations/${scratchInvitation}`,
+    setup: async () => {
+      scratchInvitation = await newInvitation();
+    },
+    allowed: OWNER,
+    farmScoped: true,
+  },
   // The rest of the logbook (behaviour: tests/integration/logbook/).
   { method: "GET", route: "bins/[binId]/waterings", path: (i) => `/api/bins/${i.bin}/waterings`, allowed: ALL, farmScoped: true },
-  { method: "POST", route: "bins/[binId]/waterings", path: (i) => `/api/bins/${i.bin}/waterings`, body: () => ({ litres: 1.5 }), allowed: CREW, farmScoped: true },
+  {
+    method: "POST",
+    route: "bins/[binId]/waterings",
+    path: (i) => `/api/bins/${i.bin}/waterings`,
+    body: () => ({ litres: 1.5 }),
+    allowed: CREW,
+    farmScoped: true,
+  },
   { method: "GET", route: "bins/[binId]/harvests", path: (i) => `/api/bins/${i.bin}/harvests`, allowed: ALL, farmScoped: true },
   { method: "POST", route: "bins/[binId]/harvests", path: (i) => `/api/bins/${i.bin}/harvests`, body: () => ({ massKg: 4 }), allowed: CREW, farmScoped: true },
   { method: "GET", route: "bins/[binId]/notes", path: (i) => `/api/bins/${i.bin}/notes`, allowed: ALL, farmScoped: true },
-  { method: "POST", route: "bins/[binId]/notes", path: (i) => `/api/bins/${i.bin}/notes`, body: () => ({ text: "mites on the lid" }), allowed: CREW, farmScoped: true },
+  {
+    method: "POST",
+    route: "bins/[binId]/notes",
+    path: (i) => `/api/bins/${i.bin}/notes`,
+    body: () => ({ text: "mites on the lid" }),
+    allowed: CREW,
+    farmScoped: true,
+  },
   { method: "GET", route: "bins/[binId]/logbook", path: (i) => `/api/bins/${i.bin}/logbook`, allowed: ALL, farmScoped: true },
-  { method: "DELETE", route: "logbook/[kind]/[entryId]", path: (i) => `/api/logbook/note/${i.farm === other?.farm ? otherEntry : scratchEntry}`, setup: async (s) => { await newEntry(s); }, allowed: CREW, farmScoped: true },
+  {
+    method: "DELETE",
+    route: "logbook/[kind]/[entryId]",
+    path: (i) => `/api/logbook/note/${i.farm === other?.farm ? otherEntry : scratchEntry}`,
+    setup: async (s) => {
+      await newEntry(s);
+    },
+    allowed: CREW,
+    farmScoped: true,
+  },
   { method: "GET", route: "probes/[probeId]/samples", path: (i) => `/api/probes/${i.probe}/samples`, allowed: ALL, farmScoped: true },
-  { method: "POST", route: "probes/[probeId]/samples", path: (i) => `/api/probes/${i.probe}/samples`, body: () => ({ wetMassG: 10, dryMassG: 2.3, rawReading: 450 }), allowed: CREW, farmScoped: true },
+  {
+    method: "POST",
+    route: "probes/[probeId]/samples",
+    path: (i) => `/api/probes/${i.probe}/samples`,
+    body: () => ({ wetMassG: 10, dryMassG: 2.3, rawReading: 450 }),
+    allowed: CREW,
+    farmScoped: true,
+  },
   { method: "GET", route: "probes/[probeId]/calibration", path: (i) => `/api/probes/${i.probe}/calibration`, allowed: ALL, farmScoped: true },
-  { method: "POST", route: "probes/[probeId]/calibration", path: (i) => `/api/probes/${i.probe}/calibration`, setup: async () => { await samplesForNewestProbe(); }, allowed: OWNER, farmScoped: true },
+  {
+    method: "POST",
+    route: "probes/[probeId]/calibration",
+    path: (i) => `/api/probes/${i.probe}/calibration`,
+    setup: async () => {
+      await samplesForNewestProbe();
+    },
+    allowed: OWNER,
+    farmScoped: true,
+  },
   { method: "DELETE", route: "probes/[probeId]/calibration", path: (i) => `/api/probes/${i.probe}/calibration`, allowed: OWNER, farmScoped: true },
 ];
 // A note to undo: logged by the caller itself (by the owner when the caller may not log), on a bin
@@ -105,13 +258,18 @@ async function newEntry(s: Session) {
   if (res.status === 403) res = await sessions.owner.fetch(`/api/bins/${ids.bin}/notes`, { method: "POST", json: { text: "to undo" } });
   scratchEntry = ((await res.json()) as { note: { id: string } }).note.id;
   if (otherEntry.startsWith("00000000")) {
-    otherEntry = (await db.query(`insert into log_notes (farm_id, bin_id, text) values ($1, $2, 'other farm') returning id`, [other.farm, other.bin])).rows[0].id;
+    otherEntry = (await db.query(`insert into log_notes (farm_id, bin_id, text) values ($1, $2, 'other farm') returning id`, [other.farm, other.bin])).rows[0]
+      .id;
   }
 }
 // setup runs right after scratch() made the row's probe, so the demo farm's newest probe is that one:
 // two samples at different raw readings let the owner's fit succeed.
 async function samplesForNewestProbe() {
-  const p = (await db.query(`select p.id, p.zone_id, z.bin_id from probes p join zones z on z.id = p.zone_id where p.farm_id = $1 order by p.id desc limit 1`, [demoFarm])).rows[0];
+  const p = (
+    await db.query(`select p.id, p.zone_id, z.bin_id from probes p join zones z on z.id = p.zone_id where p.farm_id = $1 order by p.id desc limit 1`, [
+      demoFarm,
+    ])
+  ).rows[0];
   await db.query(
     `insert into oven_dry_samples (farm_id, bin_id, zone_id, probe_id, wet_mass_g, dry_mass_g, raw_reading, moisture_wb_pct) values ($1, $2, $3, $4, 10, 3, 400, 70), ($1, $2, $3, $4, 10, 4, 500, 60)`,
     [demoFarm, p.bin_id, p.zone_id, p.id],
@@ -122,16 +280,25 @@ let lastSub: Awaited<ReturnType<typeof newSubscription>> | null = null;
 let scratchMember = "00000000-0000-4000-8000-000000000000";
 let scratchInvitation = "00000000-0000-4000-8000-000000000000";
 async function newMember() {
-  const u = await db.query(`insert into users (email, name, password_hash) values ($1, 'Scratch Keeper', 'x') returning id`, [`scratch-${Math.random().toString(36).slice(2, 10)}@example.org`]);
+  const u = await db.query(`insert into users (email, name, password_hash) values ($1, 'Scratch Keeper', 'x') returning id`, [
+    `scratch-${Math.random().toString(36).slice(2, 10)}@example.org`,
+  ]);
   await db.query(`insert into memberships (user_id, farm_id, role) values ($1, $2, 'keeper')`, [u.rows[0].id, demoFarm]);
   return u.rows[0].id as string;
 }
 async function newInvitation() {
-  const r = await db.query(`insert into invitations (farm_id, email, role, token_hash, expires_at) values ($1, $2, 'viewer', $3, now() + interval '1 day') returning id`, [demoFarm, `scratch-${Math.random().toString(36).slice(2, 10)}@example.org`, `scratch-${Math.random()}`]);
+  const r = await db.query(
+    `insert into invitations (farm_id, email, role, token_hash, expires_at) values ($1, $2, 'viewer', $3, now() + interval '1 day') returning id`,
+    [demoFarm, `scratch-${Math.random().toString(36).slice(2, 10)}@example.org`, `scratch-${Math.random()}`],
+  );
   return r.rows[0].id as string;
 }
 // A file of one row for a probe no farm has: a new file each call (its time differs), nothing stored.
-const csvImport = () => ({ fileName: "scratch.csv", csv: `time,probe,metric,value\n${new Date().toISOString()},no-such-probe,temperature,21\n`, mapping: { time: "time", probe: "probe", metric: "metric", value: "value" } });
+const csvImport = () => ({
+  fileName: "scratch.csv",
+  csv: `time,probe,metric,value\n${new Date().toISOString()},no-such-probe,temperature,21\n`,
+  mapping: { time: "time", probe: "probe", metric: "metric", value: "value" },
+});
 
 // Routes outside the farm model: next-auth's own handler; probes posting readings with their own
 // credentials (tests/integration/ingest-http/).
@@ -144,7 +311,15 @@ export function exportedMethods(src: string): string[] {
   const names: string[] = [];
   for (const m of src.matchAll(/export\s+(?:const|let|var|(?:async\s+)?function\*?)\s+([A-Z]+)\b/g)) names.push(m[1]!);
   for (const m of src.matchAll(/export\s+(?:const|let|var)\s*\{([^}]+)\}/g)) names.push(...m[1]!.split(",").map((x) => x.split(":").pop()!.trim()));
-  for (const m of src.matchAll(/export\s*\{([^}]+)\}/g)) names.push(...m[1]!.split(",").map((x) => x.split(/\s+as\s+/).pop()!.trim()));
+  for (const m of src.matchAll(/export\s*\{([^}]+)\}/g))
+    names.push(
+      ...m[1]!.split(",").map((x) =>
+        x
+          .split(/\s+as\s+/)
+          .pop()!
+          .trim(),
+      ),
+    );
   return [...new Set(names.filter((n) => METHOD.test(n)))];
 }
 
@@ -161,7 +336,11 @@ async function scratch(owner: Session, farm: string): Promise<Ids> {
     `insert into alerts (farm_id, bin_id, zone_id, kind, level, subject, message) values ($1, $2, $3, 'heat', 'heads_up', $4, 'test alert') returning id`,
     [farm, bin.id, bin.zones[0]!.id, `zone:${bin.zones[0]!.id}:heat`],
   );
-  const p = await db.query(`insert into probes (farm_id, zone_id, code, token_hash) values ($1, $2, $3, 'x') returning id`, [farm, bin.zones[0]!.id, `auth-${Math.random().toString(36).slice(2, 10)}`]);
+  const p = await db.query(`insert into probes (farm_id, zone_id, code, token_hash) values ($1, $2, $3, 'x') returning id`, [
+    farm,
+    bin.zones[0]!.id,
+    `auth-${Math.random().toString(36).slice(2, 10)}`,
+  ]);
   return { farm, bin: bin.id, zone: bin.zones[0]!.id, alert: a.rows[0].id, probe: p.rows[0].id };
 }
 
@@ -287,7 +466,11 @@ describe("input is validated and errors name the field", () => {
   });
 
   it("a body that is not JSON gets 400", async () => {
-    const res = await sessions.owner.fetch(`/api/farms/${demoFarm}/bins`, { method: "POST", body: "{not json", headers: { "content-type": "application/json" } });
+    const res = await sessions.owner.fetch(`/api/farms/${demoFarm}/bins`, {
+      method: "POST",
+      body: "{not json",
+      headers: { "content-type": "application/json" },
+    });
     expect(res.status).toBe(400);
   });
 

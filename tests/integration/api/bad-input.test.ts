@@ -64,17 +64,46 @@ afterAll(async () => {
 
 describe("a NUL byte in a text field", () => {
   const cases: { what: string; send: () => Promise<Response>; field: string }[] = [
-    { what: "a bin name", field: "name", send: () => owner.fetch(`/api/farms/${farm.farmId}/bins`, { method: "POST", json: { name: `Bin ${TAG}${NUL}`, style: "tote", species: "eisenia-fetida" } }) },
+    {
+      what: "a bin name",
+      field: "name",
+      send: () =>
+        owner.fetch(`/api/farms/${farm.farmId}/bins`, { method: "POST", json: { name: `Bin ${TAG}${NUL}`, style: "tote", species: "eisenia-fetida" } }),
+    },
     { what: "a bin's notes", field: "notes", send: () => owner.fetch(`/api/bins/${farm.binId}`, { method: "PATCH", json: { notes: `lid ${TAG}${NUL}` } }) },
     { what: "a farm name", field: "name", send: () => owner.fetch(`/api/farms/${farm.farmId}`, { method: "PATCH", json: { name: `Farm ${TAG}${NUL}` } }) },
     { what: "a new farm's name", field: "name", send: () => owner.fetch(`/api/farms`, { method: "POST", json: { name: `Farm ${TAG}${NUL}` } }) },
-    { what: "a zone name", field: "name", send: () => owner.fetch(`/api/zones/${farm.zones.fresh}`, { method: "PATCH", json: { name: `North ${TAG}${NUL}` } }) },
-    { what: "a probe label", field: "label", send: () => owner.fetch(`/api/probes/${farm.probes[0]!.id}`, { method: "PATCH", json: { label: `drain ${TAG}${NUL}` } }) },
-    { what: "a note", field: "text", send: () => keeper.fetch(`/api/bins/${farm.binId}/notes`, { method: "POST", json: { text: `springtails ${TAG}${NUL}` } }) },
-    { what: "a watering's notes", field: "notes", send: () => keeper.fetch(`/api/bins/${farm.binId}/waterings`, { method: "POST", json: { litres: 1, notes: `dry ${TAG}${NUL}` } }) },
+    {
+      what: "a zone name",
+      field: "name",
+      send: () => owner.fetch(`/api/zones/${farm.zones.fresh}`, { method: "PATCH", json: { name: `North ${TAG}${NUL}` } }),
+    },
+    {
+      what: "a probe label",
+      field: "label",
+      send: () => owner.fetch(`/api/probes/${farm.probes[0]!.id}`, { method: "PATCH", json: { label: `drain ${TAG}${NUL}` } }),
+    },
+    {
+      what: "a note",
+      field: "text",
+      send: () => keeper.fetch(`/api/bins/${farm.binId}/notes`, { method: "POST", json: { text: `springtails ${TAG}${NUL}` } }),
+    },
+    {
+      what: "a watering's notes",
+      field: "notes",
+      send: () => keeper.fetch(`/api/bins/${farm.binId}/waterings`, { method: "POST", json: { litres: 1, notes: `dry ${TAG}${NUL}` } }),
+    },
     { what: "a feeding item's name", field: "items.0.name", send: () => feeding({ items: [item({ name: `scraps ${TAG}${NUL}` })] }) },
     { what: "a feeding's notes", field: "notes", send: () => feeding({ notes: `heavy ${TAG}${NUL}`, items: [item()] }) },
-    { what: "an ingredient's source", field: "source", send: () => keeper.fetch(`/api/farms/${farm.farmId}/ingredients`, { method: "POST", json: { name: `Grain ${TAG}`, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: `sheet${NUL}` } }) },
+    {
+      what: "an ingredient's source",
+      field: "source",
+      send: () =>
+        keeper.fetch(`/api/farms/${farm.farmId}/ingredients`, {
+          method: "POST",
+          json: { name: `Grain ${TAG}`, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: `sheet${NUL}` },
+        }),
+    },
   ];
 
   it.each(cases)("a NUL byte in $what is a 422 naming $field", async ({ send, field }) => {
@@ -89,7 +118,9 @@ describe("a NUL byte in a text field", () => {
   });
 
   it("nothing with a NUL byte was stored, and the bin kept its name", async () => {
-    expect(await count(`select count(*)::int as n from bins where farm_id = $1 and (name like '%' || $2 || '%' or notes like '%' || $2 || '%')`, [farm.farmId, TAG])).toBe(0);
+    expect(
+      await count(`select count(*)::int as n from bins where farm_id = $1 and (name like '%' || $2 || '%' or notes like '%' || $2 || '%')`, [farm.farmId, TAG]),
+    ).toBe(0);
     expect(await count(`select count(*)::int as n from log_notes where bin_id = $1`, [farm.binId])).toBe(0);
     expect(await count(`select count(*)::int as n from feedings where bin_id = $1`, [farm.binId])).toBe(0);
     expect((await c.query(`select name from farms where id = $1`, [farm.farmId])).rows[0].name).toBe(`Zz Bad Input ${TAG}`);
@@ -116,11 +147,20 @@ describe("amounts the database cannot hold", () => {
   });
 
   it("an ingredient with 5e-324 % nitrogen is a 422 naming nitrogenPct", async () => {
-    await expect422(await keeper.fetch(`/api/farms/${farm.farmId}/ingredients`, { method: "POST", json: { name: `Grain ${TAG}`, kind: "feedstock", moisturePct: 78, nitrogenPct: 5e-324, cn: 12, source: "supplier sheet" } }), "nitrogenPct");
+    await expect422(
+      await keeper.fetch(`/api/farms/${farm.farmId}/ingredients`, {
+        method: "POST",
+        json: { name: `Grain ${TAG}`, kind: "feedstock", moisturePct: 78, nitrogenPct: 5e-324, cn: 12, source: "supplier sheet" },
+      }),
+      "nitrogenPct",
+    );
   });
 
   it("an oven-dry sample with a raw reading of 5e-324 is a 422 naming rawReading", async () => {
-    await expect422(await keeper.fetch(`/api/probes/${farm.probes[0]!.id}/samples`, { method: "POST", json: { wetMassG: 10, dryMassG: 2.3, rawReading: 5e-324 } }), "rawReading");
+    await expect422(
+      await keeper.fetch(`/api/probes/${farm.probes[0]!.id}/samples`, { method: "POST", json: { wetMassG: 10, dryMassG: 2.3, rawReading: 5e-324 } }),
+      "rawReading",
+    );
   });
 });
 
@@ -129,7 +169,10 @@ describe("dates of logged work", () => {
 
   it("a watering dated 0001-01-01 is refused", async () => {
     // Kept, it came back as 2001: PostgreSQL writes year 1 as "0001-…" and Date reads that as 2001.
-    const body = await expect422(await keeper.fetch(`/api/bins/${farm.binId}/waterings`, { method: "POST", json: { litres: 1, at: "0001-01-01T00:00:00Z" } }), "at");
+    const body = await expect422(
+      await keeper.fetch(`/api/bins/${farm.binId}/waterings`, { method: "POST", json: { litres: 1, at: "0001-01-01T00:00:00Z" } }),
+      "at",
+    );
     expect(body.error.message).toMatch(/before 2000/);
     expect(await count(`select count(*)::int as n from waterings where bin_id = $1`, [farm.binId])).toBe(0);
   });
@@ -148,7 +191,10 @@ describe("dates of logged work", () => {
   });
 
   it("an oven-dry sample dated an hour ahead is refused", async () => {
-    await expect422(await keeper.fetch(`/api/probes/${farm.probes[0]!.id}/samples`, { method: "POST", json: { wetMassG: 10, dryMassG: 2.3, at: soon() } }), "at");
+    await expect422(
+      await keeper.fetch(`/api/probes/${farm.probes[0]!.id}/samples`, { method: "POST", json: { wetMassG: 10, dryMassG: 2.3, at: soon() } }),
+      "at",
+    );
   });
 
   it("a feeding dated after PostgreSQL's last year is a 422, not a 500", async () => {
@@ -177,7 +223,10 @@ describe("a feeding's ingredient", () => {
   let shared: string;
   beforeAll(async () => {
     theirs = (
-      await c.query(`insert into ingredients (farm_id, key, name, kind, moisture_pct, nitrogen_pct, cn, source, source_status) values ($1, $2, 'Their grain', 'feedstock', 78, 4, 12, 'their sheet', 'farm') returning id`, [other.farmId, `farm:${TAG}`])
+      await c.query(
+        `insert into ingredients (farm_id, key, name, kind, moisture_pct, nitrogen_pct, cn, source, source_status) values ($1, $2, 'Their grain', 'feedstock', 78, 4, 12, 'their sheet', 'farm') returning id`,
+        [other.farmId, `farm:${TAG}`],
+      )
     ).rows[0].id;
     shared = (await c.query(`select id from ingredients where farm_id is null order by key limit 1`)).rows[0].id;
   });
@@ -199,7 +248,10 @@ describe("a feeding's ingredient", () => {
   });
 
   it("the shared library's ingredient and the farm's own are logged", async () => {
-    const own = await keeper.fetch(`/api/farms/${farm.farmId}/ingredients`, { method: "POST", json: { name: `Our grain ${TAG}`, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: "supplier sheet" } });
+    const own = await keeper.fetch(`/api/farms/${farm.farmId}/ingredients`, {
+      method: "POST",
+      json: { name: `Our grain ${TAG}`, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: "supplier sheet" },
+    });
     expect(own.status, await own.clone().text()).toBe(201);
     const ownId = ((await own.json()) as { ingredient: { id: string } }).ingredient.id;
     const res = await feeding({ items: [item({ ingredientId: shared }), item({ ingredientId: ownId })] });
@@ -232,7 +284,11 @@ describe("a PATCH changes only what it names", () => {
   it("PATCH of a zone with only a name keeps its kind and position", async () => {
     const res = await owner.fetch(`/api/zones/${farm.zones.curing}`, { method: "PATCH", json: { name: "By the door" } });
     expect(res.status, await res.clone().text()).toBe(200);
-    expect((await c.query(`select kind, position, name from zones where id = $1`, [farm.zones.curing])).rows[0]).toEqual({ kind: "curing", position: 2, name: "By the door" });
+    expect((await c.query(`select kind, position, name from zones where id = $1`, [farm.zones.curing])).rows[0]).toEqual({
+      kind: "curing",
+      position: 2,
+      name: "By the door",
+    });
   });
 
   it("PATCH of a probe with only a label keeps its zone, metrics and interval", async () => {
@@ -241,7 +297,10 @@ describe("a PATCH changes only what it names", () => {
     const before = (await c.query(`select zone_id, metrics, report_interval_s from probes where id = $1`, [p.id])).rows[0];
     const res = await owner.fetch(`/api/probes/${p.id}`, { method: "PATCH", json: { label: "by the drain" } });
     expect(res.status, await res.clone().text()).toBe(200);
-    expect((await c.query(`select zone_id, metrics, report_interval_s, label from probes where id = $1`, [p.id])).rows[0]).toEqual({ ...before, label: "by the drain" });
+    expect((await c.query(`select zone_id, metrics, report_interval_s, label from probes where id = $1`, [p.id])).rows[0]).toEqual({
+      ...before,
+      label: "by the drain",
+    });
   });
 
   it("PATCH /api/me with only a time zone keeps quiet hours, and with one end changes only that end", async () => {
@@ -250,7 +309,11 @@ describe("a PATCH changes only what it names", () => {
     expect(tz.status, await tz.clone().text()).toBe(200);
     const end = await keeper.fetch(`/api/me`, { method: "PATCH", json: { quietFrom: "23:00" } });
     expect(end.status, await end.clone().text()).toBe(200);
-    expect((await c.query(`select quiet_from, quiet_to, timezone from users where email = $1`, [keeperEmail])).rows[0]).toEqual({ quiet_from: "23:00", quiet_to: "06:30", timezone: "Europe/Dublin" });
+    expect((await c.query(`select quiet_from, quiet_to, timezone from users where email = $1`, [keeperEmail])).rows[0]).toEqual({
+      quiet_from: "23:00",
+      quiet_to: "06:30",
+      timezone: "Europe/Dublin",
+    });
     // Clearing one end alone would leave half a quiet period.
     await expect422(await keeper.fetch(`/api/me`, { method: "PATCH", json: { quietTo: null } }), "quietTo");
   });
@@ -265,7 +328,13 @@ describe("a PATCH changes only what it names", () => {
   });
 
   it("an empty PATCH changes nothing and answers with what is stored", async () => {
-    for (const p of [`/api/farms/${farm.farmId}`, `/api/bins/${farm.binId}`, `/api/zones/${farm.zones.fresh}`, `/api/probes/${farm.probes[0]!.id}`, `/api/me`]) {
+    for (const p of [
+      `/api/farms/${farm.farmId}`,
+      `/api/bins/${farm.binId}`,
+      `/api/zones/${farm.zones.fresh}`,
+      `/api/probes/${farm.probes[0]!.id}`,
+      `/api/me`,
+    ]) {
       const res = await (p === "/api/me" ? keeper : owner).fetch(p, { method: "PATCH", json: {} });
       expect(res.status, `${p}: ${await res.clone().text()}`).toBe(200);
     }
@@ -298,7 +367,10 @@ describe("time zones", () => {
   it("a farm whose stored time zone the app cannot use still opens its settings page, and the form fixes it", async () => {
     // As the API let through before it checked: an archived bin's date is shown in the farm's zone.
     await c.query(`update farms set timezone = 'Mars/Olympus_Mons' where id = $1`, [farm.farmId]);
-    const archived = await c.query(`insert into bins (farm_id, name, style, species, archived_at) values ($1, $2, 'tote', 'eisenia-fetida', now()) returning id`, [farm.farmId, `Old ${TAG}`]);
+    const archived = await c.query(
+      `insert into bins (farm_id, name, style, species, archived_at) values ($1, $2, 'tote', 'eisenia-fetida', now()) returning id`,
+      [farm.farmId, `Old ${TAG}`],
+    );
     try {
       const page = await owner.fetch(`/farms/${farm.farmId}/settings`);
       expect(page.status).toBe(200);
@@ -332,13 +404,19 @@ describe("a logger CSV with NUL bytes", () => {
     expect(out.import.report.map((r) => r.line)).toEqual([3, 4]);
     expect(out.import.report[0]!.reason).toMatch(/^value \(column "value"\): "21U\+0000\.7" has a control character/);
     expect(out.import.report[1]!.reason).toMatch(/^probe \(column "probe"\)/);
-    const stored = await c.query(`select value from readings where probe_id = $1 and ts between '2025-03-01T08:00:00Z' and '2025-03-01T08:15:00Z' order by ts`, [farm.probes[0]!.id]);
+    const stored = await c.query(
+      `select value from readings where probe_id = $1 and ts between '2025-03-01T08:00:00Z' and '2025-03-01T08:15:00Z' order by ts`,
+      [farm.probes[0]!.id],
+    );
     expect(stored.rows.map((r) => Number(r.value))).toEqual([21.5, 22.1]);
   });
 
   it("a NUL byte in a CSV file name is refused in plain words, sent as JSON or as a form", async () => {
     const csv = csvOf([["2025-03-02T08:00:00Z", probe(), "temperature", "20"]]);
-    const json = await expect422(await owner.fetch(`/api/farms/${farm.farmId}/imports`, { method: "POST", json: { fileName: `log${NUL}${TAG}.csv`, csv, mapping } }), "fileName");
+    const json = await expect422(
+      await owner.fetch(`/api/farms/${farm.farmId}/imports`, { method: "POST", json: { fileName: `log${NUL}${TAG}.csv`, csv, mapping } }),
+      "fileName",
+    );
     expect(json.error.message).toMatch(/file name has a control character/);
     const form = new FormData();
     form.set("file", new File([csv], `log${NUL}${TAG}.csv`, { type: "text/csv" }));
@@ -351,7 +429,13 @@ describe("a logger CSV with NUL bytes", () => {
 
   it("a NUL byte in a mapped column name is a 422 naming the field", async () => {
     const csv = csvOf([["2025-03-03T08:00:00Z", probe(), "temperature", "20"]]);
-    await expect422(await owner.fetch(`/api/farms/${farm.farmId}/imports`, { method: "POST", json: { fileName: `cols-${TAG}.csv`, csv, mapping: { ...mapping, value: `value${NUL}` } } }), "value");
+    await expect422(
+      await owner.fetch(`/api/farms/${farm.farmId}/imports`, {
+        method: "POST",
+        json: { fileName: `cols-${TAG}.csv`, csv, mapping: { ...mapping, value: `value${NUL}` } },
+      }),
+      "value",
+    );
   });
 });
 

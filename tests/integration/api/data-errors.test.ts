@@ -60,7 +60,11 @@ describe("PostgreSQL data errors", () => {
       const [b] = await db().insert(bins).values({ farmId: f.id, name: "b", style: "tote", species: "eisenia-fetida" }).returning();
       // JavaScript's last day is written "+275760-09-13T…Z"; PostgreSQL does not read a six-digit
       // year with a sign (22009), though its own range reaches 294276 AD.
-      const err = await refusal(() => db().insert(waterings).values({ farmId: f.id, binId: b!.id, litres: 1, at: new Date(8.64e15) }));
+      const err = await refusal(() =>
+        db()
+          .insert(waterings)
+          .values({ farmId: f.id, binId: b!.id, litres: 1, at: new Date(8.64e15) }),
+      );
       expect(errorBody(err).status).toBe(422);
     } finally {
       await db().delete(farms).where(eq(farms.id, f.id));

@@ -45,17 +45,28 @@ describe("changes from another site", () => {
       { "sec-fetch-site": "cross-site" },
     ];
     for (const h of attempts) {
-      const res = await owner.fetch(`/api/bins/${farm.binId}/notes`, { method: "POST", headers: { "content-type": "application/json", ...h }, body: noteBody("from evil") });
+      const res = await owner.fetch(`/api/bins/${farm.binId}/notes`, {
+        method: "POST",
+        headers: { "content-type": "application/json", ...h },
+        body: noteBody("from evil"),
+      });
       expect(res.status, JSON.stringify(h)).toBe(403);
       expect(((await res.json()) as ErrorBody).error).toMatchObject({ code: "forbidden", message: expect.stringContaining("another site") });
     }
-    const patch = await owner.fetch(`/api/farms/${farm.farmId}`, { method: "PATCH", headers: { "content-type": "application/json", origin: "https://evil.example" }, body: JSON.stringify({ name: "Taken over" }) });
+    const patch = await owner.fetch(`/api/farms/${farm.farmId}`, {
+      method: "PATCH",
+      headers: { "content-type": "application/json", origin: "https://evil.example" },
+      body: JSON.stringify({ name: "Taken over" }),
+    });
     expect(patch.status).toBe(403);
     const del = await owner.fetch(`/api/bins/${farm.binId}`, { method: "DELETE", headers: { origin: "https://evil.example" } });
     expect(del.status).toBe(403);
 
     expect(await notesOf(farm.binId)).toBe(before);
-    const still = await c.query(`select f.name, (select count(*)::int from bins where id = $2) as bins from farms f where f.id = $1`, [farm.farmId, farm.binId]);
+    const still = await c.query(`select f.name, (select count(*)::int from bins where id = $2) as bins from farms f where f.id = $1`, [
+      farm.farmId,
+      farm.binId,
+    ]);
     expect(still.rows[0].name).not.toBe("Taken over");
     expect(still.rows[0].bins).toBe(1);
     // Reading is not a change: a cross-site GET still answers (CORS keeps the answer from the page).
@@ -71,7 +82,11 @@ describe("changes from another site", () => {
     });
     expect(own.status).toBe(201);
     // A script or a probe sends no Origin at all.
-    const script = await owner.fetch(`/api/bins/${farm.binId}/notes`, { method: "POST", headers: { "content-type": "application/json" }, body: noteBody("from a script") });
+    const script = await owner.fetch(`/api/bins/${farm.binId}/notes`, {
+      method: "POST",
+      headers: { "content-type": "application/json" },
+      body: noteBody("from a script"),
+    });
     expect(script.status).toBe(201);
     expect(await notesOf(farm.binId)).toBe(before + 2);
   });
@@ -88,7 +103,11 @@ describe("bodies", () => {
     }
     const none = await owner.fetch(`/api/bins/${farm.binId}/notes`, { method: "POST", body: new TextEncoder().encode(noteBody("untyped")) });
     expect(none.status).toBe(415);
-    const ok = await owner.fetch(`/api/bins/${farm.binId}/notes`, { method: "POST", headers: { "content-type": "application/json; charset=utf-8" }, body: noteBody("typed") });
+    const ok = await owner.fetch(`/api/bins/${farm.binId}/notes`, {
+      method: "POST",
+      headers: { "content-type": "application/json; charset=utf-8" },
+      body: noteBody("typed"),
+    });
     expect(ok.status).toBe(201);
     expect(await notesOf(farm.binId)).toBe(before + 1);
   });
@@ -119,7 +138,13 @@ describe("bodies", () => {
       },
     });
     const abort = new AbortController();
-    const res = await fetch(`${appUrl()}${path}`, { method: "POST", headers: { cookie: owner.cookie, ...headers }, body, duplex: "half", signal: abort.signal } as RequestInit);
+    const res = await fetch(`${appUrl()}${path}`, {
+      method: "POST",
+      headers: { cookie: owner.cookie, ...headers },
+      body,
+      duplex: "half",
+      signal: abort.signal,
+    } as RequestInit);
     const atAnswer = sent;
     const answer = res.status === 413 ? ((await res.json()) as ErrorBody) : await res.text();
     // Still offering the rest: a server that went on reading (even to throw it away) would pull it.
@@ -138,7 +163,9 @@ describe("bodies", () => {
         `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="huge.csv"\r\nContent-Type: text/csv\r\n\r\ntime,value\r\n`,
     );
     const csv = await streamed(`/api/farms/${farm.farmId}/imports`, { "content-type": `multipart/form-data; boundary=${boundary}` }, 50 * MB, head);
-    console.log(`[http-hardening] chunked 50 MB CSV upload: 413 after ${(csv.atAnswer / MB).toFixed(1)} MB pulled from the sender, ${(csv.later / MB).toFixed(1)} MB 1.5 s later (cap 10 MiB + 64 KiB)`);
+    console.log(
+      `[http-hardening] chunked 50 MB CSV upload: 413 after ${(csv.atAnswer / MB).toFixed(1)} MB pulled from the sender, ${(csv.later / MB).toFixed(1)} MB 1.5 s later (cap 10 MiB + 64 KiB)`,
+    );
     expect(csv.status).toBe(413);
     expect(csv.answer).toMatchObject({ error: { code: "too_large", field: "file" } });
     // The cap plus what the sockets hold in flight; nowhere near the 50 MB offered.
@@ -147,7 +174,9 @@ describe("bodies", () => {
     expect(await importsOf(farm.farmId)).toBe(0);
 
     const json = await streamed(`/api/bins/${farm.binId}/notes`, { "content-type": "application/json" }, 50 * MB);
-    console.log(`[http-hardening] chunked 50 MB JSON body: 413 after ${(json.atAnswer / MB).toFixed(1)} MB pulled from the sender, ${(json.later / MB).toFixed(1)} MB 1.5 s later (cap 64 KiB)`);
+    console.log(
+      `[http-hardening] chunked 50 MB JSON body: 413 after ${(json.atAnswer / MB).toFixed(1)} MB pulled from the sender, ${(json.later / MB).toFixed(1)} MB 1.5 s later (cap 64 KiB)`,
+    );
     expect(json.status).toBe(413);
     expect(json.later).toBeLessThan(10 * MB);
     expect(await notesOf(farm.binId)).toBe(notesBefore);
@@ -162,7 +191,13 @@ describe("security headers", () => {
     console.log(`[http-hardening] HEAD ${path} → ${res.status}\n  ${lines.join("\n  ")}`);
     return res;
   };
-  const directives = (csp: string) => new Map(csp.split(";").map((d) => d.trim().split(/\s+/)).map(([k, ...v]) => [k!, v]));
+  const directives = (csp: string) =>
+    new Map(
+      csp
+        .split(";")
+        .map((d) => d.trim().split(/\s+/))
+        .map(([k, ...v]) => [k!, v]),
+    );
 
   it("every response carries the security headers", async () => {
     const html = await (await fetch(`${appUrl()}/sign-in`)).text();

@@ -29,11 +29,17 @@ describe("the ingredient library", () => {
 
   it("a farm's own ingredient is seen by that farm only", async () => {
     const name = `Brewery grain ${Date.now()}`;
-    const res = await owner.fetch(`/api/farms/${farmId}/ingredients`, { method: "POST", json: { name, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: "supplier sheet" } });
+    const res = await owner.fetch(`/api/farms/${farmId}/ingredients`, {
+      method: "POST",
+      json: { name, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: "supplier sheet" },
+    });
     expect(res.status).toBe(201);
     const own = ((await res.json()) as { ingredient: { carbonPct: number | null; cn: number } }).ingredient;
     expect(own.cn).toBe(12);
-    const again = await owner.fetch(`/api/farms/${farmId}/ingredients`, { method: "POST", json: { name, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: "supplier sheet" } });
+    const again = await owner.fetch(`/api/farms/${farmId}/ingredients`, {
+      method: "POST",
+      json: { name, kind: "feedstock", moisturePct: 78, nitrogenPct: 4, cn: 12, source: "supplier sheet" },
+    });
     expect(again.status).toBe(409);
     const other = await db.query(`insert into farms (name) values ('Elsewhere') returning id`);
     const rows = await db.query(`select farm_id from ingredients where name = $1`, [name]);
@@ -48,7 +54,10 @@ describe("the ingredient library", () => {
   });
 
   it("moisture over 100 % is refused with the field named", async () => {
-    const res = await owner.fetch(`/api/farms/${farmId}/ingredients`, { method: "POST", json: { name: "Soup", kind: "feedstock", moisturePct: 120, source: "x" } });
+    const res = await owner.fetch(`/api/farms/${farmId}/ingredients`, {
+      method: "POST",
+      json: { name: "Soup", kind: "feedstock", moisturePct: 120, source: "x" },
+    });
     expect(res.status).toBe(422);
     expect(((await res.json()) as { error: { field: string } }).error.field).toBe("moisturePct");
   });
@@ -61,7 +70,8 @@ describe("rule overrides per bin", () => {
     const [a, b] = bins;
     const put = await owner.fetch(`/api/bins/${a!.id}/rules`, { method: "PUT", json: { kind: "heat", thresholds: { actNowAtC: 27.5 } } });
     expect(put.status).toBe(200);
-    const eff = async (id: string) => ((await (await owner.fetch(`/api/bins/${id}/rules`)).json()) as { effective: { heat: { t: { actNowAtC: number } } } }).effective.heat.t.actNowAtC;
+    const eff = async (id: string) =>
+      ((await (await owner.fetch(`/api/bins/${id}/rules`)).json()) as { effective: { heat: { t: { actNowAtC: number } } } }).effective.heat.t.actNowAtC;
     expect(await eff(a!.id)).toBe(27.5);
     expect(await eff(b!.id)).not.toBe(27.5);
     const bad = await owner.fetch(`/api/bins/${a!.id}/rules`, { method: "PUT", json: { kind: "heat", thresholds: { raiseMinutes: -5 } } });

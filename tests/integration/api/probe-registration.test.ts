@@ -38,7 +38,10 @@ const connect = (code: string, token: string) =>
 describe("registering a probe", () => {
   it("shows the token once, keeps only its hash, and the probe can publish with it", async () => {
     const code = `shed-${Date.now().toString(36)}`;
-    const res = await owner.fetch(`/api/farms/${farmId}/probes`, { method: "POST", json: { code, zoneId, label: "Shed tote, middle", metrics: ["temperature"] } });
+    const res = await owner.fetch(`/api/farms/${farmId}/probes`, {
+      method: "POST",
+      json: { code, zoneId, label: "Shed tote, middle", metrics: ["temperature"] },
+    });
     expect(res.status).toBe(201);
     const { probe, token } = (await res.json()) as { probe: { id: number; tokenHash?: string }; token: string };
     expect(probe.tokenHash).toBeUndefined();
@@ -71,7 +74,8 @@ describe("registering a probe", () => {
     expect(taken.status).toBe(409);
     expect(((await taken.json()) as { error: { field: string } }).error.field).toBe("code");
     const other = (await db.query(`insert into farms (name) values ('Far away') returning id`)).rows[0].id;
-    const bin = (await db.query(`insert into bins (farm_id, name, style, species) values ($1, 'x', 'tote', 'eisenia-fetida') returning id`, [other])).rows[0].id;
+    const bin = (await db.query(`insert into bins (farm_id, name, style, species) values ($1, 'x', 'tote', 'eisenia-fetida') returning id`, [other])).rows[0]
+      .id;
     const z = (await db.query(`insert into zones (bin_id, position, kind) values ($1, 1, 'working') returning id`, [bin])).rows[0].id;
     const res = await owner.fetch(`/api/farms/${farmId}/probes`, { method: "POST", json: { code: `x-${Date.now()}`, zoneId: z } });
     expect(res.status).toBe(422);

@@ -13,7 +13,11 @@ const people: { id: string; email: string; session: Session }[] = [];
 const password = "push-endpoints-pass";
 
 async function subscriptionsOf(endpoint: string) {
-  return (await db.query(`select user_id, p256dh, auth from push_subscriptions where endpoint = $1 order by created_at`, [endpoint])).rows as { user_id: string; p256dh: string; auth: string }[];
+  return (await db.query(`select user_id, p256dh, auth from push_subscriptions where endpoint = $1 order by created_at`, [endpoint])).rows as {
+    user_id: string;
+    p256dh: string;
+    auth: string;
+  }[];
 }
 
 beforeAll(async () => {
@@ -86,7 +90,9 @@ describe("push endpoints", () => {
       { user_id: bea.id, p256dh: beas.json.keys.p256dh, auth: beas.json.keys.auth },
     ]);
     // Bea taking hers away leaves Ada's in place.
-    expect(await (await bea.session.fetch("/api/push/subscriptions", { method: "DELETE", json: { endpoint: adas.json.endpoint } })).json()).toEqual({ removed: 1 });
+    expect(await (await bea.session.fetch("/api/push/subscriptions", { method: "DELETE", json: { endpoint: adas.json.endpoint } })).json()).toEqual({
+      removed: 1,
+    });
     expect((await subscriptionsOf(adas.json.endpoint)).map((r) => r.user_id)).toEqual([ada.id]);
     await ada.session.fetch("/api/push/subscriptions", { method: "DELETE", json: { endpoint: adas.json.endpoint } });
   });

@@ -65,7 +65,10 @@ describe("password reset by mail", () => {
     expect(late.status).toBe(200);
     expect(late.text).toContain("This link has already been used.");
     await expect(signIn(person.email, "someone-elses-password")).rejects.toThrow(/sign-in failed/);
-    const again = await c.query(`select count(*)::int as n from password_resets r join users u on u.id = r.user_id where u.email = $1 and used_at is not null`, [person.email]);
+    const again = await c.query(
+      `select count(*)::int as n from password_resets r join users u on u.id = r.user_id where u.email = $1 and used_at is not null`,
+      [person.email],
+    );
     expect(again.rows[0].n).toBe(1);
     await expect(signIn(person.email, "compost-happens-daily")).resolves.toBeDefined();
   });

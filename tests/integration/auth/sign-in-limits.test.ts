@@ -28,14 +28,15 @@ function address(last: number) {
   return a;
 }
 
-const failuresOf = async (key: string) =>
-  (await c.query(`select count(*)::int as n from sign_in_failures where key = $1`, [key])).rows[0].n as number;
+const failuresOf = async (key: string) => (await c.query(`select count(*)::int as n from sign_in_failures where key = $1`, [key])).rows[0].n as number;
 
 beforeAll(async () => {
   c = await appDb();
 });
 afterAll(async () => {
-  await c.query(`delete from sign_in_failures where key = any($1)`, [[...addresses.map((a) => `address:${a}`), ...accounts.map((e) => `account:${e.toLowerCase()}`)]]);
+  await c.query(`delete from sign_in_failures where key = any($1)`, [
+    [...addresses.map((a) => `address:${a}`), ...accounts.map((e) => `account:${e.toLowerCase()}`)],
+  ]);
   if (people.length) await c.query(`delete from users where id = any($1)`, [people]);
   await c?.end();
 });

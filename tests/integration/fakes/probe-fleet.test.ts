@@ -140,7 +140,10 @@ describe("the simulated probe fleet", () => {
     fleet = await startFleet({ probes: fleetProbes(farm), port: ingest.port, intervalMs: 100, controlPort: null, reconnectPeriodMs: 200 });
     await fleet.ready();
     const [gone, stays] = farm.probes as [TestFarm["probes"][0], TestFarm["probes"][0]];
-    await until("both probes online", async () => (await c.query(`select bool_and(online) as on from probes where id = any($1)`, [[gone.id, stays.id]])).rows[0].on === true);
+    await until(
+      "both probes online",
+      async () => (await c.query(`select bool_and(online) as on from probes where id = any($1)`, [[gone.id, stays.id]])).rows[0].on === true,
+    );
     fleet.trigger(gone.code, "dropout");
     await until("the dropped probe marked offline", async () => (await c.query(`select online from probes where id = $1`, [gone.id])).rows[0].online === false);
     const n = async (id: number) => count(`select count(*) from readings where probe_id = $1`, [id]);

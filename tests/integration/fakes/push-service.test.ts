@@ -151,7 +151,13 @@ describe("fake push service with lib/push.ts", () => {
   it("reports an unreachable push service as a failure that is not gone and worth retrying", async () => {
     const { subscription } = subscriber("https://127.0.0.1:1/push/nobody");
     const allow = { hosts: [], fakeOrigin: "https://127.0.0.1:1" };
-    expect(await sendPush(subscription, "x", { ...options, allow })).toMatchObject({ ok: false, gone: false, retry: true, status: null, reason: "could not reach the push service" });
+    expect(await sendPush(subscription, "x", { ...options, allow })).toMatchObject({
+      ok: false,
+      gone: false,
+      retry: true,
+      status: null,
+      reason: "could not reach the push service",
+    });
   });
 });
 

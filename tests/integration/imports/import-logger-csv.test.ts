@@ -7,7 +7,15 @@ import { addMember, makeFarm, type TestFarm } from "../series/fixtures";
 
 type Outcome = {
   duplicate: boolean;
-  import: { id: string; fileSha256: string; rowsTotal: number; rowsStored: number; rowsRejected: number; report: { line: number; reason: string }[]; mapping: Record<string, string> };
+  import: {
+    id: string;
+    fileSha256: string;
+    rowsTotal: number;
+    rowsStored: number;
+    rowsRejected: number;
+    report: { line: number; reason: string }[];
+    mapping: Record<string, string>;
+  };
   alreadyStored: number;
   repeats: number;
   earlier: { id: string }[];
@@ -57,7 +65,14 @@ describe("importing a logger CSV", () => {
       `${day(1, "08:30")};${b};pressure;1013;hPa`, // 10 unknown metric
       `${day(1, "08:35")};${b};nh3;3,5;ppm`, // 11
     ].join("\r\n");
-    const res = await upload(people.owner, farm.farmId, "logger-march.csv", csv, { time: "Timestamp", probe: "Sensor", metric: "Quantity", value: "Reading", unit: "Unit", timezone: "Europe/Dublin" });
+    const res = await upload(people.owner, farm.farmId, "logger-march.csv", csv, {
+      time: "Timestamp",
+      probe: "Sensor",
+      metric: "Quantity",
+      value: "Reading",
+      unit: "Unit",
+      timezone: "Europe/Dublin",
+    });
     expect(res.status, await res.clone().text()).toBe(201);
     const out = (await res.json()) as Outcome;
     expect(out.duplicate).toBe(false);
@@ -109,7 +124,13 @@ describe("importing a logger CSV", () => {
     expect(await importsOf(farm.farmId)).toBe(importsBefore);
 
     // The same file mapped another way (one metric for the whole file): its readings are already there.
-    const remapped = await upload(people.owner, farm.farmId, "tote.csv", csv, { time: "time", probe: "probe", metricFixed: "temperature", value: "value", timezone: "UTC" });
+    const remapped = await upload(people.owner, farm.farmId, "tote.csv", csv, {
+      time: "time",
+      probe: "probe",
+      metricFixed: "temperature",
+      value: "value",
+      timezone: "UTC",
+    });
     expect(remapped.status).toBe(201);
     const third = (await remapped.json()) as Outcome;
     expect(third).toMatchObject({ duplicate: false, alreadyStored: 3, import: { rowsStored: 0, rowsRejected: 0 } });
@@ -130,7 +151,12 @@ describe("importing a logger CSV", () => {
   });
 
   it("a mapping naming a column the file lacks is refused with the field and the file's columns", async () => {
-    const res = await upload(people.owner, farm.farmId, "x.csv", "Zeit,Fühler,Wert\n2025-03-05T10:00:00Z,a,1\n", { time: "time", probe: "Fühler", metricFixed: "temperature", value: "Wert" });
+    const res = await upload(people.owner, farm.farmId, "x.csv", "Zeit,Fühler,Wert\n2025-03-05T10:00:00Z,a,1\n", {
+      time: "time",
+      probe: "Fühler",
+      metricFixed: "temperature",
+      value: "Wert",
+    });
     expect(res.status).toBe(422);
     const e = ((await res.json()) as ErrorBody).error;
     expect(e).toMatchObject({ code: "invalid", field: "time" });
@@ -138,7 +164,11 @@ describe("importing a logger CSV", () => {
   });
 
   it("a form without a probe or metric choice is refused naming the field", async () => {
-    const res = await upload(people.owner, farm.farmId, "x.csv", "time,value\n2025-03-05T10:00:00Z,1\n", { time: "time", value: "value", metricFixed: "temperature" });
+    const res = await upload(people.owner, farm.farmId, "x.csv", "time,value\n2025-03-05T10:00:00Z,1\n", {
+      time: "time",
+      value: "value",
+      metricFixed: "temperature",
+    });
     expect(res.status).toBe(422);
     expect(((await res.json()) as ErrorBody).error.field).toBe("probe");
   });

@@ -74,7 +74,9 @@ describe("the import page", () => {
 
   it("a refused choice is shown beside its field, and a bad row names its column", async () => {
     const page = await signedIn(ownerEmail);
-    await page.getByLabel("Logger file (CSV)").setInputFiles({ name: "odd.csv", mimeType: "text/csv", buffer: Buffer.from("time,probe,value\n2025-04-01T06:00:00Z,x,1\n") });
+    await page
+      .getByLabel("Logger file (CSV)")
+      .setInputFiles({ name: "odd.csv", mimeType: "text/csv", buffer: Buffer.from("time,probe,value\n2025-04-01T06:00:00Z,x,1\n") });
     await expect.poll(() => page.getByLabel("Time", { exact: true }).inputValue(), SLOW).toBe("time");
     await page.getByLabel("Metric", { exact: true }).selectOption({ label: "One metric for the whole file" });
     const tz = page.getByLabel("Time zone of times without one");

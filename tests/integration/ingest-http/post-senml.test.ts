@@ -63,7 +63,12 @@ describe("POST /api/ingest", () => {
     // One row for the message: its two refused records counted, each reason on a line of its own.
     expect(rejected).toHaveLength(1);
     expect(rejected[0]!.records).toBe(2);
-    expect(rejected[0]!.reason.split("\n").map((l) => l.split(":")[0]).sort()).toEqual(["sensor-error", "unknown-metric"]);
+    expect(
+      rejected[0]!.reason
+        .split("\n")
+        .map((l) => l.split(":")[0])
+        .sort(),
+    ).toEqual(["sensor-error", "unknown-metric"]);
     expect(rejected[0]!.excerpt).toContain("urn:dev:wormward:");
     const p = await c.query(`select battery_v, last_seen_at from probes where id = $1`, [id]);
     expect(p.rows[0].battery_v).toBeCloseTo(3.71, 5);
@@ -148,7 +153,12 @@ describe("POST /api/ingest", () => {
     // RFC 6750 §3: the challenge names the scheme; invalid_token once credentials were sent
     expect(none.headers.get("www-authenticate")).toBe('Bearer realm="wormward"');
     expect(((await none.json()) as ErrorBody).error.message).toMatch(/Authorization: Bearer/);
-    for (const authorization of [`Bearer ${probe.code}.wrong-token`, bearer({ code: probe.code, token: other.token }), `Basic ${Buffer.from(`${probe.code}:${probe.token}`).toString("base64")}`, `Bearer ${probe.token}`]) {
+    for (const authorization of [
+      `Bearer ${probe.code}.wrong-token`,
+      bearer({ code: probe.code, token: other.token }),
+      `Basic ${Buffer.from(`${probe.code}:${probe.token}`).toString("base64")}`,
+      `Bearer ${probe.token}`,
+    ]) {
       const res = await post(body, { authorization, "content-type": SENML });
       expect(res.status, authorization).toBe(401);
       expect(res.headers.get("www-authenticate")).toBe('Bearer realm="wormward", error="invalid_token"');

@@ -96,7 +96,12 @@ describe("the batching writer", () => {
       await listener.query(`listen ${READINGS_CHANNEL}`);
       writer = createWriter({ db: db(), batch: { maxWaitMs: 10 } });
       await writer.submit(job(p, temps(p, 1, 5000)));
-      await waitFor("the announcement", async () => heard.length, (n) => n === 1, 5000);
+      await waitFor(
+        "the announcement",
+        async () => heard.length,
+        (n) => n === 1,
+        5000,
+      );
       expect(heard).toEqual([{ probeIds: [p.id], visible: 1 }]);
       await writer.submit(job(p, temps(p, 1, 5000)));
       await new Promise((r) => setTimeout(r, 200));

@@ -26,7 +26,6 @@ async function broker(opts: Partial<IngestOptions> = {}) {
 
 const nowS = () => Math.floor(Date.now() / 1000);
 
-
 const str = (s: string) => {
   const b = Buffer.from(s, "utf8");
   return Buffer.concat([Buffer.from([b.length >> 8, b.length & 0xff]), b]);
@@ -81,8 +80,7 @@ function tryConnect(port: number, p: TestProbe): Promise<"connected" | "closed">
   });
 }
 
-const within = <T>(p: Promise<T>, ms: number) =>
-  Promise.race([p, new Promise<"timeout">((r) => setTimeout(() => r("timeout"), ms))]);
+const within = <T>(p: Promise<T>, ms: number) => Promise.race([p, new Promise<"timeout">((r) => setTimeout(() => r("timeout"), ms))]);
 
 describe("packet size", () => {
   it("a 1 MB MQTT packet from an unauthenticated client is cut off before it is buffered", async () => {
@@ -136,7 +134,12 @@ describe("packet size", () => {
     const closed = new Promise<void>((r) => client.once("close", () => r()));
     client.subscribe(`wormward/${p.code}/down/${"x".repeat(40_000)}`, { qos: 1 });
     expect(await within(closed, 5_000)).not.toBe("timeout");
-    const rows = await waitFor("the cut packet's record", () => rejectionsOf(p.id), (r) => r.length === 1, 5_000);
+    const rows = await waitFor(
+      "the cut packet's record",
+      () => rejectionsOf(p.id),
+      (r) => r.length === 1,
+      5_000,
+    );
     expect(rows[0]!.reason).toMatch(/^too-large: a packet of 400\d\d bytes is over the 16896-byte cap; the connection was closed/);
     expect(ingest.stats().cutPackets).toBe(1);
   });
@@ -242,7 +245,12 @@ describe("retained messages", () => {
     const client = await connectProbe(ingest.port, p, { will: { topic: status, payload: Buffer.from("offline"), qos: 1, retain: true } });
     clients.push(client);
     client.stream.destroy(); // gone without DISCONNECT: the broker publishes the will (§3.1.2.5)
-    const rows = await waitFor("the will's refusal", () => rejectionsOf(p.id), (r) => r.length > 0, 5_000);
+    const rows = await waitFor(
+      "the will's refusal",
+      () => rejectionsOf(p.id),
+      (r) => r.length > 0,
+      5_000,
+    );
     expect(rows.map((r) => [r.topic, r.reason.split(":")[0]])).toEqual([[status, "retained"]]);
   });
 });
@@ -310,7 +318,12 @@ describe("under attack", () => {
     clients.push(probe);
     const idle = Array.from({ length: 200 }, () => raw(ingest.port));
     await Promise.all(idle.map((c) => c.opened));
-    await waitFor("refusals", async () => ingest.stats().refusedConnections, (n) => n >= 150, 5_000);
+    await waitFor(
+      "refusals",
+      async () => ingest.stats().refusedConnections,
+      (n) => n >= 150,
+      5_000,
+    );
     await probe.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, nowS() - 5, 20), { qos: 1 });
     expect((await countReadings([p.id])).rows).toBe(1);
     expect(ingest.stats().refusedConnections).toBe(150);

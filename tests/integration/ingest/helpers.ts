@@ -12,13 +12,13 @@ export { freePort } from "../../setup/global";
 export type TestProbe = { id: number; code: string; token: string; zoneId: string; farmId: string };
 
 /** A farm with one bin and zone, and `n` probes with fresh codes and tokens. */
-export async function createProbes(
-  n: number,
-  opts: { d?: Db; calibration?: { slope: number; intercept: number } } = {},
-): Promise<TestProbe[]> {
+export async function createProbes(n: number, opts: { d?: Db; calibration?: { slope: number; intercept: number } } = {}): Promise<TestProbe[]> {
   const d = opts.d ?? db();
   const tag = randomBytes(4).toString("hex");
-  const [farm] = await d.insert(farms).values({ name: `Ingest test ${tag}` }).returning();
+  const [farm] = await d
+    .insert(farms)
+    .values({ name: `Ingest test ${tag}` })
+    .returning();
   const [bin] = await d.insert(bins).values({ farmId: farm!.id, name: "Test bin", style: "tote", species: "eisenia-fetida" }).returning();
   const [zone] = await d.insert(zones).values({ binId: bin!.id, position: 1, kind: "working" }).returning();
   const made: TestProbe[] = [];

@@ -92,7 +92,12 @@ describe("kill -9 of the ingest service mid-stream", () => {
     expect(inFlightAtKill).toBeGreaterThan(0); // unacknowledged messages the client had to resend
     expect(reconnects).toBeGreaterThan(0);
     expect(acked).toBe(MESSAGES);
-    const counts = await waitFor("every reading", () => countReadings([probe.id]), (c) => c.rows >= MESSAGES, 10_000);
+    const counts = await waitFor(
+      "every reading",
+      () => countReadings([probe.id]),
+      (c) => c.rows >= MESSAGES,
+      10_000,
+    );
     // rows = messages sent: none lost, none twice; rollups counted each reading once.
     expect(counts).toEqual({ rows: MESSAGES, distinct: MESSAGES, rolled: MESSAGES });
   }, 120_000);
@@ -104,7 +109,12 @@ describe("SIGTERM", () => {
     if (!service || service.exitCode !== null) service = await startService();
     const [p] = (await createProbes(1)) as [TestProbe];
     client = await connectProbe(port, p);
-    await waitFor("online", async () => (await db().select().from(probes).where(eq(probes.id, p.id)))[0]?.online, (v) => v === true, 10_000);
+    await waitFor(
+      "online",
+      async () => (await db().select().from(probes).where(eq(probes.id, p.id)))[0]?.online,
+      (v) => v === true,
+      10_000,
+    );
     const t = Math.floor(Date.now() / 1000) - 100;
     await Promise.all(Array.from({ length: 50 }, (_, i) => client!.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, t + i, 20), { qos: 1 })));
     const exited = new Promise<number | null>((resolve) => service!.once("exit", (code) => resolve(code)));

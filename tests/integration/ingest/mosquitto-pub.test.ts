@@ -61,7 +61,15 @@ describe("mosquitto_pub against the ingest broker", () => {
 
   it("refuses a wrong token at connect and stores nothing", async () => {
     const t = Math.floor(Date.now() / 1000);
-    const r = await mosquittoPub([...creds(b, "not-the-token"), "-q", "1", "-t", `wormward/${b.code}/up`, "-m", JSON.stringify([{ bn: probeBaseName(b.code), bt: t, n: "temp", u: "Cel", v: 20 }])]);
+    const r = await mosquittoPub([
+      ...creds(b, "not-the-token"),
+      "-q",
+      "1",
+      "-t",
+      `wormward/${b.code}/up`,
+      "-m",
+      JSON.stringify([{ bn: probeBaseName(b.code), bt: t, n: "temp", u: "Cel", v: 20 }]),
+    ]);
     expect(r.code).not.toBe(0);
     // MQTT 3.1.1 §3.2.2.3: CONNACK return code 4, bad user name or password
     expect(r.stderr).toMatch(/bad user name or password/i);

@@ -26,7 +26,13 @@ afterAll(async () => {
 });
 
 const online = async (p: TestProbe) => (await db().select({ online: probes.online }).from(probes).where(eq(probes.id, p.id)))[0]?.online;
-const becomes = (p: TestProbe, want: boolean) => waitFor(`${p.code} online=${want}`, () => online(p), (v) => v === want, 10_000);
+const becomes = (p: TestProbe, want: boolean) =>
+  waitFor(
+    `${p.code} online=${want}`,
+    () => online(p),
+    (v) => v === want,
+    10_000,
+  );
 
 async function connect(p: TestProbe, extra = {}) {
   const c = await connectProbe(ingest.port, p, extra);
@@ -85,7 +91,9 @@ describe("probe online state", () => {
     const s = net.connect(ingest.port, "127.0.0.1");
     sockets.push(s);
     await once(s, "connect");
-    s.write(connectPacket({ clientId: p.code, username: p.code, password: p.token, keepalive: 1, will: { topic: `wormward/${p.code}/status`, message: "offline" } }));
+    s.write(
+      connectPacket({ clientId: p.code, username: p.code, password: p.token, keepalive: 1, will: { topic: `wormward/${p.code}/status`, message: "offline" } }),
+    );
     const [connack] = (await once(s, "data")) as [Buffer];
     expect([...connack]).toEqual([0x20, 0x02, 0x00, 0x00]); // §3.2: accepted
     const connectedAt = Date.now();
@@ -129,7 +137,12 @@ describe("probe online state", () => {
     await c.publishAsync(`wormward/${p.code}/status`, "sleepy", { qos: 1 });
     c.stream.destroy();
     await becomes(p, false);
-    const rows = await waitFor("two rejections", () => rejectionsOf(p.id), (r) => r.length >= 2, 10_000);
+    const rows = await waitFor(
+      "two rejections",
+      () => rejectionsOf(p.id),
+      (r) => r.length >= 2,
+      10_000,
+    );
     expect(rows.map((r) => [r.reason.split(":")[0], r.topic, r.excerpt])).toEqual([
       ["bad-status", `wormward/${p.code}/status`, "sleepy"],
       ["bad-status", `wormward/${p.code}/status`, "gone fishing"],

@@ -27,7 +27,7 @@ afterAll(async () => {
 /** Deterministic pseudo-random numbers, so a failure can be replayed. */
 function rng(seed: number) {
   let s = seed >>> 0;
-  return () => ((s = (s * 1664525 + 1013904223) >>> 0) / 2 ** 32);
+  return () => (s = (s * 1664525 + 1013904223) >>> 0) / 2 ** 32;
 }
 
 describe("a QoS 1 stream from 20 probes", () => {
@@ -55,9 +55,7 @@ describe("a QoS 1 stream from 20 probes", () => {
     expect(expected.size).toBeLessThan(total);
 
     for (const { p } of plans) clients.push(await connectProbe(ingest.port, p));
-    await Promise.all(
-      plans.map(({ p, msgs }, i) => Promise.all(msgs.map((m) => clients[i]!.publishAsync(`wormward/${p.code}/up`, m, { qos: 1 })))),
-    );
+    await Promise.all(plans.map(({ p, msgs }, i) => Promise.all(msgs.map((m) => clients[i]!.publishAsync(`wormward/${p.code}/up`, m, { qos: 1 })))));
 
     // Every PUBACK is in, so every row must already be committed.
     const ids = fleet.map((p) => p.id);

@@ -40,11 +40,31 @@ describe("rejected messages", () => {
     ["malformed JSON", 0, () => '[{"bn":"x",', /^malformed-json: /],
     ["malformed SenML (not an array of records)", 1, () => JSON.stringify({ bn: "urn:dev:wormward:x:", v: 1 }), /^malformed-senml: .*RFC 8428 §5/],
     ["an unknown metric", 2, () => JSON.stringify([{ bn: probeBaseName(fleet[2]!.code), bt: now(), n: "ph", v: 7 }]), /^unknown-metric: .*"ph"/],
-    ["a value outside the physical range", 3, () => JSON.stringify([{ bn: probeBaseName(fleet[3]!.code), bt: now(), n: "temp", u: "Cel", v: 131 }]), /^out-of-range: .*131/],
+    [
+      "a value outside the physical range",
+      3,
+      () => JSON.stringify([{ bn: probeBaseName(fleet[3]!.code), bt: now(), n: "temp", u: "Cel", v: 131 }]),
+      /^out-of-range: .*131/,
+    ],
     ["a sensor error code", 4, () => JSON.stringify([{ bn: probeBaseName(fleet[4]!.code), bt: now(), n: "temp", u: "Cel", v: -127 }]), /^sensor-error: .*-127/],
-    ["a time more than 5 minutes ahead", 5, () => JSON.stringify([{ bn: probeBaseName(fleet[5]!.code), bt: now() + 6 * 60, n: "temp", u: "Cel", v: 20 }]), /^too-far-ahead: /],
-    ["a time older than 30 days", 6, () => JSON.stringify([{ bn: probeBaseName(fleet[6]!.code), bt: now() - 31 * 86_400, n: "temp", u: "Cel", v: 20 }]), /^too-old: /],
-    ["a payload over 16 KiB", 7, () => JSON.stringify([{ bn: probeBaseName(fleet[7]!.code), bt: now(), n: "temp", u: "Cel", v: 20 }]).padEnd(16 * 1024 + 1, " "), /^too-large: payload is 16385 bytes/],
+    [
+      "a time more than 5 minutes ahead",
+      5,
+      () => JSON.stringify([{ bn: probeBaseName(fleet[5]!.code), bt: now() + 6 * 60, n: "temp", u: "Cel", v: 20 }]),
+      /^too-far-ahead: /,
+    ],
+    [
+      "a time older than 30 days",
+      6,
+      () => JSON.stringify([{ bn: probeBaseName(fleet[6]!.code), bt: now() - 31 * 86_400, n: "temp", u: "Cel", v: 20 }]),
+      /^too-old: /,
+    ],
+    [
+      "a payload over 16 KiB",
+      7,
+      () => JSON.stringify([{ bn: probeBaseName(fleet[7]!.code), bt: now(), n: "temp", u: "Cel", v: 20 }]).padEnd(16 * 1024 + 1, " "),
+      /^too-large: payload is 16385 bytes/,
+    ],
   ];
 
   for (const [what, i, payload, reason] of cases) {
@@ -66,11 +86,14 @@ describe("rejected messages", () => {
   it("stores the good records of a message that also carries a bad one", async () => {
     const p = fleet[8]!;
     const t = now() - 10;
-    await send(8, JSON.stringify([
-      { bn: probeBaseName(p.code), bt: t, n: "temp", u: "Cel", v: 22.5 },
-      { n: "moisture", u: "/100", v: 140 },
-      { n: "nh3", u: "ppm", v: 4 },
-    ]));
+    await send(
+      8,
+      JSON.stringify([
+        { bn: probeBaseName(p.code), bt: t, n: "temp", u: "Cel", v: 22.5 },
+        { n: "moisture", u: "/100", v: 140 },
+        { n: "nh3", u: "ppm", v: 4 },
+      ]),
+    );
     expect(await countReadings([p.id])).toEqual({ rows: 2, distinct: 2, rolled: 2 });
     const rows = await rejectionsOf(p.id);
     expect(rows.map((r) => r.reason)).toEqual([expect.stringMatching(/^out-of-range: .*moisture = 140/)]);
@@ -80,12 +103,15 @@ describe("rejected messages", () => {
     // "t": 1e13 and "bt": 1e300 are past what a JavaScript Date holds (ECMA-262 §21.4.1.22).
     const p = fleet[10]!;
     const t = now() - 10;
-    await send(10, JSON.stringify([
-      { bn: probeBaseName(p.code), bt: t, n: "temp", u: "Cel", v: 21 },
-      { n: "temp", u: "Cel", v: 22, t: 1e13 },
-      { bt: 1e300, n: "moisture", u: "/100", v: 70 },
-      { bt: t, n: "moisture", u: "/100", v: 71 },
-    ]));
+    await send(
+      10,
+      JSON.stringify([
+        { bn: probeBaseName(p.code), bt: t, n: "temp", u: "Cel", v: 21 },
+        { n: "temp", u: "Cel", v: 22, t: 1e13 },
+        { bt: 1e300, n: "moisture", u: "/100", v: 70 },
+        { bt: t, n: "moisture", u: "/100", v: 71 },
+      ]),
+    );
     expect(await countReadings([p.id])).toEqual({ rows: 2, distinct: 2, rolled: 2 });
     const rows = await rejectionsOf(p.id);
     expect(rows).toHaveLength(1);

@@ -33,7 +33,10 @@ async function connect(p: TestProbe, extra = {}) {
 /** Publishes at QoS 1 and reports whether the broker closed the connection instead of acknowledging. */
 async function publishIsRefused(c: MqttClient, topic: string, payload: string): Promise<boolean> {
   const closed = new Promise<boolean>((resolve) => c.once("close", () => resolve(true)));
-  const acked = c.publishAsync(topic, payload, { qos: 1 }).then(() => false, () => true);
+  const acked = c.publishAsync(topic, payload, { qos: 1 }).then(
+    () => false,
+    () => true,
+  );
   return Promise.race([closed, acked]);
 }
 

@@ -14,12 +14,19 @@ export async function crewFarm(name: string): Promise<Crew> {
   const farmId = (await db.query(`insert into farms (name) values ($1) returning id`, [name])).rows[0].id as string;
   const hash = await hashPassword("logbook-test-pass");
   const tag = Math.random().toString(36).slice(2, 9);
-  const other = (await db.query(`insert into users (email, name, password_hash) values ($1, 'Second Keeper', $2) returning id`, [`keeper2-${tag}@example.org`, hash])).rows[0].id;
-  const viewer = (await db.query(`insert into users (email, name, password_hash) values ($1, 'Class Viewer', $2) returning id`, [`viewer-${tag}@example.org`, hash])).rows[0].id;
-  await db.query(
-    `insert into memberships (user_id, farm_id, role) values ($1, $5, 'owner'), ($2, $5, 'keeper'), ($3, $5, 'keeper'), ($4, $5, 'viewer')`,
-    [await id("noor@alder-row.example"), await id("tomas@alder-row.example"), other, viewer, farmId],
-  );
+  const other = (
+    await db.query(`insert into users (email, name, password_hash) values ($1, 'Second Keeper', $2) returning id`, [`keeper2-${tag}@example.org`, hash])
+  ).rows[0].id;
+  const viewer = (
+    await db.query(`insert into users (email, name, password_hash) values ($1, 'Class Viewer', $2) returning id`, [`viewer-${tag}@example.org`, hash])
+  ).rows[0].id;
+  await db.query(`insert into memberships (user_id, farm_id, role) values ($1, $5, 'owner'), ($2, $5, 'keeper'), ($3, $5, 'keeper'), ($4, $5, 'viewer')`, [
+    await id("noor@alder-row.example"),
+    await id("tomas@alder-row.example"),
+    other,
+    viewer,
+    farmId,
+  ]);
   return {
     db,
     farmId,
@@ -36,7 +43,10 @@ export async function crewFarm(name: string): Promise<Crew> {
 }
 
 export async function newBin(owner: Session, farmId: string, zoneCount = 3) {
-  const res = await owner.fetch(`/api/farms/${farmId}/bins`, { method: "POST", json: { name: `Log ${Math.random().toString(36).slice(2, 7)}`, style: "flow-through", species: "eisenia-fetida", zoneCount } });
+  const res = await owner.fetch(`/api/farms/${farmId}/bins`, {
+    method: "POST",
+    json: { name: `Log ${Math.random().toString(36).slice(2, 7)}`, style: "flow-through", species: "eisenia-fetida", zoneCount },
+  });
   if (res.status !== 201) throw new Error(`bin not made: ${res.status} ${await res.text()}`);
   return ((await res.json()) as { bin: { id: string; zones: { id: string; kind: string }[] } }).bin;
 }

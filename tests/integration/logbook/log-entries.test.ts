@@ -23,7 +23,10 @@ const hoursAgo = (h: number) => new Date(Date.now() - h * 3600_000).toISOString(
 describe("watering, harvest and note", () => {
   it("a keeper's watering, harvest and note come back from their lists, newest first, with who", async () => {
     const zone = bin.zones[1]!.id;
-    const w1 = await crew.keeper.fetch(`/api/bins/${bin.id}/waterings`, { method: "POST", json: { litres: 2.5, zoneId: zone, at: hoursAgo(3), notes: "dry corner" } });
+    const w1 = await crew.keeper.fetch(`/api/bins/${bin.id}/waterings`, {
+      method: "POST",
+      json: { litres: 2.5, zoneId: zone, at: hoursAgo(3), notes: "dry corner" },
+    });
     expect(w1.status).toBe(201);
     const w2 = await crew.keeper.fetch(`/api/bins/${bin.id}/waterings`, { method: "POST", json: { litres: 0.75 } });
     expect(w2.status).toBe(201);
@@ -32,7 +35,11 @@ describe("watering, harvest and note", () => {
     const n = await crew.keeper.fetch(`/api/bins/${bin.id}/notes`, { method: "POST", json: { text: "  springtails under the lid  " } });
     expect(n.status).toBe(201);
 
-    const waterings = (await json<{ waterings: { litres: number; zoneId: string | null; notes: string | null; byName: string }[] }>(await crew.viewer.fetch(`/api/bins/${bin.id}/waterings`))).waterings;
+    const waterings = (
+      await json<{ waterings: { litres: number; zoneId: string | null; notes: string | null; byName: string }[] }>(
+        await crew.viewer.fetch(`/api/bins/${bin.id}/waterings`),
+      )
+    ).waterings;
     expect(waterings.map((w) => w.litres)).toEqual([0.75, 2.5]);
     const keeperName = (await crew.db.query(`select name from users where email = 'tomas@alder-row.example'`)).rows[0].name;
     expect(waterings[1]).toMatchObject({ zoneId: zone, notes: "dry corner", byName: keeperName });
@@ -72,7 +79,10 @@ describe("watering, harvest and note", () => {
   });
 
   it("an entry dated in the future is refused", async () => {
-    const res = await crew.keeper.fetch(`/api/bins/${bin.id}/notes`, { method: "POST", json: { text: "tomorrow", at: new Date(Date.now() + 3600_000).toISOString() } });
+    const res = await crew.keeper.fetch(`/api/bins/${bin.id}/notes`, {
+      method: "POST",
+      json: { text: "tomorrow", at: new Date(Date.now() + 3600_000).toISOString() },
+    });
     expect(res.status).toBe(422);
     expect((await json<ErrorBody>(res)).error.field).toBe("at");
   });
@@ -81,7 +91,13 @@ describe("watering, harvest and note", () => {
 describe("the merged logbook", () => {
   it("lists feedings, water, harvests, notes and samples of one bin in time order, newest first", async () => {
     const b = await newBin(crew.owner, crew.farmId);
-    const probe = (await crew.db.query(`insert into probes (farm_id, zone_id, code, token_hash) values ($1, $2, $3, 'x') returning id`, [crew.farmId, b.zones[0]!.id, `log-${Math.random().toString(36).slice(2, 9)}`])).rows[0].id;
+    const probe = (
+      await crew.db.query(`insert into probes (farm_id, zone_id, code, token_hash) values ($1, $2, $3, 'x') returning id`, [
+        crew.farmId,
+        b.zones[0]!.id,
+        `log-${Math.random().toString(36).slice(2, 9)}`,
+      ])
+    ).rows[0].id;
     const post = async (path: string, body: unknown) => {
       const res = await crew.keeper.fetch(path, { method: "POST", json: body });
       expect(res.status, await res.clone().text()).toBe(201);

@@ -21,7 +21,13 @@ afterAll(async () => {
 });
 
 async function newProbe(zoneIndex = 1) {
-  const id = (await crew.db.query(`insert into probes (farm_id, zone_id, code, token_hash, metrics) values ($1, $2, $3, 'x', '{moisture-raw}') returning id`, [crew.farmId, bin.zones[zoneIndex]!.id, `cal-${Math.random().toString(36).slice(2, 9)}`])).rows[0].id as number;
+  const id = (
+    await crew.db.query(`insert into probes (farm_id, zone_id, code, token_hash, metrics) values ($1, $2, $3, 'x', '{moisture-raw}') returning id`, [
+      crew.farmId,
+      bin.zones[zoneIndex]!.id,
+      `cal-${Math.random().toString(36).slice(2, 9)}`,
+    ])
+  ).rows[0].id as number;
   probes.push(id);
   return id;
 }
@@ -78,7 +84,11 @@ describe("calibration", () => {
     const probe = await newProbe(0);
     // a worked example of our own, recomputed independently: θ = −0.0025·raw + 1.35, i.e. moisture % = −0.25·raw + 135.
     // 100 g wet samples dried to 95, 75 and 55 g hold 5, 25 and 45 % water (wet basis).
-    for (const [raw, dry] of [[520, 95], [440, 75], [360, 55]] as const) {
+    for (const [raw, dry] of [
+      [520, 95],
+      [440, 75],
+      [360, 55],
+    ] as const) {
       expect((await sample(probe, { wetMassG: 100, dryMassG: dry, rawReading: raw, ovenTempC: 70 })).status).toBe(201);
     }
     // A sample with no raw reading takes no part in the fit.

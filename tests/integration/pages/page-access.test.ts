@@ -63,7 +63,10 @@ async function refusal(s: Session, path: string) {
 // The app under test writes its wormward:page-access lines here (tests/setup/global.ts).
 const webLog = path.join(import.meta.dirname, "..", "..", "..", ".data", `${process.env.WORMWARD_TEST_CLUSTER ?? "pg-test"}-web.log`);
 function lookupsOf(userId: string) {
-  const lines = fs.readFileSync(webLog, "utf8").split("\n").filter((l) => l.includes("wormward:page-access") && l.includes(userId));
+  const lines = fs
+    .readFileSync(webLog, "utf8")
+    .split("\n")
+    .filter((l) => l.includes("wormward:page-access") && l.includes(userId));
   return { sessions: lines.filter((l) => l.includes("session read")).length, roles: lines.filter((l) => l.includes("role read")).length };
 }
 

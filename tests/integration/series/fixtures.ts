@@ -22,10 +22,7 @@ export async function withClient<T>(url: string, fn: (c: pg.Client) => Promise<T
 }
 
 /** A farm with one bin whose zones are `zones`, and one probe per entry of `probesPerZone`. */
-export async function makeFarm(
-  c: pg.Client,
-  opts: { zones?: string[]; probes?: string[]; name?: string; timezone?: string } = {},
-): Promise<TestFarm> {
+export async function makeFarm(c: pg.Client, opts: { zones?: string[]; probes?: string[]; name?: string; timezone?: string } = {}): Promise<TestFarm> {
   const zoneKinds = opts.zones ?? ["fresh", "working", "curing"];
   const tag = uniq();
   const farm = await c.query(`insert into farms (name, timezone) values ($1, $2) returning id`, [opts.name ?? `Test farm ${tag}`, opts.timezone ?? "UTC"]);
@@ -42,10 +39,13 @@ export async function makeFarm(
     const code = `t${tag}-${i + 1}`;
     const token = randomBytes(12).toString("base64url");
     const zoneId = zones[zone]!;
-    const p = await c.query(
-      `insert into probes (farm_id, zone_id, code, token_hash, metrics) values ($1, $2, $3, $4, $5) returning id`,
-      [farmId, zoneId, code, hashToken(token), ["temperature", "moisture", "battery", "signal", "ammonia"]],
-    );
+    const p = await c.query(`insert into probes (farm_id, zone_id, code, token_hash, metrics) values ($1, $2, $3, $4, $5) returning id`, [
+      farmId,
+      zoneId,
+      code,
+      hashToken(token),
+      ["temperature", "moisture", "battery", "signal", "ammonia"],
+    ]);
     probes.push({ id: p.rows[0].id as number, code, token, zoneId, zone });
   }
   return { farmId, binId, zones, probes };
@@ -54,7 +54,11 @@ export async function makeFarm(
 /** A person with a role on a farm; returns the e-mail to sign in with. */
 export async function addMember(c: pg.Client, farmId: string, role: "owner" | "keeper" | "viewer", password: string): Promise<string> {
   const email = `${role}-${uniq()}@example.org`;
-  const u = await c.query(`insert into users (email, name, password_hash) values ($1, $2, $3) returning id`, [email, `A ${role}`, await hashPassword(password)]);
+  const u = await c.query(`insert into users (email, name, password_hash) values ($1, $2, $3) returning id`, [
+    email,
+    `A ${role}`,
+    await hashPassword(password),
+  ]);
   await c.query(`insert into memberships (user_id, farm_id, role) values ($1, $2, $3)`, [u.rows[0].id, farmId, role]);
   return email;
 }

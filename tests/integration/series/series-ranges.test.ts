@@ -22,7 +22,8 @@ beforeAll(async () => {
   // 90 days at one reading per 5 min for the first probe (through the ingest's own insert, which
   // keeps the hourly rollups), the last 2 days at one per minute for both fresh probes.
   const rows: { probeId: number; metric: "temperature"; ts: Date; value: number }[] = [];
-  for (let t = END - 90 * 24 * HOUR; t < END; t += 5 * 60_000) rows.push({ probeId: farm.probes[0]!.id, metric: "temperature", ts: new Date(t), value: temperatureAt(t, 0) });
+  for (let t = END - 90 * 24 * HOUR; t < END; t += 5 * 60_000)
+    rows.push({ probeId: farm.probes[0]!.id, metric: "temperature", ts: new Date(t), value: temperatureAt(t, 0) });
   for (const [i, p] of farm.probes.slice(0, 2).entries()) {
     for (let t = END - 48 * HOUR; t < END; t += 60_000) rows.push({ probeId: p.id, metric: "temperature", ts: new Date(t), value: temperatureAt(t, i) });
   }
@@ -34,7 +35,8 @@ afterAll(async () => {
   await closeDb();
 });
 
-const q = (fromMs: number, toMs: number) => seriesQuery.parse({ metric: "temperature", from: new Date(fromMs).toISOString(), to: new Date(toMs).toISOString() });
+const q = (fromMs: number, toMs: number) =>
+  seriesQuery.parse({ metric: "temperature", from: new Date(fromMs).toISOString(), to: new Date(toMs).toISOString() });
 const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
 
 describe("series for charts", () => {
@@ -54,7 +56,10 @@ describe("series for charts", () => {
     expect(line.max[100]).toBeCloseTo(Math.max(...inside), 9);
 
     // It really reads the rollups: a changed rollup row shows, the raw readings do not.
-    await c.query(`update reading_rollups set min = -40 where probe_id = $1 and metric = 'temperature' and hour = to_timestamp($2)`, [farm.probes[0]!.id, line.t[100]!]);
+    await c.query(`update reading_rollups set min = -40 where probe_id = $1 and metric = 'temperature' and hour = to_timestamp($2)`, [
+      farm.probes[0]!.id,
+      line.t[100]!,
+    ]);
     const b = await getZoneSeries(farm.zones.fresh!, q(END - 90 * 24 * HOUR, END));
     expect(b.series.find((s) => s.probeId === farm.probes[0]!.id)!.min[100]).toBe(-40);
   });
@@ -78,7 +83,12 @@ describe("series for charts", () => {
   it("a raw range with more than 1,000 readings is bucketed so each series stays within 1,000 points", async () => {
     const a = await getZoneSeries(farm.zones.fresh!, q(END - 48 * HOUR, END));
     expect(a).toMatchObject({ source: "raw", bucketSeconds: 300 });
-    expect(a.series.map((s) => s.code)).toEqual(farm.probes.slice(0, 2).map((p) => p.code).sort());
+    expect(a.series.map((s) => s.code)).toEqual(
+      farm.probes
+        .slice(0, 2)
+        .map((p) => p.code)
+        .sort(),
+    );
     for (const [i, p] of farm.probes.slice(0, 2).entries()) {
       const line = a.series.find((s) => s.probeId === p.id)!;
       expect(line.t.length).toBe(576);

@@ -115,7 +115,9 @@ describe("demo accounts only in the demo", () => {
     const c = new pg.Client({ connectionString: url });
     await c.connect();
     try {
-      const r = await c.query(`select u.password_hash, m.role, f.name from users u join memberships m on m.user_id = u.id join farms f on f.id = m.farm_id where u.email = 'fern@example.org'`);
+      const r = await c.query(
+        `select u.password_hash, m.role, f.name from users u join memberships m on m.user_id = u.id join farms f on f.id = m.farm_id where u.email = 'fern@example.org'`,
+      );
       expect(r.rows).toHaveLength(1);
       expect(r.rows[0].role).toBe("owner");
       expect(r.rows[0].name).toBe("Back Garden");

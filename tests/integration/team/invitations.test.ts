@@ -86,7 +86,10 @@ describe("inviting someone to the team", () => {
     const farmRes = await me.fetch(`/api/farms/${farm}`);
     expect(farmRes.status).toBe(200);
     expect(((await farmRes.json()) as { role: string }).role).toBe("keeper");
-    const team = (await (await sessions.owner.fetch(`/api/farms/${farm}/members`)).json()) as { members: { name: string; role: string; email: string }[]; invitations: { email: string }[] };
+    const team = (await (await sessions.owner.fetch(`/api/farms/${farm}/members`)).json()) as {
+      members: { name: string; role: string; email: string }[];
+      invitations: { email: string }[];
+    };
     expect(team.members).toContainEqual(expect.objectContaining({ name: "Nell New", role: "keeper", email }));
     expect(team.invitations.map((i) => i.email)).not.toContain(email);
 
@@ -211,7 +214,9 @@ describe("inviting someone to the team", () => {
     const { invitation } = (await res.json()) as { invitation: { id: string } };
     expect((await sessions.owner.fetch(`/api/farms/${farm}/invitations/${invitation.id}`, { method: "DELETE" })).status).toBe(404);
     expect((await sessions.owner.fetch(`/api/farms/${otherFarm}/invitations/${invitation.id}`, { method: "DELETE" })).status).toBe(404);
-    expect((await sessions.owner.fetch(`/api/farms/${otherFarm}/invitations`, { method: "POST", json: { email: newAddress("y"), role: "keeper" } })).status).toBe(404);
+    expect(
+      (await sessions.owner.fetch(`/api/farms/${otherFarm}/invitations`, { method: "POST", json: { email: newAddress("y"), role: "keeper" } })).status,
+    ).toBe(404);
     expect((await sessions.owner.fetch(`/api/farms/${farm}/invitations/not-a-uuid`, { method: "DELETE" })).status).toBe(404);
     const still = await c.query(`select count(*)::int as n from invitations where id = $1`, [invitation.id]);
     expect(still.rows[0].n).toBe(1);

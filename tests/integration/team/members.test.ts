@@ -39,7 +39,10 @@ describe("the team list", () => {
     const invited = `pending-${uniq()}@example.org`;
     expect((await o.session.fetch(`/api/farms/${farmId}/invitations`, { method: "POST", json: { email: invited, role: "viewer" } })).status).toBe(201);
 
-    const asOwner = (await (await o.session.fetch(`/api/farms/${farmId}/members`)).json()) as { members: Record<string, unknown>[]; invitations: { email: string }[] };
+    const asOwner = (await (await o.session.fetch(`/api/farms/${farmId}/members`)).json()) as {
+      members: Record<string, unknown>[];
+      invitations: { email: string }[];
+    };
     expect(asOwner.members.map((m) => [m.name, m.role, m.email])).toEqual([
       [o.person.name, "owner", o.person.email],
       [k.person.name, "keeper", k.person.email],

@@ -14,7 +14,12 @@ async function requireCrew() {
 export const POST = route(async (req) => {
   const userId = await requireCrew();
   const body = pushSubscriptionBody.parse(await readJson(req));
-  const row = await savePushSubscription(userId, { endpoint: body.endpoint, p256dh: body.keys.p256dh, auth: body.keys.auth, userAgent: req.headers.get("user-agent") });
+  const row = await savePushSubscription(userId, {
+    endpoint: body.endpoint,
+    p256dh: body.keys.p256dh,
+    auth: body.keys.auth,
+    userAgent: req.headers.get("user-agent"),
+  });
   return Response.json({ subscription: { id: row.id } }, { status: 201 });
 });
 

@@ -22,14 +22,25 @@ export default async function TeamPage({ params }: { params: Promise<{ farmId: s
   return (
     <main className="space-y-6 p-4">
       <div>
-        <a href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center text-sm text-soil-500">← Today</a>
-        <p className="text-sm text-soil-500">{farm.name}</p>
+        <a href={`/farms/${farmId}`} className="text-soil-500 inline-flex min-h-11 items-center text-sm">
+          ← Today
+        </a>
+        <p className="text-soil-500 text-sm">{farm.name}</p>
         <h1 className="text-3xl font-bold">Team</h1>
       </div>
       <section aria-labelledby="people-h">
-        <h2 id="people-h" className="mb-2 text-xl font-bold">People ({team.length})</h2>
+        <h2 id="people-h" className="mb-2 text-xl font-bold">
+          People ({team.length})
+        </h2>
         <MemberList
-          members={team.map((m) => ({ userId: m.userId, name: m.name, role: m.role, joined: day(m.joinedAt), isYou: m.userId === who.userId, ...(owner ? { email: m.email } : {}) }))}
+          members={team.map((m) => ({
+            userId: m.userId,
+            name: m.name,
+            role: m.role,
+            joined: day(m.joinedAt),
+            isYou: m.userId === who.userId,
+            ...(owner ? { email: m.email } : {}),
+          }))}
           manage={owner ? { farmId, changeRole, remove } : undefined}
         />
       </section>
@@ -43,7 +54,7 @@ export default async function TeamPage({ params }: { params: Promise<{ farmId: s
           />
         </>
       ) : (
-        <p className="rounded-xl bg-soil-100 p-4">Only an owner of {farm.name} can invite people or change roles.</p>
+        <p className="bg-soil-100 rounded-xl p-4">Only an owner of {farm.name} can invite people or change roles.</p>
       )}
     </main>
   );

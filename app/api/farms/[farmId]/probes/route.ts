@@ -21,7 +21,15 @@ export const POST = route(async (req, { params }: Ctx) => {
   const input = probeCreate.parse(await readJson(req));
   if (input.zoneId && (await zoneFarm(input.zoneId)) !== who.farmId) throw new AppError("invalid", "That zone is not on this farm.", "zoneId");
   const token = randomBytes(24).toString("base64url");
-  const probe = await createProbe({ farmId: who.farmId, zoneId: input.zoneId ?? null, code: input.code, label: input.label ?? null, metrics: input.metrics, reportIntervalS: input.reportIntervalS, token });
+  const probe = await createProbe({
+    farmId: who.farmId,
+    zoneId: input.zoneId ?? null,
+    code: input.code,
+    label: input.label ?? null,
+    metrics: input.metrics,
+    reportIntervalS: input.reportIntervalS,
+    token,
+  });
   const { tokenHash: _hash, ...safe } = probe;
   return Response.json({ probe: safe, token, note: "Copy the token now: it is shown only once." }, { status: 201, headers: { "cache-control": "no-store" } });
 });

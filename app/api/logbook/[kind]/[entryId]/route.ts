@@ -16,7 +16,8 @@ export const DELETE = route(async (_req, { params }: Ctx) => {
   const who = await authorize(userId, { binId: entry.binId }, "log");
   if (who.role !== "owner") {
     if (entry.byUserId !== userId) throw new AppError("forbidden", "Only the person who logged this, or an owner, can remove it.");
-    if (Date.now() - entry.createdAt.getTime() > UNDO_WINDOW_MS) throw new AppError("forbidden", "Entries can be removed for 24 hours after logging; ask an owner.");
+    if (Date.now() - entry.createdAt.getTime() > UNDO_WINDOW_MS)
+      throw new AppError("forbidden", "Entries can be removed for 24 hours after logging; ask an owner.");
   }
   await deleteLogEntry(kind as LogKind, entryId);
   return Response.json({ deleted: { kind, id: entryId } });

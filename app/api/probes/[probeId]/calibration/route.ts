@@ -20,7 +20,14 @@ export const GET = route(async (_req, { params }: Ctx) => {
   const { samples } = await fitOf(probeId);
   const cal = place?.calibration ?? null;
   const residuals = cal
-    ? samples.filter((s) => s.rawReading != null).map((s) => ({ sampleId: s.id, raw: s.rawReading!, moisturePct: s.moistureWbPct, residual: s.moistureWbPct - (cal.intercept + cal.slope * s.rawReading!) }))
+    ? samples
+        .filter((s) => s.rawReading != null)
+        .map((s) => ({
+          sampleId: s.id,
+          raw: s.rawReading!,
+          moisturePct: s.moistureWbPct,
+          residual: s.moistureWbPct - (cal.intercept + cal.slope * s.rawReading!),
+        }))
     : [];
   return Response.json({ calibration: cal, samples, residuals });
 });

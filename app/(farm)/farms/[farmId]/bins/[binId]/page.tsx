@@ -33,7 +33,13 @@ export default async function BinPage({
   const { farmId, binId } = await params;
   const { role, userId } = await requirePageMember({ farmId, binId }, "read");
   const canLog = role !== "viewer";
-  const [bin, farm, feedings, library, logbook] = await Promise.all([getBin(binId), getFarm(farmId), listFeedings(binId), canLog ? listIngredients(farmId) : null, listLogbook(binId)]);
+  const [bin, farm, feedings, library, logbook] = await Promise.all([
+    getBin(binId),
+    getFarm(farmId),
+    listFeedings(binId),
+    canLog ? listIngredients(farmId) : null,
+    listLogbook(binId),
+  ]);
   if (!bin || !farm) notFound();
   const latest = await latestOfZones(bin.zones.map((z) => z.id));
   const profile = getSpecies(bin.species);
@@ -47,26 +53,28 @@ export default async function BinPage({
   return (
     <main className="space-y-4 p-3 pb-10">
       <div className="px-1 pt-1">
-        <Link href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
+        <Link href={`/farms/${farmId}`} className="text-soil-700 inline-flex min-h-11 items-center gap-1 underline underline-offset-4">
           <span aria-hidden="true">←</span> Today
         </Link>
         <h1 className="text-3xl font-bold">{bin.name}</h1>
-        <p className="text-sm text-soil-700">
+        <p className="text-soil-700 text-sm">
           {bin.style} · <i>{profile?.name ?? bin.species}</i>
           {profile ? ` (${profile.commonName})` : ""}
         </p>
-        <Link href={`/farms/${farmId}/bins/${binId}/rules`} className="mt-1 inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
+        <Link href={`/farms/${farmId}/bins/${binId}/rules`} className="text-soil-700 mt-1 inline-flex min-h-11 items-center gap-1 underline underline-offset-4">
           Alert rules <span aria-hidden="true">›</span>
         </Link>
       </div>
 
-      <section aria-labelledby="zones-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="zones-h" className="text-xl font-bold">Zones</h2>
-        <p className="text-sm text-soil-700">From the feeding side to the harvest side.</p>
+      <section aria-labelledby="zones-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+        <h2 id="zones-h" className="text-xl font-bold">
+          Zones
+        </h2>
+        <p className="text-soil-700 text-sm">From the feeding side to the harvest side.</p>
         {zones.length === 0 ? (
           <p className="mt-2">This bin has no zones.</p>
         ) : (
-          <ul className="mt-2 divide-y divide-soil-100">
+          <ul className="divide-soil-100 mt-2 divide-y">
             {zones.map((z) => {
               const l = latest.get(z.id) ?? {};
               const t = l.temperature;
@@ -87,7 +95,9 @@ export default async function BinPage({
                         </span>
                       </span>
                     </span>
-                    <span aria-hidden="true" className="text-2xl text-soil-500">›</span>
+                    <span aria-hidden="true" className="text-soil-500 text-2xl">
+                      ›
+                    </span>
                   </Link>
                 </li>
               );
@@ -98,15 +108,21 @@ export default async function BinPage({
 
       <SWRConfig value={{ fallback }}>
         {canLog && <FeedingForm farmId={farmId} binId={binId} zones={zones} defaultZoneId={defaultZoneId} system={farm.unitSystem} />}
-        <section aria-labelledby="logbook-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-          <h2 id="logbook-h" className="text-xl font-bold">Logbook</h2>
-          <p className="mb-2 text-sm text-soil-700">Feedings, newest first, each with the mix check made when it was logged.</p>
+        <section aria-labelledby="logbook-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+          <h2 id="logbook-h" className="text-xl font-bold">
+            Logbook
+          </h2>
+          <p className="text-soil-700 mb-2 text-sm">Feedings, newest first, each with the mix check made when it was logged.</p>
           <FeedingLog binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} />
         </section>
         {canLog && <QuickLogForms binId={binId} zones={zones} system={farm.unitSystem} />}
-        <section aria-labelledby="all-log-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-          <h2 id="all-log-h" className="text-xl font-bold">Everything logged</h2>
-          <p className="mb-2 text-sm text-soil-700">Feedings, water, harvests, notes and oven-dry samples, newest first. Undo is open for 24 hours to whoever logged it.</p>
+        <section aria-labelledby="all-log-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+          <h2 id="all-log-h" className="text-xl font-bold">
+            Everything logged
+          </h2>
+          <p className="text-soil-700 mb-2 text-sm">
+            Feedings, water, harvests, notes and oven-dry samples, newest first. Undo is open for 24 hours to whoever logged it.
+          </p>
           <LogbookList binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} userId={userId} isOwner={role === "owner"} />
         </section>
       </SWRConfig>

@@ -1,3 +1,7 @@
 export default function Loading() {
-  return <p className="p-4 text-soil-700" aria-live="polite">Loading the zone…</p>;
+  return (
+    <p className="text-soil-700 p-4" aria-live="polite">
+      Loading the zone…
+    </p>
+  );
 }

@@ -22,7 +22,6 @@ import { timeZoneOrUtc } from "@/lib/validation/fields";
 
 export const metadata: Metadata = { title: "Zone" };
 
-
 const json = <T,>(x: T): T => JSON.parse(JSON.stringify(x));
 
 function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => string }) {
@@ -34,7 +33,9 @@ function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => s
         ? `claimed by ${a.claimedByName ?? "someone"}`
         : "raised, nobody on it yet";
   return (
-    <li className={`rounded-xl p-3 ring-1 ${a.state === "settled" ? "bg-paper ring-soil-300" : actNow ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}>
+    <li
+      className={`rounded-xl p-3 ring-1 ${a.state === "settled" ? "bg-paper ring-soil-300" : actNow ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}
+    >
       <div className="flex flex-wrap items-center justify-between gap-x-2 font-bold">
         <span className="flex items-center gap-1">
           <svg viewBox="0 0 16 16" width="16" height="16" aria-hidden="true">
@@ -51,7 +52,13 @@ function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => s
       <p className="text-sm">{a.message}</p>
       <p className="mt-1 flex items-center gap-1 text-sm">
         <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
-          {a.state === "settled" ? <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" /> : a.state === "claimed" ? <circle cx="6" cy="6" r="5" fill="currentColor" /> : <circle cx="6" cy="6" r="4.5" fill="none" stroke="currentColor" strokeWidth="1.5" />}
+          {a.state === "settled" ? (
+            <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" />
+          ) : a.state === "claimed" ? (
+            <circle cx="6" cy="6" r="5" fill="currentColor" />
+          ) : (
+            <circle cx="6" cy="6" r="4.5" fill="none" stroke="currentColor" strokeWidth="1.5" />
+          )}
         </svg>
         {state}
       </p>
@@ -90,29 +97,31 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
   return (
     <main className="space-y-4 p-3 pb-10">
       <div className="px-1 pt-1">
-        <Link href={`/farms/${farmId}/bins/${bin.id}`} className="inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
+        <Link href={`/farms/${farmId}/bins/${bin.id}`} className="text-soil-700 inline-flex min-h-11 items-center gap-1 underline underline-offset-4">
           <span aria-hidden="true">←</span> {bin.name}
         </Link>
         <h1 className="text-3xl font-bold">{title}</h1>
-        <p className="text-sm text-soil-700">
+        <p className="text-soil-700 text-sm">
           {bin.name} · {bin.style} · <i>{profile?.name ?? bin.species}</i>
           {profile ? ` (${profile.commonName})` : ""} · {view.probeCount === 1 ? "1 probe" : `${view.probeCount} probes`}
         </p>
       </div>
 
-      <section aria-labelledby="now-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="now-h" className="sr-only">Latest readings</h2>
+      <section aria-labelledby="now-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+        <h2 id="now-h" className="sr-only">
+          Latest readings
+        </h2>
         <dl className="grid grid-cols-2 gap-x-3 gap-y-4">
           {metrics.map((m) => {
             const l = view.latest[m];
             const status = l && profile ? metricStatus(m, l.value, profile, ammonia) : { band: null, label: "no reading" };
             return (
               <div key={m} className={m === "ammonia" ? "col-span-2" : ""}>
-                <dt className="text-xs uppercase tracking-wide text-soil-500">{METRIC_TITLES[m]}</dt>
+                <dt className="text-soil-500 text-xs tracking-wide uppercase">{METRIC_TITLES[m]}</dt>
                 <dd>
                   <span className="tabular block text-3xl font-bold">{l ? formatMetric(m, l.value, system) : "—"}</span>
                   <StatusMark band={status.band} label={status.label} />
-                  <span className="tabular mt-1 block text-xs text-soil-500">{l ? `at ${clock(l.ts)}` : "no readings yet"}</span>
+                  <span className="tabular text-soil-500 mt-1 block text-xs">{l ? `at ${clock(l.ts)}` : "no readings yet"}</span>
                 </dd>
               </div>
             );
@@ -121,7 +130,7 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
         {canLog && (
           <Link
             href={`/farms/${farmId}/bins/${bin.id}?zone=${zone.id}#log`}
-            className="mt-4 flex min-h-12 items-center justify-center rounded-xl bg-leaf-700 px-4 font-bold text-white"
+            className="bg-leaf-700 mt-4 flex min-h-12 items-center justify-center rounded-xl px-4 font-bold text-white"
           >
             Log a feeding here
           </Link>
@@ -141,9 +150,11 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
         />
       </SWRConfig>
 
-      <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="alerts-h" className="text-xl font-bold">Alerts in this zone</h2>
-        <p className="text-sm text-soil-700">Open ones, and any raised in the last 30 days.</p>
+      <section aria-labelledby="alerts-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+        <h2 id="alerts-h" className="text-xl font-bold">
+          Alerts in this zone
+        </h2>
+        <p className="text-soil-700 text-sm">Open ones, and any raised in the last 30 days.</p>
         {alerts.length === 0 ? (
           <p className="mt-2">None. This zone has been quiet.</p>
         ) : (

@@ -6,7 +6,6 @@ import { isUuid } from "@/lib/validation/team";
 
 type Ctx = { params: Promise<{ farmId: string; invitationId: string }> };
 
-
 // DELETE /api/farms/[farmId]/invitations/[invitationId] — owners revoke an open invitation; its link stops working
 export const DELETE = route(async (_req, { params }: Ctx) => {
   const { farmId, invitationId } = await params;
