@@ -1,7 +1,6 @@
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db } from "@/db";
-import { alertEvents, alerts, bins, users, zones } from "@/db/schema";
-import { AppError } from "@/lib/errors";
+import { alertEvents, alerts, bins, users, zones, type Alert } from "@/db/schema";
 
 export async function listAlerts(farmId: string, opts: { open?: boolean; limit?: number } = {}) {
   const where = opts.open ? and(eq(alerts.farmId, farmId), inArray(alerts.state, ["raised", "claimed"])) : eq(alerts.farmId, farmId);
@@ -33,8 +32,12 @@ export async function getAlert(id: string) {
   return { ...a, events: events.map((e) => ({ ...e.event, userName: e.userName })) };
 }
 
-// Claim is a compare-and-set on the state so two keepers tapping at once get one winner.
-export async function claimAlert(id: string, userId: string) {
+// Claim is a compare-and-set on the state so two keepers tapping at once get one winner. When it
+// loses, the answer says what the alert is now and who holds it.
+export async function claimAlert(
+  id: string,
+  userId: string,
+): Promise<{ claimed: Alert } | { claimed: null; state: Alert["state"] | null; claimedByName: string | null }> {
   return db().transaction(async (tx) => {
     const [a] = await tx
       .update(alerts)
@@ -47,22 +50,22 @@ export async function claimAlert(id: string, userId: string) {
         .from(alerts)
         .leftJoin(users, eq(users.id, alerts.claimedBy))
         .where(eq(alerts.id, id));
-      if (cur?.state === "claimed") throw new AppError("conflict", `Already claimed by ${cur.claimedBy ?? "someone"}.`);
-      throw new AppError("conflict", "This alert has already settled.");
+      return { claimed: null, state: cur?.state ?? null, claimedByName: cur?.claimedBy ?? null };
     }
     await tx.insert(alertEvents).values({ alertId: id, type: "claimed", userId });
-    return a;
+    return { claimed: a };
   });
 }
 
-export async function settleAlert(id: string, userId: string | null, note?: string) {
+// null when the alert had already settled.
+export async function settleAlert(id: string, userId: string | null, note?: string): Promise<Alert | null> {
   return db().transaction(async (tx) => {
     const [a] = await tx
       .update(alerts)
       .set({ state: "settled", settledAt: new Date() })
       .where(and(eq(alerts.id, id), inArray(alerts.state, ["raised", "claimed"])))
       .returning();
-    if (!a) throw new AppError("conflict", "This alert has already settled.");
+    if (!a) return null;
     await tx.insert(alertEvents).values({ alertId: id, type: "settled", userId, detail: note ? { note } : {} });
     return a;
   });

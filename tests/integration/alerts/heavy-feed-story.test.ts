@@ -8,7 +8,7 @@ import { eq } from "drizzle-orm";
 import type { MqttClient } from "mqtt";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
-import { claimAlert } from "@/db/queries/alerts";
+import { claimAlertAs } from "@/lib/alerts/crew";
 import { insertFeeding } from "@/db/queries/feedings";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, alerts, memberships, rules, users } from "@/db/schema";
@@ -149,9 +149,9 @@ describe("a heavy feed heats the fresh zone", () => {
     console.log(`alert timeline (minutes after the feeding; climb starts at 30): ${seen.map((s) => `${s.minute} ${s.level}/${s.type}`).join(", ")}`);
 
     // One keeper claims it.
-    const claimed = await claimAlert(alert.id, keeperId);
+    const claimed = await claimAlertAs({ userId: keeperId }, alert.id);
     expect(claimed.state).toBe("claimed");
-    await expect(claimAlert(alert.id, keeperId)).rejects.toThrow(/Already claimed/);
+    await expect(claimAlertAs({ userId: keeperId }, alert.id)).rejects.toThrow(/Already claimed/);
 
     // The zone cools to 22 °C; after 15 min below 24.5 °C the alert settles.
     let m = 196;

@@ -6,7 +6,7 @@ import { db } from "@/db";
 import { raiseAlert } from "@/db/queries/alerts";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, memberships, users } from "@/db/schema";
-import { claimAlert } from "@/db/queries/alerts";
+import { claimAlertAs } from "@/lib/alerts/crew";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { deliverHeldAlerts, notifyAlert } from "@/lib/alerts/notify";
 import { makeVapidKeys } from "@/lib/push";
@@ -81,7 +81,7 @@ describe("when quiet hours end", () => {
     const userId = (await db().select({ userId: alertEvents.userId }).from(alertEvents).where(eq(alertEvents.alertId, taken!.id))).find(
       (e) => e.userId,
     )!.userId!;
-    await claimAlert(taken!.id, userId);
+    await claimAlertAs({ userId }, taken!.id);
     await worker.idle();
     const before = (await pushMessagesFor(sleeper.id)).length;
 

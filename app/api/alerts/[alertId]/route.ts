@@ -1,4 +1,4 @@
-import { getAlert } from "@/db/queries/alerts";
+import { readAlert } from "@/lib/alerts/crew";
 import { route } from "@/lib/api/route";
 import { requireMember } from "@/lib/auth/session";
 
@@ -7,6 +7,6 @@ type Ctx = { params: Promise<{ alertId: string }> };
 // GET /api/alerts/[alertId] — one alert with its events (who, when, what was sent where)
 export const GET = route(async (_req, { params }: Ctx) => {
   const { alertId } = await params;
-  await requireMember({ alertId }, "read");
-  return Response.json({ alert: await getAlert(alertId) });
+  const who = await requireMember({ alertId }, "read");
+  return Response.json({ alert: await readAlert(who, alertId) });
 });

@@ -1,4 +1,4 @@
-import { claimAlert } from "@/db/queries/alerts";
+import { claimAlertAs } from "@/lib/alerts/crew";
 import { route } from "@/lib/api/route";
 import { requireMember } from "@/lib/auth/session";
 
@@ -8,5 +8,5 @@ type Ctx = { params: Promise<{ alertId: string }> };
 export const POST = route(async (_req, { params }: Ctx) => {
   const { alertId } = await params;
   const who = await requireMember({ alertId }, "log");
-  return Response.json({ alert: await claimAlert(alertId, who.userId) });
+  return Response.json({ alert: await claimAlertAs(who, alertId) });
 });

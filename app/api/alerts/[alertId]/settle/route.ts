@@ -1,4 +1,4 @@
-import { settleAlert } from "@/db/queries/alerts";
+import { settleAlertAs } from "@/lib/alerts/crew";
 import { route } from "@/lib/api/route";
 import { requireMember } from "@/lib/auth/session";
 import { readOptionalJson } from "@/lib/errors";
@@ -11,5 +11,5 @@ export const POST = route(async (req, { params }: Ctx) => {
   const { alertId } = await params;
   const who = await requireMember({ alertId }, "log");
   const { note } = settleBody.parse(await readOptionalJson(req));
-  return Response.json({ alert: await settleAlert(alertId, who.userId, note) });
+  return Response.json({ alert: await settleAlertAs(who, alertId, note) });
 });
