@@ -3,15 +3,14 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
-import { raiseAlert } from "@/db/queries/alerts";
 import { claimDeliveries, listDeliveries } from "@/db/queries/deliveries";
-import { savePushSubscription } from "@/db/queries/push";
-import { alertEvents, memberships, users } from "@/db/schema";
+import { alertEvents } from "@/db/schema";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { topicOf } from "@/lib/alerts/deliver";
 import { notifyAlert } from "@/lib/alerts/notify";
 import { makeVapidKeys } from "@/lib/push";
 import { newSubscriber, pushMessagesFor, type TestSubscriber } from "../../helpers/push";
+import { addKeeper, raiseActNow } from "./helpers";
 import { createProbes, waitFor } from "../ingest/helpers";
 
 const vapid = makeVapidKeys();
@@ -32,32 +31,12 @@ beforeAll(async () => {
   const [probe] = await createProbes(1);
   phones = await Promise.all(Array.from({ length: N }, () => newSubscriber()));
   // Ten keepers with four phones each.
-  for (let k = 0; k < N / 4; k++) {
-    const [u] = await db()
-      .insert(users)
-      .values({ email: `crew-${k}-${probe!.code}@example.org`, name: `Keeper ${k}`, passwordHash: "x" })
-      .returning();
-    await db().insert(memberships).values({ userId: u!.id, farmId: probe!.farmId, role: "keeper" });
-    for (const s of phones.slice(k * 4, k * 4 + 4))
-      await savePushSubscription(u!.id, { endpoint: s.json.endpoint, p256dh: s.json.keys.p256dh, auth: s.json.keys.auth });
-  }
-  const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows[0] as { binId: string }).binId;
-  const alert = await raiseAlert({
-    farmId: probe!.farmId,
-    binId,
-    zoneId: probe!.zoneId,
-    probeId: null,
-    subject: `zone:${probe!.zoneId}:heat`,
-    kind: "heat",
-    level: "act_now",
-    value: 35,
-    message: "Test bin: 35 °C",
-    details: {},
-  });
-  alertId = alert!.id;
+  for (let k = 0; k < N / 4; k++) await addKeeper(probe!, `crew-${k}-${probe!.code}@example.org`, `Keeper ${k}`, phones.slice(k * 4, k * 4 + 4));
+  const alert = await raiseActNow(probe!, "heat", 35, "°C");
+  alertId = alert.id;
   // Queued with no worker running, then twice over: the repeat adds no row (dedupe key).
-  expect(await notifyAlert(alert!, "raised")).toMatchObject({ queued: N });
-  await notifyAlert(alert!, "raised");
+  expect(await notifyAlert(alert, "raised")).toMatchObject({ queued: N });
+  await notifyAlert(alert, "raised");
   expect(await listDeliveries({ alertId })).toHaveLength(N);
 });
 
@@ -92,38 +71,21 @@ describe("a worker that dies mid-send", () => {
   it("leaves its delivery to another worker once its lease runs out, under the same Topic", async () => {
     const phone = await newSubscriber();
     const [probe] = await createProbes(1);
-    const [u] = await db()
-      .insert(users)
-      .values({ email: `lease-${probe!.code}@example.org`, name: "Keeper", passwordHash: "x" })
-      .returning();
-    await db().insert(memberships).values({ userId: u!.id, farmId: probe!.farmId, role: "keeper" });
-    await savePushSubscription(u!.id, { endpoint: phone.json.endpoint, p256dh: phone.json.keys.p256dh, auth: phone.json.keys.auth });
-    const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows[0] as { binId: string }).binId;
-    const alert = await raiseAlert({
-      farmId: probe!.farmId,
-      binId,
-      zoneId: probe!.zoneId,
-      probeId: null,
-      subject: `zone:${probe!.zoneId}:soggy`,
-      kind: "soggy",
-      level: "act_now",
-      value: 92,
-      message: "Test bin: 92 %",
-      details: {},
-    });
+    await addKeeper(probe!, `lease-${probe!.code}@example.org`, "Keeper", [phone]);
+    const alert = await raiseActNow(probe!, "soggy", 92, "%");
     // The running workers are busy elsewhere for this test: stop them, then take the row as a worker
     // would and "die" (never end it), with a short lease.
     for (const w of workers.splice(0)) await w.stop();
-    await notifyAlert(alert!, "raised");
+    await notifyAlert(alert, "raised");
     const [taken] = await claimDeliveries(10, 500, 10);
-    expect(taken?.alertId).toBe(alert!.id);
+    expect(taken?.alertId).toBe(alert.id);
     const survivor = createDeliveryWorker({ pollMs: 50 });
     workers.push(survivor);
     await new Promise((r) => setTimeout(r, 200));
     expect(await pushMessagesFor(phone.id)).toHaveLength(0); // still the dead worker's
     const [done] = await waitFor(
       "the row to be sent",
-      () => listDeliveries({ alertId: alert!.id }),
+      () => listDeliveries({ alertId: alert.id }),
       (r) => r[0]?.state === "sent",
       10_000,
     );

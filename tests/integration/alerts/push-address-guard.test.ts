@@ -5,13 +5,13 @@ import net from "node:net";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
-import { raiseAlert } from "@/db/queries/alerts";
 import { listDeliveries } from "@/db/queries/deliveries";
-import { alertEvents, memberships, pushSubscriptions, users } from "@/db/schema";
+import { alertEvents, pushSubscriptions } from "@/db/schema";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { notifyAlert } from "@/lib/alerts/notify";
 import { makeVapidKeys, sendPush } from "@/lib/push";
 import { newSubscriber } from "../../helpers/push";
+import { addKeeper, raiseActNow } from "./helpers";
 import { createProbes } from "../ingest/helpers";
 
 const vapid = makeVapidKeys();
@@ -74,34 +74,18 @@ describe("the address check before each send", () => {
 
   it("a delivery worker refuses stored subscriptions on such names and on private addresses, once, without retrying", async () => {
     const [probe] = await createProbes(1);
-    const [u] = await db()
-      .insert(users)
-      .values({ email: `guard-${probe!.code}@example.org`, name: "Guarded", passwordHash: "x" })
-      .returning();
-    await db().insert(memberships).values({ userId: u!.id, farmId: probe!.farmId, role: "keeper" });
+    const userId = await addKeeper(probe!, `guard-${probe!.code}@example.org`, "Guarded");
     const keys = (await newSubscriber()).json.keys;
     // Rows as an older build stored them, before the allow-list: straight into the table.
     for (const endpoint of [`https://localhost:${port}/push/abc`, "https://10.20.30.40/push/abc", "https://[::ffff:127.0.0.1]:1/push/abc"]) {
-      await db().insert(pushSubscriptions).values({ userId: u!.id, endpoint, p256dh: keys.p256dh, auth: keys.auth });
+      await db().insert(pushSubscriptions).values({ userId, endpoint, p256dh: keys.p256dh, auth: keys.auth });
     }
-    const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows[0] as { binId: string }).binId;
-    const alert = await raiseAlert({
-      farmId: probe!.farmId,
-      binId,
-      zoneId: probe!.zoneId,
-      probeId: null,
-      subject: `zone:${probe!.zoneId}:heat`,
-      kind: "heat",
-      level: "act_now",
-      value: 34,
-      message: "Test bin: 34 °C",
-      details: {},
-    });
-    expect(await notifyAlert(alert!, "raised")).toMatchObject({ queued: 3 });
+    const alert = await raiseActNow(probe!, "heat", 34, "°C");
+    expect(await notifyAlert(alert, "raised")).toMatchObject({ queued: 3 });
     worker.kick();
     await worker.idle({ includeRetries: true });
 
-    const rows = await listDeliveries({ alertId: alert!.id });
+    const rows = await listDeliveries({ alertId: alert.id });
     expect(rows.map((d) => [d.state, d.attempts, d.lastStatus])).toEqual([
       ["failed", 1, null],
       ["failed", 1, null],
@@ -112,7 +96,7 @@ describe("the address check before each send", () => {
       "this push endpoint is not one we send to",
       "this push endpoint is not one we send to",
     ]);
-    const failed = (await db().select().from(alertEvents).where(eq(alertEvents.alertId, alert!.id))).filter((e) => e.type === "send_failed");
+    const failed = (await db().select().from(alertEvents).where(eq(alertEvents.alertId, alert.id))).filter((e) => e.type === "send_failed");
     expect(failed).toHaveLength(3);
     expect(connections).toBe(0);
   });

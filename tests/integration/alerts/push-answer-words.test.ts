@@ -3,14 +3,13 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
-import { raiseAlert } from "@/db/queries/alerts";
 import { listDeliveries } from "@/db/queries/deliveries";
-import { savePushSubscription } from "@/db/queries/push";
-import { alertEvents, memberships, users } from "@/db/schema";
+import { alertEvents } from "@/db/schema";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { notifyAlert } from "@/lib/alerts/notify";
 import { makeVapidKeys } from "@/lib/push";
 import { newSubscriber, pushAttemptsFor } from "../../helpers/push";
+import { addKeeper, raiseActNow } from "./helpers";
 import { createProbes } from "../ingest/helpers";
 
 const vapid = makeVapidKeys();
@@ -31,41 +30,24 @@ describe("the push test does not return what the push service said", () => {
   it("nor is it stored with the alert: a 400 and a 503 with bodies leave the status and our words", async () => {
     const secret = "internal-relay=10.9.8.7 session=abcd1234 <pre>Traceback</pre>";
     const [probe] = await createProbes(1);
-    const [u] = await db()
-      .insert(users)
-      .values({ email: `answers-${probe!.code}@example.org`, name: "Two phones", passwordHash: "x" })
-      .returning();
-    await db().insert(memberships).values({ userId: u!.id, farmId: probe!.farmId, role: "keeper" });
     const refusing = await newSubscriber({ mode: "answers", status: 400, body: secret });
     const failing = await newSubscriber({ mode: "answers", status: 503, body: secret });
-    for (const s of [refusing, failing]) await savePushSubscription(u!.id, { endpoint: s.json.endpoint, p256dh: s.json.keys.p256dh, auth: s.json.keys.auth });
-    const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe!.zoneId}'`)).rows[0] as { binId: string }).binId;
-    const alert = await raiseAlert({
-      farmId: probe!.farmId,
-      binId,
-      zoneId: probe!.zoneId,
-      probeId: null,
-      subject: `zone:${probe!.zoneId}:heat`,
-      kind: "heat",
-      level: "act_now",
-      value: 34,
-      message: "Test bin: 34 °C",
-      details: {},
-    });
+    await addKeeper(probe!, `answers-${probe!.code}@example.org`, "Two phones", [refusing, failing]);
+    const alert = await raiseActNow(probe!, "heat", 34, "°C");
 
-    await notifyAlert(alert!, "raised");
+    await notifyAlert(alert, "raised");
     worker.kick();
     await worker.idle({ includeRetries: true });
 
     // A 400 fails for good at once; a 503 is tried again, then fails.
     expect(await pushAttemptsFor(refusing.id)).toBe(1);
     expect(await pushAttemptsFor(failing.id)).toBe(2);
-    const rows = await listDeliveries({ alertId: alert!.id });
+    const rows = await listDeliveries({ alertId: alert.id });
     expect(rows.map((d) => ({ state: d.state, status: d.lastStatus, reason: d.lastReason })).sort((a, b) => a.status! - b.status!)).toEqual([
       { state: "failed", status: 400, reason: "the push service refused the message" },
       { state: "failed", status: 503, reason: "the push service had a problem on its side" },
     ]);
-    const events = (await db().select().from(alertEvents).where(eq(alertEvents.alertId, alert!.id))).filter((e) => e.type === "send_failed");
+    const events = (await db().select().from(alertEvents).where(eq(alertEvents.alertId, alert.id))).filter((e) => e.type === "send_failed");
     expect(events.map((e) => e.detail.status).sort()).toEqual([400, 503]);
     const stored = JSON.stringify({ rows, events });
     for (const piece of ["internal-relay", "10.9.8.7", "abcd1234", "Traceback"]) expect(stored).not.toContain(piece);
