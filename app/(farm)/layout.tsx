@@ -10,7 +10,7 @@ export default async function FarmShell({ children }: { children: React.ReactNod
   if (!user) redirect("/sign-in");
   return (
     <div className="mx-auto min-h-dvh max-w-3xl">
-      <header className="bg-soil-800 text-soil-100 sticky top-0 z-10 flex items-center justify-between px-4 py-2">
+      <header className="sticky top-0 z-10 flex items-center justify-between bg-soil-800 px-4 py-2 text-soil-100">
         <Link href="/" className="flex min-h-11 items-center gap-2 font-bold">
           <img src="/icon.svg" alt="" width={28} height={28} /> Wormward
         </Link>

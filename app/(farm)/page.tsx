@@ -11,7 +11,7 @@ export default async function Home() {
   return (
     <main className="p-5">
       <h1 className="text-2xl font-bold">No farm yet</h1>
-      <p className="text-soil-700 mt-2">You are not on any farm&apos;s team. Ask an owner to invite you, or start a farm of your own.</p>
+      <p className="mt-2 text-soil-700">You are not on any farm&apos;s team. Ask an owner to invite you, or start a farm of your own.</p>
     </main>
   );
 }

@@ -24,7 +24,7 @@ export function SignInForm({ next }: { next: string }) {
   }
 
   return (
-    <form onSubmit={onSubmit} className="ring-soil-300 space-y-5 rounded-2xl bg-white p-5 shadow-sm ring-1">
+    <form onSubmit={onSubmit} className="space-y-5 rounded-2xl bg-white p-5 shadow-sm ring-1 ring-soil-300">
       <label className="block">
         <span className="mb-1 block font-bold">E-mail</span>
         <input
@@ -33,7 +33,7 @@ export function SignInForm({ next }: { next: string }) {
           autoComplete="username"
           required
           inputMode="email"
-          className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3 text-lg"
+          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
         />
       </label>
       <label className="block">
@@ -43,13 +43,13 @@ export function SignInForm({ next }: { next: string }) {
           type="password"
           autoComplete="current-password"
           required
-          className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3 text-lg"
+          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
         />
       </label>
-      <p aria-live="polite" className="text-clay-700 min-h-6">
+      <p aria-live="polite" className="min-h-6 text-clay-700">
         {error}
       </p>
-      <button type="submit" disabled={busy} className="bg-leaf-700 h-14 w-full rounded-xl text-lg font-bold text-white disabled:opacity-60">
+      <button type="submit" disabled={busy} className="h-14 w-full rounded-xl bg-leaf-700 text-lg font-bold text-white disabled:opacity-60">
         {busy ? "Signing in…" : "Sign in"}
       </button>
     </form>

@@ -40,14 +40,14 @@ export function AddBinForm({ farmId }: { farmId: string }) {
 
   const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3";
   return (
-    <section className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+    <section className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
       {!open ? (
         <button
           onClick={() => {
             setOpen(true);
             setDone(null);
           }}
-          className="bg-soil-800 min-h-12 rounded-xl px-4 font-bold text-white"
+          className="min-h-12 rounded-xl bg-soil-800 px-4 font-bold text-white"
         >
           Add a bin
         </button>
@@ -57,7 +57,7 @@ export function AddBinForm({ farmId }: { farmId: string }) {
           <label className="block">
             <span className="block font-bold">Name</span>
             <input name="name" required maxLength={80} aria-invalid={!!errors.name} className={input} />
-            {errors.name && <span className="text-clay-700 text-sm">{errors.name}</span>}
+            {errors.name && <span className="text-sm text-clay-700">{errors.name}</span>}
           </label>
           <label className="block">
             <span className="block font-bold">Style</span>
@@ -84,20 +84,20 @@ export function AddBinForm({ farmId }: { farmId: string }) {
                 <option key={n}>{n}</option>
               ))}
             </select>
-            {errors.zoneCount && <span className="text-clay-700 text-sm">{errors.zoneCount}</span>}
+            {errors.zoneCount && <span className="text-sm text-clay-700">{errors.zoneCount}</span>}
           </label>
           <div className="flex gap-2">
-            <button disabled={busy} className="bg-leaf-700 min-h-12 rounded-xl px-4 font-bold text-white disabled:opacity-60">
+            <button disabled={busy} className="min-h-12 rounded-xl bg-leaf-700 px-4 font-bold text-white disabled:opacity-60">
               {busy ? "Adding…" : "Add"}
             </button>
-            <button type="button" onClick={() => setOpen(false)} className="ring-soil-300 min-h-12 rounded-xl px-4 ring-1">
+            <button type="button" onClick={() => setOpen(false)} className="min-h-12 rounded-xl px-4 ring-1 ring-soil-300">
               Cancel
             </button>
           </div>
-          {errors.form && <p className="text-clay-700 text-sm">{errors.form}</p>}
+          {errors.form && <p className="text-sm text-clay-700">{errors.form}</p>}
         </form>
       )}
-      <p aria-live="polite" className="text-leaf-700 mt-2 text-sm">
+      <p aria-live="polite" className="mt-2 text-sm text-leaf-700">
         {done}
       </p>
     </section>

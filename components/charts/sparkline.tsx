@@ -54,7 +54,7 @@ export function Sparkline({ points, band, color, label, height = 56 }: Props) {
     };
   }, [points, band, color, height]);
   if (points.length < 2) {
-    return <div className="text-soil-500 flex h-14 items-center text-sm">No readings in the last 24 h</div>;
+    return <div className="flex h-14 items-center text-sm text-soil-500">No readings in the last 24 h</div>;
   }
   return <div ref={ref} role="img" aria-label={label} className="w-full" />;
 }

@@ -232,10 +232,10 @@ export function ZoneChart(p: Props) {
     : `${p.title}, ${p.rangeWords}: no readings.`;
 
   return (
-    <figure className="ring-soil-300 rounded-2xl bg-white p-3 ring-1" data-metric={p.metric}>
+    <figure className="rounded-2xl bg-white p-3 ring-1 ring-soil-300" data-metric={p.metric}>
       <figcaption className="flex items-baseline justify-between gap-2">
         <h3 className="text-lg font-bold">{p.title}</h3>
-        <span className="tabular text-soil-700 text-sm">
+        <span className="tabular text-sm text-soil-700">
           {data?.source === "rollup"
             ? "hourly means, low–high shaded"
             : aggregated
@@ -244,9 +244,9 @@ export function ZoneChart(p: Props) {
         </span>
       </figcaption>
       {!data ? (
-        <p className="text-soil-700 flex h-52 items-center">{error ? error.message : isLoading ? "Loading readings…" : "No readings."}</p>
+        <p className="flex h-52 items-center text-soil-700">{error ? error.message : isLoading ? "Loading readings…" : "No readings."}</p>
       ) : !summary ? (
-        <p className="text-soil-700 flex h-24 items-center">No readings in the {p.rangeWords}.</p>
+        <p className="flex h-24 items-center text-soil-700">No readings in the {p.rangeWords}.</p>
       ) : (
         <div className="relative mt-1">
           <div
@@ -290,10 +290,10 @@ export function ZoneChart(p: Props) {
           )}
         </div>
       )}
-      <p aria-live="polite" className="tabular text-soil-800 mt-1 min-h-6 text-sm">
+      <p aria-live="polite" className="tabular mt-1 min-h-6 text-sm text-soil-800">
         {pickedMark ? pickedMark.detail : (readout ?? (summary ? `Latest ${p.describe(summary.last.v)}` : ""))}
       </p>
-      <p className="text-soil-700 mt-1 flex items-center gap-3 text-xs">
+      <p className="mt-1 flex items-center gap-3 text-xs text-soil-700">
         <span className="inline-flex items-center gap-1">
           {/* Classes, not style=: the content security policy refuses style attributes in HTML. */}
           <span aria-hidden="true" className="inline-block h-3 w-4 rounded-sm bg-[rgba(79,125,58,0.18)] outline outline-1 outline-[rgba(79,125,58,0.5)]" />

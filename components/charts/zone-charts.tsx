@@ -72,7 +72,7 @@ export function ZoneCharts(p: Props) {
         <h2 id="charts-h" className="text-xl font-bold">
           Charts
         </h2>
-        <span className="text-soil-700 text-sm">{r.words}</span>
+        <span className="text-sm text-soil-700">{r.words}</span>
       </div>
       <SegmentedControl label="Chart window" options={RANGES} value={range} onChange={choose} />
       {p.metrics.map((m) => (

@@ -15,7 +15,7 @@ export function FarmNav({ farmId, role }: { farmId: string; role: string }) {
     ...(role === "owner" ? [{ href: `${base}/settings`, label: "Settings" }] : []),
   ];
   return (
-    <nav aria-label="Farm" className="border-soil-300 bg-soil-100 flex gap-1 overflow-x-auto border-b px-2">
+    <nav aria-label="Farm" className="flex gap-1 overflow-x-auto border-b border-soil-300 bg-soil-100 px-2">
       {links.map((l) => {
         const current = path === l.href;
         return (
@@ -23,7 +23,7 @@ export function FarmNav({ farmId, role }: { farmId: string; role: string }) {
             key={l.href}
             href={l.href}
             aria-current={current ? "page" : undefined}
-            className={`flex min-h-12 items-center px-3 ${current ? "border-soil-800 border-b-4 font-bold" : "text-soil-700"}`}
+            className={`flex min-h-12 items-center px-3 ${current ? "border-b-4 border-soil-800 font-bold" : "text-soil-700"}`}
           >
             {l.label}
           </Link>

@@ -29,9 +29,9 @@ function Field({ id, label, hint, error, children }: { id: string; label: string
         {label}
       </label>
       {children}
-      {hint && <p className="text-soil-500 mt-1 text-sm">{hint}</p>}
+      {hint && <p className="mt-1 text-sm text-soil-500">{hint}</p>}
       {error && (
-        <p id={`${id}-error`} className="text-clay-700 mt-1 font-bold">
+        <p id={`${id}-error`} className="mt-1 font-bold text-clay-700">
           ⚠ {error}
         </p>
       )}
@@ -140,7 +140,7 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
   );
 
   return (
-    <form onSubmit={onSubmit} className="ring-soil-300 space-y-5 rounded-2xl bg-white p-4 shadow-sm ring-1">
+    <form onSubmit={onSubmit} className="space-y-5 rounded-2xl bg-white p-4 shadow-sm ring-1 ring-soil-300">
       <Field
         id={`${uid}-file`}
         label="Logger file (CSV)"
@@ -153,7 +153,7 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
           type="file"
           accept=".csv,.txt,text/csv"
           onChange={(e) => void onFile(e.target.files?.[0] ?? null)}
-          className="border-soil-500 bg-paper file:bg-soil-800 file:text-soil-100 block w-full rounded-xl border border-dashed p-4 text-lg file:mr-3 file:h-12 file:rounded-lg file:border-0 file:px-4 file:font-bold"
+          className="block w-full rounded-xl border border-dashed border-soil-500 bg-paper p-4 text-lg file:mr-3 file:h-12 file:rounded-lg file:border-0 file:bg-soil-800 file:px-4 file:font-bold file:text-soil-100"
         />
       </Field>
 
@@ -162,11 +162,11 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
           {preview.length > 0 && (
             <div className="overflow-x-auto">
               <table className="tabular min-w-full text-left text-sm">
-                <caption className="text-soil-500 mb-1 text-left text-sm">First rows of {file?.name}</caption>
+                <caption className="mb-1 text-left text-sm text-soil-500">First rows of {file?.name}</caption>
                 <thead>
                   <tr>
                     {header.map((h) => (
-                      <th key={h} className="border-soil-300 border-b px-2 py-1">
+                      <th key={h} className="border-b border-soil-300 px-2 py-1">
                         {h}
                       </th>
                     ))}
@@ -254,15 +254,15 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
       )}
 
       <div aria-live="polite" className="space-y-2">
-        {failure && !failure.field && <p className="bg-clay-100 text-clay-700 rounded-xl p-3 font-bold">⚠ {failure.message}</p>}
-        {failure?.field && <p className="text-clay-700 font-bold">⚠ Fix the field marked above.</p>}
+        {failure && !failure.field && <p className="rounded-xl bg-clay-100 p-3 font-bold text-clay-700">⚠ {failure.message}</p>}
+        {failure?.field && <p className="font-bold text-clay-700">⚠ Fix the field marked above.</p>}
         {outcome && <Result outcome={outcome} />}
       </div>
 
       <button
         type="submit"
         disabled={busy || !file || header.length === 0}
-        className="bg-leaf-700 h-14 w-full rounded-xl text-lg font-bold text-white disabled:opacity-60"
+        className="h-14 w-full rounded-xl bg-leaf-700 text-lg font-bold text-white disabled:opacity-60"
       >
         {busy ? "Importing…" : "Import readings"}
       </button>
@@ -274,13 +274,13 @@ function Result({ outcome }: { outcome: Outcome }) {
   const i = outcome.import;
   if (outcome.duplicate) {
     return (
-      <p className="bg-straw-100 text-straw-800 rounded-xl p-3">
+      <p className="rounded-xl bg-straw-100 p-3 text-straw-800">
         <strong>Already imported.</strong> This file was imported on {when(i.createdAt)} with the same columns; nothing was added.
       </p>
     );
   }
   return (
-    <div className="bg-leaf-100 text-leaf-700 rounded-xl p-3">
+    <div className="rounded-xl bg-leaf-100 p-3 text-leaf-700">
       <p className="tabular">
         <strong>✓ {rows(i.rowsStored, "readings")} stored</strong>
         {outcome.alreadyStored > 0 && <> · {outcome.alreadyStored} already there</>}
@@ -303,7 +303,7 @@ function Result({ outcome }: { outcome: Outcome }) {
 
 export function BadRows({ report, truncated, total }: { report: { line: number; reason: string }[]; truncated: boolean; total: number }) {
   return (
-    <details className="text-soil-900 mt-2" open={report.length <= 10}>
+    <details className="mt-2 text-soil-900" open={report.length <= 10}>
       <summary className="min-h-11 cursor-pointer py-2 font-bold">Refused rows, by line</summary>
       <ol className="tabular space-y-1 text-sm">
         {report.map((b) => (

@@ -226,7 +226,7 @@ export function FeedingForm({
           className={input}
         />
         {e && (
-          <p id={`${id}-error`} className="text-clay-700 mt-1 text-sm font-bold">
+          <p id={`${id}-error`} className="mt-1 text-sm font-bold text-clay-700">
             {e}
           </p>
         )}
@@ -235,7 +235,7 @@ export function FeedingForm({
   }
 
   return (
-    <form id="log" onSubmit={submit} noValidate className="ring-soil-300 space-y-4 rounded-2xl bg-white p-4 ring-1">
+    <form id="log" onSubmit={submit} noValidate className="space-y-4 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
       <h2 className="text-xl font-bold">Log a feeding</h2>
 
       <div>
@@ -247,7 +247,7 @@ export function FeedingForm({
           value={zoneId}
           onChange={(e) => setZoneId(e.target.value)}
           aria-invalid={!!errors.zoneId}
-          className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3 text-lg"
+          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
         >
           {zones.map((z) => (
             <option key={z.id} value={z.id}>
@@ -256,7 +256,7 @@ export function FeedingForm({
           ))}
           <option value="">Whole bin</option>
         </select>
-        {errors.zoneId && <p className="text-clay-700 mt-1 text-sm font-bold">{errors.zoneId}</p>}
+        {errors.zoneId && <p className="mt-1 text-sm font-bold text-clay-700">{errors.zoneId}</p>}
       </div>
 
       <fieldset className="space-y-2">
@@ -267,21 +267,21 @@ export function FeedingForm({
           placeholder="Find: scraps, cardboard, straw…"
           value={query}
           onChange={(e) => setQuery(e.target.value)}
-          className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3 text-lg"
+          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
         />
         <ul aria-label="Library ingredients" className="flex max-h-56 flex-wrap gap-2 overflow-y-auto py-1">
           {matches.map((i) => (
             <li key={i.id}>
-              <button type="button" onClick={() => addFromLibrary(i)} className="bg-soil-100 ring-soil-300 min-h-11 rounded-full px-3 text-left ring-1">
+              <button type="button" onClick={() => addFromLibrary(i)} className="min-h-11 rounded-full bg-soil-100 px-3 text-left ring-1 ring-soil-300">
                 <span aria-hidden="true">+ </span>
                 {i.name}
                 <span className="sr-only"> ({i.kind})</span>
               </button>
             </li>
           ))}
-          {lib && matches.length === 0 && <li className="text-soil-700 text-sm">Nothing in the library by that name; add it by hand.</li>}
+          {lib && matches.length === 0 && <li className="text-sm text-soil-700">Nothing in the library by that name; add it by hand.</li>}
         </ul>
-        <button type="button" onClick={addByHand} className="ring-soil-500 min-h-12 w-full rounded-xl px-4 font-bold ring-1">
+        <button type="button" onClick={addByHand} className="min-h-12 w-full rounded-xl px-4 font-bold ring-1 ring-soil-500">
           Add an item by hand
         </button>
       </fieldset>
@@ -289,7 +289,7 @@ export function FeedingForm({
       {rows.length > 0 && (
         <ol aria-label="Items in this feeding" className="space-y-3">
           {rows.map((r, i) => (
-            <li key={r.key} className="bg-paper ring-soil-300 rounded-xl p-3 ring-1">
+            <li key={r.key} className="rounded-xl bg-paper p-3 ring-1 ring-soil-300">
               <div className="flex items-start justify-between gap-2">
                 {r.ingredientId ? (
                   <h3 className="pt-2 text-lg font-bold">{r.name}</h3>
@@ -305,20 +305,20 @@ export function FeedingForm({
                       aria-invalid={!!err(i, "name")}
                       className={input}
                     />
-                    {err(i, "name") && <p className="text-clay-700 mt-1 text-sm font-bold">{err(i, "name")}</p>}
+                    {err(i, "name") && <p className="mt-1 text-sm font-bold text-clay-700">{err(i, "name")}</p>}
                   </div>
                 )}
                 <button
                   type="button"
                   onClick={() => remove(r.key)}
                   aria-label={`Remove ${r.name || `item ${i + 1}`}`}
-                  className="ring-soil-300 min-h-11 min-w-11 rounded-lg text-2xl leading-none ring-1"
+                  className="min-h-11 min-w-11 rounded-lg text-2xl leading-none ring-1 ring-soil-300"
                 >
                   ×
                 </button>
               </div>
               {r.source && (
-                <p className="text-soil-700 mt-1 text-xs">
+                <p className="mt-1 text-xs text-soil-700">
                   Source ({STATUS_WORDS[r.sourceStatus ?? ""] ?? r.sourceStatus}): {r.source}. Change the values for your own batch.
                 </p>
               )}
@@ -332,12 +332,12 @@ export function FeedingForm({
           ))}
         </ol>
       )}
-      {errors.items && <p className="text-clay-700 text-sm font-bold">{errors.items}</p>}
+      {errors.items && <p className="text-sm font-bold text-clay-700">{errors.items}</p>}
 
       {/* Pinned to the bottom of the screen while items are typed above it, so the thumb never loses the numbers. */}
       <section
         aria-labelledby="mix-h"
-        className={`bg-soil-100 ring-soil-300 rounded-xl p-3 ring-1 ${rows.length ? "sticky bottom-2 z-10 shadow-[0_-6px_16px_rgba(31,22,17,0.15)]" : ""}`}
+        className={`rounded-xl bg-soil-100 p-3 ring-1 ring-soil-300 ${rows.length ? "sticky bottom-2 z-10 shadow-[0_-6px_16px_rgba(31,22,17,0.15)]" : ""}`}
       >
         <div className="flex flex-wrap items-center justify-between gap-2">
           <h3 id="mix-h" className="font-bold">
@@ -350,7 +350,7 @@ export function FeedingForm({
           )}
         </div>
         {!mix ? (
-          <p className="text-soil-700 text-sm">Add items to see the mix&apos;s moisture and C:N.</p>
+          <p className="text-sm text-soil-700">Add items to see the mix&apos;s moisture and C:N.</p>
         ) : !mix.ok ? (
           <p className="text-sm" id="mix-waiting">
             Can&apos;t check the mix yet. {failedRow ? `${failedRow.name || "The unnamed item"}: ` : ""}
@@ -359,19 +359,19 @@ export function FeedingForm({
         ) : (
           <dl className="mt-1 grid grid-cols-3 gap-2">
             <div>
-              <dt className="text-soil-700 text-xs tracking-wide uppercase">Total</dt>
+              <dt className="text-xs tracking-wide text-soil-700 uppercase">Total</dt>
               <dd id="mix-total" className="tabular text-xl font-bold">
                 {formatMass(mix.value.totalMassKg, system, { digits: 2 })}
               </dd>
             </div>
             <div>
-              <dt className="text-soil-700 text-xs tracking-wide uppercase">Moisture</dt>
+              <dt className="text-xs tracking-wide text-soil-700 uppercase">Moisture</dt>
               <dd className="tabular text-xl font-bold">
                 <span id="mix-moisture">{formatNumber(mix.value.moisturePct, 1)}</span> %
               </dd>
             </div>
             <div>
-              <dt className="text-soil-700 text-xs tracking-wide uppercase">C:N</dt>
+              <dt className="text-xs tracking-wide text-soil-700 uppercase">C:N</dt>
               <dd id="mix-cn" className="tabular text-xl font-bold">
                 {mix.value.cn == null ? "—" : formatNumber(mix.value.cn, 1)}
               </dd>
@@ -380,8 +380,8 @@ export function FeedingForm({
         )}
       </section>
       {mix?.ok && (
-        <div aria-label="What would balance the mix" role="group" className="ring-soil-300 rounded-xl p-3 ring-1">
-          <p className="text-soil-700 text-sm">
+        <div aria-label="What would balance the mix" role="group" className="rounded-xl p-3 ring-1 ring-soil-300">
+          <p className="text-sm text-soil-700">
             Worm bed aim: moisture {WORM_BED_TARGET.moisturePct.low}–{WORM_BED_TARGET.moisturePct.high} %, C:N {WORM_BED_TARGET.cn.low}–
             {WORM_BED_TARGET.cn.high}.{hints.length === 0 ? " This mix sits inside both." : ""}
           </p>
@@ -403,7 +403,7 @@ export function FeedingForm({
                 id="hint-bedding"
                 value={bedding.id}
                 onChange={(e) => setBeddingId(e.target.value)}
-                className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3"
+                className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3"
               >
                 {beddings.map((b) => (
                   <option key={b.id} value={b.id}>
@@ -425,11 +425,11 @@ export function FeedingForm({
           value={notes}
           onChange={(e) => setNotes(e.target.value)}
           rows={2}
-          className="border-soil-300 bg-paper w-full rounded-xl border p-3"
+          className="w-full rounded-xl border border-soil-300 bg-paper p-3"
         />
       </div>
 
-      <aside aria-label="Caution" className="bg-straw-100 ring-straw-600 rounded-xl p-3 text-sm ring-1">
+      <aside aria-label="Caution" className="rounded-xl bg-straw-100 p-3 text-sm ring-1 ring-straw-600">
         <p className="font-bold">Careful</p>
         <ul className="list-disc pl-5">
           <li>A big load of fresh food can heat up by itself and give off ammonia: feed a little at a time and watch the zone&apos;s temperature.</li>
@@ -438,7 +438,7 @@ export function FeedingForm({
         </ul>
       </aside>
 
-      <button disabled={busy} className="bg-leaf-700 min-h-14 w-full rounded-xl px-4 text-lg font-bold text-white disabled:opacity-60">
+      <button disabled={busy} className="min-h-14 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">
         {busy ? "Logging…" : "Log this feeding"}
       </button>
       <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>

@@ -19,10 +19,10 @@ export function FeedingLog({ binId, zones, system, timezone }: { binId: string; 
       {data.feedings.map((f) => {
         const kg = f.totalKg ?? f.items.reduce((s, i) => s + i.massKg, 0);
         return (
-          <li key={f.id} className="bg-paper ring-soil-300 rounded-xl p-3 ring-1" data-feeding-id={f.id}>
+          <li key={f.id} className="rounded-xl bg-paper p-3 ring-1 ring-soil-300" data-feeding-id={f.id}>
             <div className="flex flex-wrap items-baseline justify-between gap-x-2">
               <h3 className="font-bold">{zoneWords(zones.find((z) => z.id === f.zoneId))}</h3>
-              <span className="tabular text-soil-700 text-sm">{clock(f.at)}</span>
+              <span className="tabular text-sm text-soil-700">{clock(f.at)}</span>
             </div>
             <ul className="mt-1 text-sm">
               {f.items.map((i) => (
@@ -32,7 +32,7 @@ export function FeedingLog({ binId, zones, system, timezone }: { binId: string; 
                 </li>
               ))}
             </ul>
-            <p className="tabular border-soil-300 mt-2 flex flex-wrap gap-x-3 border-t pt-2 text-sm">
+            <p className="tabular mt-2 flex flex-wrap gap-x-3 border-t border-soil-300 pt-2 text-sm">
               <span>
                 <b>{formatMass(kg, system, { digits: 2 })}</b> in all
               </span>
@@ -51,7 +51,7 @@ export function FeedingLog({ binId, zones, system, timezone }: { binId: string; 
                   return issues.length === 0 ? <MixVerdictMark verdict="balanced" /> : issues.map((w) => <MixVerdictMark key={w} verdict={w} />);
                 })()}
               </span>
-              <span className="text-soil-700 text-sm">by {f.byName ?? "someone no longer on the farm"}</span>
+              <span className="text-sm text-soil-700">by {f.byName ?? "someone no longer on the farm"}</span>
             </div>
             {f.notes && <p className="mt-1 text-sm italic">{f.notes}</p>}
           </li>

@@ -89,7 +89,7 @@ export function LogbookList({
       {data.entries.length === 0 ? (
         <p className="text-soil-700">Nothing logged yet.</p>
       ) : (
-        <ol aria-label="Logbook, newest first" className="divide-soil-100 divide-y">
+        <ol aria-label="Logbook, newest first" className="divide-y divide-soil-100">
           {data.entries.map((e) => {
             const k = KINDS[e.kind];
             const mayUndo = isOwner || (e.byUserId === userId && now - Date.parse(e.createdAt) < UNDO_MS);
@@ -102,15 +102,15 @@ export function LogbookList({
                     </svg>
                     {k.word}
                   </span>
-                  <span className="tabular text-soil-700 text-sm">{clock(e.at)}</span>
+                  <span className="tabular text-sm text-soil-700">{clock(e.at)}</span>
                 </div>
                 <p className="tabular mt-1">{what(e, system)}</p>
-                <p className="text-soil-700 text-sm">
+                <p className="text-sm text-soil-700">
                   {zoneWords(zones.find((z) => z.id === e.zoneId))} · by {e.byName ?? "someone no longer on the farm"}
                 </p>
                 {e.notes && <p className="text-sm italic">{e.notes}</p>}
                 {mayUndo && (
-                  <button type="button" onClick={() => undo(e)} className="ring-soil-300 mt-1 min-h-11 rounded-lg px-3 text-sm ring-1">
+                  <button type="button" onClick={() => undo(e)} className="mt-1 min-h-11 rounded-lg px-3 text-sm ring-1 ring-soil-300">
                     Undo
                     <span className="sr-only">
                       {" "}

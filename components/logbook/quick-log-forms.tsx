@@ -67,7 +67,7 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
 
   const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg";
   return (
-    <form onSubmit={submit} noValidate aria-labelledby={id("h")} className="ring-soil-300 space-y-3 rounded-2xl bg-white p-4 ring-1">
+    <form onSubmit={submit} noValidate aria-labelledby={id("h")} className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
       <h2 id={id("h")} className="text-xl font-bold">
         {t.title}
       </h2>
@@ -84,7 +84,7 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
               </option>
             ))}
           </select>
-          {errors.zoneId && <p className="text-clay-700 mt-1 text-sm font-bold">{errors.zoneId}</p>}
+          {errors.zoneId && <p className="mt-1 text-sm font-bold text-clay-700">{errors.zoneId}</p>}
         </div>
         {kind !== "note" && (
           <div>
@@ -101,7 +101,7 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
               className={`${input} tabular`}
             />
             {errors[field] && (
-              <p id={id("amount-error")} className="text-clay-700 mt-1 text-sm font-bold">
+              <p id={id("amount-error")} className="mt-1 text-sm font-bold text-clay-700">
                 {errors[field]}
               </p>
             )}
@@ -120,10 +120,10 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
             rows={2}
             aria-invalid={!!errors.text}
             aria-describedby={errors.text ? id("text-error") : undefined}
-            className="border-soil-300 bg-paper w-full rounded-xl border p-3"
+            className="w-full rounded-xl border border-soil-300 bg-paper p-3"
           />
           {errors.text && (
-            <p id={id("text-error")} className="text-clay-700 mt-1 text-sm font-bold">
+            <p id={id("text-error")} className="mt-1 text-sm font-bold text-clay-700">
               {errors.text}
             </p>
           )}
@@ -137,7 +137,7 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
         </div>
       )}
       {kind === "harvest" && (
-        <aside aria-label="Caution" className="bg-straw-100 ring-straw-600 rounded-xl p-3 text-sm ring-1">
+        <aside aria-label="Caution" className="rounded-xl bg-straw-100 p-3 text-sm ring-1 ring-straw-600">
           <p className="font-bold">Careful</p>
           <ul className="list-disc pl-5">
             <li>Castings and leachate are not food: put them on the soil, not on produce about to be eaten.</li>
@@ -145,8 +145,8 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
           </ul>
         </aside>
       )}
-      {kind === "watering" && <p className="text-soil-700 text-sm">Add water a little at a time: a soggy bed starves the worms of air.</p>}
-      <button disabled={busy} className="bg-leaf-700 min-h-12 w-full rounded-xl px-4 text-lg font-bold text-white disabled:opacity-60">
+      {kind === "watering" && <p className="text-sm text-soil-700">Add water a little at a time: a soggy bed starves the worms of air.</p>}
+      <button disabled={busy} className="min-h-12 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">
         {busy ? "Logging…" : t.button}
       </button>
       <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>

@@ -14,9 +14,9 @@ export function QuietHoursForm({ action, quietFrom, quietTo, timezone }: Props) 
   const [state, formAction, pending] = useActionState(action, {});
   const err = (f: string) => state.fieldErrors?.[f];
   return (
-    <form action={formAction} className="ring-soil-300 space-y-3 rounded-2xl bg-white p-4 ring-1">
+    <form action={formAction} className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
       <h2 className="text-lg font-bold">Quiet hours</h2>
-      <p className="text-soil-700 text-sm">Heads-ups wait until your quiet hours end (unless someone has taken them on); act-now alerts always come through.</p>
+      <p className="text-sm text-soil-700">Heads-ups wait until your quiet hours end (unless someone has taken them on); act-now alerts always come through.</p>
       <div className="grid grid-cols-2 gap-3">
         <label className="block">
           <span className="block font-bold">From</span>
@@ -25,9 +25,9 @@ export function QuietHoursForm({ action, quietFrom, quietTo, timezone }: Props) 
             name="quietFrom"
             defaultValue={quietFrom ?? ""}
             aria-invalid={!!err("quietFrom")}
-            className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3"
+            className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3"
           />
-          {err("quietFrom") && <span className="text-clay-700 text-sm">{err("quietFrom")}</span>}
+          {err("quietFrom") && <span className="text-sm text-clay-700">{err("quietFrom")}</span>}
         </label>
         <label className="block">
           <span className="block font-bold">To</span>
@@ -36,9 +36,9 @@ export function QuietHoursForm({ action, quietFrom, quietTo, timezone }: Props) 
             name="quietTo"
             defaultValue={quietTo ?? ""}
             aria-invalid={!!err("quietTo")}
-            className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3"
+            className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3"
           />
-          {err("quietTo") && <span className="text-clay-700 text-sm">{err("quietTo")}</span>}
+          {err("quietTo") && <span className="text-sm text-clay-700">{err("quietTo")}</span>}
         </label>
       </div>
       <label className="block">
@@ -47,11 +47,11 @@ export function QuietHoursForm({ action, quietFrom, quietTo, timezone }: Props) 
           name="timezone"
           defaultValue={timezone}
           aria-invalid={!!err("timezone")}
-          className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3"
+          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3"
         />
-        {err("timezone") && <span className="text-clay-700 text-sm">{err("timezone")}</span>}
+        {err("timezone") && <span className="text-sm text-clay-700">{err("timezone")}</span>}
       </label>
-      <button disabled={pending} className="bg-soil-800 min-h-12 rounded-xl px-4 font-bold text-white disabled:opacity-60">
+      <button disabled={pending} className="min-h-12 rounded-xl bg-soil-800 px-4 font-bold text-white disabled:opacity-60">
         {pending ? "Saving…" : "Save quiet hours"}
       </button>
       <p aria-live="polite" className={`min-h-6 text-sm ${state.error ? "text-clay-700" : "text-leaf-700"}`}>

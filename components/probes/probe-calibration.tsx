@@ -100,7 +100,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
   const cal = data?.calibration;
   return (
     <div className="space-y-4">
-      <section aria-labelledby="cal-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+      <section aria-labelledby="cal-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="cal-h" className="text-xl font-bold">
           Calibration
         </h2>
@@ -113,19 +113,19 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
             </p>
             <dl className="tabular mt-2 grid grid-cols-3 gap-2">
               <div>
-                <dt className="text-soil-700 text-xs uppercase">Slope</dt>
+                <dt className="text-xs text-soil-700 uppercase">Slope</dt>
                 <dd className="font-bold">{formatNumber(cal.slope, 4)}</dd>
               </div>
               <div>
-                <dt className="text-soil-700 text-xs uppercase">Intercept</dt>
+                <dt className="text-xs text-soil-700 uppercase">Intercept</dt>
                 <dd className="font-bold">{formatNumber(cal.intercept, 2)}</dd>
               </div>
               <div>
-                <dt className="text-soil-700 text-xs uppercase">R²</dt>
+                <dt className="text-xs text-soil-700 uppercase">R²</dt>
                 <dd className="font-bold">{formatNumber(cal.r2, 3)}</dd>
               </div>
             </dl>
-            <p className="text-soil-700 text-sm">
+            <p className="text-sm text-soil-700">
               From {cal.points} samples, fitted {new Date(cal.fittedAt).toLocaleString("en-GB")}. The line holds only between the lowest and highest raw
               readings sampled.
             </p>
@@ -156,11 +156,11 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
         )}
         {canFit && data && (
           <div className="mt-3 flex flex-wrap gap-2">
-            <button type="button" onClick={fit} className="bg-leaf-700 min-h-12 rounded-xl px-4 font-bold text-white">
+            <button type="button" onClick={fit} className="min-h-12 rounded-xl bg-leaf-700 px-4 font-bold text-white">
               Fit calibration
             </button>
             {cal && (
-              <button type="button" onClick={clear} className="ring-soil-500 min-h-12 rounded-xl px-4 ring-1">
+              <button type="button" onClick={clear} className="min-h-12 rounded-xl px-4 ring-1 ring-soil-500">
                 Clear
               </button>
             )}
@@ -172,10 +172,10 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
       </section>
 
       {canLog && (
-        <form onSubmit={record} noValidate className="ring-soil-300 space-y-3 rounded-2xl bg-white p-4 ring-1">
+        <form onSubmit={record} noValidate className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
           <h2 className="text-xl font-bold">Record an oven-dry sample</h2>
-          {!placed && <p className="text-clay-700 font-bold">Place this probe in a zone first: a sample belongs to the bed around it.</p>}
-          <p className="text-soil-700 text-sm">
+          {!placed && <p className="font-bold text-clay-700">Place this probe in a zone first: a sample belongs to the bed around it.</p>}
+          <p className="text-sm text-soil-700">
             Take a handful of bedding beside the probe, weigh it, dry it to constant mass, weigh again. Give masses with the container and its mass as well, or
             net masses and no container.
           </p>
@@ -195,20 +195,20 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
                   className={input}
                 />
                 {errors[name] && (
-                  <p id={`sample-${name}-error`} className="text-clay-700 mt-1 text-sm font-bold">
+                  <p id={`sample-${name}-error`} className="mt-1 text-sm font-bold text-clay-700">
                     {errors[name]}
                   </p>
                 )}
               </div>
             ))}
           </div>
-          <p className="text-soil-700 text-sm">
+          <p className="text-sm text-soil-700">
             Oven temperature: ASTM D2216 dries soil at 110 ± 5 °C, but notes that organic material can decompose there; compost methods use lower temperatures
             such as 70 °C (TMECC 03.09). Use the same temperature for every sample of a probe. Leave the raw reading empty to take the probe&apos;s own reading
             nearest the time of sampling (within 10 minutes).
           </p>
-          <p className="text-soil-700 text-sm">Wash your hands after handling bedding; let the oven and sample cool before weighing.</p>
-          <button disabled={busy || !placed} className="bg-leaf-700 min-h-12 w-full rounded-xl px-4 text-lg font-bold text-white disabled:opacity-60">
+          <p className="text-sm text-soil-700">Wash your hands after handling bedding; let the oven and sample cool before weighing.</p>
+          <button disabled={busy || !placed} className="min-h-12 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">
             {busy ? "Recording…" : "Record sample"}
           </button>
           <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>
@@ -218,19 +218,19 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
         </form>
       )}
 
-      <section aria-labelledby="samples-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+      <section aria-labelledby="samples-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="samples-h" className="text-xl font-bold">
           Samples
         </h2>
         {data && data.samples.length === 0 && <p className="text-soil-700">No samples yet.</p>}
         {data && data.samples.length > 0 && (
-          <ol aria-label="Samples, newest first" className="divide-soil-100 divide-y">
+          <ol aria-label="Samples, newest first" className="divide-y divide-soil-100">
             {data.samples.map((s) => (
               <li key={s.id} className="tabular py-2 text-sm">
                 <b>{formatNumber(s.moistureWbPct, 1)} %</b> wet basis · raw {s.rawReading == null ? "—" : formatNumber(s.rawReading, 0)} · wet{" "}
                 {formatNumber(s.wetMassG, 1)} g, dry {formatNumber(s.dryMassG, 1)} g{s.tareG ? `, container ${formatNumber(s.tareG, 1)} g` : ""}
                 {s.ovenTempC != null ? ` · ${formatNumber(s.ovenTempC, 0)} °C` : ""}
-                <span className="text-soil-700 block">
+                <span className="block text-soil-700">
                   {new Date(s.at).toLocaleString("en-GB")} · by {s.byName ?? "someone no longer on the farm"}
                 </span>
               </li>

@@ -30,13 +30,13 @@ function seen(iso: string | null) {
 
 function TokenBox({ code, token, onDone }: { code: string; token: string; onDone: () => void }) {
   return (
-    <div role="status" className="bg-straw-100 ring-straw-600 rounded-xl p-3 ring-2">
+    <div role="status" className="rounded-xl bg-straw-100 p-3 ring-2 ring-straw-600">
       <p className="font-bold">Token for {code}: copy it now, it is shown only once.</p>
       <code className="mt-2 block rounded bg-white p-2 text-sm break-all">{token}</code>
       <p className="mt-2 text-sm">
         The probe signs in to the broker with user name <b>{code}</b> and this token, and publishes to <code>wormward/{code}/up</code>.
       </p>
-      <button onClick={onDone} className="bg-soil-800 mt-2 min-h-11 rounded-lg px-4 font-bold text-white">
+      <button onClick={onDone} className="mt-2 min-h-11 rounded-lg bg-soil-800 px-4 font-bold text-white">
         I have copied it
       </button>
     </div>
@@ -85,11 +85,11 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
     <div className="space-y-4 p-3">
       {shown && <TokenBox {...shown} onDone={() => setShown(null)} />}
       {data.probes.length === 0 && (
-        <p className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">No probes yet.{canManage ? " Register the first one below." : ""}</p>
+        <p className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">No probes yet.{canManage ? " Register the first one below." : ""}</p>
       )}
       <ul className="space-y-2">
         {data.probes.map((p) => (
-          <li key={p.id} className={`ring-soil-300 rounded-2xl bg-white p-4 ring-1 ${p.archivedAt ? "opacity-60" : ""}`}>
+          <li key={p.id} className={`rounded-2xl bg-white p-4 ring-1 ring-soil-300 ${p.archivedAt ? "opacity-60" : ""}`}>
             <div className="flex items-baseline justify-between gap-2">
               <h2 className="font-bold">{p.label ?? p.code}</h2>
               <span className={`inline-flex items-center gap-1 text-sm ${p.online ? "text-leaf-700" : "text-soil-500"}`}>
@@ -103,7 +103,7 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
                 {p.archivedAt ? "archived" : p.online ? "connected" : "not connected"}
               </span>
             </div>
-            <p className="text-soil-700 text-sm">
+            <p className="text-sm text-soil-700">
               {p.code} · {p.binName ? `${p.binName}, ${p.zoneKind} zone` : "not placed in a zone"}
             </p>
             <p className="tabular text-sm">
@@ -111,17 +111,17 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
               {p.signalDbm != null ? ` · signal ${p.signalDbm} dBm` : ""}
               {p.firmware ? ` · ${p.firmware}` : ""}
             </p>
-            <Link href={`/farms/${farmId}/probes/${p.id}`} className="text-soil-700 inline-flex min-h-11 items-center underline underline-offset-4">
+            <Link href={`/farms/${farmId}/probes/${p.id}`} className="inline-flex min-h-11 items-center text-soil-700 underline underline-offset-4">
               Oven-dry samples and calibration
             </Link>
             {canManage && (
               <div className="mt-2 flex flex-wrap gap-2">
                 {!p.archivedAt && (
-                  <button onClick={() => newToken(p)} className="ring-soil-300 min-h-11 rounded-lg px-3 ring-1">
+                  <button onClick={() => newToken(p)} className="min-h-11 rounded-lg px-3 ring-1 ring-soil-300">
                     New token
                   </button>
                 )}
-                <button onClick={() => archive(p, !p.archivedAt)} className="ring-soil-300 min-h-11 rounded-lg px-3 ring-1">
+                <button onClick={() => archive(p, !p.archivedAt)} className="min-h-11 rounded-lg px-3 ring-1 ring-soil-300">
                   {p.archivedAt ? "Bring back" : "Archive"}
                 </button>
               </div>
@@ -130,7 +130,7 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
         ))}
       </ul>
       {canManage && (
-        <form onSubmit={register} className="ring-soil-300 space-y-3 rounded-2xl bg-white p-4 ring-1">
+        <form onSubmit={register} className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
           <h2 className="text-lg font-bold">Register a probe</h2>
           <label className="block">
             <span className="block font-bold">Probe code</span>
@@ -139,13 +139,13 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
               required
               placeholder="shed-03"
               aria-invalid={!!errors.code}
-              className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3"
+              className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3"
             />
-            {errors.code && <span className="text-clay-700 text-sm">{errors.code}</span>}
+            {errors.code && <span className="text-sm text-clay-700">{errors.code}</span>}
           </label>
           <label className="block">
             <span className="block font-bold">Zone</span>
-            <select name="zoneId" aria-invalid={!!errors.zoneId} className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3">
+            <select name="zoneId" aria-invalid={!!errors.zoneId} className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3">
               <option value="">Not placed yet</option>
               {zones.map((z) => (
                 <option key={z.id} value={z.id}>
@@ -153,11 +153,11 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
                 </option>
               ))}
             </select>
-            {errors.zoneId && <span className="text-clay-700 text-sm">{errors.zoneId}</span>}
+            {errors.zoneId && <span className="text-sm text-clay-700">{errors.zoneId}</span>}
           </label>
           <label className="block">
             <span className="block font-bold">Label (optional)</span>
-            <input name="label" className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3" />
+            <input name="label" className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3" />
           </label>
           <fieldset>
             <legend className="font-bold">Measures</legend>
@@ -171,16 +171,16 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
                 <input type="checkbox" name="metrics" value={v} defaultChecked={v === "temperature" || v === "moisture"} className="h-5 w-5" /> {l}
               </label>
             ))}
-            {errors.metrics && <span className="text-clay-700 text-sm">{errors.metrics}</span>}
+            {errors.metrics && <span className="text-sm text-clay-700">{errors.metrics}</span>}
           </fieldset>
-          <p className="text-soil-700 text-sm">
+          <p className="text-sm text-soil-700">
             Power probes from a low-voltage supply with ground-fault protection, as your local electrical code requires; keep mains connections out of damp
             bedding.
           </p>
-          <button disabled={busy} className="bg-leaf-700 min-h-12 rounded-xl px-4 font-bold text-white disabled:opacity-60">
+          <button disabled={busy} className="min-h-12 rounded-xl bg-leaf-700 px-4 font-bold text-white disabled:opacity-60">
             {busy ? "Registering…" : "Register"}
           </button>
-          <p aria-live="polite" className="text-clay-700 text-sm">
+          <p aria-live="polite" className="text-sm text-clay-700">
             {errors.form}
           </p>
         </form>

@@ -81,31 +81,31 @@ export function AlertsOnThisPhone() {
   }
 
   return (
-    <section className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+    <section className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
       <h2 className="text-lg font-bold">Alerts on this phone</h2>
-      {state === "unsupported" && <p className="text-soil-700 mt-1">This browser cannot receive push alerts. Alerts still reach you by e-mail.</p>}
+      {state === "unsupported" && <p className="mt-1 text-soil-700">This browser cannot receive push alerts. Alerts still reach you by e-mail.</p>}
       {state === "denied" && (
-        <p className="text-soil-700 mt-1">Notifications are blocked for this site in the browser settings. Allow them there, then come back.</p>
+        <p className="mt-1 text-soil-700">Notifications are blocked for this site in the browser settings. Allow them there, then come back.</p>
       )}
       {(state === "off" || state === "on" || state === "busy") && (
         <div className="mt-3 flex flex-wrap gap-2">
           {state !== "on" ? (
-            <button onClick={turnOn} disabled={state === "busy"} className="bg-leaf-700 min-h-12 rounded-xl px-4 font-bold text-white disabled:opacity-60">
+            <button onClick={turnOn} disabled={state === "busy"} className="min-h-12 rounded-xl bg-leaf-700 px-4 font-bold text-white disabled:opacity-60">
               Send alerts here
             </button>
           ) : (
             <>
-              <button onClick={turnOff} className="bg-soil-100 text-soil-900 ring-soil-300 min-h-12 rounded-xl px-4 font-bold ring-1">
+              <button onClick={turnOff} className="min-h-12 rounded-xl bg-soil-100 px-4 font-bold text-soil-900 ring-1 ring-soil-300">
                 Stop alerts here
               </button>
-              <button onClick={test} className="bg-soil-800 min-h-12 rounded-xl px-4 font-bold text-white">
+              <button onClick={test} className="min-h-12 rounded-xl bg-soil-800 px-4 font-bold text-white">
                 Send a test
               </button>
             </>
           )}
         </div>
       )}
-      <p aria-live="polite" className="text-soil-700 mt-2 min-h-6 text-sm">
+      <p aria-live="polite" className="mt-2 min-h-6 text-sm text-soil-700">
         {note}
       </p>
     </section>

@@ -59,7 +59,7 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
   }
 
   return (
-    <section id={id} aria-labelledby={`${id}-h`} className="ring-soil-300 scroll-mt-20 rounded-2xl bg-white p-4 ring-1">
+    <section id={id} aria-labelledby={`${id}-h`} className="scroll-mt-20 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
       <form onSubmit={submit} noValidate className="space-y-3">
         <div className="flex items-center justify-between gap-3">
           <h2 id={`${id}-h`} className="text-xl font-bold">
@@ -74,16 +74,16 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
               onClick={() => setEnabled((v) => !v)}
               className={`flex min-h-12 min-w-28 items-center justify-center gap-2 rounded-full px-3 font-bold ring-1 ${enabled ? "bg-leaf-100 text-leaf-700 ring-leaf-500" : "bg-soil-100 text-soil-700 ring-soil-300"}`}
             >
-              <span aria-hidden="true" className={`inline-block h-3 w-3 ${enabled ? "bg-leaf-700 rounded-full" : "border-soil-700 border-2"}`} />
+              <span aria-hidden="true" className={`inline-block h-3 w-3 ${enabled ? "rounded-full bg-leaf-700" : "border-2 border-soil-700"}`} />
               {enabled ? "On" : "Off"}
             </button>
           ) : (
-            <span className="bg-soil-100 rounded-full px-3 py-1 font-bold">{effective.enabled ? "On" : "Off"}</span>
+            <span className="rounded-full bg-soil-100 px-3 py-1 font-bold">{effective.enabled ? "On" : "Off"}</span>
           )}
         </div>
-        <p className="text-soil-700 text-sm">{hasOwn ? "This bin has its own values." : "Uses the species defaults."}</p>
+        <p className="text-sm text-soil-700">{hasOwn ? "This bin has its own values." : "Uses the species defaults."}</p>
 
-        <ul className="divide-soil-100 divide-y">
+        <ul className="divide-y divide-soil-100">
           {row.params.map((p) => {
             const unit = unitLabel(p.unit, system);
             const def = toShown(p.key, p.unit, p.value, system);
@@ -100,7 +100,7 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
                   <span className="tabular">
                     {shown(def)} {unit}
                   </span>
-                  <span className="text-soil-500 block text-xs">{p.source}</span>
+                  <span className="block text-xs text-soil-500">{p.source}</span>
                 </p>
                 {canEdit ? (
                   <div className="mt-2">
@@ -116,12 +116,12 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
                         onChange={(e) => setTexts((t) => ({ ...t, [p.key]: e.target.value }))}
                         aria-invalid={!!err}
                         aria-describedby={err ? `${inputId}-err` : undefined}
-                        className={`tabular bg-paper h-12 w-36 rounded-xl border px-3 text-lg ${err ? "border-clay-700 border-2" : "border-soil-300"}`}
+                        className={`tabular h-12 w-36 rounded-xl border bg-paper px-3 text-lg ${err ? "border-2 border-clay-700" : "border-soil-300"}`}
                       />
                       <span className="tabular text-soil-700">{unit}</span>
                     </div>
                     {err && (
-                      <p id={`${inputId}-err`} className="text-clay-700 mt-1 flex items-center gap-1 text-sm font-bold">
+                      <p id={`${inputId}-err`} className="mt-1 flex items-center gap-1 text-sm font-bold text-clay-700">
                         <span aria-hidden="true">▲</span>
                         {err}
                       </p>
@@ -133,7 +133,7 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
                     <span className="tabular font-bold">
                       {shown(now)} {unit}
                     </span>
-                    {now !== def && <span className="text-soil-700 text-sm"> (own value)</span>}
+                    {now !== def && <span className="text-sm text-soil-700"> (own value)</span>}
                   </p>
                 )}
               </li>
@@ -143,14 +143,14 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
 
         {canEdit && (
           <div className="grid grid-cols-2 gap-2">
-            <button disabled={busy} className="bg-soil-800 min-h-12 rounded-xl px-4 font-bold text-white disabled:opacity-60">
+            <button disabled={busy} className="min-h-12 rounded-xl bg-soil-800 px-4 font-bold text-white disabled:opacity-60">
               {busy ? "Saving…" : `Save ${word.toLowerCase()}`}
             </button>
             <button
               type="button"
               disabled={busy || !hasOwn}
               onClick={onReset}
-              className="ring-soil-500 min-h-12 rounded-xl bg-white px-3 font-bold ring-1 disabled:opacity-50"
+              className="min-h-12 rounded-xl bg-white px-3 font-bold ring-1 ring-soil-500 disabled:opacity-50"
             >
               Back to defaults
             </button>

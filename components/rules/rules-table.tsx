@@ -69,7 +69,7 @@ export function RulesTable({
     <div className="space-y-4">
       <nav aria-label="Alert kinds" className="flex flex-wrap gap-2">
         {rules.defaults.map((d) => (
-          <a key={d.kind} href={`#rule-${d.kind}`} className="ring-soil-300 flex min-h-11 items-center rounded-full bg-white px-3 ring-1">
+          <a key={d.kind} href={`#rule-${d.kind}`} className="flex min-h-11 items-center rounded-full bg-white px-3 ring-1 ring-soil-300">
             {words[d.kind] ?? d.kind}
           </a>
         ))}

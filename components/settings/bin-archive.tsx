@@ -15,36 +15,36 @@ function LiveBin({ farmId, bin, action }: { farmId: string; bin: Bin; action: Ac
       <div className="flex items-center justify-between gap-2">
         <span>
           <span className="block text-lg font-bold">{bin.name}</span>
-          <span className="text-soil-700 block text-sm">{bin.detail}</span>
+          <span className="block text-sm text-soil-700">{bin.detail}</span>
         </span>
         {!asking && (
           <button
             type="button"
             onClick={() => setAsking(true)}
             aria-label={`Archive ${bin.name}`}
-            className="ring-soil-500 min-h-12 shrink-0 rounded-xl bg-white px-4 font-bold ring-1"
+            className="min-h-12 shrink-0 rounded-xl bg-white px-4 font-bold ring-1 ring-soil-500"
           >
             Archive
           </button>
         )}
       </div>
       {asking && (
-        <form action={formAction} className="bg-straw-100 ring-straw-600 mt-2 space-y-2 rounded-xl p-3 ring-1">
+        <form action={formAction} className="mt-2 space-y-2 rounded-xl bg-straw-100 p-3 ring-1 ring-straw-600">
           <p>Archive {bin.name}? It leaves Today; its readings and logbook stay, and you can bring it back here.</p>
           <input type="hidden" name="farmId" value={farmId} />
           <input type="hidden" name="binId" value={bin.id} />
           <div className="grid grid-cols-2 gap-2">
-            <button disabled={pending} className="bg-clay-700 min-h-12 rounded-xl px-3 font-bold text-white disabled:opacity-60">
+            <button disabled={pending} className="min-h-12 rounded-xl bg-clay-700 px-3 font-bold text-white disabled:opacity-60">
               {pending ? "Archiving…" : "Yes, archive"}
             </button>
-            <button type="button" onClick={() => setAsking(false)} className="ring-soil-500 min-h-12 rounded-xl bg-white px-3 font-bold ring-1">
+            <button type="button" onClick={() => setAsking(false)} className="min-h-12 rounded-xl bg-white px-3 font-bold ring-1 ring-soil-500">
               Keep it
             </button>
           </div>
         </form>
       )}
       {state.error && (
-        <p aria-live="polite" className="text-clay-700 text-sm font-bold">
+        <p aria-live="polite" className="text-sm font-bold text-clay-700">
           {state.error}
         </p>
       )}
@@ -61,18 +61,18 @@ function ArchivedBin({ farmId, bin, action }: { farmId: string; bin: Bin; action
         <input type="hidden" name="binId" value={bin.id} />
         <span>
           <span className="block text-lg font-bold">{bin.name}</span>
-          <span className="text-soil-700 block text-sm">{bin.detail}</span>
+          <span className="block text-sm text-soil-700">{bin.detail}</span>
         </span>
         <button
           disabled={pending}
           aria-label={`Bring back ${bin.name}`}
-          className="bg-leaf-700 min-h-12 shrink-0 rounded-xl px-4 font-bold text-white disabled:opacity-60"
+          className="min-h-12 shrink-0 rounded-xl bg-leaf-700 px-4 font-bold text-white disabled:opacity-60"
         >
           {pending ? "…" : "Bring back"}
         </button>
       </form>
       {state.error && (
-        <p aria-live="polite" className="text-clay-700 text-sm font-bold">
+        <p aria-live="polite" className="text-sm font-bold text-clay-700">
           {state.error}
         </p>
       )}
@@ -95,28 +95,28 @@ export function BinArchive({
 }) {
   return (
     <>
-      <section aria-labelledby="live-bins-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+      <section aria-labelledby="live-bins-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="live-bins-h" className="text-xl font-bold">
           Bins
         </h2>
         {live.length === 0 ? (
           <p className="mt-2">No bins in use.</p>
         ) : (
-          <ul className="divide-soil-100 divide-y">
+          <ul className="divide-y divide-soil-100">
             {live.map((b) => (
               <LiveBin key={b.id} farmId={farmId} bin={b} action={archive} />
             ))}
           </ul>
         )}
       </section>
-      <section aria-labelledby="archived-bins-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+      <section aria-labelledby="archived-bins-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="archived-bins-h" className="text-xl font-bold">
           Archived bins
         </h2>
         {archived.length === 0 ? (
-          <p className="text-soil-700 mt-2">None archived.</p>
+          <p className="mt-2 text-soil-700">None archived.</p>
         ) : (
-          <ul className="divide-soil-100 divide-y">
+          <ul className="divide-y divide-soil-100">
             {archived.map((b) => (
               <ArchivedBin key={b.id} farmId={farmId} bin={b} action={bringBack} />
             ))}

@@ -10,7 +10,7 @@ export function InviteForm({ farmId, action }: { farmId: string; action: Action 
   const [state, formAction, pending] = useActionState(action, {});
   const err = (f: string) => state.fieldErrors?.[f];
   return (
-    <form action={formAction} className="ring-soil-300 space-y-4 rounded-2xl bg-white p-4 ring-1" aria-labelledby="invite-h">
+    <form action={formAction} className="space-y-4 rounded-2xl bg-white p-4 ring-1 ring-soil-300" aria-labelledby="invite-h">
       <h2 id="invite-h" className="text-xl font-bold">
         Invite someone
       </h2>
@@ -25,10 +25,10 @@ export function InviteForm({ farmId, action }: { farmId: string; action: Action 
           required
           aria-invalid={!!err("email")}
           aria-describedby={err("email") ? "invite-email-error" : undefined}
-          className="border-soil-300 bg-paper h-12 w-full rounded-xl border px-3 text-lg"
+          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
         />
         {err("email") && (
-          <span id="invite-email-error" className="text-clay-700 text-sm">
+          <span id="invite-email-error" className="text-sm text-clay-700">
             {err("email")}
           </span>
         )}
@@ -39,19 +39,19 @@ export function InviteForm({ farmId, action }: { farmId: string; action: Action 
           {ROLES.map((r) => (
             <label
               key={r}
-              className="border-soil-300 bg-paper has-checked:border-leaf-700 has-checked:ring-leaf-500 flex min-h-12 cursor-pointer items-start gap-3 rounded-xl border p-3 has-checked:ring-2"
+              className="flex min-h-12 cursor-pointer items-start gap-3 rounded-xl border border-soil-300 bg-paper p-3 has-checked:border-leaf-700 has-checked:ring-2 has-checked:ring-leaf-500"
             >
-              <input type="radio" name="role" value={r} defaultChecked={r === "keeper"} className="accent-leaf-700 mt-1 size-5" />
+              <input type="radio" name="role" value={r} defaultChecked={r === "keeper"} className="mt-1 size-5 accent-leaf-700" />
               <span>
                 <span className="block font-bold">{ROLE_WORDS[r].name}</span>
-                <span className="text-soil-700 block text-sm">{ROLE_WORDS[r].does}</span>
+                <span className="block text-sm text-soil-700">{ROLE_WORDS[r].does}</span>
               </span>
             </label>
           ))}
         </div>
-        {err("role") && <span className="text-clay-700 text-sm">{err("role")}</span>}
+        {err("role") && <span className="text-sm text-clay-700">{err("role")}</span>}
       </fieldset>
-      <button disabled={pending} className="bg-leaf-700 h-14 w-full rounded-xl text-lg font-bold text-white disabled:opacity-60">
+      <button disabled={pending} className="h-14 w-full rounded-xl bg-leaf-700 text-lg font-bold text-white disabled:opacity-60">
         {pending ? "Sending…" : "Send invitation"}
       </button>
       <p aria-live="polite" className={`min-h-6 text-sm ${state.error ? "text-clay-700" : "text-leaf-700"}`}>

@@ -14,7 +14,7 @@ type Remove = { action: (form: FormData) => void; pending: boolean };
 function Controls({ member, manage, remove }: { member: Member & { lastOwner: boolean }; manage: Manage; remove: Remove }) {
   const [roleState, roleAction, rolePending] = useActionState(manage.changeRole, {});
   if (member.lastOwner) {
-    return <p className="text-soil-700 mt-2 text-sm">The farm&apos;s only owner. Make someone else an owner before changing this role.</p>;
+    return <p className="mt-2 text-sm text-soil-700">The farm&apos;s only owner. Make someone else an owner before changing this role.</p>;
   }
   return (
     <div className="mt-3 space-y-2">
@@ -28,7 +28,7 @@ function Controls({ member, manage, remove }: { member: Member & { lastOwner: bo
           id={`role-${member.userId}`}
           name="role"
           defaultValue={member.role}
-          className="border-soil-300 bg-paper h-12 min-w-0 flex-1 rounded-xl border px-3"
+          className="h-12 min-w-0 flex-1 rounded-xl border border-soil-300 bg-paper px-3"
         >
           {ROLES.map((r) => (
             <option key={r} value={r}>
@@ -36,22 +36,22 @@ function Controls({ member, manage, remove }: { member: Member & { lastOwner: bo
             </option>
           ))}
         </select>
-        <button disabled={rolePending} className="bg-soil-800 h-12 rounded-xl px-4 font-bold text-white disabled:opacity-60">
+        <button disabled={rolePending} className="h-12 rounded-xl bg-soil-800 px-4 font-bold text-white disabled:opacity-60">
           {rolePending ? "Saving…" : "Change role"}
         </button>
       </form>
       {/* details/summary asks "are you sure" without script, so removal works on any phone. */}
       <details className="group">
-        <summary className="text-clay-700 ring-clay-500 inline-flex min-h-11 cursor-pointer list-none items-center rounded-lg px-3 font-bold ring-1">
+        <summary className="inline-flex min-h-11 cursor-pointer list-none items-center rounded-lg px-3 font-bold text-clay-700 ring-1 ring-clay-500">
           {member.isYou ? "Leave the team…" : "Remove…"}
         </summary>
-        <form action={remove.action} className="bg-clay-100 mt-2 rounded-xl p-3">
+        <form action={remove.action} className="mt-2 rounded-xl bg-clay-100 p-3">
           <input type="hidden" name="farmId" value={manage.farmId} />
           <input type="hidden" name="userId" value={member.userId} />
           <p className="text-sm">
             {member.isYou ? "You will lose access to this farm." : `${member.name} will lose access to this farm. Their logbook entries stay.`}
           </p>
-          <button disabled={remove.pending} className="bg-clay-700 mt-2 min-h-12 rounded-xl px-4 font-bold text-white disabled:opacity-60">
+          <button disabled={remove.pending} className="mt-2 min-h-12 rounded-xl bg-clay-700 px-4 font-bold text-white disabled:opacity-60">
             {remove.pending ? "Removing…" : member.isYou ? "Yes, leave" : `Yes, remove ${member.name}`}
           </button>
         </form>
@@ -65,18 +65,18 @@ function Controls({ member, manage, remove }: { member: Member & { lastOwner: bo
 
 function MemberCard({ member, manage, remove }: { member: Member & { lastOwner: boolean }; manage?: Manage; remove: Remove }) {
   return (
-    <li className="ring-soil-300 rounded-xl bg-white p-3 ring-1">
+    <li className="rounded-xl bg-white p-3 ring-1 ring-soil-300">
       <div className="flex items-start justify-between gap-2">
         <div className="min-w-0">
           <p className="font-bold">
             {member.name}
-            {member.isYou && <span className="text-soil-500 font-normal"> (you)</span>}
+            {member.isYou && <span className="font-normal text-soil-500"> (you)</span>}
           </p>
-          {member.email && <p className="text-soil-700 text-sm break-all">{member.email}</p>}
+          {member.email && <p className="text-sm break-all text-soil-700">{member.email}</p>}
         </div>
         <RoleBadge role={member.role} />
       </div>
-      <p className="text-soil-500 text-sm">
+      <p className="text-sm text-soil-500">
         {ROLE_WORDS[member.role].does} · on the team since {member.joined}
       </p>
       {manage && <Controls member={member} manage={manage} remove={remove} />}

@@ -22,12 +22,12 @@ export function PendingInvitations({ farmId, invitations, action }: { farmId: st
       {invitations.length === 0 && <p className="text-soil-500">No open invitations.</p>}
       <ul className="space-y-3">
         {invitations.map((i) => (
-          <li key={i.id} className="ring-soil-300 rounded-xl bg-white p-3 ring-1">
+          <li key={i.id} className="rounded-xl bg-white p-3 ring-1 ring-soil-300">
             <div className="flex items-start justify-between gap-2">
               <p className="font-bold break-all">{i.email}</p>
               <RoleBadge role={i.role} />
             </div>
-            <p className="text-soil-700 text-sm">
+            <p className="text-sm text-soil-700">
               {i.invitedByName ? `Invited by ${i.invitedByName} · ` : ""}link works until {i.expires}
             </p>
             <form action={formAction} className="mt-2">
@@ -36,7 +36,7 @@ export function PendingInvitations({ farmId, invitations, action }: { farmId: st
               <button
                 disabled={pending}
                 aria-label={`Revoke the invitation to ${i.email}`}
-                className="text-clay-700 ring-clay-500 min-h-11 rounded-lg px-3 font-bold ring-1 disabled:opacity-60"
+                className="min-h-11 rounded-lg px-3 font-bold text-clay-700 ring-1 ring-clay-500 disabled:opacity-60"
               >
                 Revoke
               </button>

@@ -31,18 +31,18 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
   const mBand = species && m ? classifyMoisture(species, m.value) : null;
   const zoneName = zone.name ?? `${zone.kind[0]!.toUpperCase()}${zone.kind.slice(1)} zone`;
   return (
-    <li className="border-soil-100 border-t py-3 first:border-t-0">
+    <li className="border-t border-soil-100 py-3 first:border-t-0">
       <div className="flex items-baseline justify-between gap-2">
         <h3 className="font-bold">
           <Link href={`/farms/${farmId}/zones/${zone.id}`} className="inline-flex min-h-11 items-center underline underline-offset-4">
             {zoneName}
           </Link>
         </h3>
-        <span className="text-soil-500 text-xs">{t ? ago(t.ts) : "no readings yet"}</span>
+        <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
       </div>
       <div className="mt-2 grid grid-cols-2 gap-3">
         <div>
-          <div className="text-soil-500 text-xs tracking-wide uppercase">Temperature</div>
+          <div className="text-xs tracking-wide text-soil-500 uppercase">Temperature</div>
           <div className="tabular text-2xl font-bold">{t ? formatTemperature(t.value, units) : "—"}</div>
           <StatusMark band={tBand} />
           {species && (
@@ -55,7 +55,7 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
           )}
         </div>
         <div>
-          <div className="text-soil-500 text-xs tracking-wide uppercase">Moisture</div>
+          <div className="text-xs tracking-wide text-soil-500 uppercase">Moisture</div>
           <div className="tabular text-2xl font-bold">{m ? formatPercent(m.value) : "—"}</div>
           <StatusMark band={mBand} />
           {species && (
@@ -83,7 +83,7 @@ function ClaimButton({ alertId, farmId }: { alertId: string; farmId: string }) {
   }
   return (
     <div className="mt-2">
-      <button onClick={claim} className="bg-soil-800 min-h-11 rounded-lg px-4 font-bold text-white">
+      <button onClick={claim} className="min-h-11 rounded-lg bg-soil-800 px-4 font-bold text-white">
         I&apos;m on it
       </button>
       <span aria-live="polite" className="ml-2 text-sm">
@@ -95,15 +95,15 @@ function ClaimButton({ alertId, farmId }: { alertId: string; farmId: string }) {
 
 export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: UnitSystem; canLog: boolean }) {
   const { data, error } = useToday(farmId);
-  if (!data) return <p className="text-soil-700 p-4">{error ? error.message : "Loading…"}</p>;
+  if (!data) return <p className="p-4 text-soil-700">{error ? error.message : "Loading…"}</p>;
   return (
     <div className="space-y-4 p-3">
-      <section aria-labelledby="alerts-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+      <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="alerts-h" className="text-lg font-bold">
           Open alerts
         </h2>
         {data.alerts.length === 0 ? (
-          <p className="text-soil-700 mt-1">None. Every bin is quiet.</p>
+          <p className="mt-1 text-soil-700">None. Every bin is quiet.</p>
         ) : (
           <ul className="mt-2 space-y-2">
             {data.alerts.map((a) => (
@@ -136,19 +136,19 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
         )}
       </section>
       {data.bins.length === 0 && (
-        <p className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">No bins yet. An owner adds bins and their zones; probes then report here.</p>
+        <p className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">No bins yet. An owner adds bins and their zones; probes then report here.</p>
       )}
       {data.bins.map((bin) => {
         const species = getSpecies(bin.species);
         return (
-          <section key={bin.id} aria-label={bin.name} className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+          <section key={bin.id} aria-label={bin.name} className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
             <header className="mb-1">
               <h2 className="text-xl font-bold">
                 <Link href={`/farms/${farmId}/bins/${bin.id}`} className="inline-flex min-h-11 items-center underline underline-offset-4">
                   {bin.name}
                 </Link>
               </h2>
-              <p className="text-soil-700 text-sm">
+              <p className="text-sm text-soil-700">
                 {bin.style} · <i>{species?.name ?? bin.species}</i>
                 {species
                   ? ` · comfortable ${formatTemperature(species.temperatureC.comfortLow, units, { digits: 0 })}–${formatTemperature(species.temperatureC.comfortHigh, units, { digits: 0 })}`

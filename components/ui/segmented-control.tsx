@@ -16,7 +16,7 @@ export function SegmentedControl<T extends string>({
   onChange: (v: T) => void;
 }) {
   return (
-    <div role="group" aria-label={label} className="bg-soil-100 ring-soil-300 grid auto-cols-fr grid-flow-col gap-1 rounded-xl p-1 ring-1">
+    <div role="group" aria-label={label} className="grid auto-cols-fr grid-flow-col gap-1 rounded-xl bg-soil-100 p-1 ring-1 ring-soil-300">
       {options.map((o) => {
         const on = o.value === value;
         return (
@@ -25,7 +25,7 @@ export function SegmentedControl<T extends string>({
             type="button"
             aria-pressed={on}
             onClick={() => onChange(o.value)}
-            className={`tabular flex min-h-12 items-center justify-center gap-1 rounded-lg px-2 text-base ${on ? "text-soil-900 ring-soil-500 bg-white font-bold shadow ring-1" : "text-soil-700"}`}
+            className={`tabular flex min-h-12 items-center justify-center gap-1 rounded-lg px-2 text-base ${on ? "bg-white font-bold text-soil-900 shadow ring-1 ring-soil-500" : "text-soil-700"}`}
           >
             {on && (
               <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">

@@ -11,12 +11,12 @@ export default function ForgotPage() {
         <img src="/icon.svg" alt="" width={48} height={48} />
         <div>
           <p className="text-soil-700">Wormward</p>
-          <h1 className="text-soil-900 text-3xl font-bold tracking-tight">Forgot your password?</h1>
+          <h1 className="text-3xl font-bold tracking-tight text-soil-900">Forgot your password?</h1>
         </div>
       </div>
-      <p className="text-soil-800 mb-6">Give the e-mail you sign in with. We send a link to set a new password; it works once, for one hour.</p>
+      <p className="mb-6 text-soil-800">Give the e-mail you sign in with. We send a link to set a new password; it works once, for one hour.</p>
       <ForgotForm action={askForReset} />
-      <a href="/sign-in" className="text-soil-700 mt-6 inline-flex min-h-11 items-center underline">
+      <a href="/sign-in" className="mt-6 inline-flex min-h-11 items-center text-soil-700 underline">
         Back to sign in
       </a>
     </>

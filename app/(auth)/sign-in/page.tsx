@@ -19,20 +19,20 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
       <div className="mb-8 flex items-center gap-3">
         <img src="/icon.svg" alt="" width={48} height={48} />
         <div>
-          <h1 className="text-soil-900 text-3xl font-bold tracking-tight">Wormward</h1>
+          <h1 className="text-3xl font-bold tracking-tight text-soil-900">Wormward</h1>
           <p className="text-soil-700">Your worm bins, watched while you are away.</p>
         </div>
       </div>
       {notice && NOTICES[notice] && (
-        <p role="status" className="bg-leaf-100 text-leaf-700 mb-4 rounded-xl p-3 font-bold">
+        <p role="status" className="mb-4 rounded-xl bg-leaf-100 p-3 font-bold text-leaf-700">
           {NOTICES[notice]}
         </p>
       )}
       <SignInForm next={target} />
-      <a href="/forgot" className="text-soil-700 mt-4 inline-flex min-h-11 items-center underline">
+      <a href="/forgot" className="mt-4 inline-flex min-h-11 items-center text-soil-700 underline">
         Forgot your password?
       </a>
-      <p className="text-soil-500 mt-8 text-sm">New to a farm? Ask its owner to invite you.</p>
+      <p className="mt-8 text-sm text-soil-500">New to a farm? Ask its owner to invite you.</p>
     </>
   );
 }

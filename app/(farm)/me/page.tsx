@@ -19,7 +19,7 @@ export default async function MePage() {
       <div className="px-1 pt-1">
         <h1 className="text-3xl font-bold">{user.name}</h1>
         <p className="text-soil-700">{user.email}</p>
-        <ul className="text-soil-700 mt-1 text-sm">
+        <ul className="mt-1 text-sm text-soil-700">
           {farms.map((f) => (
             <li key={f.id}>
               {f.name}: {f.role}
@@ -33,7 +33,7 @@ export default async function MePage() {
           <QuietHoursForm action={saveQuietHours} quietFrom={user.quietFrom} quietTo={user.quietTo} timezone={user.timezone} />
         </>
       ) : (
-        <p className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">Alerts go to keepers and owners. As a viewer you can read every chart and the logbook.</p>
+        <p className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">Alerts go to keepers and owners. As a viewer you can read every chart and the logbook.</p>
       )}
     </main>
   );

@@ -28,31 +28,31 @@ export default async function JoinPage({ params }: { params: Promise<{ token: st
         <img src="/icon.svg" alt="" width={48} height={48} />
         <div>
           <p className="text-soil-700">Wormward</p>
-          <h1 className="text-soil-900 text-3xl font-bold tracking-tight">Join {inv.farmName}</h1>
+          <h1 className="text-3xl font-bold tracking-tight text-soil-900">Join {inv.farmName}</h1>
         </div>
       </div>
-      <p className="text-soil-800 mb-6">
+      <p className="mb-6 text-soil-800">
         {inv.invitedByName ?? "An owner"} invited <strong className="break-all">{inv.email}</strong> as {inv.role === "owner" ? "an" : "a"}{" "}
         <strong>{role.name.toLowerCase()}</strong> ({role.does}).
       </p>
       {me && me.email.toLowerCase() === inv.email.toLowerCase() ? (
         <JoinAsMeForm token={token} farmName={inv.farmName} action={joinMe} />
       ) : me ? (
-        <div role="alert" className="ring-soil-300 space-y-3 rounded-2xl bg-white p-5 ring-1">
+        <div role="alert" className="space-y-3 rounded-2xl bg-white p-5 ring-1 ring-soil-300">
           <p>
             You are signed in as <strong className="break-all">{me.email}</strong>, but this invitation is for{" "}
             <strong className="break-all">{inv.email}</strong>. Sign out, then open the link again.
           </p>
-          <div className="bg-soil-800 rounded-xl">
+          <div className="rounded-xl bg-soil-800">
             <SignOutButton />
           </div>
         </div>
       ) : inv.hasAccount ? (
-        <div className="ring-soil-300 space-y-3 rounded-2xl bg-white p-5 ring-1">
+        <div className="space-y-3 rounded-2xl bg-white p-5 ring-1 ring-soil-300">
           <p>{inv.email} already has a Wormward account. Sign in, and you come back here to join.</p>
           <a
             href={`/sign-in?next=${encodeURIComponent(`/join/${token}`)}`}
-            className="bg-leaf-700 flex h-14 items-center justify-center rounded-xl text-lg font-bold text-white"
+            className="flex h-14 items-center justify-center rounded-xl bg-leaf-700 text-lg font-bold text-white"
           >
             Sign in to join
           </a>

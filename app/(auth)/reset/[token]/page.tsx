@@ -17,8 +17,8 @@ export default async function ResetPage({ params }: { params: Promise<{ token: s
   }
   return (
     <>
-      <h1 className="text-soil-900 mb-2 text-3xl font-bold tracking-tight">Set a new password</h1>
-      <p className="text-soil-800 mb-6 break-all">For {found.email}</p>
+      <h1 className="mb-2 text-3xl font-bold tracking-tight text-soil-900">Set a new password</h1>
+      <p className="mb-6 break-all text-soil-800">For {found.email}</p>
       <ResetForm token={token} email={found.email} action={setNewPassword} />
     </>
   );

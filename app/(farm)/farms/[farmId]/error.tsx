@@ -2,10 +2,10 @@
 
 export default function TodayError({ error, reset }: { error: Error & { digest?: string }; reset: () => void }) {
   return (
-    <div role="alert" className="bg-clay-100 ring-clay-500 m-4 rounded-2xl p-4 ring-1">
+    <div role="alert" className="m-4 rounded-2xl bg-clay-100 p-4 ring-1 ring-clay-500">
       <h2 className="font-bold">This page could not load.</h2>
       <p className="text-sm">{error.digest ? `Reference ${error.digest}. ` : ""}Your data is safe; try again.</p>
-      <button onClick={reset} className="bg-soil-800 mt-3 min-h-11 rounded-lg px-4 text-white">
+      <button onClick={reset} className="mt-3 min-h-11 rounded-lg bg-soil-800 px-4 text-white">
         Try again
       </button>
     </div>

@@ -1,3 +1,3 @@
 export default function Loading() {
-  return <p className="text-soil-700 p-4">Loading the farm…</p>;
+  return <p className="p-4 text-soil-700">Loading the farm…</p>;
 }

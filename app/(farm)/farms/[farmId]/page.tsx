@@ -20,7 +20,7 @@ export default async function TodayPage({ params }: { params: Promise<{ farmId: 
   return (
     <main>
       <div className="px-4 pt-4">
-        <p className="text-soil-500 text-sm">{farm.name}</p>
+        <p className="text-sm text-soil-500">{farm.name}</p>
         <h1 className="text-3xl font-bold">Today</h1>
       </div>
       <SWRConfig value={{ fallback: { [todayKey(farmId)!]: today } }}>

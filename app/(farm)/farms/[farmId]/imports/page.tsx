@@ -17,11 +17,11 @@ export default async function ImportsPage({ params }: { params: Promise<{ farmId
   return (
     <main className="space-y-6 p-4">
       <div>
-        <a href={`/farms/${farmId}`} className="text-soil-500 inline-flex min-h-11 items-center text-sm">
+        <a href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center text-sm text-soil-500">
           ← Today
         </a>
         <h1 className="text-3xl font-bold">Import logger files</h1>
-        <p className="text-soil-700 mt-1">
+        <p className="mt-1 text-soil-700">
           Readings from a logger that was not online: upload its CSV, say which column is which, and the good rows are stored. Rows already stored are skipped,
           so importing a file twice adds nothing.
         </p>
@@ -29,16 +29,16 @@ export default async function ImportsPage({ params }: { params: Promise<{ farmId
       {role === "owner" ? (
         <ImportForm farmId={farmId} probes={probes.map((p) => ({ code: p.code, label: p.label }))} timezone={timeZoneOrUtc(farm.timezone)} />
       ) : (
-        <p className="bg-soil-100 rounded-xl p-4">Only an owner of {farm.name} can import files. You can read the history below.</p>
+        <p className="rounded-xl bg-soil-100 p-4">Only an owner of {farm.name} can import files. You can read the history below.</p>
       )}
       <section>
         <h2 className="mb-2 text-xl font-bold">Earlier imports</h2>
         {history.length === 0 && <p className="text-soil-500">None yet.</p>}
         <ul className="space-y-3">
           {history.map((i) => (
-            <li key={i.id} className="ring-soil-300 rounded-xl bg-white p-3 ring-1">
+            <li key={i.id} className="rounded-xl bg-white p-3 ring-1 ring-soil-300">
               <p className="font-bold break-all">{i.fileName}</p>
-              <p className="tabular text-soil-700 text-sm">
+              <p className="tabular text-sm text-soil-700">
                 {i.createdAt.toLocaleString("en-GB", { timeZone: timeZoneOrUtc(farm.timezone), dateStyle: "medium", timeStyle: "short" })} · {i.rowsStored}{" "}
                 stored · {i.rowsRejected} refused · {i.rowsTotal} rows in the file
               </p>

@@ -17,10 +17,10 @@ export default async function SettingsPage({ params }: { params: Promise<{ farmI
   if (!farm) notFound();
   const heading = (
     <div className="px-1 pt-1">
-      <a href={`/farms/${farmId}`} className="text-soil-500 inline-flex min-h-11 items-center text-sm">
+      <a href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center text-sm text-soil-500">
         ← Today
       </a>
-      <p className="text-soil-500 text-sm">{farm.name}</p>
+      <p className="text-sm text-soil-500">{farm.name}</p>
       <h1 className="text-3xl font-bold">Settings</h1>
     </div>
   );
@@ -28,7 +28,7 @@ export default async function SettingsPage({ params }: { params: Promise<{ farmI
     return (
       <main className="space-y-4 p-3">
         {heading}
-        <p className="bg-soil-100 rounded-xl p-4">Only an owner of {farm.name} can change its settings.</p>
+        <p className="rounded-xl bg-soil-100 p-4">Only an owner of {farm.name} can change its settings.</p>
       </main>
     );
   }

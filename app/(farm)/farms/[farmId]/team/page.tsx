@@ -22,10 +22,10 @@ export default async function TeamPage({ params }: { params: Promise<{ farmId: s
   return (
     <main className="space-y-6 p-4">
       <div>
-        <a href={`/farms/${farmId}`} className="text-soil-500 inline-flex min-h-11 items-center text-sm">
+        <a href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center text-sm text-soil-500">
           ← Today
         </a>
-        <p className="text-soil-500 text-sm">{farm.name}</p>
+        <p className="text-sm text-soil-500">{farm.name}</p>
         <h1 className="text-3xl font-bold">Team</h1>
       </div>
       <section aria-labelledby="people-h">
@@ -54,7 +54,7 @@ export default async function TeamPage({ params }: { params: Promise<{ farmId: s
           />
         </>
       ) : (
-        <p className="bg-soil-100 rounded-xl p-4">Only an owner of {farm.name} can invite people or change roles.</p>
+        <p className="rounded-xl bg-soil-100 p-4">Only an owner of {farm.name} can invite people or change roles.</p>
       )}
     </main>
   );

@@ -53,28 +53,28 @@ export default async function BinPage({
   return (
     <main className="space-y-4 p-3 pb-10">
       <div className="px-1 pt-1">
-        <Link href={`/farms/${farmId}`} className="text-soil-700 inline-flex min-h-11 items-center gap-1 underline underline-offset-4">
+        <Link href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
           <span aria-hidden="true">←</span> Today
         </Link>
         <h1 className="text-3xl font-bold">{bin.name}</h1>
-        <p className="text-soil-700 text-sm">
+        <p className="text-sm text-soil-700">
           {bin.style} · <i>{profile?.name ?? bin.species}</i>
           {profile ? ` (${profile.commonName})` : ""}
         </p>
-        <Link href={`/farms/${farmId}/bins/${binId}/rules`} className="text-soil-700 mt-1 inline-flex min-h-11 items-center gap-1 underline underline-offset-4">
+        <Link href={`/farms/${farmId}/bins/${binId}/rules`} className="mt-1 inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
           Alert rules <span aria-hidden="true">›</span>
         </Link>
       </div>
 
-      <section aria-labelledby="zones-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+      <section aria-labelledby="zones-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="zones-h" className="text-xl font-bold">
           Zones
         </h2>
-        <p className="text-soil-700 text-sm">From the feeding side to the harvest side.</p>
+        <p className="text-sm text-soil-700">From the feeding side to the harvest side.</p>
         {zones.length === 0 ? (
           <p className="mt-2">This bin has no zones.</p>
         ) : (
-          <ul className="divide-soil-100 mt-2 divide-y">
+          <ul className="mt-2 divide-y divide-soil-100">
             {zones.map((z) => {
               const l = latest.get(z.id) ?? {};
               const t = l.temperature;
@@ -95,7 +95,7 @@ export default async function BinPage({
                         </span>
                       </span>
                     </span>
-                    <span aria-hidden="true" className="text-soil-500 text-2xl">
+                    <span aria-hidden="true" className="text-2xl text-soil-500">
                       ›
                     </span>
                   </Link>
@@ -108,19 +108,19 @@ export default async function BinPage({
 
       <SWRConfig value={{ fallback }}>
         {canLog && <FeedingForm farmId={farmId} binId={binId} zones={zones} defaultZoneId={defaultZoneId} system={farm.unitSystem} />}
-        <section aria-labelledby="logbook-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+        <section aria-labelledby="logbook-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
           <h2 id="logbook-h" className="text-xl font-bold">
             Logbook
           </h2>
-          <p className="text-soil-700 mb-2 text-sm">Feedings, newest first, each with the mix check made when it was logged.</p>
+          <p className="mb-2 text-sm text-soil-700">Feedings, newest first, each with the mix check made when it was logged.</p>
           <FeedingLog binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} />
         </section>
         {canLog && <QuickLogForms binId={binId} zones={zones} system={farm.unitSystem} />}
-        <section aria-labelledby="all-log-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+        <section aria-labelledby="all-log-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
           <h2 id="all-log-h" className="text-xl font-bold">
             Everything logged
           </h2>
-          <p className="text-soil-700 mb-2 text-sm">
+          <p className="mb-2 text-sm text-soil-700">
             Feedings, water, harvests, notes and oven-dry samples, newest first. Undo is open for 24 hours to whoever logged it.
           </p>
           <LogbookList binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} userId={userId} isOwner={role === "owner"} />

@@ -16,11 +16,11 @@ export default async function ProbePage({ params }: { params: Promise<{ farmId: 
   return (
     <main className="space-y-4 p-3 pb-10">
       <div className="px-1 pt-1">
-        <Link href={`/farms/${farmId}/probes`} className="text-soil-700 inline-flex min-h-11 items-center gap-1 underline underline-offset-4">
+        <Link href={`/farms/${farmId}/probes`} className="inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
           <span aria-hidden="true">←</span> Probes
         </Link>
         <h1 className="text-3xl font-bold">{probe.label ?? probe.code}</h1>
-        <p className="text-soil-700 text-sm">Oven-dry samples and the calibration of its moisture reading.</p>
+        <p className="text-sm text-soil-700">Oven-dry samples and the calibration of its moisture reading.</p>
       </div>
       <ProbeCalibration probeId={id} placed={!!probe.binId} canLog={role !== "viewer"} canFit={role === "owner"} />
     </main>

@@ -1,6 +1,6 @@
 export default function Loading() {
   return (
-    <p className="text-soil-700 p-4" aria-live="polite">
+    <p className="p-4 text-soil-700" aria-live="polite">
       Loading the zone…
     </p>
   );

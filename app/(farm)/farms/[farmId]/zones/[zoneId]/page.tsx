@@ -97,17 +97,17 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
   return (
     <main className="space-y-4 p-3 pb-10">
       <div className="px-1 pt-1">
-        <Link href={`/farms/${farmId}/bins/${bin.id}`} className="text-soil-700 inline-flex min-h-11 items-center gap-1 underline underline-offset-4">
+        <Link href={`/farms/${farmId}/bins/${bin.id}`} className="inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
           <span aria-hidden="true">←</span> {bin.name}
         </Link>
         <h1 className="text-3xl font-bold">{title}</h1>
-        <p className="text-soil-700 text-sm">
+        <p className="text-sm text-soil-700">
           {bin.name} · {bin.style} · <i>{profile?.name ?? bin.species}</i>
           {profile ? ` (${profile.commonName})` : ""} · {view.probeCount === 1 ? "1 probe" : `${view.probeCount} probes`}
         </p>
       </div>
 
-      <section aria-labelledby="now-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+      <section aria-labelledby="now-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="now-h" className="sr-only">
           Latest readings
         </h2>
@@ -117,11 +117,11 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
             const status = l && profile ? metricStatus(m, l.value, profile, ammonia) : { band: null, label: "no reading" };
             return (
               <div key={m} className={m === "ammonia" ? "col-span-2" : ""}>
-                <dt className="text-soil-500 text-xs tracking-wide uppercase">{METRIC_TITLES[m]}</dt>
+                <dt className="text-xs tracking-wide text-soil-500 uppercase">{METRIC_TITLES[m]}</dt>
                 <dd>
                   <span className="tabular block text-3xl font-bold">{l ? formatMetric(m, l.value, system) : "—"}</span>
                   <StatusMark band={status.band} label={status.label} />
-                  <span className="tabular text-soil-500 mt-1 block text-xs">{l ? `at ${clock(l.ts)}` : "no readings yet"}</span>
+                  <span className="tabular mt-1 block text-xs text-soil-500">{l ? `at ${clock(l.ts)}` : "no readings yet"}</span>
                 </dd>
               </div>
             );
@@ -130,7 +130,7 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
         {canLog && (
           <Link
             href={`/farms/${farmId}/bins/${bin.id}?zone=${zone.id}#log`}
-            className="bg-leaf-700 mt-4 flex min-h-12 items-center justify-center rounded-xl px-4 font-bold text-white"
+            className="mt-4 flex min-h-12 items-center justify-center rounded-xl bg-leaf-700 px-4 font-bold text-white"
           >
             Log a feeding here
           </Link>
@@ -150,11 +150,11 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
         />
       </SWRConfig>
 
-      <section aria-labelledby="alerts-h" className="ring-soil-300 rounded-2xl bg-white p-4 ring-1">
+      <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="alerts-h" className="text-xl font-bold">
           Alerts in this zone
         </h2>
-        <p className="text-soil-700 text-sm">Open ones, and any raised in the last 30 days.</p>
+        <p className="text-sm text-soil-700">Open ones, and any raised in the last 30 days.</p>
         {alerts.length === 0 ? (
           <p className="mt-2">None. This zone has been quiet.</p>
         ) : (

@@ -28,14 +28,14 @@ export default async function BinRulesPage({ params }: { params: Promise<{ farmI
   return (
     <main className="space-y-4 p-3 pb-10">
       <div className="px-1 pt-1">
-        <Link href={`/farms/${farmId}/bins/${binId}`} className="text-soil-700 inline-flex min-h-11 items-center gap-1 underline underline-offset-4">
+        <Link href={`/farms/${farmId}/bins/${binId}`} className="inline-flex min-h-11 items-center gap-1 text-soil-700 underline underline-offset-4">
           <span aria-hidden="true">←</span> {bin.name}
         </Link>
         <h1 className="text-3xl font-bold">Alert rules</h1>
-        <p className="text-soil-700 text-sm">
+        <p className="text-sm text-soil-700">
           {bin.name} · <i>{species.name}</i> ({species.commonName}). Defaults come from the species; a blank box keeps the default.
         </p>
-        {!owner && <p className="bg-soil-100 mt-2 rounded-xl p-3">Only an owner of {farm.name} can change these rules.</p>}
+        {!owner && <p className="mt-2 rounded-xl bg-soil-100 p-3">Only an owner of {farm.name} can change these rules.</p>}
       </div>
       <RulesTable binId={binId} initial={initial} words={KIND_WORDS} system={farm.unitSystem} canEdit={owner} />
     </main>
