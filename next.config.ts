@@ -1,5 +1,5 @@
 import type { NextConfig } from "next";
-import { API_POLICY, AUTH_PAGES_POLICY, COMMON_HEADERS, HSTS } from "./lib/api/security-headers";
+import { API_POLICY, AUTH_PAGES_POLICY, COMMON_HEADERS, HSTS } from "./lib/web/api/security-headers";
 
 const common = Object.entries(COMMON_HEADERS).map(([key, value]) => ({ key, value }));
 

@@ -1,6 +1,6 @@
 import { getToken } from "next-auth/jwt";
 import { NextResponse, type NextRequest } from "next/server";
-import { newNonce, pagePolicy, securityHeaders, servedOverHttps } from "@/lib/api/security-headers";
+import { newNonce, pagePolicy, securityHeaders, servedOverHttps } from "@/lib/web/api/security-headers";
 
 // Pages and files that need no session: sign-in, password reset and invitation links are for people
 // who are not signed in (yet); the service worker, manifest and icons are fetched without a page.
@@ -9,7 +9,7 @@ const OPEN = /^\/(?:sign-in|forgot|reset\/|join\/|_next\/|sw\.js|manifest\.webma
 // Every page and file gets the security headers; pages get a policy with a fresh nonce, which Next
 // reads from the request's Content-Security-Policy and puts on its scripts. Pages need a session
 // token; whether it is still current (no password reset since) is checked once, in the page's own
-// session read (lib/auth/options.ts jwt callback), not here as well.
+// session read (lib/web/auth-options.ts jwt callback), not here as well.
 export async function proxy(req: NextRequest) {
   const https = servedOverHttps(req);
   const policy = pagePolicy(newNonce(), { https, dev: process.env.NODE_ENV === "development" });

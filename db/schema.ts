@@ -18,21 +18,35 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+import {
+  ALERT_KINDS,
+  ALERT_LEVELS,
+  ALERT_STATES,
+  BIN_STYLES,
+  INGREDIENT_KINDS,
+  METRICS_STORED,
+  REJECT_SOURCES,
+  ROLES,
+  UNIT_SYSTEMS,
+  ZONE_KINDS,
+} from "../lib/domain/vocabulary";
+
+export type { AlertKind, BinStyle, Metric, Role, ZoneKind } from "../lib/domain/vocabulary";
 
 const ts = (name: string) => timestamp(name, { withTimezone: true });
 const createdAt = () => ts("created_at").notNull().defaultNow();
 
-export const roleEnum = pgEnum("role", ["owner", "keeper", "viewer"]);
-export const unitSystemEnum = pgEnum("unit_system", ["metric", "imperial"]);
-export const binStyleEnum = pgEnum("bin_style", ["flow-through", "tray stack", "tote", "bed", "windrow"]);
-export const zoneKindEnum = pgEnum("zone_kind", ["fresh", "working", "curing"]);
-// The numeric metrics of lib/metrics.ts (firmware is text and lives on the probe row).
-export const metricEnum = pgEnum("metric", ["temperature", "moisture", "moisture-raw", "ammonia", "battery-voltage", "battery-level", "signal"]);
-export const alertKindEnum = pgEnum("alert_kind", ["heat", "chill", "drying", "soggy", "ammonia", "silent_probe", "probe_fault"]);
-export const alertLevelEnum = pgEnum("alert_level", ["heads_up", "act_now"]);
-export const alertStateEnum = pgEnum("alert_state", ["raised", "claimed", "settled"]);
-export const ingredientKindEnum = pgEnum("ingredient_kind", ["bedding", "feedstock", "water"]);
-export const rejectSourceEnum = pgEnum("reject_source", ["mqtt", "http", "csv"]);
+export const roleEnum = pgEnum("role", ROLES);
+export const unitSystemEnum = pgEnum("unit_system", UNIT_SYSTEMS);
+export const binStyleEnum = pgEnum("bin_style", BIN_STYLES);
+export const zoneKindEnum = pgEnum("zone_kind", ZONE_KINDS);
+// The numeric metrics of lib/domain/metrics.ts (firmware is text and lives on the probe row).
+export const metricEnum = pgEnum("metric", METRICS_STORED);
+export const alertKindEnum = pgEnum("alert_kind", ALERT_KINDS);
+export const alertLevelEnum = pgEnum("alert_level", ALERT_LEVELS);
+export const alertStateEnum = pgEnum("alert_state", ALERT_STATES);
+export const ingredientKindEnum = pgEnum("ingredient_kind", INGREDIENT_KINDS);
+export const rejectSourceEnum = pgEnum("reject_source", REJECT_SOURCES);
 
 export const farms = pgTable("farms", {
   id: uuid("id").primaryKey().defaultRandom(),
@@ -514,13 +528,8 @@ export type User = typeof users.$inferSelect;
 export type Membership = typeof memberships.$inferSelect;
 export type Invitation = typeof invitations.$inferSelect;
 export type PasswordReset = typeof passwordResets.$inferSelect;
-export type Role = (typeof roleEnum.enumValues)[number];
 export type Bin = typeof bins.$inferSelect;
 export type Zone = typeof zones.$inferSelect;
 export type Probe = typeof probes.$inferSelect;
 export type Reading = typeof readings.$inferInsert;
-export type Metric = (typeof metricEnum.enumValues)[number];
-export type AlertKind = (typeof alertKindEnum.enumValues)[number];
 export type Alert = typeof alerts.$inferSelect;
-export type BinStyle = (typeof binStyleEnum.enumValues)[number];
-export type ZoneKind = (typeof zoneKindEnum.enumValues)[number];

@@ -6,9 +6,9 @@ import path from "node:path";
 import { sql } from "drizzle-orm";
 import type { Db } from "./index";
 import { bins, farms, ingredients, memberships, probes, readings, users, zones, type BinStyle, type ZoneKind } from "./schema";
-import { ingredients as library } from "@/lib/ingredients";
-import { hashPassword } from "@/lib/auth/password";
-import { hashToken } from "@/lib/auth/tokens";
+import { ingredients as library } from "@/lib/domain/ingredients";
+import { hashPassword } from "@/lib/server/auth/password";
+import { hashToken } from "@/lib/server/auth/tokens";
 
 export const DEMO_PASSWORD = "alder-row-demo";
 export const DEMO_PEOPLE = [

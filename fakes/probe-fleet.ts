@@ -1,5 +1,5 @@
 // A simulated probe fleet for the demo farm: each probe publishes SenML (RFC 8428) JSON over MQTT
-// to wormward/<code>/up with its code and token, as lib/metrics.ts names things. Readings follow a
+// to wormward/<code>/up with its code and token, as lib/domain/metrics.ts names things. Readings follow a
 // daily ambient swing, slow drying and sensor noise; scenarios (steady, heavy feed, drying, probe
 // dropout) can be started per probe at run time through a small HTTP control endpoint.
 //
@@ -12,7 +12,7 @@ import type { AddressInfo } from "node:net";
 import { pathToFileURL } from "node:url";
 import createDebug from "debug";
 import { connectAsync, DefaultMessageIdProvider, Store, type IClientOptions, type IStore, type MqttClient } from "mqtt";
-import { probeBaseName } from "@/lib/metrics";
+import { probeBaseName } from "@/lib/domain/metrics";
 
 const log = createDebug("wormward:fleet");
 

@@ -16,10 +16,10 @@ import {
   type Ending,
   type NewDelivery,
 } from "@/db/queries/deliveries";
-import { appMailer } from "@/lib/app-mailer";
-import { pushOptions, sendToSubscription, topicOf } from "@/lib/alerts/deliver";
-import type { MailContent } from "@/lib/alerts/notify";
-import { env } from "@/lib/env";
+import { appMailer } from "@/lib/server/mail/app-mailer";
+import { pushOptions, sendToSubscription, topicOf } from "@/lib/server/alerts/deliver";
+import type { MailContent } from "@/lib/server/alerts/notify";
+import { env } from "@/lib/server/env";
 
 const log = createDebug("wormward:delivery");
 

@@ -4,9 +4,9 @@
 import createDebug from "debug";
 import { claimDigestDay, listFarmsForDigest, releaseDigestDay } from "@/db/queries/digest";
 import { listCrew } from "@/db/queries/push";
-import { addDays, buildDigest, localClock } from "@/lib/alerts/digest";
-import { appMailer } from "@/lib/app-mailer";
-import type { Mailer } from "@/lib/mail";
+import { addDays, buildDigest, localClock } from "@/lib/server/alerts/digest";
+import { appMailer } from "@/lib/server/mail/app-mailer";
+import type { Mailer } from "@/lib/server/mail/mail";
 
 const log = createDebug("wormward:digest");
 export const DIGEST_AT_MINUTES = 7 * 60;

@@ -2,7 +2,7 @@
 // On SIGTERM or SIGINT it stops taking connections, commits what it holds, then exits.
 import createDebug from "debug";
 import { db, pool } from "@/db";
-import { env } from "@/lib/env";
+import { env } from "@/lib/server/env";
 import { createDeliveryWorker } from "./delivery-worker";
 import { createDigestScheduler } from "./digest";
 import { createRuleRunner } from "./rule-runner";

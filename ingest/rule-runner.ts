@@ -2,7 +2,7 @@
 // is evaluated at most once per `coalesceMs`), sweeps every minute for silent probes and for
 // unclaimed act-now alerts, and applies the rules' transitions to the alerts table. All state is
 // in the database; the open-alert unique index keeps two ingest nodes from raising one alert twice.
-// Notifying only queues deliveries (lib/alerts/notify.ts); the delivery worker sends them, so no
+// Notifying only queues deliveries (lib/server/alerts/notify.ts); the delivery worker sends them, so no
 // push service is ever awaited in this chain.
 import { randomUUID } from "node:crypto";
 import createDebug from "debug";
@@ -12,9 +12,18 @@ import { READINGS_CHANNEL } from "@/db/queries/readings";
 import { escalateAlert, raiseAlert, settleOpenAlert, takeDueReminders, updateOpenAlert } from "@/db/queries/alerts";
 import { listMonitoredZones, loadZoneRuleContext, zonesOfProbes } from "@/db/queries/rule-inputs";
 import type { Metric } from "@/db/schema";
-import { deliverHeldAlerts, notifyAlert } from "@/lib/alerts/notify";
-import { evaluateZone, lookback, overridesFromRuleRows, resolveRules, type ResolvedRules, type RuleKind, type RuleRow, type Transition } from "@/lib/rules";
-import { getSpecies, speciesProfiles } from "@/lib/species";
+import { deliverHeldAlerts, notifyAlert } from "@/lib/server/alerts/notify";
+import {
+  evaluateZone,
+  lookback,
+  overridesFromRuleRows,
+  resolveRules,
+  type ResolvedRules,
+  type RuleKind,
+  type RuleRow,
+  type Transition,
+} from "@/lib/domain/rules";
+import { getSpecies, speciesProfiles } from "@/lib/domain/species";
 
 const log = createDebug("wormward:rules");
 // Each runner's own "heard everything so far" marker; see caughtUp().

@@ -7,7 +7,7 @@ import createDebug from "debug";
 import { db as sharedDb, type Db } from "@/db";
 import { getProbeByCode, verifyProbeToken } from "@/db/queries/probes";
 import type { Probe } from "@/db/schema";
-import { DEFAULT_LIMITS, excerptOf, rejectionText, summarizeRejections, validateSenmlPayload, type TelemetryLimits } from "@/lib/telemetry";
+import { DEFAULT_LIMITS, excerptOf, rejectionText, summarizeRejections, validateSenmlPayload, type TelemetryLimits } from "@/lib/domain/telemetry";
 import { createConnectionLimits, DEFAULT_CONNECTION_LIMITS, type ConnectionLimits } from "./connection-limits";
 import { FrameGuard, PacketTooLarge } from "./frame-guard";
 import { createWriter, type BatchOptions, type RetryOptions } from "./writer";

@@ -2,7 +2,7 @@ import Link from "next/link";
 import { redirect } from "next/navigation";
 import { getUser } from "@/db/queries/users";
 import { SignOutButton } from "@/components/auth/sign-out-button";
-import { currentUserId } from "@/lib/auth/session";
+import { currentUserId } from "@/lib/web/session";
 
 export default async function FarmShell({ children }: { children: React.ReactNode }) {
   const userId = await currentUserId();

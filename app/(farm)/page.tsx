@@ -1,6 +1,6 @@
 import { redirect } from "next/navigation";
 import { listMyFarms } from "@/db/queries/users";
-import { currentUserId } from "@/lib/auth/session";
+import { currentUserId } from "@/lib/web/session";
 
 // Home goes to Today of the person's first farm.
 export default async function Home() {

@@ -1,5 +1,5 @@
 // The one field where a person chooses a password (joining a farm, after a reset); the byte limit
-// itself is checked on the server (lib/auth/password-rules.ts).
+// itself is checked on the server (lib/domain/password-rules.ts).
 export function NewPasswordField({ label, error }: { label: string; error?: string }) {
   return (
     <label className="block">

@@ -2,9 +2,9 @@
 
 import { useState } from "react";
 import { useSWRConfig } from "swr";
-import { todayKey } from "@/lib/swr-keys";
+import { todayKey } from "@/lib/client/swr-keys";
+import { BIN_STYLES } from "@/lib/domain/vocabulary";
 
-const STYLES = ["flow-through", "tray stack", "tote", "bed", "windrow"] as const;
 const SPECIES = [
   ["eisenia-fetida", "Eisenia fetida / andrei (red wiggler)"],
   ["eisenia-hortensis", "Eisenia hortensis"],
@@ -62,7 +62,7 @@ export function AddBinForm({ farmId }: { farmId: string }) {
           <label className="block">
             <span className="block font-bold">Style</span>
             <select name="style" className={input} defaultValue="tote">
-              {STYLES.map((s) => (
+              {BIN_STYLES.map((s) => (
                 <option key={s}>{s}</option>
               ))}
             </select>

@@ -1,8 +1,8 @@
 // How a zone's three watched metrics are banded and said, shared by the zone page (server) and its
 // charts (client). Temperature and moisture use the species' comfortable band; ammonia has no
-// species band, so it is read against the bin's ammonia rule lines (lib/rules/params.ts).
-import { classifyMoisture, classifyTemperature, type SpeciesProfile } from "@/lib/species";
-import { formatNumber, formatPercent, formatTemperature, temperatureForDisplay, UNIT_LABELS, type UnitSystem } from "@/lib/units";
+// species band, so it is read against the bin's ammonia rule lines (lib/domain/rules/params.ts).
+import { classifyMoisture, classifyTemperature, type SpeciesProfile } from "@/lib/domain/species";
+import { formatNumber, formatPercent, formatTemperature, temperatureForDisplay, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import type { ChartMetric } from "./zone-chart";
 
 export type AmmoniaLines = { headsUpAtPpm: number; actNowAtPpm: number };

@@ -5,8 +5,8 @@ import uPlot from "uplot";
 import "uplot/dist/uPlot.min.css";
 import type { SeriesAnswer } from "@/db/queries/series";
 import { clockFormat } from "@/components/logbook/format";
-import { useSeries } from "@/lib/hooks/use-series";
-import { formatNumber, temperatureForDisplay, type UnitSystem } from "@/lib/units";
+import { useSeries } from "@/lib/client/hooks/use-series";
+import { formatNumber, temperatureForDisplay, type UnitSystem } from "@/lib/domain/units";
 
 export type ChartMetric = "temperature" | "moisture" | "ammonia";
 /** A feeding drawn on the time axis; t in Unix seconds. */

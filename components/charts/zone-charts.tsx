@@ -3,9 +3,9 @@
 import { useMemo, useState } from "react";
 import { clockFormat, feedingVerdict, zoneWords } from "@/components/logbook/format";
 import { SegmentedControl } from "@/components/ui/segmented-control";
-import { useFeedings } from "@/lib/hooks/use-feedings";
-import { getSpecies } from "@/lib/species";
-import { formatMass, formatNumber, formatPercent, type UnitSystem } from "@/lib/units";
+import { useFeedings } from "@/lib/client/hooks/use-feedings";
+import { getSpecies } from "@/lib/domain/species";
+import { formatMass, formatNumber, formatPercent, type UnitSystem } from "@/lib/domain/units";
 import { describeMetric, displayUnit, METRIC_COLORS, METRIC_TITLES, metricBand, type AmmoniaLines } from "./metric-words";
 import { ZoneChart, type ChartMark, type ChartMetric } from "./zone-chart";
 

@@ -2,8 +2,8 @@
 
 import { useRouter } from "next/navigation";
 import { useEffect, useId, useRef, useState } from "react";
-import { guessMapping, IMPORT_METRICS, readCsv, readHeader } from "@/lib/csv-import";
-import { METRICS } from "@/lib/metrics";
+import { guessMapping, IMPORT_METRICS, readCsv, readHeader } from "@/lib/domain/csv-import";
+import { METRICS } from "@/lib/domain/metrics";
 
 type ProbeChoice = { code: string; label: string | null };
 type Outcome = {

@@ -4,10 +4,10 @@ import { useEffect, useMemo, useRef, useState } from "react";
 import { useSWRConfig } from "swr";
 import { MixVerdictMark } from "@/components/logbook/mix-verdict";
 import { zoneWords } from "@/components/logbook/format";
-import { useIngredients, type IngredientRow } from "@/lib/hooks/use-ingredients";
-import { amendmentForMoisture, beddingForCn, checkMix, WATER, WORM_BED_TARGET, type Amendment, type MixItem } from "@/lib/mix";
-import { feedingsKey } from "@/lib/swr-keys";
-import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/units";
+import { useIngredients, type IngredientRow } from "@/lib/client/hooks/use-ingredients";
+import { amendmentForMoisture, beddingForCn, checkMix, WATER, WORM_BED_TARGET, type Amendment, type MixItem } from "@/lib/domain/mix";
+import { feedingsKey } from "@/lib/client/swr-keys";
+import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 
 type Zone = { id: string; kind: string; name: string | null };
 type Row = {
@@ -24,7 +24,7 @@ type Row = {
 type Field = "name" | "massKg" | "moisturePct" | "nitrogenPct" | "cn";
 
 // The middle of the worm-bed moisture band, and a C:N inside the band at the ammonia rule's risk line
-// (lib/rules/params.ts riskCnBelow 25; Cornell: below ~30:1 excess nitrogen goes off as ammonia).
+// (lib/domain/rules/params.ts riskCnBelow 25; Cornell: below ~30:1 excess nitrogen goes off as ammonia).
 const MOISTURE_AIM = Math.round((WORM_BED_TARGET.moisturePct.low + WORM_BED_TARGET.moisturePct.high) / 2);
 const CN_AIM = 25;
 

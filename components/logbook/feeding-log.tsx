@@ -3,8 +3,8 @@
 import { useMemo } from "react";
 import { clockFormat, feedingIssues, zoneWords } from "@/components/logbook/format";
 import { MixVerdictMark } from "@/components/logbook/mix-verdict";
-import { useFeedings } from "@/lib/hooks/use-feedings";
-import { formatMass, formatNumber, formatPercent, type UnitSystem } from "@/lib/units";
+import { useFeedings } from "@/lib/client/hooks/use-feedings";
+import { formatMass, formatNumber, formatPercent, type UnitSystem } from "@/lib/domain/units";
 
 type Zone = { id: string; kind: string; name: string | null };
 

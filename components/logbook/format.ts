@@ -1,5 +1,5 @@
-import { checkMix, type MixVerdict } from "@/lib/mix";
-import type { Feeding } from "@/lib/hooks/use-feedings";
+import { checkMix, type MixVerdict } from "@/lib/domain/mix";
+import type { Feeding } from "@/lib/client/hooks/use-feedings";
 
 // Times print in the farm's own time zone, so the server's first paint and the phone agree.
 export function clockFormat(timeZone: string): (iso: string | number) => string {

@@ -3,10 +3,10 @@
 import { useEffect, useMemo, useRef, useState } from "react";
 import { useSWRConfig } from "swr";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
-import { useFeedings } from "@/lib/hooks/use-feedings";
-import { useLogbook, type LogbookItem } from "@/lib/hooks/use-logbook";
-import { feedingsKey } from "@/lib/swr-keys";
-import { formatMass, formatNumber, formatPercent, formatVolume, type UnitSystem } from "@/lib/units";
+import { useFeedings } from "@/lib/client/hooks/use-feedings";
+import { useLogbook, type LogbookItem } from "@/lib/client/hooks/use-logbook";
+import { feedingsKey } from "@/lib/client/swr-keys";
+import { formatMass, formatNumber, formatPercent, formatVolume, type UnitSystem } from "@/lib/domain/units";
 
 type Zone = { id: string; kind: string; name: string | null };
 

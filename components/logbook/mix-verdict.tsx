@@ -1,5 +1,5 @@
 import { StatusMark } from "@/components/ui/status-mark";
-import type { MixVerdict } from "@/lib/mix";
+import type { MixVerdict } from "@/lib/domain/mix";
 
 // Each verdict borrows a band's word-and-shape: nitrogen-rich mixes heat and give off ammonia (clay,
 // triangle up), wet and dry match the moisture marks, carbon-rich is slow rather than harmful.

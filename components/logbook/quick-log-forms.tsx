@@ -3,8 +3,8 @@
 import { useState } from "react";
 import { useSWRConfig } from "swr";
 import { zoneWords } from "@/components/logbook/format";
-import { logbookKey } from "@/lib/swr-keys";
-import { massToKg, UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/units";
+import { logbookKey } from "@/lib/client/swr-keys";
+import { massToKg, UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/domain/units";
 
 type Zone = { id: string; kind: string; name: string | null };
 type Kind = "watering" | "harvest" | "note";

@@ -1,7 +1,7 @@
 "use client";
 
 import { useActionState } from "react";
-import type { ActionState } from "@/lib/validated-action";
+import type { ActionState } from "@/lib/web/validated-action";
 
 type Props = {
   action: (prev: ActionState, form: FormData) => Promise<ActionState>;

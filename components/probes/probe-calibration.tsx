@@ -2,9 +2,9 @@
 
 import { useState } from "react";
 import useSWR from "swr";
-import { fetcher } from "@/lib/fetcher";
-import { probeCalibrationKey } from "@/lib/swr-keys";
-import { formatNumber } from "@/lib/units";
+import { fetcher } from "@/lib/client/fetcher";
+import { probeCalibrationKey } from "@/lib/client/swr-keys";
+import { formatNumber } from "@/lib/domain/units";
 
 type Sample = {
   id: string;

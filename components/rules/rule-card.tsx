@@ -1,7 +1,7 @@
 "use client";
 
 import { useState } from "react";
-import { formatNumber, type UnitSystem } from "@/lib/units";
+import { formatNumber, type UnitSystem } from "@/lib/domain/units";
 import { fromShown, toShown, unitLabel } from "./rule-units";
 
 export type ParamRow = { key: string; label: string; unit: string; source: string; value: number };

@@ -1,5 +1,5 @@
 // Rule thresholds are stored metric; an imperial farm reads and types temperatures in °F.
-import { celsiusDeltaToFahrenheit, celsiusToFahrenheit, fahrenheitDeltaToCelsius, fahrenheitToCelsius, type UnitSystem } from "@/lib/units";
+import { celsiusDeltaToFahrenheit, celsiusToFahrenheit, fahrenheitDeltaToCelsius, fahrenheitToCelsius, type UnitSystem } from "@/lib/domain/units";
 
 // A deadband or a sensor step is a difference of temperatures, so it converts without the 32° offset.
 const isDelta = (key: string, unit: string) => unit === "°C/h" || /deadband|step/i.test(key);

@@ -2,8 +2,8 @@
 
 import { useState } from "react";
 import useSWR from "swr";
-import { fetcher, FetchError } from "@/lib/fetcher";
-import type { UnitSystem } from "@/lib/units";
+import { fetcher, FetchError } from "@/lib/client/fetcher";
+import type { UnitSystem } from "@/lib/domain/units";
 import { RuleCard, type KindRow, type KindState } from "./rule-card";
 
 export type RulesData = {

@@ -2,8 +2,8 @@
 
 import { useActionState, useState } from "react";
 import { SegmentedControl } from "@/components/ui/segmented-control";
-import type { UnitSystem } from "@/lib/units";
-import type { ActionState } from "@/lib/validated-action";
+import type { UnitSystem } from "@/lib/domain/units";
+import type { ActionState } from "@/lib/web/validated-action";
 
 type Props = {
   action: (prev: ActionState, form: FormData) => Promise<ActionState>;

@@ -1,8 +1,8 @@
 "use client";
 
 import { useActionState } from "react";
-import { ROLE_WORDS, ROLES } from "@/lib/team-words";
-import type { ActionState } from "@/lib/validated-action";
+import { ROLE_WORDS, ROLES } from "@/lib/domain/team-words";
+import type { ActionState } from "@/lib/web/validated-action";
 
 type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 

@@ -2,7 +2,7 @@
 
 import { NewPasswordField } from "@/components/auth/new-password-field";
 import { useActionState } from "react";
-import type { ActionState } from "@/lib/validated-action";
+import type { ActionState } from "@/lib/web/validated-action";
 
 type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 

@@ -1,9 +1,9 @@
 "use client";
 
 import { useActionState } from "react";
-import type { TeamRole as Role } from "@/lib/team-words";
-import { ROLE_WORDS, ROLES } from "@/lib/team-words";
-import type { ActionState } from "@/lib/validated-action";
+import type { TeamRole as Role } from "@/lib/domain/team-words";
+import { ROLE_WORDS, ROLES } from "@/lib/domain/team-words";
+import type { ActionState } from "@/lib/web/validated-action";
 import { RoleBadge } from "./role-badge";
 
 type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;

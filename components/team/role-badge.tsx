@@ -1,5 +1,5 @@
-import type { TeamRole as Role } from "@/lib/team-words";
-import { ROLE_WORDS } from "@/lib/team-words";
+import type { TeamRole as Role } from "@/lib/domain/team-words";
+import { ROLE_WORDS } from "@/lib/domain/team-words";
 
 // A role reads as a word with its own shape, never by colour alone.
 const look: Record<Role, { cls: string; shape: React.ReactNode }> = {

@@ -6,11 +6,11 @@ import { useSWRConfig } from "swr";
 import type { Today } from "@/db/queries/today";
 import { Sparkline } from "@/components/charts/sparkline";
 import { StatusMark } from "@/components/ui/status-mark";
-import { KIND_WORDS } from "@/lib/alerts/words";
-import { useToday } from "@/lib/hooks/use-today";
-import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/species";
-import { todayKey } from "@/lib/swr-keys";
-import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/units";
+import { KIND_WORDS } from "@/lib/domain/alert-words";
+import { useToday } from "@/lib/client/hooks/use-today";
+import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
+import { todayKey } from "@/lib/client/swr-keys";
+import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/domain/units";
 
 type Zone = Today["bins"][number]["zones"][number];
 type Bin = Today["bins"][number];

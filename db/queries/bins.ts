@@ -1,7 +1,7 @@
 import { and, asc, eq, isNull, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { bins, zones, type BinStyle, type ZoneKind } from "@/db/schema";
-import { AppError } from "@/lib/errors";
+import { AppError } from "@/lib/domain/errors";
 import { hasChanges } from "./patch";
 
 export async function listBins(farmId: string, opts: { includeArchived?: boolean } = {}) {

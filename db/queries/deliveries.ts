@@ -1,4 +1,4 @@
-// The delivery outbox: rows are added by lib/alerts/notify.ts and taken by the delivery workers of
+// The delivery outbox: rows are added by lib/server/alerts/notify.ts and taken by the delivery workers of
 // any ingest node. A row is claimed with FOR UPDATE SKIP LOCKED and a lease, so two workers never
 // hold one row at once; a worker that dies mid-send leaves a lease that runs out and the row is
 // sent again (the push Topic lets the push service collapse the two).

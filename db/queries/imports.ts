@@ -2,9 +2,9 @@ import { createHash } from "node:crypto";
 import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { imports, probes } from "@/db/schema";
-import { checkMapping, decodeFile, mapRows, readCsv, MAX_IMPORT_ROWS, MAX_REPORTED, type BadRow, type ImportMapping } from "@/lib/csv-import";
-import { AppError } from "@/lib/errors";
-import { REASONS_KEPT, reasonLines } from "@/lib/telemetry";
+import { checkMapping, decodeFile, mapRows, readCsv, MAX_IMPORT_ROWS, MAX_REPORTED, type BadRow, type ImportMapping } from "@/lib/domain/csv-import";
+import { AppError } from "@/lib/domain/errors";
+import { REASONS_KEPT, reasonLines } from "@/lib/domain/telemetry";
 import { insertReadings, recordRejections } from "./readings";
 
 export type ImportRecord = typeof imports.$inferSelect;

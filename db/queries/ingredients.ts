@@ -1,7 +1,7 @@
 import { and, asc, eq, inArray, isNull, or } from "drizzle-orm";
 import { db } from "@/db";
 import { ingredients } from "@/db/schema";
-import { AppError } from "@/lib/errors";
+import { AppError } from "@/lib/domain/errors";
 
 // The shared library plus the farm's own, the farm's first.
 export async function listIngredients(farmId: string) {

@@ -35,7 +35,7 @@ export async function consumePasswordReset(tokenHash: string, passwordHash: stri
       .where(and(eq(passwordResets.tokenHash, tokenHash), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, now)))
       .returning({ userId: passwordResets.userId });
     if (!r) return null;
-    // A new session version ends every session signed in with the old password (lib/auth/session-version).
+    // A new session version ends every session signed in with the old password (lib/server/auth/session-version).
     await tx
       .update(users)
       .set({ passwordHash, sessionVersion: sql`${users.sessionVersion} + 1` })

@@ -2,8 +2,8 @@ import { timingSafeEqual } from "node:crypto";
 import { eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { probes, type Probe } from "@/db/schema";
-import { hashToken } from "@/lib/auth/tokens";
-import { AppError } from "@/lib/errors";
+import { hashToken } from "@/lib/server/auth/tokens";
+import { AppError } from "@/lib/domain/errors";
 import { hasChanges } from "./patch";
 import type { Executor } from "./readings";
 

@@ -1,8 +1,8 @@
 import { and, asc, eq, gt, isNull, or, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { probes, type Metric } from "@/db/schema";
-import { METRICS } from "@/lib/metrics";
-import type { SeriesQuery } from "@/lib/validation/series";
+import { METRICS } from "@/lib/domain/metrics";
+import type { SeriesQuery } from "@/lib/domain/validation/series";
 
 /** About this many points per series at most, whatever the range. */
 export const MAX_POINTS = 1000;

@@ -2,7 +2,7 @@ import { and, asc, eq, gt, isNull, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { db } from "@/db";
 import { farms, invitations, memberships, users, type Role } from "@/db/schema";
-import { AppError } from "@/lib/errors";
+import { AppError } from "@/lib/domain/errors";
 
 export async function listTeam(farmId: string) {
   return (

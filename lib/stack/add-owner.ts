@@ -4,8 +4,8 @@
 import readline from "node:readline/promises";
 import { ZodError } from "zod";
 import { closeDb } from "@/db";
-import { AppError } from "@/lib/errors";
-import { addFirstOwner } from "@/lib/first-owner";
+import { AppError } from "@/lib/domain/errors";
+import { addFirstOwner } from "@/lib/server/farms/first-owner";
 
 const [email, name, farm] = process.argv.slice(2);
 if (!email || !name || !farm) {

@@ -19,8 +19,8 @@ import { startCluster, stopCluster } from "@/db/local-pg";
 import { runMigrations } from "@/db/migrate";
 import { insertReadings, type ReadingInput } from "@/db/queries/readings";
 import { bins, farms, probes, zones } from "@/db/schema";
-import { hashToken } from "@/lib/auth/tokens";
-import { probeBaseName } from "@/lib/metrics";
+import { hashToken } from "@/lib/server/auth/tokens";
+import { probeBaseName } from "@/lib/domain/metrics";
 
 const CLUSTER = "pg-bench";
 const PROBES = 20;

@@ -4,7 +4,7 @@
 import type pg from "pg";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { formatTemperature } from "@/lib/units";
+import { formatTemperature } from "@/lib/domain/units";
 import { appUrl, signIn, type Session } from "../helpers/app";
 import { launchBrowser, PHONE, screenshotPath } from "../helpers/browser";
 import { addToFarm, appDb, makeFarm, makePerson, uniq, type Person } from "../integration/team/fixtures";

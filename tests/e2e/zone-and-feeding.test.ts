@@ -4,9 +4,9 @@
 // beside its field.
 import type { Browser, Locator, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { amendmentForMoisture, beddingForCn, checkMix, WORM_BED_TARGET, type MixItem } from "@/lib/mix";
-import { speciesProfiles } from "@/lib/species";
-import { formatMass, formatNumber, formatTemperature } from "@/lib/units";
+import { amendmentForMoisture, beddingForCn, checkMix, WORM_BED_TARGET, type MixItem } from "@/lib/domain/mix";
+import { speciesProfiles } from "@/lib/domain/species";
+import { formatMass, formatNumber, formatTemperature } from "@/lib/domain/units";
 import { appUrl, signIn } from "../helpers/app";
 import { launchBrowser, PHONE, screenshotPath } from "../helpers/browser";
 
@@ -143,7 +143,7 @@ describe("the zone page and logging a feeding", () => {
     await form.getByRole("button", { name: veg.name }).click();
     await form.getByLabel("Mass (kg)").first().fill(String(vegKg));
 
-    // Scraps alone: the live check and its hints agree with lib/mix.ts for the same inputs.
+    // Scraps alone: the live check and its hints agree with lib/domain/mix.ts for the same inputs.
     const alone = mustOk(checkMix([asItem(veg, vegKg)]));
     await expect.poll(() => form.locator("#mix-moisture").textContent()).toBe(formatNumber(alone.moisturePct, 1));
     expect(await form.locator("#mix-cn").textContent()).toBe(formatNumber(alone.cn!, 1));

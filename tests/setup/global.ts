@@ -10,7 +10,7 @@ import { startCluster, stopCluster } from "../../db/local-pg";
 import { runMigrations } from "../../db/migrate";
 import { startMailbox } from "../../fakes/mailbox";
 import { startPushService } from "../../fakes/push-service";
-import { makeVapidKeys } from "../../lib/push";
+import { makeVapidKeys } from "../../lib/server/push/push";
 
 const root = path.resolve(import.meta.dirname, "../..");
 export const TEMPLATE = "wormward_template";
@@ -83,7 +83,7 @@ export default async function setup(project: TestProject) {
   const caFile = path.join(root, ".data", `${clusterName}-push-ca.pem`);
   fs.writeFileSync(caFile, push.ca);
   // The fake is the one push service on loopback that the app and the test workers may send to
-  // (lib/push-policy.ts); workers inherit this environment.
+  // (lib/server/push/push-policy.ts); workers inherit this environment.
   process.env.PUSH_FAKE_ORIGIN = push.url;
   const vapid = makeVapidKeys();
   let appUrl: string | null = null;

@@ -1,7 +1,15 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { applyCalibration, dryToWetBasis, fitCalibration, moistureDryBasis, moistureWetBasis, wetToDryBasis, withinCalibratedRange } from "@/lib/calibration";
-import type { Result } from "@/lib/result";
+import {
+  applyCalibration,
+  dryToWetBasis,
+  fitCalibration,
+  moistureDryBasis,
+  moistureWetBasis,
+  wetToDryBasis,
+  withinCalibratedRange,
+} from "@/lib/domain/calibration";
+import type { Result } from "@/lib/domain/result";
 
 function value<T>(r: Result<T>): T {
   if (!r.ok) throw new Error(`expected ok, got ${r.error.field}: ${r.error.message}`);

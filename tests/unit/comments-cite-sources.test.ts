@@ -38,7 +38,7 @@ describe("comments cite the published source itself", () => {
     // The walk really reached the code, the tests and the guides, so an empty list means something.
     expect(files).toEqual(
       expect.arrayContaining([
-        "lib/mix.ts",
+        "lib/domain/mix.ts",
         "ingest/service.ts",
         "tests/unit/units.test.ts",
         "tests/unit/comments-cite-sources.test.ts",

@@ -10,7 +10,7 @@ import {
   sniffDelimiter,
   zonedToUtc,
   type ImportMapping,
-} from "@/lib/csv-import";
+} from "@/lib/domain/csv-import";
 
 const NOW = Date.parse("2025-12-01T12:00:00Z");
 const probes = new Map([

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { DigestData } from "@/db/queries/digest";
-import { addDays, dayBounds, localClock, renderDigest } from "@/lib/alerts/digest";
+import { addDays, dayBounds, localClock, renderDigest } from "@/lib/server/alerts/digest";
 
 describe("farm-local days", () => {
   it("a summer day in Dublin runs from 23:00 UTC to 23:00 UTC", () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { capWords, readCappedBody } from "@/lib/api/body";
-import { isCrossSiteChange } from "@/lib/api/same-origin";
-import { pagePolicy } from "@/lib/api/security-headers";
+import { capWords, readCappedBody } from "@/lib/web/api/body";
+import { isCrossSiteChange } from "@/lib/web/api/same-origin";
+import { pagePolicy } from "@/lib/web/api/security-headers";
 
 const OURS = ["https://worms.example"];
 const req = (method: string, headers: Record<string, string>) =>

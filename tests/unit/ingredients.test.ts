@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { ingredients } from "@/lib/ingredients";
-import { checkMix, type MixItem } from "@/lib/mix";
+import { ingredients } from "@/lib/domain/ingredients";
+import { checkMix, type MixItem } from "@/lib/domain/mix";
 
 describe("ingredient library", () => {
   it("has unique kebab-case keys and a source on every row", () => {

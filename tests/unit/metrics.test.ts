@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { METRICS, METRIC_KEYS, metricFromSenml, probeBaseName, readingFromRecord } from "@/lib/metrics";
-import { parseSenml } from "@/lib/senml";
+import { METRICS, METRIC_KEYS, metricFromSenml, probeBaseName, readingFromRecord } from "@/lib/domain/metrics";
+import { parseSenml } from "@/lib/domain/senml";
 
 const NOW = 1_750_000_000;
 const base = probeBaseName("p-7f3a");

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { WATER, WORM_BED_TARGET, amendmentForMoisture, beddingForCn, checkMix, mixCarbonToNitrogen, mixMoisture, type MixItem } from "@/lib/mix";
-import type { Result } from "@/lib/result";
+import { WATER, WORM_BED_TARGET, amendmentForMoisture, beddingForCn, checkMix, mixCarbonToNitrogen, mixMoisture, type MixItem } from "@/lib/domain/mix";
+import type { Result } from "@/lib/domain/result";
 
 function value<T>(r: Result<T>): T {
   if (!r.ok) throw new Error(`expected ok, got ${r.error.field}: ${r.error.message}`);

@@ -1,7 +1,7 @@
-// Which endpoints we send pushes to (lib/push-policy.ts): the browsers' push services by name, and
+// Which endpoints we send pushes to (lib/server/push/push-policy.ts): the browsers' push services by name, and
 // never an address of a private network, however it is written.
 import { describe, expect, it } from "vitest";
-import { DEFAULT_PUSH_SERVICE_HOSTS, endpointProblem, isBlockedAddress, parseHostList } from "@/lib/push-policy";
+import { DEFAULT_PUSH_SERVICE_HOSTS, endpointProblem, isBlockedAddress, parseHostList } from "@/lib/server/push/push-policy";
 
 const allow = { hosts: DEFAULT_PUSH_SERVICE_HOSTS, fakeOrigin: "https://127.0.0.1:4431" };
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { inQuietHours } from "@/lib/alerts/quiet-hours";
+import { inQuietHours } from "@/lib/domain/quiet-hours";
 
 const at = (iso: string) => new Date(iso);
 

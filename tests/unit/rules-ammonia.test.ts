@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { RULE_PARAMETERS, evaluateZone, replay, type FeedingContext, type ProbeContext, type ProbeSeries } from "@/lib/rules";
-import { speciesProfiles } from "@/lib/species";
+import { RULE_PARAMETERS, evaluateZone, replay, type FeedingContext, type ProbeContext, type ProbeSeries } from "@/lib/domain/rules";
+import { speciesProfiles } from "@/lib/domain/species";
 
 const t0 = Date.UTC(2025, 5, 1, 6, 0, 0);
 const MIN = 60_000;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { evaluateZone, replay, type RuleOverrides, type Transition } from "@/lib/rules";
-import { speciesProfiles } from "@/lib/species";
+import { evaluateZone, replay, type RuleOverrides, type Transition } from "@/lib/domain/rules";
+import { speciesProfiles } from "@/lib/domain/species";
 
 // E. fetida heat: heads-up above 25 °C held 10 min, act now at 30 °C held 10 min, settle at or
 // below 24.5 °C (deadband 0.5 °C) held 15 min.

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { replay, type ProbeSeries, type RuleOverrides } from "@/lib/rules";
-import { speciesProfiles } from "@/lib/species";
-import { predictCrossing } from "@/lib/trend";
+import { replay, type ProbeSeries, type RuleOverrides } from "@/lib/domain/rules";
+import { speciesProfiles } from "@/lib/domain/species";
+import { predictCrossing } from "@/lib/domain/trend";
 
 const t0 = Date.UTC(2025, 5, 1, 6, 0, 0);
 const MIN = 60_000;
@@ -81,7 +81,7 @@ describe("drying (E. fetida: comfortable from 70 %, Kaplan et al. 1980)", () => 
     // a day of drying, then watered back to 78 % and flat: the day's line flattens slowly
     const values = [...Array.from({ length: 660 }, (_, m) => 80 - (0.45 * m) / 60), ...hold(78, 900)];
     const { brief } = run(values, { from: 600 });
-    // the first minute from which (by lib/trend, tested on its own) the crossing has been more than
+    // the first minute from which (by lib/domain/trend, tested on its own) the crossing has been more than
     // 18 h off (or gone) for 15 minutes
     const points = minuteSeries(values);
     const far = (m: number) => {

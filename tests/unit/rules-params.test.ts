@@ -10,9 +10,9 @@ import {
   probeSubject,
   resolveRules,
   zoneSubject,
-} from "@/lib/rules";
+} from "@/lib/domain/rules";
 import { alertKindEnum } from "@/db/schema";
-import { SPECIES_IDS, speciesProfiles } from "@/lib/species";
+import { SPECIES_IDS, speciesProfiles } from "@/lib/domain/species";
 
 const fetida = speciesProfiles["eisenia-fetida"];
 const HOUR = 3_600_000;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
-import { evaluateZone, refusalFault, replay, valueFault, type ProbeContext, type ProbeSeries } from "@/lib/rules";
-import { speciesProfiles } from "@/lib/species";
-import { rejectionText, summarizeRejections, validateSenmlPayload } from "@/lib/telemetry";
+import { evaluateZone, refusalFault, replay, valueFault, type ProbeContext, type ProbeSeries } from "@/lib/domain/rules";
+import { speciesProfiles } from "@/lib/domain/species";
+import { rejectionText, summarizeRejections, validateSenmlPayload } from "@/lib/domain/telemetry";
 
 const t0 = Date.UTC(2025, 5, 1, 6, 0, 0);
 const MIN = 60_000;
@@ -137,7 +137,7 @@ describe("probe fault", () => {
   });
 
   it("a stored value outside the sensor's range is a fault too", () => {
-    // moisture is a share of wet mass: 0–100 % (lib/metrics.ts)
+    // moisture is a share of wet mass: 0–100 % (lib/domain/metrics.ts)
     const moisture = minuteSeries([...hold(75, 10), ...hold(104, 10)]);
     const { events, brief } = run([{ probeId: 4, metric: "moisture", points: moisture }], probe(), 20, ["probe_fault"]);
     expect(brief).toEqual(["15 raise probe_fault"]);

@@ -1,7 +1,16 @@
 import { describe, expect, it } from "vitest";
-import { evaluateZone, replay, resolveRules, type FeedingContext, type OpenAlert, type ProbeSeries, type RuleOverrides, type Transition } from "@/lib/rules";
-import { speciesProfiles } from "@/lib/species";
-import { ratePerHour } from "@/lib/trend";
+import {
+  evaluateZone,
+  replay,
+  resolveRules,
+  type FeedingContext,
+  type OpenAlert,
+  type ProbeSeries,
+  type RuleOverrides,
+  type Transition,
+} from "@/lib/domain/rules";
+import { speciesProfiles } from "@/lib/domain/species";
+import { ratePerHour } from "@/lib/domain/trend";
 
 const t0 = Date.UTC(2025, 5, 1, 6, 0, 0);
 const MIN = 60_000;
@@ -114,7 +123,7 @@ describe("heat by the species band (E. fetida: comfortable to 25 °C, warm stres
   });
 
   it("an error code stored as a reading is not heat", () => {
-    // 85 °C is the power-on value of a DS18B20-style probe (lib/metrics.ts); probe_fault handles it
+    // 85 °C is the power-on value of a DS18B20-style probe (lib/domain/metrics.ts); probe_fault handles it
     expect(run([...hold(22, 5), ...hold(85, 30)]).brief).toEqual([]);
   });
 
@@ -205,7 +214,7 @@ describe("heat by rate of rise after a feeding", () => {
     for (let m = 1; m <= 150; m++) values.push(22 + (0.8 * m) / 60);
     for (let m = 1; m <= 120; m++) values.push(24);
     const { brief } = run(values, { feedings: [feedingHere(0)] });
-    // first minute whose 60-min least-squares rate (lib/trend, tested on its own) is below 0.5 °C/h
+    // first minute whose 60-min least-squares rate (lib/domain/trend, tested on its own) is below 0.5 °C/h
     const points = minuteSeries(values);
     const calm = points.findIndex((p, m) => m > 60 && ratePerHour(points.slice(0, m + 1), { windowMs: HOUR })! < 0.5);
     expect(calm).toBeGreaterThan(210);

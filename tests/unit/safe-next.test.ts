@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { safeNext } from "@/lib/safe-next";
+import { safeNext } from "@/lib/domain/safe-next";
 
 const ORIGIN = "http://127.0.0.1:3000";
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { RELATIVE_TIME_LIMIT, parseSenml, type ResolvedRecord, type SenmlParseResult } from "@/lib/senml";
+import { RELATIVE_TIME_LIMIT, parseSenml, type ResolvedRecord, type SenmlParseResult } from "@/lib/domain/senml";
 
 const NOW = 1_750_000_000.5;
 

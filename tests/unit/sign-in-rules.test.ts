@@ -1,9 +1,9 @@
 import { describe, expect, it } from "vitest";
-import { clientAddress } from "@/lib/auth/client-address";
-import { BCRYPT_COST, DUMMY_HASH, hashPassword } from "@/lib/auth/password";
-import { PASSWORD_MAX_BYTES, PASSWORD_TOO_LONG, passwordBytes } from "@/lib/auth/password-rules";
-import { tooManyTries } from "@/lib/auth/sign-in";
-import { newPassword } from "@/lib/validation/team";
+import { clientAddress } from "@/lib/server/auth/client-address";
+import { BCRYPT_COST, DUMMY_HASH, hashPassword } from "@/lib/server/auth/password";
+import { PASSWORD_MAX_BYTES, PASSWORD_TOO_LONG, passwordBytes } from "@/lib/domain/password-rules";
+import { tooManyTries } from "@/lib/server/auth/sign-in";
+import { newPassword } from "@/lib/domain/validation/team";
 
 describe("the client address", () => {
   it("is not read from X-Forwarded-For when no proxy is trusted: a client can write that header", () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { z } from "zod";
-import { MOISTURE_BANDS, SPECIES_IDS, TEMPERATURE_BANDS, classifyMoisture, classifyTemperature, getSpecies, speciesProfiles } from "@/lib/species";
+import { MOISTURE_BANDS, SPECIES_IDS, TEMPERATURE_BANDS, classifyMoisture, classifyTemperature, getSpecies, speciesProfiles } from "@/lib/domain/species";
 
 const fetida = speciesProfiles["eisenia-fetida"];
 

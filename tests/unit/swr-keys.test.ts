@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { seriesKey } from "@/lib/hooks/use-series";
-import { feedingsKey, ingredientsKey, zoneSeriesKey } from "@/lib/swr-keys";
+import { seriesKey } from "@/lib/client/hooks/use-series";
+import { feedingsKey, ingredientsKey, zoneSeriesKey } from "@/lib/client/swr-keys";
 
 // A server page primes SWR under zoneSeriesKey; the chart reads it through useSeries. A key that
 // differs by one character would make the phone fetch again instead of painting at once.

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { probeBaseName } from "@/lib/metrics";
-import { refusalFaults } from "@/lib/rules";
+import { probeBaseName } from "@/lib/domain/metrics";
+import { refusalFaults } from "@/lib/domain/rules";
 import {
   DEFAULT_LIMITS,
   REASON_LINE_MAX,
@@ -10,7 +10,7 @@ import {
   validateSenmlPayload,
   type RejectCode,
   type TelemetryProbe,
-} from "@/lib/telemetry";
+} from "@/lib/domain/telemetry";
 
 const NOW = new Date("2026-03-01T12:00:00Z");
 const T = NOW.getTime() / 1000;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { HOUR_MS, linearFit, predictCrossing, ratePerHour, type SeriesPoint } from "@/lib/trend";
+import { HOUR_MS, linearFit, predictCrossing, ratePerHour, type SeriesPoint } from "@/lib/domain/trend";
 
 const t0 = Date.UTC(2025, 5, 1, 6, 0, 0);
 const minutes = (m: number) => t0 + m * 60_000;

@@ -20,7 +20,7 @@ import {
   massToKg,
   temperatureToCelsius,
   usGallonsToLitres,
-} from "@/lib/units";
+} from "@/lib/domain/units";
 
 describe("exact definitions", () => {
   it("a pound is 0.45359237 kg", () => {

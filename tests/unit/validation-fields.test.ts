@@ -1,8 +1,19 @@
-// The building blocks of every input schema (lib/validation/fields.ts): what each refuses, in whose words.
+// The building blocks of every input schema (lib/domain/validation/fields.ts): what each refuses, in whose words.
 import { describe, expect, it } from "vitest";
-import { EARLIEST_MS, FUTURE_SLACK_MS, instant, loggedAt, longText, percent, plainText, quantity, timeZone, usableTimeZone } from "@/lib/validation/fields";
-import { farmCreate, farmUpdate } from "@/lib/validation/farm";
-import { meUpdate } from "@/lib/validation/alerts";
+import {
+  EARLIEST_MS,
+  FUTURE_SLACK_MS,
+  instant,
+  loggedAt,
+  longText,
+  percent,
+  plainText,
+  quantity,
+  timeZone,
+  usableTimeZone,
+} from "@/lib/domain/validation/fields";
+import { farmCreate, farmUpdate } from "@/lib/domain/validation/farm";
+import { meUpdate } from "@/lib/domain/validation/alerts";
 
 const issue = (r: { success: boolean; error?: { issues: { message: string }[] } }) => (r.success ? null : r.error!.issues[0]!.message);
 

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { SignInForm } from "@/components/auth/sign-in-form";
-import { env } from "@/lib/env";
-import { safeNext } from "@/lib/safe-next";
+import { env } from "@/lib/server/env";
+import { safeNext } from "@/lib/domain/safe-next";
 
 export const metadata: Metadata = { title: "Sign in" };
 

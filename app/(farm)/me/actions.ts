@@ -1,10 +1,10 @@
 "use server";
 
 import { revalidatePath } from "next/cache";
-import { requireUser } from "@/lib/auth/session";
-import { updateMe } from "@/lib/people/update-me";
-import { quietHoursForm } from "@/lib/validation/alerts";
-import { validatedAction } from "@/lib/validated-action";
+import { requireUser } from "@/lib/web/session";
+import { updateMe } from "@/lib/server/people/update-me";
+import { quietHoursForm } from "@/lib/domain/validation/alerts";
+import { validatedAction } from "@/lib/web/validated-action";
 
 export const saveQuietHours = validatedAction(quietHoursForm, async (input) => {
   const userId = await requireUser();

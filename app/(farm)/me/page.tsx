@@ -3,7 +3,7 @@ import { redirect } from "next/navigation";
 import { getUser, listMyFarms } from "@/db/queries/users";
 import { QuietHoursForm } from "@/components/me/quiet-hours-form";
 import { AlertsOnThisPhone } from "@/components/push/alerts-on-this-phone";
-import { currentUserId } from "@/lib/auth/session";
+import { currentUserId } from "@/lib/web/session";
 import { saveQuietHours } from "./actions";
 
 export const metadata: Metadata = { title: "You" };

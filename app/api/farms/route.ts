@@ -1,9 +1,9 @@
 import { createFarm } from "@/db/queries/farms";
 import { listMyFarms } from "@/db/queries/users";
-import { route } from "@/lib/api/route";
-import { requireUser } from "@/lib/auth/session";
-import { readJson } from "@/lib/errors";
-import { farmCreate } from "@/lib/validation/farm";
+import { route } from "@/lib/web/api/route";
+import { requireUser } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { farmCreate } from "@/lib/domain/validation/farm";
 
 // GET /api/farms — the signed-in person's farms with their role on each
 export const GET = route(async () => {

@@ -1,8 +1,8 @@
 import { verifyProbeToken } from "@/db/queries/probes";
-import { route } from "@/lib/api/route";
-import { AppError, errorResponse } from "@/lib/errors";
-import { acceptHttpTelemetry, parseProbeBearer, readTelemetryBody, requireSenmlJson } from "@/lib/http-ingest";
-import { DEFAULT_LIMITS } from "@/lib/telemetry";
+import { route } from "@/lib/web/api/route";
+import { AppError, errorResponse } from "@/lib/web/errors";
+import { acceptHttpTelemetry, parseProbeBearer, readTelemetryBody, requireSenmlJson } from "@/lib/server/ingest/http-ingest";
+import { DEFAULT_LIMITS } from "@/lib/domain/telemetry";
 
 // RFC 6750 §3: a 401 names the scheme, and error="invalid_token" when credentials were given.
 function unauthorized(given: boolean): Response {
@@ -14,7 +14,7 @@ function unauthorized(given: boolean): Response {
 }
 
 // POST /api/ingest — a probe posts one SenML pack; same validation and store as MQTT. No session:
-// the probe's own credentials (see lib/http-ingest.ts for the bearer format).
+// the probe's own credentials (see lib/server/ingest/http-ingest.ts for the bearer format).
 export const POST = route(async (req) => {
   const cred = parseProbeBearer(req.headers.get("authorization"));
   const probe = cred ? await verifyProbeToken(cred.code, cred.token) : null;

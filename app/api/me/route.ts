@@ -1,9 +1,9 @@
 import { getUser, listMyFarms } from "@/db/queries/users";
-import { route } from "@/lib/api/route";
-import { requireUser } from "@/lib/auth/session";
-import { AppError, readJson } from "@/lib/errors";
-import { updateMe } from "@/lib/people/update-me";
-import { meUpdate } from "@/lib/validation/alerts";
+import { route } from "@/lib/web/api/route";
+import { requireUser } from "@/lib/web/session";
+import { AppError, readJson } from "@/lib/web/errors";
+import { updateMe } from "@/lib/server/people/update-me";
+import { meUpdate } from "@/lib/domain/validation/alerts";
 
 // GET /api/me — who is signed in, their quiet hours and the farms they belong to
 export const GET = route(async () => {

@@ -7,7 +7,7 @@ import path from "node:path";
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { anonymous, appUrl, signIn, type Session } from "../../helpers/app";
-import { hashPassword } from "@/lib/auth/password";
+import { hashPassword } from "@/lib/server/auth/password";
 
 type Role = "owner" | "keeper" | "viewer";
 type Caller = Role | "other-farm" | "signed-out";

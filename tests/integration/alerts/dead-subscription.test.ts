@@ -7,8 +7,8 @@ import { raiseAlert } from "@/db/queries/alerts";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, memberships, pushSubscriptions, users } from "@/db/schema";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
-import { notifyAlert } from "@/lib/alerts/notify";
-import { makeVapidKeys } from "@/lib/push";
+import { notifyAlert } from "@/lib/server/alerts/notify";
+import { makeVapidKeys } from "@/lib/server/push/push";
 import { newSubscriber, pushMessagesFor, pushRequest } from "../../helpers/push";
 import { createProbes, type TestProbe } from "../ingest/helpers";
 

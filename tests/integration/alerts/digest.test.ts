@@ -9,7 +9,7 @@ import { insertFeeding } from "@/db/queries/feedings";
 import { insertReadings, type ReadingInput } from "@/db/queries/readings";
 import { alerts, bins, farms, memberships, probes, users, zones } from "@/db/schema";
 import { createDigestScheduler, sendDueDigests, type DigestScheduler } from "@/ingest/digest";
-import { makeMailer } from "@/lib/mail";
+import { makeMailer } from "@/lib/server/mail/mail";
 import { freePort } from "../../setup/global";
 
 process.env.SMTP_PORT = String(inject("smtpPort"));

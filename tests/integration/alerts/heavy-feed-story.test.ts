@@ -8,15 +8,15 @@ import { eq } from "drizzle-orm";
 import type { MqttClient } from "mqtt";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
-import { claimAlertAs } from "@/lib/alerts/crew";
+import { claimAlertAs } from "@/lib/server/alerts/crew";
 import { insertFeeding } from "@/db/queries/feedings";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, alerts, memberships, rules, users } from "@/db/schema";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { createRuleRunner, type RuleRunner } from "@/ingest/rule-runner";
 import { startIngest, type Ingest } from "@/ingest/service";
-import { probeBaseName } from "@/lib/metrics";
-import { makeVapidKeys } from "@/lib/push";
+import { probeBaseName } from "@/lib/domain/metrics";
+import { makeVapidKeys } from "@/lib/server/push/push";
 import { newSubscriber, pushMessagesFor, type TestSubscriber } from "../../helpers/push";
 import { connectProbe, createProbes, type TestProbe } from "../ingest/helpers";
 

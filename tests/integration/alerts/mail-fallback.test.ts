@@ -8,8 +8,8 @@ import { alertEvents, alerts, memberships, users } from "@/db/schema";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { createRuleRunner, type RuleRunner } from "@/ingest/rule-runner";
 import { startIngest, type Ingest } from "@/ingest/service";
-import { probeBaseName } from "@/lib/metrics";
-import { makeVapidKeys } from "@/lib/push";
+import { probeBaseName } from "@/lib/domain/metrics";
+import { makeVapidKeys } from "@/lib/server/push/push";
 import { connectProbe, createProbes, type TestProbe } from "../ingest/helpers";
 
 const vapid = makeVapidKeys();

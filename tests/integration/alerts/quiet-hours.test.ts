@@ -6,10 +6,10 @@ import { db } from "@/db";
 import { raiseAlert } from "@/db/queries/alerts";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, memberships, users } from "@/db/schema";
-import { claimAlertAs } from "@/lib/alerts/crew";
+import { claimAlertAs } from "@/lib/server/alerts/crew";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
-import { deliverHeldAlerts, notifyAlert } from "@/lib/alerts/notify";
-import { makeVapidKeys } from "@/lib/push";
+import { deliverHeldAlerts, notifyAlert } from "@/lib/server/alerts/notify";
+import { makeVapidKeys } from "@/lib/server/push/push";
 import { newSubscriber, pushMessagesFor, type TestSubscriber } from "../../helpers/push";
 import { createProbes, type TestProbe } from "../ingest/helpers";
 

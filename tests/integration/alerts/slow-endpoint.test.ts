@@ -13,7 +13,7 @@ import { alertEvents, alerts, memberships, users } from "@/db/schema";
 import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-worker";
 import { createRuleRunner, type RuleRunner } from "@/ingest/rule-runner";
 import { startIngest, type Ingest } from "@/ingest/service";
-import { makeVapidKeys } from "@/lib/push";
+import { makeVapidKeys } from "@/lib/server/push/push";
 import { newSubscriber, pushAttemptsFor, pushMessagesFor, type TestSubscriber } from "../../helpers/push";
 import { connectProbe, createProbes, tempPack, waitFor, type TestProbe } from "../ingest/helpers";
 

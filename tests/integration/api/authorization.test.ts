@@ -6,7 +6,7 @@ import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { anonymous, signIn, type Session } from "../../helpers/app";
 import { newSubscriber } from "../../helpers/push";
-import { hashPassword } from "@/lib/auth/password";
+import { hashPassword } from "@/lib/server/auth/password";
 
 type Role = "owner" | "keeper" | "viewer";
 type Ids = { farm: string; bin: string; zone: string; alert: string; probe: number };

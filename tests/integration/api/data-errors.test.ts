@@ -5,8 +5,8 @@ import { eq, sql } from "drizzle-orm";
 import { afterAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db";
 import { bins, farms, waterings } from "@/db/schema";
-import { errorBody } from "@/lib/errors";
-import { validatedAction } from "@/lib/validated-action";
+import { errorBody } from "@/lib/web/errors";
+import { validatedAction } from "@/lib/web/validated-action";
 import { z } from "zod";
 
 afterAll(async () => {

@@ -1,7 +1,7 @@
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { signIn, type Session } from "../../helpers/app";
-import { ingredients as library } from "@/lib/ingredients";
+import { ingredients as library } from "@/lib/domain/ingredients";
 
 let db: pg.Client;
 let owner: Session;

@@ -6,8 +6,8 @@ import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { schema } from "@/db";
 import { startIngest, type Ingest } from "@/ingest/service";
-import { probeBaseName } from "@/lib/metrics";
-import { hashToken } from "@/lib/auth/tokens";
+import { probeBaseName } from "@/lib/domain/metrics";
+import { hashToken } from "@/lib/server/auth/tokens";
 import { signIn, type Session } from "../../helpers/app";
 
 let db: pg.Client;

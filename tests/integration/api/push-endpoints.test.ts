@@ -3,7 +3,7 @@
 // and the push test answers with the status and our own words, never the push service's answer.
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
-import { hashPassword } from "@/lib/auth/password";
+import { hashPassword } from "@/lib/server/auth/password";
 import { signIn, type Session } from "../../helpers/app";
 import { newSubscriber, pushAttemptsFor } from "../../helpers/push";
 

@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signIn } from "../../helpers/app";
 import { loadForm, pageText, submitForm } from "../../helpers/form";
 import { appDb, linkIn, mailFor, makePerson, waitForMail, type Person } from "../team/fixtures";
-import { RESET_ANSWER } from "@/lib/password-reset";
+import { RESET_ANSWER } from "@/lib/server/auth/password-reset";
 
 let c: pg.Client;
 beforeAll(async () => {

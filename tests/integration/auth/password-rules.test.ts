@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { anonymous, signIn, trySignIn } from "../../helpers/app";
 import { pageText, submitForm } from "../../helpers/form";
 import { appDb, linkIn, makePerson, waitForMail, type Person } from "../team/fixtures";
-import { PASSWORD_TOO_LONG } from "@/lib/auth/password-rules";
+import { PASSWORD_TOO_LONG } from "@/lib/domain/password-rules";
 
 let c: pg.Client;
 const people: Person[] = [];

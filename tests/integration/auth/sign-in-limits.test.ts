@@ -7,7 +7,7 @@ import type pg from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { trySignIn } from "../../helpers/app";
 import { appDb, makePerson, uniq } from "../team/fixtures";
-import { BCRYPT_COST } from "@/lib/auth/password";
+import { BCRYPT_COST } from "@/lib/server/auth/password";
 
 const TRY_AGAIN = /^Too many tries\. Try again in 1[45] minutes\.$/;
 let c: pg.Client;

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { startMailbox, type KeptMail, type Mailbox } from "@/fakes/mailbox";
-import { makeMailer, type Mailer } from "@/lib/mail";
+import { makeMailer, type Mailer } from "@/lib/server/mail/mail";
 
 let mailbox: Mailbox;
 let mailer: Mailer;
@@ -15,7 +15,7 @@ afterAll(async () => {
   await mailbox.close();
 });
 
-describe("mailbox with lib/mail.ts", () => {
+describe("mailbox with lib/server/mail/mail.ts", () => {
   it("keeps a sent mail with its sender, recipients, subject, text and html", async () => {
     mailbox.clear();
     const { messageId } = await mailer.send({

@@ -4,8 +4,8 @@ import pg from "pg";
 import { buildPack, startFleet, type Fleet } from "@/fakes/probe-fleet";
 import { startIngest, type Ingest } from "@/ingest/service";
 import { closeDb } from "@/db";
-import { parseSenml } from "@/lib/senml";
-import { readingFromRecord } from "@/lib/metrics";
+import { parseSenml } from "@/lib/domain/senml";
+import { readingFromRecord } from "@/lib/domain/metrics";
 import { makeFarm, until, type TestFarm } from "../series/fixtures";
 
 let c: pg.Client;
@@ -35,7 +35,7 @@ afterAll(async () => {
 });
 
 describe("the simulated probe fleet", () => {
-  it("builds packs that lib/senml.ts resolves to our names and units without a refusal", () => {
+  it("builds packs that lib/domain/senml.ts resolves to our names and units without a refusal", () => {
     const at = Date.parse("2025-05-01T12:00:00Z");
     const pack = buildPack("alder-01", at, { temperature: 22.456, moisture: 78.04, ammonia: 2.1, batteryV: 3.9, signalDbm: -67.4, firmware: "ww-0.4.2" });
     const parsed = parseSenml(JSON.stringify(pack), { now: at / 1000 });

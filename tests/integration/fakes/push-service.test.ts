@@ -4,7 +4,7 @@ import { createRequire } from "node:module";
 import webpush from "web-push";
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
 import { startPushService, type PushService } from "@/fakes/push-service";
-import { makeVapidKeys, sendPush, type PushSubscriptionJson, type SendPushOptions } from "@/lib/push";
+import { makeVapidKeys, sendPush, type PushSubscriptionJson, type SendPushOptions } from "@/lib/server/push/push";
 
 // http_ece ships no type declarations; this is the one call the test makes.
 type EceParams = { version: "aes128gcm"; privateKey: ReturnType<typeof createECDH>; authSecret: Buffer };
@@ -49,7 +49,7 @@ function requestFor(subscription: PushSubscriptionJson) {
 
 beforeAll(async () => {
   service = await startPushService();
-  // This test's own fake is the one loopback push service allowed (lib/push-policy.ts).
+  // This test's own fake is the one loopback push service allowed (lib/server/push/push-policy.ts).
   options = { vapid: { ...makeVapidKeys(), subject: "mailto:alerts@wormward.test" }, allow: { hosts: [], fakeOrigin: service.url }, ca: service.ca, ttl: 600 };
 });
 
@@ -59,7 +59,7 @@ afterAll(async () => {
 
 beforeEach(() => service.clear());
 
-describe("fake push service with lib/push.ts", () => {
+describe("fake push service with lib/server/push/push.ts", () => {
   it("keeps a push from sendPush and its body decrypts to the JSON sent", async () => {
     const { ecdh, authSecret, subscription } = subscriber(service.subscriptionEndpoint());
     const payload = { kind: "heat", level: "act now", bin: "Bin 2", zone: "fresh", temperatureC: 31.5, risePerHourC: 2.1 };

@@ -4,8 +4,8 @@ import { sql } from "drizzle-orm";
 import { connectAsync, type IClientOptions, type MqttClient } from "mqtt";
 import { db, type Db } from "@/db";
 import { bins, farms, probes, zones } from "@/db/schema";
-import { hashToken } from "@/lib/auth/tokens";
-import { probeBaseName } from "@/lib/metrics";
+import { hashToken } from "@/lib/server/auth/tokens";
+import { probeBaseName } from "@/lib/domain/metrics";
 
 export { freePort } from "../../setup/global";
 

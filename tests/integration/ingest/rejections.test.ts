@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "@/db";
 import { probes } from "@/db/schema";
 import { startIngest, type Ingest } from "@/ingest/service";
-import { probeBaseName } from "@/lib/metrics";
+import { probeBaseName } from "@/lib/domain/metrics";
 import { connectProbe, countReadings, createProbes, rejectionsOf, type TestProbe } from "./helpers";
 
 let ingest: Ingest;

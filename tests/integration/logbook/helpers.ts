@@ -1,6 +1,6 @@
 import pg from "pg";
 import { inject } from "vitest";
-import { hashPassword } from "@/lib/auth/password";
+import { hashPassword } from "@/lib/server/auth/password";
 import { signIn, type Session } from "../../helpers/app";
 
 export type Crew = { db: pg.Client; farmId: string; owner: Session; keeper: Session; otherKeeper: Session; viewer: Session; close: () => Promise<void> };

@@ -1,6 +1,6 @@
 // Oven-dry samples beside a probe, and the calibration line fitted from them.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { applyCalibration } from "@/lib/calibration";
+import { applyCalibration } from "@/lib/domain/calibration";
 import { crewFarm, json, newBin, type Crew } from "./helpers";
 
 type ErrorBody = { error: { code: string; field?: string; message: string } };

@@ -3,8 +3,8 @@
 // call, so files sharing a database never see each other's probes.
 import { randomBytes } from "node:crypto";
 import pg from "pg";
-import { hashPassword } from "@/lib/auth/password";
-import { hashToken } from "@/lib/auth/tokens";
+import { hashPassword } from "@/lib/server/auth/password";
+import { hashToken } from "@/lib/server/auth/tokens";
 
 export type TestProbe = { id: number; code: string; token: string; zoneId: string; zone: string };
 export type TestFarm = { farmId: string; binId: string; zones: Record<string, string>; probes: TestProbe[] };

@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/db";
 import { insertReadings } from "@/db/queries/readings";
 import { getProbeSeries, getZoneSeries, MAX_POINTS } from "@/db/queries/series";
-import { seriesQuery } from "@/lib/validation/series";
+import { seriesQuery } from "@/lib/domain/validation/series";
 import { makeFarm, type TestFarm } from "./fixtures";
 
 let c: pg.Client;

@@ -10,7 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { inject } from "vitest";
 import bcrypt from "bcryptjs";
 import { DEMO_PEOPLE } from "@/db/seed";
-import { PASSWORD_TOO_LONG } from "@/lib/auth/password-rules";
+import { PASSWORD_TOO_LONG } from "@/lib/domain/password-rules";
 import { seedForStart } from "@/lib/stack/seed-demo";
 import { TEMPLATE } from "../../setup/global";
 

@@ -3,7 +3,7 @@
 import { randomBytes } from "node:crypto";
 import pg from "pg";
 import { inject } from "vitest";
-import { hashPassword } from "@/lib/auth/password";
+import { hashPassword } from "@/lib/server/auth/password";
 
 export const uniq = () => randomBytes(4).toString("hex");
 

@@ -1,10 +1,10 @@
 "use server";
 
 import { redirect } from "next/navigation";
-import { requireUser } from "@/lib/auth/session";
-import { joinAsUser, joinWithNewAccount } from "@/lib/invitations";
-import { joinMeForm, joinNewForm } from "@/lib/validation/team";
-import { validatedAction, type ActionState } from "@/lib/validated-action";
+import { requireUser } from "@/lib/web/session";
+import { joinAsUser, joinWithNewAccount } from "@/lib/server/team/invitations";
+import { joinMeForm, joinNewForm } from "@/lib/domain/validation/team";
+import { validatedAction, type ActionState } from "@/lib/web/validated-action";
 
 // Each returns the address to go to next; the redirect runs outside validatedAction, which catches throws.
 const asNew = validatedAction(joinNewForm, async ({ token, name, password }) => {

@@ -3,9 +3,9 @@ import { DeadLink } from "@/components/auth/dead-link";
 import { SignOutButton } from "@/components/auth/sign-out-button";
 import { JoinAsMeForm, JoinForm } from "@/components/team/join-form";
 import { getUser } from "@/db/queries/users";
-import { currentUserId } from "@/lib/auth/session";
-import { INVITATION_REFUSALS, lookupInvitation } from "@/lib/invitations";
-import { ROLE_WORDS } from "@/lib/team-words";
+import { currentUserId } from "@/lib/web/session";
+import { INVITATION_REFUSALS, lookupInvitation } from "@/lib/server/team/invitations";
+import { ROLE_WORDS } from "@/lib/domain/team-words";
 import { joinMe, joinNew } from "./actions";
 
 // The token is in the address: keep it out of Referer headers and search engines.

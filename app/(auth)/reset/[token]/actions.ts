@@ -1,9 +1,9 @@
 "use server";
 
 import { redirect } from "next/navigation";
-import { resetPassword } from "@/lib/password-reset";
-import { resetForm } from "@/lib/validation/team";
-import { validatedAction, type ActionState } from "@/lib/validated-action";
+import { resetPassword } from "@/lib/server/auth/password-reset";
+import { resetForm } from "@/lib/domain/validation/team";
+import { validatedAction, type ActionState } from "@/lib/web/validated-action";
 
 const reset = validatedAction(resetForm, async ({ token, password }) => {
   await resetPassword(token, password);

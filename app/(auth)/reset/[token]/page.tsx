@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { DeadLink } from "@/components/auth/dead-link";
 import { ResetForm } from "@/components/auth/reset-form";
-import { lookupReset, RESET_REFUSALS } from "@/lib/password-reset";
+import { lookupReset, RESET_REFUSALS } from "@/lib/server/auth/password-reset";
 import { setNewPassword } from "./actions";
 
 // The token is in the address: keep it out of Referer headers and search engines.

@@ -1,5 +1,5 @@
 import { FarmNav } from "@/components/farm/farm-nav";
-import { requirePageMember } from "@/lib/auth/session";
+import { requirePageMember } from "@/lib/web/session";
 
 export default async function FarmLayout({ children, params }: { children: React.ReactNode; params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;

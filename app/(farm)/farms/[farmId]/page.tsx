@@ -5,8 +5,8 @@ import { getFarm } from "@/db/queries/farms";
 import { getToday } from "@/db/queries/today";
 import { AddBinForm } from "@/components/bins/add-bin-form";
 import { TodayBoard } from "@/components/today/today-board";
-import { requirePageMember } from "@/lib/auth/session";
-import { todayKey } from "@/lib/swr-keys";
+import { requirePageMember } from "@/lib/web/session";
+import { todayKey } from "@/lib/client/swr-keys";
 
 export const metadata: Metadata = { title: "Today" };
 

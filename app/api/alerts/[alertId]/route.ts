@@ -1,6 +1,6 @@
-import { readAlert } from "@/lib/alerts/crew";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
+import { readAlert } from "@/lib/server/alerts/crew";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
 
 type Ctx = { params: Promise<{ alertId: string }> };
 

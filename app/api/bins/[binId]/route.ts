@@ -1,8 +1,8 @@
 import { archiveBin, getBin, updateBin } from "@/db/queries/bins";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { readJson } from "@/lib/errors";
-import { binUpdate } from "@/lib/validation/farm";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { binUpdate } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ binId: string }> };
 

@@ -1,8 +1,8 @@
 import { getFarm, updateFarm } from "@/db/queries/farms";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { readJson } from "@/lib/errors";
-import { farmUpdate } from "@/lib/validation/farm";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { farmUpdate } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 

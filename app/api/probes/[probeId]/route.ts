@@ -1,8 +1,8 @@
 import { updateProbe, zoneFarm } from "@/db/queries/probes";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { AppError, readJson } from "@/lib/errors";
-import { probeUpdate } from "@/lib/validation/probes";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { AppError, readJson } from "@/lib/web/errors";
+import { probeUpdate } from "@/lib/domain/validation/probes";
 
 type Ctx = { params: Promise<{ probeId: string }> };
 

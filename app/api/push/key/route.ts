@@ -1,7 +1,7 @@
-import { route } from "@/lib/api/route";
-import { requireUser } from "@/lib/auth/session";
-import { env } from "@/lib/env";
-import { AppError } from "@/lib/errors";
+import { route } from "@/lib/web/api/route";
+import { requireUser } from "@/lib/web/session";
+import { env } from "@/lib/server/env";
+import { AppError } from "@/lib/domain/errors";
 
 // GET /api/push/key — the VAPID public key a browser subscribes with (RFC 8292 applicationServerKey)
 export const GET = route(async () => {

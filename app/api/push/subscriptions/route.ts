@@ -1,8 +1,8 @@
 import { deletePushSubscription, isCrewAnywhere, savePushSubscription } from "@/db/queries/push";
-import { route } from "@/lib/api/route";
-import { requireUser } from "@/lib/auth/session";
-import { AppError, readJson } from "@/lib/errors";
-import { pushSubscriptionBody, pushUnsubscribeBody } from "@/lib/validation/alerts";
+import { route } from "@/lib/web/api/route";
+import { requireUser } from "@/lib/web/session";
+import { AppError, readJson } from "@/lib/web/errors";
+import { pushSubscriptionBody, pushUnsubscribeBody } from "@/lib/domain/validation/alerts";
 
 async function requireCrew() {
   const userId = await requireUser();

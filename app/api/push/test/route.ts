@@ -1,8 +1,8 @@
 import { isCrewAnywhere } from "@/db/queries/push";
-import { sendTestPush } from "@/lib/alerts/deliver";
-import { route } from "@/lib/api/route";
-import { requireUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { sendTestPush } from "@/lib/server/alerts/deliver";
+import { route } from "@/lib/web/api/route";
+import { requireUser } from "@/lib/web/session";
+import { AppError } from "@/lib/domain/errors";
 
 // POST /api/push/test — sends a test notification to every phone of the caller; each result
 // carries the status and a reason in our words, never what the push service answered.

@@ -1,8 +1,8 @@
 import { archiveZone, getZone, updateZone } from "@/db/queries/bins";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { readJson } from "@/lib/errors";
-import { zoneUpdate } from "@/lib/validation/farm";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { zoneUpdate } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ zoneId: string }> };
 

@@ -3,8 +3,8 @@ import { notFound } from "next/navigation";
 import { getFarm } from "@/db/queries/farms";
 import { listFarmProbes, listImports } from "@/db/queries/imports";
 import { BadRows, ImportForm } from "@/components/imports/import-form";
-import { requirePageMember } from "@/lib/auth/session";
-import { timeZoneOrUtc } from "@/lib/validation/fields";
+import { requirePageMember } from "@/lib/web/session";
+import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 
 export const metadata: Metadata = { title: "Import logger files" };
 

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { listBins } from "@/db/queries/bins";
 import { ProbeList } from "@/components/probes/probe-list";
-import { requirePageMember } from "@/lib/auth/session";
+import { requirePageMember } from "@/lib/web/session";
 
 export const metadata: Metadata = { title: "Probes" };
 

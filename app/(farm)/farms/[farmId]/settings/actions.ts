@@ -4,11 +4,11 @@ import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { archiveBin, updateBin } from "@/db/queries/bins";
 import { updateFarm } from "@/db/queries/farms";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { UNIT_LABELS } from "@/lib/units";
-import { farmForm } from "@/lib/validation/farm";
-import { validatedAction } from "@/lib/validated-action";
+import { requireMember } from "@/lib/web/session";
+import { AppError } from "@/lib/domain/errors";
+import { UNIT_LABELS } from "@/lib/domain/units";
+import { farmForm } from "@/lib/domain/validation/farm";
+import { validatedAction } from "@/lib/web/validated-action";
 
 const binForm = z.object({ farmId: z.string().uuid(), binId: z.string().uuid() });
 

@@ -4,9 +4,9 @@ import { listBins } from "@/db/queries/bins";
 import { getFarm } from "@/db/queries/farms";
 import { BinArchive } from "@/components/settings/bin-archive";
 import { FarmForm } from "@/components/settings/farm-form";
-import { requirePageMember } from "@/lib/auth/session";
+import { requirePageMember } from "@/lib/web/session";
 import { archiveBinAction, bringBackBin, saveFarm } from "./actions";
-import { timeZoneOrUtc } from "@/lib/validation/fields";
+import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 
 export const metadata: Metadata = { title: "Settings" };
 

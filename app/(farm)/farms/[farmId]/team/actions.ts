@@ -3,12 +3,12 @@
 import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { changeMemberRole, deleteInvitation, removeMember } from "@/db/queries/team";
-import { currentUserId, requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { inviteToFarm } from "@/lib/invitations";
-import { ROLE_WORDS } from "@/lib/team-words";
-import { inviteForm, removeForm, revokeForm, roleForm } from "@/lib/validation/team";
-import { validatedAction, type ActionState } from "@/lib/validated-action";
+import { currentUserId, requireMember } from "@/lib/web/session";
+import { AppError } from "@/lib/domain/errors";
+import { inviteToFarm } from "@/lib/server/team/invitations";
+import { ROLE_WORDS } from "@/lib/domain/team-words";
+import { inviteForm, removeForm, revokeForm, roleForm } from "@/lib/domain/validation/team";
+import { validatedAction, type ActionState } from "@/lib/web/validated-action";
 
 const teamPath = (farmId: string) => `/farms/${farmId}/team`;
 

@@ -5,9 +5,9 @@ import { listPendingInvitations, listTeam } from "@/db/queries/team";
 import { InviteForm } from "@/components/team/invite-form";
 import { MemberList } from "@/components/team/member-card";
 import { PendingInvitations } from "@/components/team/pending-invitations";
-import { requirePageMember } from "@/lib/auth/session";
+import { requirePageMember } from "@/lib/web/session";
 import { changeRole, invite, remove, revoke } from "./actions";
-import { timeZoneOrUtc } from "@/lib/validation/fields";
+import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 
 export const metadata: Metadata = { title: "Team" };
 

@@ -1,8 +1,8 @@
-import { settleAlertAs } from "@/lib/alerts/crew";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { readOptionalJson } from "@/lib/errors";
-import { settleBody } from "@/lib/validation/alerts";
+import { settleAlertAs } from "@/lib/server/alerts/crew";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readOptionalJson } from "@/lib/web/errors";
+import { settleBody } from "@/lib/domain/validation/alerts";
 
 type Ctx = { params: Promise<{ alertId: string }> };
 

@@ -1,9 +1,9 @@
 import { listFeedings } from "@/db/queries/feedings";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { readJson } from "@/lib/errors";
-import { logFeeding } from "@/lib/logbook/log-feeding";
-import { feedingCreate, feedingListQuery } from "@/lib/validation/logbook";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { logFeeding } from "@/lib/server/logbook/log-feeding";
+import { feedingCreate, feedingListQuery } from "@/lib/domain/validation/logbook";
 
 type Ctx = { params: Promise<{ binId: string }> };
 

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { listLogbook } from "@/db/queries/logbook";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
 
 type Ctx = { params: Promise<{ binId: string }> };
 const listQuery = z.object({ limit: z.coerce.number().int().min(1).max(500).default(100) });

@@ -1,11 +1,11 @@
 import { z } from "zod";
 import { getBin } from "@/db/queries/bins";
 import { deleteBinRule, listRulesForBin, upsertBinRule } from "@/db/queries/rules";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { AppError, readJson } from "@/lib/errors";
-import { ALERT_KINDS, checkThresholds, defaultRuleTable, overridesFromRuleRows, resolveRules, type RuleRow } from "@/lib/rules";
-import { getSpecies } from "@/lib/species";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { AppError, readJson } from "@/lib/web/errors";
+import { ALERT_KINDS, checkThresholds, defaultRuleTable, overridesFromRuleRows, resolveRules, type RuleRow } from "@/lib/domain/rules";
+import { getSpecies } from "@/lib/domain/species";
 
 type Ctx = { params: Promise<{ binId: string }> };
 

@@ -1,7 +1,7 @@
 import { listAlerts } from "@/db/queries/alerts";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { alertListQuery } from "@/lib/validation/alerts";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { alertListQuery } from "@/lib/domain/validation/alerts";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 

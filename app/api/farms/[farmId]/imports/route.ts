@@ -1,7 +1,7 @@
 import { importCsv, listImports } from "@/db/queries/imports";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { readImportUpload } from "@/lib/validation/imports";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readImportUpload } from "@/lib/domain/validation/imports";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 

@@ -1,8 +1,8 @@
 import { addIngredient, listIngredients } from "@/db/queries/ingredients";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { readJson } from "@/lib/errors";
-import { ingredientCreate } from "@/lib/validation/ingredients";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { ingredientCreate } from "@/lib/domain/validation/ingredients";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 

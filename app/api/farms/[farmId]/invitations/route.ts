@@ -1,9 +1,9 @@
 import { listPendingInvitations } from "@/db/queries/team";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { readJson } from "@/lib/errors";
-import { inviteToFarm } from "@/lib/invitations";
-import { invitationCreate } from "@/lib/validation/team";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { inviteToFarm } from "@/lib/server/team/invitations";
+import { invitationCreate } from "@/lib/domain/validation/team";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 

@@ -1,6 +1,6 @@
 import { listPendingInvitations, listTeam } from "@/db/queries/team";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 

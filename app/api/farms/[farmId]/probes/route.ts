@@ -1,9 +1,9 @@
 import { randomBytes } from "node:crypto";
 import { createProbe, listFarmProbesWithStatus, zoneFarm } from "@/db/queries/probes";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { AppError, readJson } from "@/lib/errors";
-import { probeCreate } from "@/lib/validation/probes";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { AppError, readJson } from "@/lib/web/errors";
+import { probeCreate } from "@/lib/domain/validation/probes";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 

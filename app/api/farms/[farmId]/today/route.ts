@@ -1,6 +1,6 @@
 import { getToday } from "@/db/queries/today";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 

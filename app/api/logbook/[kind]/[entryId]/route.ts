@@ -1,8 +1,8 @@
 import { deleteLogEntry, getLogEntry, LOG_KINDS, type LogKind } from "@/db/queries/logbook";
-import { route } from "@/lib/api/route";
-import { authorize } from "@/lib/auth/authorize";
-import { requireUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
+import { route } from "@/lib/web/api/route";
+import { authorize } from "@/lib/server/auth/authorize";
+import { requireUser } from "@/lib/web/session";
+import { AppError } from "@/lib/domain/errors";
 
 type Ctx = { params: Promise<{ kind: string; entryId: string }> };
 const UNDO_WINDOW_MS = 24 * 3600_000;

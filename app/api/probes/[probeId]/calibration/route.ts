@@ -1,8 +1,8 @@
 import { getProbePlace, listProbeSamples, setProbeCalibration } from "@/db/queries/logbook";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { fitCalibration } from "@/lib/calibration";
-import { AppError } from "@/lib/errors";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { fitCalibration } from "@/lib/domain/calibration";
+import { AppError } from "@/lib/domain/errors";
 
 type Ctx = { params: Promise<{ probeId: string }> };
 

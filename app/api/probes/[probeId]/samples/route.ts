@@ -1,9 +1,9 @@
 import { getProbePlace, insertSample, listProbeSamples, nearestRawReading } from "@/db/queries/logbook";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { moistureWetBasis } from "@/lib/calibration";
-import { AppError, readJson } from "@/lib/errors";
-import { sampleCreate } from "@/lib/validation/log-entries";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { moistureWetBasis } from "@/lib/domain/calibration";
+import { AppError, readJson } from "@/lib/web/errors";
+import { sampleCreate } from "@/lib/domain/validation/log-entries";
 
 type Ctx = { params: Promise<{ probeId: string }> };
 

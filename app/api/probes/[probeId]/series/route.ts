@@ -1,8 +1,8 @@
 import { getProbeSeries } from "@/db/queries/series";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { seriesQuery } from "@/lib/validation/series";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { AppError } from "@/lib/domain/errors";
+import { seriesQuery } from "@/lib/domain/validation/series";
 
 type Ctx = { params: Promise<{ probeId: string }> };
 

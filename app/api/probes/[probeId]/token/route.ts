@@ -1,7 +1,7 @@
 import { randomBytes } from "node:crypto";
 import { replaceProbeToken } from "@/db/queries/probes";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
 
 type Ctx = { params: Promise<{ probeId: string }> };
 

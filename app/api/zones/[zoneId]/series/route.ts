@@ -1,7 +1,7 @@
 import { getZoneSeries } from "@/db/queries/series";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { seriesQuery } from "@/lib/validation/series";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { seriesQuery } from "@/lib/domain/validation/series";
 
 type Ctx = { params: Promise<{ zoneId: string }> };
 

@@ -14,10 +14,10 @@ import { LogbookList } from "@/components/logbook/logbook-list";
 import { QuickLogForms } from "@/components/logbook/quick-log-forms";
 import { listLogbook } from "@/db/queries/logbook";
 import { StatusMark } from "@/components/ui/status-mark";
-import { requirePageMember } from "@/lib/auth/session";
-import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/species";
-import { feedingsKey, ingredientsKey, logbookKey } from "@/lib/swr-keys";
-import { formatPercent, formatTemperature } from "@/lib/units";
+import { requirePageMember } from "@/lib/web/session";
+import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
+import { feedingsKey, ingredientsKey, logbookKey } from "@/lib/client/swr-keys";
+import { formatPercent, formatTemperature } from "@/lib/domain/units";
 
 export const metadata: Metadata = { title: "Bin" };
 

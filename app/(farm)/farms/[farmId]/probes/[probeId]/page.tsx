@@ -3,7 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getProbePlace } from "@/db/queries/logbook";
 import { ProbeCalibration } from "@/components/probes/probe-calibration";
-import { requirePageMember } from "@/lib/auth/session";
+import { requirePageMember } from "@/lib/web/session";
 
 export const metadata: Metadata = { title: "Probe calibration" };
 

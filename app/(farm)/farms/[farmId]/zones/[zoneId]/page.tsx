@@ -12,13 +12,13 @@ import type { ChartMetric } from "@/components/charts/zone-chart";
 import { ZoneCharts } from "@/components/charts/zone-charts";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
 import { StatusMark } from "@/components/ui/status-mark";
-import { requirePageMember } from "@/lib/auth/session";
-import { overridesFromRuleRows, resolveRules } from "@/lib/rules/params";
-import { getSpecies } from "@/lib/species";
-import { feedingsKey, zoneSeriesKey } from "@/lib/swr-keys";
-import { seriesQuery } from "@/lib/validation/series";
-import { KIND_WORDS } from "@/lib/alerts/words";
-import { timeZoneOrUtc } from "@/lib/validation/fields";
+import { requirePageMember } from "@/lib/web/session";
+import { overridesFromRuleRows, resolveRules } from "@/lib/domain/rules/params";
+import { getSpecies } from "@/lib/domain/species";
+import { feedingsKey, zoneSeriesKey } from "@/lib/client/swr-keys";
+import { seriesQuery } from "@/lib/domain/validation/series";
+import { KIND_WORDS } from "@/lib/domain/alert-words";
+import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 
 export const metadata: Metadata = { title: "Zone" };
 

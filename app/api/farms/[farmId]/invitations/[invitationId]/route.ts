@@ -1,8 +1,8 @@
 import { deleteInvitation } from "@/db/queries/team";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
-import { isUuid } from "@/lib/validation/team";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { AppError } from "@/lib/domain/errors";
+import { isUuid } from "@/lib/domain/validation/team";
 
 type Ctx = { params: Promise<{ farmId: string; invitationId: string }> };
 

@@ -1,8 +1,8 @@
 import { changeMemberRole, removeMember } from "@/db/queries/team";
-import { route } from "@/lib/api/route";
-import { requireMember } from "@/lib/auth/session";
-import { AppError, readJson } from "@/lib/errors";
-import { isUuid, roleChange } from "@/lib/validation/team";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { AppError, readJson } from "@/lib/web/errors";
+import { isUuid, roleChange } from "@/lib/domain/validation/team";
 
 type Ctx = { params: Promise<{ farmId: string; userId: string }> };
 

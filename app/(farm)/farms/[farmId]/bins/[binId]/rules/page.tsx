@@ -5,10 +5,10 @@ import { getBin } from "@/db/queries/bins";
 import { getFarm } from "@/db/queries/farms";
 import { listRulesForBin } from "@/db/queries/rules";
 import { RulesTable, type RulesData } from "@/components/rules/rules-table";
-import { KIND_WORDS } from "@/lib/alerts/notify";
-import { requirePageMember } from "@/lib/auth/session";
-import { defaultRuleTable, overridesFromRuleRows, resolveRules, type RuleRow } from "@/lib/rules";
-import { getSpecies } from "@/lib/species";
+import { KIND_WORDS } from "@/lib/server/alerts/notify";
+import { requirePageMember } from "@/lib/web/session";
+import { defaultRuleTable, overridesFromRuleRows, resolveRules, type RuleRow } from "@/lib/domain/rules";
+import { getSpecies } from "@/lib/domain/species";
 
 export const metadata: Metadata = { title: "Alert rules" };
 

@@ -1,0 +1,137 @@
+// One evaluation's view of a zone: each probe's series cleaned and tied to its probe, which
+// feedings count, and the step that turns "what the readings call for" into a transition.
+import type { Metric } from "@/lib/domain/vocabulary";
+import type { AlertLevel, ResolvedRules, RuleKind } from "./params";
+import { METRICS, type MetricKey } from "../metrics";
+import { cleanSeries, holdsFor, type Sample } from "./series";
+import type { FeedingContext, OpenAlert, ProbeContext, Transition, ZoneRuleInput } from "./types";
+import type { Words } from "./words";
+
+export const MINUTE = 60_000;
+export const HOUR = 3_600_000;
+
+export type ProbeView = {
+  probeId: number;
+  probe: ProbeContext | undefined;
+  metric: Metric;
+  /** Error codes and out-of-range values are left out here: they are probe_fault's business. */
+  s: Sample[];
+  raw: Sample[];
+  /** The silent-probe line: a gap this long breaks a run, a series this old is stale. */
+  gapMs: number;
+};
+
+export type RuleContext = {
+  input: ZoneRuleInput;
+  now: number;
+  rules: ResolvedRules;
+  w: Words;
+  /** Series whose latest reading is newer than the silent-probe line, in probe-id order. */
+  fresh: (metric: Metric) => ProbeView[];
+  all: (metric: Metric) => ProbeView[];
+  ofProbe: (probeId: number) => ProbeView[];
+  silentAfterMs: (probe: ProbeContext | undefined) => number;
+  /** The zone's latest feeding at or before t, if no older than watchMs. */
+  feedingAt: (t: number, watchMs: number, withMix?: boolean) => FeedingContext | null;
+};
+
+export function makeContext(input: ZoneRuleInput, rules: ResolvedRules, w: Words): RuleContext {
+  const { now } = input;
+  const probes = new Map(input.probes.map((p) => [p.id, p]));
+  const silent = rules.silent_probe.t;
+  const silentAfterMs = (p: ProbeContext | undefined) => Math.max(silent.missedReports * (p?.reportIntervalS ?? 60) * 1000, silent.minSilentMinutes * MINUTE);
+
+  const grouped = new Map<string, { probeId: number; metric: Metric; points: { t: number; v: number }[] }>();
+  for (const r of input.readings) {
+    const key = `${r.probeId}\u0000${r.metric}`;
+    const g = grouped.get(key) ?? { probeId: r.probeId, metric: r.metric, points: [] };
+    g.points.push(...r.points);
+    grouped.set(key, g);
+  }
+  const views: ProbeView[] = [...grouped.values()]
+    .map((g) => {
+      const probe = probes.get(g.probeId);
+      const raw = cleanSeries(g.points);
+      const s = raw.filter((p) => valueFault(g.metric, p.v) === null);
+      return { probeId: g.probeId, probe, metric: g.metric, s, raw, gapMs: silentAfterMs(probe) };
+    })
+    .filter((v) => v.raw.length > 0)
+    .sort((a, b) => a.probeId - b.probeId);
+
+  const mine = input.recentFeedings.filter((f) => Number.isFinite(f.at) && (f.zoneId == null || f.zoneId === input.zone.id)).sort((a, b) => b.at - a.at);
+
+  return {
+    input,
+    now,
+    rules,
+    w,
+    all: (metric) => views.filter((v) => v.metric === metric),
+    ofProbe: (probeId) => views.filter((v) => v.probeId === probeId).sort((a, b) => a.metric.localeCompare(b.metric)),
+    fresh: (metric) => views.filter((v) => v.metric === metric && v.s.length > 0 && v.s[v.s.length - 1]!.t > now - v.gapMs),
+    silentAfterMs,
+    feedingAt: (t, watchMs, withMix = false) => {
+      const f = mine.find((x) => x.at <= t && (!withMix || Number.isFinite(x.mixCn ?? Number.NaN)));
+      return f && t - f.at <= watchMs ? f : null;
+    },
+  };
+}
+
+export type Trigger = { id: string; level: AlertLevel; holdMs: number; holds: (i: number) => boolean };
+
+export type Judged = { view: ProbeView; held: Trigger | null; clear: boolean; i: number; last: Sample };
+
+/** Which trigger (listed worst first) has held for its duration, and whether the settle condition has. */
+export function judge(view: ProbeView, triggers: readonly Trigger[], clear: (i: number) => boolean, settleMs: number): Judged {
+  const held = triggers.find((tr) => holdsFor(view.s, tr.holds, view.gapMs, tr.holdMs)) ?? null;
+  const i = view.s.length - 1;
+  return { view, held, clear: holdsFor(view.s, clear, view.gapMs, settleMs), i, last: view.s[i]! };
+}
+
+const RANK: Record<AlertLevel, number> = { heads_up: 1, act_now: 2 };
+export const rank = (l: AlertLevel | null | undefined) => (l ? RANK[l] : 0);
+
+/** The probe to speak of: highest level, then the most extreme value, then the lowest id. */
+export function worstOf(judged: readonly Judged[], extremity: (j: Judged) => number): Judged | null {
+  let best: Judged | null = null;
+  for (const j of judged) {
+    if (!best || rank(j.held?.level) > rank(best.held?.level) || (rank(j.held?.level) === rank(best.held?.level) && extremity(j) > extremity(best))) {
+      best = j;
+    }
+  }
+  return best;
+}
+
+/** What the readings call for now, for one subject; null when there is nothing fresh to judge by. */
+export type Verdict = {
+  level: AlertLevel | null;
+  clear: boolean;
+  probeId: number | null;
+  value: number | null;
+  message: string;
+  settleMessage: string;
+  details: Record<string, unknown>;
+};
+
+export type Key = { subject: string; kind: RuleKind; zoneId: string; probeId: number | null };
+
+/**
+ * The transition from the open alert (if any) to what the readings call for. A level never drops
+ * while the alert is open: it ends only by settling, after the settle condition has held.
+ */
+export function decide(key: Key, open: OpenAlert | undefined, v: Verdict | null): Transition | null {
+  if (!v) return null;
+  const base = { subject: key.subject, kind: key.kind, zoneId: key.zoneId, probeId: v.probeId ?? key.probeId, value: v.value, details: v.details };
+  if (!open) return v.level ? { type: "raise", level: v.level, message: v.message, ...base } : null;
+  if (v.clear) return { type: "settle", level: open.level, message: v.settleMessage, ...base };
+  if (v.level === "act_now" && open.level === "heads_up") return { type: "escalate", level: "act_now", message: v.message, ...base };
+  if (open.message === v.message) return null;
+  return { type: "update", level: open.level, message: v.message, ...base };
+}
+
+/** Why a stored value cannot be a reading of `metric` (lib/domain/metrics.ts); null when it can. */
+export function valueFault(metric: MetricKey, v: number): "error-code" | "out-of-range" | null {
+  const spec = METRICS[metric];
+  if (spec.errorCodes.some((c) => Math.abs(v - c) < 1e-9)) return "error-code";
+  if (spec.range && (v < spec.range.min || v > spec.range.max)) return "out-of-range";
+  return null;
+}

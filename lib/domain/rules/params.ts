@@ -1,0 +1,227 @@
+// The numbers every alert rule runs on: defaults per kind (most from the species profile), what an
+// owner may override per farm or per bin, and the resolved table the rules read. Each parameter names
+// its source; "common practice" = a keeper's rule of thumb with no published source, "from memory" =
+// a figure recalled but not verified; V = read in the published source itself.
+import { fail, ok, type Result } from "../result";
+import { ALERT_KINDS, ALERT_LEVELS, type AlertKind, type AlertLevel } from "../vocabulary";
+import type { SpeciesProfile } from "../species";
+
+export { ALERT_KINDS, ALERT_LEVELS, type AlertLevel };
+export type RuleKind = AlertKind;
+
+export type ParamUnit = "°C" | "°C/h" | "%" | "% points" | "ppm" | "C:N" | "min" | "h" | "reports" | "count";
+
+export type ParamSpec = {
+  key: string;
+  label: string;
+  unit: ParamUnit;
+  /** Where the default comes from, in words a settings screen can show. */
+  source: string;
+  value: (species: SpeciesProfile) => number;
+};
+
+const COMMON = "common practice";
+const fixed = (n: number) => () => n;
+const mid = (a: number, b: number) => (a + b) / 2;
+
+const param = <K extends string>(key: K, label: string, unit: ParamUnit, source: string, value: (s: SpeciesProfile) => number) =>
+  ({ key, label, unit, source, value }) as const;
+
+const raise = (n: number) => param("raiseMinutes", "Held this long before raising", "min", COMMON, fixed(n));
+const settle = (n: number) => param("settleMinutes", "Held back inside the band before settling", "min", COMMON, fixed(n));
+
+export const RULE_PARAMETERS = {
+  heat: [
+    param("headsUpAboveC", "Heads-up above", "°C", "species: top of the comfortable band", (s) => s.temperatureC.comfortHigh),
+    param("actNowAtC", "Act now at or above", "°C", "species: warm stress (growth falls off)", (s) => s.temperatureC.warmStress),
+    raise(10),
+    settle(15),
+    param("deadbandC", "Must fall this far below the heads-up line to settle", "°C", COMMON, fixed(0.5)),
+    param("riseRateCPerHour", "After a feeding, heads-up on a rise faster than", "°C/h", COMMON, fixed(1)),
+    param("riseWindowMinutes", "Rise measured (least squares) over the last", "min", COMMON, fixed(60)),
+    param("riseDeadbandCPerHour", "Rise must slow this far below the limit to settle", "°C/h", COMMON, fixed(0.5)),
+    // Fresh feed can self-heat and kill the worms (Wikipedia "Vermicompost", "Climate and temperature", V);
+    // how long to watch has no published figure.
+    param("feedingWatchHours", "Watch a zone for a fast rise this long after a feeding", "h", COMMON, fixed(72)),
+  ],
+  chill: [
+    param("headsUpBelowC", "Heads-up below", "°C", "species: bottom of the comfortable band", (s) => s.temperatureC.comfortLow),
+    param("actNowBelowC", "Act now below", "°C", "species: cold stress", (s) => s.temperatureC.coldStress),
+    raise(10),
+    settle(15),
+    param("deadbandC", "Must rise this far above the heads-up line to settle", "°C", COMMON, fixed(0.5)),
+  ],
+  drying: [
+    param("headsUpBelowPct", "Heads-up below", "%", "species: bottom of the comfortable moisture band", (s) => s.moisturePct.comfortLow),
+    param("actNowBelowPct", "Act now below", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
+      mid(s.moisturePct.lethalDry, s.moisturePct.comfortLow),
+    ),
+    raise(10),
+    settle(15),
+    param("deadbandPct", "Must rise this far above the heads-up line to settle", "% points", COMMON, fixed(2)),
+    param("trendWindowHours", "Drying trend fitted (least squares) over the last", "h", COMMON, fixed(24)),
+    param("trendMinSpanHours", "Trend needs readings spanning at least", "h", COMMON, fixed(6)),
+    param("trendHorizonHours", "Heads-up when the trend crosses the band within", "h", COMMON, fixed(12)),
+    param("trendSettleHorizonHours", "Trend settles once a crossing is further off than", "h", COMMON, fixed(18)),
+  ],
+  soggy: [
+    param("headsUpAbovePct", "Heads-up above", "%", "species: top of the comfortable moisture band", (s) => s.moisturePct.comfortHigh),
+    param("actNowAbovePct", "Act now above", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
+      mid(s.moisturePct.comfortHigh, s.moisturePct.lethalWet),
+    ),
+    raise(10),
+    settle(15),
+    param("deadbandPct", "Must fall this far below the heads-up line to settle", "% points", COMMON, fixed(2)),
+  ],
+  ammonia: [
+    // No verified worm threshold exists: the "0.5 mg/g" figure is unverified and is a concentration in
+    // the bedding, not in air (attributed to Edwards 1988, not found), so these ppm lines are our own.
+    param("headsUpAtPpm", "Heads-up at or above", "ppm", `${COMMON} (no verified figure for worms)`, fixed(10)),
+    param(
+      "actNowAtPpm",
+      "Act now at or above",
+      "ppm",
+      "from memory: NIOSH REL for people, 25 ppm (NIOSH Pocket Guide to Chemical Hazards, ammonia; not verified)",
+      fixed(25),
+    ),
+    raise(10),
+    settle(15),
+    param("deadbandPpm", "Must fall this far below the heads-up line to settle", "ppm", COMMON, fixed(2)),
+    // Cornell "Compost Chemistry" (V): below ~30:1 excess nitrogen is lost as ammonia gas.
+    param("riskCnBelow", "No ammonia probe: risk when the last feeding's C:N is below", "C:N", `${COMMON}, under Cornell's ~30:1`, fixed(25)),
+    param("riskWetAbovePct", "… and its mix moisture is above", "%", "species: top of the comfortable band", (s) => s.moisturePct.comfortHigh),
+    param("riskWarmingCPerHour", "… or the zone warms faster than", "°C/h", COMMON, fixed(0.5)),
+    param("riskWarmingDeadbandCPerHour", "Warming must slow this far below that to settle", "°C/h", COMMON, fixed(0.5)),
+    param("riskWindowMinutes", "Warming measured over the last", "min", COMMON, fixed(60)),
+    param("riskWatchHours", "A feeding counts for this long", "h", COMMON, fixed(72)),
+  ],
+  silent_probe: [
+    param("missedReports", "Silent after this many missed reports", "reports", COMMON, fixed(3)),
+    param("minSilentMinutes", "… and never sooner than", "min", COMMON, fixed(10)),
+    param("settleMinutes", "Reporting again this long before settling", "min", COMMON, fixed(0)),
+  ],
+  probe_fault: [
+    raise(5),
+    settle(15),
+    param("stuckHours", "Stuck when a value does not change for", "h", COMMON, fixed(6)),
+    // A 12-bit digital probe (DS18B20 style) reads in 1/16 °C steps: from memory.
+    param("temperatureStepC", "Temperature sensor step", "°C", "from memory: 12-bit digital probe", fixed(0.0625)),
+    param("moistureStepPct", "Moisture step", "%", COMMON, fixed(0.1)),
+    param("rawStepCounts", "Raw moisture step", "count", COMMON, fixed(1)),
+  ],
+} as const satisfies Record<RuleKind, readonly ParamSpec[]>;
+
+type Specs = typeof RULE_PARAMETERS;
+export type ParamKey<K extends RuleKind> = Specs[K][number]["key"];
+export type Thresholds<K extends RuleKind> = { [P in ParamKey<K>]: number };
+export type ResolvedRule<K extends RuleKind> = { enabled: boolean; t: Thresholds<K> };
+export type ResolvedRules = { [K in RuleKind]: ResolvedRule<K> };
+
+/** What an owner changed for one kind: any numeric default, or the whole kind off. */
+export type RuleOverride = { enabled?: boolean; thresholds?: Record<string, number> };
+export type RuleOverrides = Partial<Record<RuleKind, RuleOverride>>;
+
+function defaultsFor<K extends RuleKind>(kind: K, species: SpeciesProfile): Thresholds<K> {
+  const out: Record<string, number> = {};
+  for (const p of RULE_PARAMETERS[kind]) out[p.key] = p.value(species);
+  return out as Thresholds<K>;
+}
+
+/** The defaults for one species, as a settings screen shows them. */
+export function defaultRuleTable(species: SpeciesProfile) {
+  return ALERT_KINDS.map((kind) => ({
+    kind,
+    enabled: true,
+    params: RULE_PARAMETERS[kind].map((p) => ({ key: p.key, label: p.label, unit: p.unit, source: p.source, value: p.value(species) })),
+  }));
+}
+
+// Durations, steps and deadbands below zero would turn the hysteresis inside out.
+const mustNotBeNegative = (p: ParamSpec) => ["min", "h", "reports", "count"].includes(p.unit) || /Step|[dD]eadband/.test(p.key);
+
+/** An override checked against the table: known keys, finite numbers, no negative durations or steps. */
+export function checkThresholds(kind: RuleKind, thresholds: Record<string, unknown>): Result<Record<string, number>> {
+  const specs: readonly ParamSpec[] = RULE_PARAMETERS[kind];
+  const out: Record<string, number> = {};
+  for (const [key, value] of Object.entries(thresholds)) {
+    const spec = specs.find((p) => p.key === key);
+    if (!spec) return fail(`thresholds.${key}`, `The ${kind.replace("_", " ")} rule has no setting "${key}".`);
+    if (typeof value !== "number" || !Number.isFinite(value)) return fail(`thresholds.${key}`, `${spec.label} must be a number.`);
+    if (mustNotBeNegative(spec) && value < 0) {
+      return fail(`thresholds.${key}`, `${spec.label} cannot be negative.`);
+    }
+    out[key] = value;
+  }
+  return ok(out);
+}
+
+/** Species defaults with the owner's overrides laid over them; unusable override values are ignored. */
+export function resolveRules(species: SpeciesProfile, overrides: RuleOverrides = {}): ResolvedRules {
+  const one = <K extends RuleKind>(kind: K): ResolvedRule<K> => {
+    const o = overrides[kind];
+    const t: Record<string, number> = defaultsFor(kind, species);
+    // One bad key must not throw the good ones away: each is checked on its own.
+    for (const [key, value] of Object.entries(o?.thresholds ?? {})) {
+      if (checkThresholds(kind, { [key]: value }).ok) t[key] = value;
+    }
+    return { enabled: o?.enabled ?? true, t: t as Thresholds<K> };
+  };
+  return {
+    heat: one("heat"),
+    chill: one("chill"),
+    drying: one("drying"),
+    soggy: one("soggy"),
+    ammonia: one("ammonia"),
+    silent_probe: one("silent_probe"),
+    probe_fault: one("probe_fault"),
+  };
+}
+
+export type RuleRow = { binId: string | null; kind: RuleKind; thresholds: Record<string, number>; enabled: boolean };
+
+/** Rows of the rules table for a bin's farm: the farm's rule, then the bin's own laid over it key by key. */
+export function overridesFromRuleRows(rows: readonly RuleRow[], binId: string): RuleOverrides {
+  const out: RuleOverrides = {};
+  const ordered = [...rows.filter((r) => r.binId === null), ...rows.filter((r) => r.binId === binId)];
+  for (const r of ordered) {
+    const prev = out[r.kind];
+    out[r.kind] = { enabled: r.enabled, thresholds: { ...(prev?.thresholds ?? {}), ...r.thresholds } };
+  }
+  return out;
+}
+
+const MINUTE = 60_000;
+const HOUR = 3_600_000;
+
+/** How much history the runner must load for `evaluateZone` to see every duration it needs. */
+export function lookback(rules: ResolvedRules): { readingsMs: number; feedingsMs: number; refusalsMs: number } {
+  const { heat, chill, drying, soggy, ammonia, probe_fault: fault } = rules;
+  const windowMs = Math.max(
+    drying.t.trendWindowHours * HOUR,
+    fault.t.stuckHours * HOUR,
+    heat.t.riseWindowMinutes * MINUTE,
+    ammonia.t.riskWindowMinutes * MINUTE,
+  );
+  const holdMs =
+    Math.max(
+      heat.t.raiseMinutes,
+      heat.t.settleMinutes,
+      chill.t.raiseMinutes,
+      chill.t.settleMinutes,
+      drying.t.raiseMinutes,
+      drying.t.settleMinutes,
+      soggy.t.raiseMinutes,
+      soggy.t.settleMinutes,
+      ammonia.t.raiseMinutes,
+      ammonia.t.settleMinutes,
+      fault.t.raiseMinutes,
+      fault.t.settleMinutes,
+    ) * MINUTE;
+  // An hour spare for probes whose clocks run late and for gaps at the start of a window.
+  const readingsMs = windowMs + holdMs + HOUR;
+  return {
+    readingsMs,
+    feedingsMs: Math.max(heat.t.feedingWatchHours, ammonia.t.riskWatchHours) * HOUR + readingsMs,
+    refusalsMs: Math.max(fault.t.raiseMinutes, fault.t.settleMinutes) * MINUTE + HOUR,
+  };
+}

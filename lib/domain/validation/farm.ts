@@ -1,0 +1,48 @@
+import { z } from "zod";
+import { plainText, longText, quantity, timeZone } from "./fields";
+
+import { BIN_STYLES, SPECIES_IDS as SPECIES, UNIT_SYSTEMS, ZONE_KINDS, type ZoneKind } from "../vocabulary";
+
+export { BIN_STYLES, ZONE_KINDS };
+
+const name = plainText("The name", { min: 1, max: 80, empty: "Give it a name." });
+// From a 10 cm worm tower to a 1 km windrow; under 1 cm is a typo, not a bin.
+const size = quantity("Size", "cm", { min: 1, max: 100_000 }).nullable().optional();
+const unitSystem = z.enum(UNIT_SYSTEMS, { message: "Choose metric or imperial." });
+
+// Update schemas list each field without a default: a PATCH changes only what it names.
+const farmFields = { name, unitSystem, timezone: timeZone };
+export const farmCreate = z.object({ name, unitSystem: unitSystem.default("metric"), timezone: timeZone.default("UTC") });
+export const farmUpdate = z.object(farmFields).partial();
+/** The settings form posts every field, and the farm's id as a hidden field. */
+export const farmForm = z.object({ farmId: z.string().uuid(), ...farmFields });
+
+// Zones default by count, ordered from the feeding side to the harvest side.
+export function defaultZoneKinds(count: number): ZoneKind[] {
+  if (count === 1) return ["working"];
+  if (count === 2) return ["fresh", "curing"];
+  return Array.from({ length: count }, (_, i) => (i === 0 ? "fresh" : i === count - 1 ? "curing" : "working"));
+}
+
+const binFields = {
+  name,
+  style: z.enum(BIN_STYLES, { message: `Choose one of: ${BIN_STYLES.join(", ")}.` }),
+  species: z.enum(SPECIES, { message: `Choose one of: ${SPECIES.join(", ")}.` }),
+  lengthCm: size,
+  widthCm: size,
+  depthCm: size,
+  notes: longText("Notes", { max: 2000 }).nullable().optional(),
+};
+export const binCreate = z.object({
+  ...binFields,
+  zoneCount: z.number().int().min(1, "A bin has at least 1 zone.").max(6, "A bin has at most 6 zones.").default(3),
+});
+export const binUpdate = z.object(binFields).partial();
+
+const zoneName = plainText("The zone name", { max: 40 }).nullable().optional();
+export const zoneCreate = z.object({ kind: z.enum(ZONE_KINDS), name: zoneName });
+export const zoneUpdate = z.object({
+  kind: z.enum(ZONE_KINDS).optional(),
+  name: zoneName,
+  position: z.number().int().min(1).max(6).optional(),
+});
