@@ -48,106 +48,58 @@ export type MetricSpec = {
 
 const same = (unit: string | null): UnitRule => ({ unit, scale: 1, offset: 0 });
 
+/** A numeric metric: SenML suffix, label, stored unit, what a screen prints, the units accepted
+ * and the range outside which a value is a fault. */
+const numeric = (
+  key: MetricKey,
+  suffix: string,
+  label: string,
+  unit: string | null,
+  displayUnit: string,
+  accepts: UnitRule[],
+  [min, max]: [number, number],
+  errorCodes: number[] = [],
+): MetricSpec => ({
+  key,
+  suffix,
+  label,
+  kind: "number",
+  unit,
+  displayUnit,
+  accepts,
+  range: { min, max },
+  errorCodes,
+});
+
 export const METRICS: Record<MetricKey, MetricSpec> = {
-  temperature: {
-    key: "temperature",
-    suffix: "temp",
-    label: "Temperature",
-    kind: "number",
-    unit: "Cel",
-    displayUnit: "°C",
-    accepts: [same("Cel"), same(null), { unit: "K", scale: 1, offset: -273.15 }],
-    // -55…125 °C: typical digital probe (DS18B20-style) datasheet range, from memory
-    range: { min: -55, max: 125 },
-    // 85 °C is the power-on value of a DS18B20-style sensor never told to convert, and -127 °C what
-    // common libraries return for a missing sensor (both from memory). A bed cannot reach 85 °C:
-    // thermophilic composting tops out near 71 °C (K-State Research & Extension).
-    errorCodes: [85, -127],
-  },
-  moisture: {
-    key: "moisture",
-    suffix: "moisture",
-    label: "Moisture",
-    kind: "number",
-    unit: "/100",
-    displayUnit: "%",
-    accepts: [same("/100"), same(null), { unit: "/", scale: 100, offset: 0 }],
-    // wet-basis moisture is a share of the wet mass
-    range: { min: 0, max: 100 },
-    errorCodes: [],
-  },
-  "moisture-raw": {
-    key: "moisture-raw",
-    suffix: "moisture-raw",
-    label: "Moisture (raw)",
-    kind: "number",
-    unit: null,
-    displayUnit: "",
-    accepts: [same(null), same("count")],
-    // 0…65535: the full scale of a 16-bit converter; common practice
-    range: { min: 0, max: 65_535 },
-    errorCodes: [],
-  },
-  ammonia: {
-    key: "ammonia",
-    suffix: "nh3",
-    label: "Ammonia",
-    kind: "number",
-    unit: "ppm",
-    displayUnit: "ppm",
-    accepts: [same("ppm"), same(null), { unit: "/", scale: 1e6, offset: 0 }],
-    // 0…1000 ppm: low-cost ammonia sensors span up to several hundred ppm (from memory)
-    range: { min: 0, max: 1000 },
-    errorCodes: [],
-  },
-  "battery-voltage": {
-    key: "battery-voltage",
-    suffix: "battery",
-    label: "Battery",
-    kind: "number",
-    unit: "V",
-    displayUnit: "V",
-    accepts: [same("V"), { unit: "mV", scale: 1 / 1000, offset: 0 }],
-    // 0…15 V covers cells, AA packs and 12 V field batteries; common practice
-    range: { min: 0, max: 15 },
-    errorCodes: [],
-  },
-  "battery-level": {
-    key: "battery-level",
-    suffix: "battery",
-    label: "Battery",
-    kind: "number",
-    unit: "%EL",
-    displayUnit: "%",
-    accepts: [same("%EL")],
-    range: { min: 0, max: 100 },
-    errorCodes: [],
-  },
-  signal: {
-    key: "signal",
-    suffix: "rssi",
-    label: "Signal",
-    kind: "number",
-    unit: "dBm",
-    displayUnit: "dBm",
-    // RFC 8798: dBm = dBW × 1 − 30, so dBW + 30 gives dBm
-    accepts: [same("dBm"), same(null), { unit: "dBW", scale: 1, offset: 30 }],
-    // -150…0 dBm: below the best long-range radio sensitivity, up to a radio beside the gateway; common practice
-    range: { min: -150, max: 0 },
-    errorCodes: [],
-  },
-  firmware: {
-    key: "firmware",
-    suffix: "fw",
-    label: "Firmware",
-    kind: "string",
-    unit: null,
-    displayUnit: "",
-    // a text value carries no unit; one inherited from bu is ignored
-    accepts: [],
-    range: null,
-    errorCodes: [],
-  },
+  // -55…125 °C: typical digital probe (DS18B20-style) datasheet range, from memory.
+  // 85 °C is the power-on value of a DS18B20-style sensor never told to convert, and -127 °C what
+  // common libraries return for a missing sensor (both from memory). A bed cannot reach 85 °C:
+  // thermophilic composting tops out near 71 °C (K-State Research & Extension).
+  temperature: numeric(
+    "temperature",
+    "temp",
+    "Temperature",
+    "Cel",
+    "°C",
+    [same("Cel"), same(null), { unit: "K", scale: 1, offset: -273.15 }],
+    [-55, 125],
+    [85, -127],
+  ),
+  // wet-basis moisture is a share of the wet mass: 0–100
+  moisture: numeric("moisture", "moisture", "Moisture", "/100", "%", [same("/100"), same(null), { unit: "/", scale: 100, offset: 0 }], [0, 100]),
+  // 0…65535: the full scale of a 16-bit converter; common practice
+  "moisture-raw": numeric("moisture-raw", "moisture-raw", "Moisture (raw)", null, "", [same(null), same("count")], [0, 65_535]),
+  // 0…1000 ppm: low-cost ammonia sensors span up to several hundred ppm (from memory)
+  ammonia: numeric("ammonia", "nh3", "Ammonia", "ppm", "ppm", [same("ppm"), same(null), { unit: "/", scale: 1e6, offset: 0 }], [0, 1000]),
+  // 0…15 V covers cells, AA packs and 12 V field batteries; common practice
+  "battery-voltage": numeric("battery-voltage", "battery", "Battery", "V", "V", [same("V"), { unit: "mV", scale: 1 / 1000, offset: 0 }], [0, 15]),
+  "battery-level": numeric("battery-level", "battery", "Battery", "%EL", "%", [same("%EL")], [0, 100]),
+  // RFC 8798: dBm = dBW × 1 − 30, so dBW + 30 gives dBm. -150…0 dBm: below the best long-range radio
+  // sensitivity, up to a radio beside the gateway; common practice
+  signal: numeric("signal", "rssi", "Signal", "dBm", "dBm", [same("dBm"), same(null), { unit: "dBW", scale: 1, offset: 30 }], [-150, 0]),
+  // a text value carries no unit; one inherited from bu is ignored
+  firmware: { key: "firmware", suffix: "fw", label: "Firmware", kind: "string", unit: null, displayUnit: "", accepts: [], range: null, errorCodes: [] },
 };
 
 const MAX_TEXT = 64;

@@ -35,6 +35,17 @@ const EPIGEIC_PH = {
   max: 9,
 };
 
+// The cold side of the two tropical species' bands.
+const TROPICAL_COLD_SIDE = {
+  lethalCold: 9, // Domínguez & Edwards 2011 citing Viljoen & Reinecke: die below 9 °C (V-2nd)
+  coldStress: 15, // from memory; Reinecke et al. 1992: winter cold is the limiting factor (V)
+  comfortLow: 20, // Loehr et al. 1985: best growth 20–25 °C (V)
+};
+
+// For a species with no moisture study of its own: E. fetida's comfortable band (Kaplan et al. 1980)
+// taken as a proxy (from memory), inside the epigeic survival limits (Domínguez & Edwards 2011, V-2nd).
+const FETIDA_MOISTURE_AS_PROXY = { lethalDry: 50, comfortLow: 70, comfortHigh: 85, lethalWet: 90 };
+
 export const speciesProfiles: Record<SpeciesId, SpeciesProfile> = {
   "eisenia-fetida": {
     id: "eisenia-fetida",
@@ -69,12 +80,7 @@ export const speciesProfiles: Record<SpeciesId, SpeciesProfile> = {
       warmStress: 28, // from memory; Domínguez & Edwards 2011: less tolerant of extremes (V-2nd)
       lethalHeat: 35, // Loehr et al. 1985: death at 35 °C (V)
     },
-    moisturePct: {
-      lethalDry: 50, // Domínguez & Edwards 2011, epigeics (V-2nd)
-      comfortLow: 70, // from memory: E. fetida band (Kaplan 1980) taken as a proxy
-      comfortHigh: 85, // from memory: as above
-      lethalWet: 90, // Domínguez & Edwards 2011, epigeics (V-2nd)
-    },
+    moisturePct: FETIDA_MOISTURE_AS_PROXY,
     ph: EPIGEIC_PH,
   },
   "eudrilus-eugeniae": {
@@ -82,9 +88,7 @@ export const speciesProfiles: Record<SpeciesId, SpeciesProfile> = {
     name: "Eudrilus eugeniae",
     commonName: "African nightcrawler",
     temperatureC: {
-      lethalCold: 9, // Domínguez & Edwards 2011 citing Viljoen & Reinecke: die below 9 °C (V-2nd)
-      coldStress: 15, // from memory; Reinecke et al. 1992: winter cold is the limiting factor (V)
-      comfortLow: 20, // Loehr et al. 1985: best growth 20–25 °C (V)
+      ...TROPICAL_COLD_SIDE,
       comfortHigh: 25, // Loehr et al. 1985 (V); optimum ≈25 °C (Domínguez & Edwards, V-2nd)
       warmStress: 28, // from memory: a margin before the 30 °C die-off below
       // Domínguez & Edwards 2011: die above 30 °C (V-2nd); Loehr 1985 gives 35 °C (V). We take the lower.
@@ -103,19 +107,12 @@ export const speciesProfiles: Record<SpeciesId, SpeciesProfile> = {
     name: "Perionyx excavatus",
     commonName: "Indian blue worm",
     temperatureC: {
-      lethalCold: 9, // Domínguez & Edwards 2011 citing Viljoen & Reinecke: die below 9 °C (V-2nd)
-      coldStress: 15, // from memory; Reinecke et al. 1992: winter cold is the limiting factor (V)
-      comfortLow: 20, // Loehr et al. 1985: best growth 20–25 °C (V)
+      ...TROPICAL_COLD_SIDE,
       comfortHigh: 25, // Loehr et al. 1985 (V)
       warmStress: 28, // from memory
       lethalHeat: 30, // Domínguez & Edwards 2011: die above 30 °C (V-2nd); Loehr 1985: 35 °C (V)
     },
-    moisturePct: {
-      lethalDry: 50, // Domínguez & Edwards 2011, epigeics (V-2nd)
-      comfortLow: 70, // from memory: E. fetida band (Kaplan 1980) taken as a proxy
-      comfortHigh: 85, // from memory: as above
-      lethalWet: 90, // Domínguez & Edwards 2011, epigeics (V-2nd)
-    },
+    moisturePct: FETIDA_MOISTURE_AS_PROXY,
     ph: EPIGEIC_PH,
   },
 };

@@ -37,33 +37,23 @@ export const UNIT_LABELS = {
   imperial: { temperature: "°F", mass: "lb", volume: "US gal", length: "in", rate: "°F/h" },
 } as const satisfies Record<UnitSystem, Record<string, string>>;
 
+/** A conversion that applies only on an imperial farm; metric values pass as they are. */
+const onImperial =
+  (convert: (value: number) => number) =>
+  (value: number, system: UnitSystem): number =>
+    system === "metric" ? value : convert(value);
+
 /** Values entered in the farm's units, converted to what we store. */
-export function temperatureToCelsius(value: number, system: UnitSystem): number {
-  return system === "metric" ? value : fahrenheitToCelsius(value);
-}
-export function massToKg(value: number, system: UnitSystem): number {
-  return system === "metric" ? value : lbToKg(value);
-}
-export function volumeToLitres(value: number, system: UnitSystem): number {
-  return system === "metric" ? value : usGallonsToLitres(value);
-}
-export function lengthToCm(value: number, system: UnitSystem): number {
-  return system === "metric" ? value : inchesToCm(value);
-}
+export const temperatureToCelsius = onImperial(fahrenheitToCelsius);
+export const massToKg = onImperial(lbToKg);
+export const volumeToLitres = onImperial(usGallonsToLitres);
+export const lengthToCm = onImperial(inchesToCm);
 
 /** Stored values converted to the farm's units, unrounded (for charts and inputs). */
-export function temperatureForDisplay(c: number, system: UnitSystem): number {
-  return system === "metric" ? c : celsiusToFahrenheit(c);
-}
-export function massForDisplay(kg: number, system: UnitSystem): number {
-  return system === "metric" ? kg : kgToLb(kg);
-}
-export function volumeForDisplay(litres: number, system: UnitSystem): number {
-  return system === "metric" ? litres : litresToUsGallons(litres);
-}
-export function lengthForDisplay(cm: number, system: UnitSystem): number {
-  return system === "metric" ? cm : cmToInches(cm);
-}
+export const temperatureForDisplay = onImperial(celsiusToFahrenheit);
+export const massForDisplay = onImperial(kgToLb);
+export const volumeForDisplay = onImperial(litresToUsGallons);
+export const lengthForDisplay = onImperial(cmToInches);
 
 /** What a screen shows for a missing or broken number. */
 export const NO_VALUE = "—";

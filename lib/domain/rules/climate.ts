@@ -14,19 +14,32 @@ const memo = <T>(f: (i: number) => T) => {
   };
 };
 
+/** The verdict on a zone's worst probe. Every alert's details name the reading it stands on
+ * (metric, SenML unit, probe, trigger, value, time); `words` adds the rule's own. */
 function zoneVerdict(
   judged: Judged[],
   extremity: (j: Judged) => number,
+  reading: { metric: "temperature" | "moisture"; unit: "Cel" | "/100" },
   words: (worst: Judged) => { message: string; settleMessage: string; details: Record<string, unknown> },
 ): Verdict | null {
   const worst = worstOf(judged, extremity);
   if (!worst) return null;
+  const { message, settleMessage, details } = words(worst);
   return {
     level: worst.held?.level ?? null,
     clear: judged.every((j) => j.clear),
     probeId: worst.view.probeId,
     value: worst.last.v,
-    ...words(worst),
+    message,
+    settleMessage,
+    details: {
+      ...reading,
+      probeId: worst.view.probeId,
+      trigger: worst.held?.id ?? null,
+      value: worst.last.v,
+      readingAt: worst.last.t,
+      ...details,
+    },
   };
 }
 
@@ -56,6 +69,7 @@ export function heatVerdict(ctx: RuleContext): Verdict | null {
   return zoneVerdict(
     judged,
     (j) => j.last.v,
+    { metric: "temperature", unit: "Cel" },
     (worst) => {
       const { rate, feedingAt, feedingKg } = extra.get(worst)!;
       const now = withTrend(w.temp(worst.last.v), w.tempTrend(rate));
@@ -82,12 +96,6 @@ export function heatVerdict(ctx: RuleContext): Verdict | null {
         message,
         settleMessage: `${w.place}: cooled to ${w.temp(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
         details: {
-          metric: "temperature",
-          unit: "Cel",
-          probeId: worst.view.probeId,
-          trigger: worst.held?.id ?? null,
-          value: worst.last.v,
-          readingAt: worst.last.t,
           ratePerHour: rate,
           feedingAt,
           headsUpAboveC: r.headsUpAboveC,
@@ -118,6 +126,7 @@ export function chillVerdict(ctx: RuleContext): Verdict | null {
   return zoneVerdict(
     judged,
     (j) => -j.last.v,
+    { metric: "temperature", unit: "Cel" },
     (worst) => {
       const now = withTrend(w.temp(worst.last.v), w.tempTrend(rates.get(worst) ?? null));
       const message =
@@ -130,12 +139,6 @@ export function chillVerdict(ctx: RuleContext): Verdict | null {
         message,
         settleMessage: `${w.place}: warmed to ${w.temp(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
         details: {
-          metric: "temperature",
-          unit: "Cel",
-          probeId: worst.view.probeId,
-          trigger: worst.held?.id ?? null,
-          value: worst.last.v,
-          readingAt: worst.last.t,
           ratePerHour: rates.get(worst) ?? null,
           headsUpBelowC: r.headsUpBelowC,
           actNowBelowC: r.actNowBelowC,
@@ -175,6 +178,7 @@ export function dryingVerdict(ctx: RuleContext): Verdict | null {
   return zoneVerdict(
     judged,
     (j) => -j.last.v,
+    { metric: "moisture", unit: "/100" },
     (worst) => {
       const trend = trends.get(worst) ?? null;
       const now = withTrend(`moisture ${w.pct(worst.last.v)}`, moistureTrend(trend));
@@ -198,12 +202,6 @@ export function dryingVerdict(ctx: RuleContext): Verdict | null {
         message,
         settleMessage: `${w.place}: moisture back to ${w.pct(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
         details: {
-          metric: "moisture",
-          unit: "/100",
-          probeId: worst.view.probeId,
-          trigger: worst.held?.id ?? null,
-          value: worst.last.v,
-          readingAt: worst.last.t,
           ratePerHour: trend?.ratePerHour ?? null,
           predictedAt: at,
           predictedAtIso: at === null ? null : new Date(at).toISOString(),
@@ -234,6 +232,7 @@ export function soggyVerdict(ctx: RuleContext): Verdict | null {
   return zoneVerdict(
     judged,
     (j) => j.last.v,
+    { metric: "moisture", unit: "/100" },
     (worst) => {
       const now = withTrend(`moisture ${w.pct(worst.last.v)}`, moistureTrend(trends.get(worst) ?? null));
       const message =
@@ -246,12 +245,6 @@ export function soggyVerdict(ctx: RuleContext): Verdict | null {
         message,
         settleMessage: `${w.place}: moisture down to ${w.pct(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
         details: {
-          metric: "moisture",
-          unit: "/100",
-          probeId: worst.view.probeId,
-          trigger: worst.held?.id ?? null,
-          value: worst.last.v,
-          readingAt: worst.last.t,
           ratePerHour: trends.get(worst)?.ratePerHour ?? null,
           headsUpAbovePct: r.headsUpAbovePct,
           actNowAbovePct: r.actNowAbovePct,

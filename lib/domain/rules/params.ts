@@ -29,14 +29,17 @@ const param = <K extends string>(key: K, label: string, unit: ParamUnit, source:
 
 const raise = (n: number) => param("raiseMinutes", "Held this long before raising", "min", COMMON, fixed(n));
 const settle = (n: number) => param("settleMinutes", "Held back inside the band before settling", "min", COMMON, fixed(n));
+/** A band rule's lines: heads-up, act now, held 10 min before raising and 15 min inside the band
+ * (past the deadband) before settling (common practice). */
+const bandLines = <H, A, D>(headsUp: H, actNow: A, deadband: D) => [headsUp, actNow, raise(10), settle(15), deadband] as const;
 
 export const RULE_PARAMETERS = {
   heat: [
-    param("headsUpAboveC", "Heads-up above", "°C", "species: top of the comfortable band", (s) => s.temperatureC.comfortHigh),
-    param("actNowAtC", "Act now at or above", "°C", "species: warm stress (growth falls off)", (s) => s.temperatureC.warmStress),
-    raise(10),
-    settle(15),
-    param("deadbandC", "Must fall this far below the heads-up line to settle", "°C", COMMON, fixed(0.5)),
+    ...bandLines(
+      param("headsUpAboveC", "Heads-up above", "°C", "species: top of the comfortable band", (s) => s.temperatureC.comfortHigh),
+      param("actNowAtC", "Act now at or above", "°C", "species: warm stress (growth falls off)", (s) => s.temperatureC.warmStress),
+      param("deadbandC", "Must fall this far below the heads-up line to settle", "°C", COMMON, fixed(0.5)),
+    ),
     param("riseRateCPerHour", "After a feeding, heads-up on a rise faster than", "°C/h", COMMON, fixed(1)),
     param("riseWindowMinutes", "Rise measured (least squares) over the last", "min", COMMON, fixed(60)),
     param("riseDeadbandCPerHour", "Rise must slow this far below the limit to settle", "°C/h", COMMON, fixed(0.5)),
@@ -45,48 +48,48 @@ export const RULE_PARAMETERS = {
     param("feedingWatchHours", "Watch a zone for a fast rise this long after a feeding", "h", COMMON, fixed(72)),
   ],
   chill: [
-    param("headsUpBelowC", "Heads-up below", "°C", "species: bottom of the comfortable band", (s) => s.temperatureC.comfortLow),
-    param("actNowBelowC", "Act now below", "°C", "species: cold stress", (s) => s.temperatureC.coldStress),
-    raise(10),
-    settle(15),
-    param("deadbandC", "Must rise this far above the heads-up line to settle", "°C", COMMON, fixed(0.5)),
+    ...bandLines(
+      param("headsUpBelowC", "Heads-up below", "°C", "species: bottom of the comfortable band", (s) => s.temperatureC.comfortLow),
+      param("actNowBelowC", "Act now below", "°C", "species: cold stress", (s) => s.temperatureC.coldStress),
+      param("deadbandC", "Must rise this far above the heads-up line to settle", "°C", COMMON, fixed(0.5)),
+    ),
   ],
   drying: [
-    param("headsUpBelowPct", "Heads-up below", "%", "species: bottom of the comfortable moisture band", (s) => s.moisturePct.comfortLow),
-    param("actNowBelowPct", "Act now below", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
-      mid(s.moisturePct.lethalDry, s.moisturePct.comfortLow),
+    ...bandLines(
+      param("headsUpBelowPct", "Heads-up below", "%", "species: bottom of the comfortable moisture band", (s) => s.moisturePct.comfortLow),
+      param("actNowBelowPct", "Act now below", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
+        mid(s.moisturePct.lethalDry, s.moisturePct.comfortLow),
+      ),
+      param("deadbandPct", "Must rise this far above the heads-up line to settle", "% points", COMMON, fixed(2)),
     ),
-    raise(10),
-    settle(15),
-    param("deadbandPct", "Must rise this far above the heads-up line to settle", "% points", COMMON, fixed(2)),
     param("trendWindowHours", "Drying trend fitted (least squares) over the last", "h", COMMON, fixed(24)),
     param("trendMinSpanHours", "Trend needs readings spanning at least", "h", COMMON, fixed(6)),
     param("trendHorizonHours", "Heads-up when the trend crosses the band within", "h", COMMON, fixed(12)),
     param("trendSettleHorizonHours", "Trend settles once a crossing is further off than", "h", COMMON, fixed(18)),
   ],
   soggy: [
-    param("headsUpAbovePct", "Heads-up above", "%", "species: top of the comfortable moisture band", (s) => s.moisturePct.comfortHigh),
-    param("actNowAbovePct", "Act now above", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
-      mid(s.moisturePct.comfortHigh, s.moisturePct.lethalWet),
+    ...bandLines(
+      param("headsUpAbovePct", "Heads-up above", "%", "species: top of the comfortable moisture band", (s) => s.moisturePct.comfortHigh),
+      param("actNowAbovePct", "Act now above", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
+        mid(s.moisturePct.comfortHigh, s.moisturePct.lethalWet),
+      ),
+      param("deadbandPct", "Must fall this far below the heads-up line to settle", "% points", COMMON, fixed(2)),
     ),
-    raise(10),
-    settle(15),
-    param("deadbandPct", "Must fall this far below the heads-up line to settle", "% points", COMMON, fixed(2)),
   ],
   ammonia: [
     // No verified worm threshold exists: the "0.5 mg/g" figure is unverified and is a concentration in
     // the bedding, not in air (attributed to Edwards 1988, not found), so these ppm lines are our own.
-    param("headsUpAtPpm", "Heads-up at or above", "ppm", `${COMMON} (no verified figure for worms)`, fixed(10)),
-    param(
-      "actNowAtPpm",
-      "Act now at or above",
-      "ppm",
-      "from memory: NIOSH REL for people, 25 ppm (NIOSH Pocket Guide to Chemical Hazards, ammonia; not verified)",
-      fixed(25),
+    ...bandLines(
+      param("headsUpAtPpm", "Heads-up at or above", "ppm", `${COMMON} (no verified figure for worms)`, fixed(10)),
+      param(
+        "actNowAtPpm",
+        "Act now at or above",
+        "ppm",
+        "from memory: NIOSH REL for people, 25 ppm (NIOSH Pocket Guide to Chemical Hazards, ammonia; not verified)",
+        fixed(25),
+      ),
+      param("deadbandPpm", "Must fall this far below the heads-up line to settle", "ppm", COMMON, fixed(2)),
     ),
-    raise(10),
-    settle(15),
-    param("deadbandPpm", "Must fall this far below the heads-up line to settle", "ppm", COMMON, fixed(2)),
     // Cornell "Compost Chemistry" (V): below ~30:1 excess nitrogen is lost as ammonia gas.
     param("riskCnBelow", "No ammonia probe: risk when the last feeding's C:N is below", "C:N", `${COMMON}, under Cornell's ~30:1`, fixed(25)),
     param("riskWetAbovePct", "… and its mix moisture is above", "%", "species: top of the comfortable band", (s) => s.moisturePct.comfortHigh),
