@@ -1,26 +1,12 @@
-import { timingSafeEqual } from "node:crypto";
-import { eq, sql } from "drizzle-orm";
+import { and, eq, getTableColumns, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { probes, type Probe } from "@/db/schema";
-import { hashToken } from "@/lib/server/auth/tokens";
-import { AppError } from "@/lib/domain/errors";
 import { hasChanges } from "./patch";
 import type { Executor } from "./readings";
 
 export async function getProbeByCode(code: string, ex: Executor = db()): Promise<Probe | null> {
   const [p] = await ex.select().from(probes).where(eq(probes.code, code));
   return p ?? null;
-}
-
-// Compared against when the code is unknown, so a miss costs the same as a wrong token.
-const NO_HASH = Buffer.from(hashToken(""), "hex");
-
-export async function verifyProbeToken(code: string, token: string, ex: Executor = db()): Promise<Probe | null> {
-  const probe = await getProbeByCode(code, ex);
-  const given = Buffer.from(hashToken(token), "hex");
-  const stored = probe && /^[0-9a-f]{64}$/.test(probe.tokenHash) ? Buffer.from(probe.tokenHash, "hex") : NO_HASH;
-  const same = timingSafeEqual(given, stored);
-  return probe && same && !probe.archivedAt ? probe : null;
 }
 
 export type ProbeStatusUpdate = {
@@ -68,7 +54,10 @@ export async function setProbeOnline(code: string, online: boolean, ex: Executor
   await ex.update(probes).set({ online }).where(eq(probes.code, code));
 }
 
-// Probe management (owners): a token is made here, returned once, and only its hash is kept.
+// Probe management (owners): what these return never holds the token hash.
+export type ProbeRow = Omit<Probe, "tokenHash">;
+const { tokenHash: _hash, ...shown } = getTableColumns(probes);
+
 export async function listFarmProbesWithStatus(farmId: string) {
   const r = await db().execute(sql`
     select p.id, p.code, p.label, p.zone_id as "zoneId", z.kind as "zoneKind", z.position as "zonePosition",
@@ -83,45 +72,39 @@ export async function listFarmProbesWithStatus(farmId: string) {
   return r.rows;
 }
 
-export async function createProbe(input: {
+/** The new probe, or null when its code is taken (codes are unique across farms: the broker's user names). */
+export async function insertProbe(row: {
   farmId: string;
   zoneId: string | null;
   code: string;
   label: string | null;
   metrics: string[];
   reportIntervalS: number;
-  token: string;
-}) {
-  const { token, ...row } = input;
-  try {
-    const [p] = await db()
-      .insert(probes)
-      .values({ ...row, tokenHash: hashToken(token) })
-      .returning();
-    return p!;
-  } catch (e) {
-    const code = (e as { code?: string; cause?: { code?: string } }).cause?.code ?? (e as { code?: string }).code;
-    if (code === "23505") throw new AppError("conflict", "Another probe already uses that code.", "code");
-    throw e;
-  }
+  tokenHash: string;
+}): Promise<ProbeRow | null> {
+  const [p] = await db().insert(probes).values(row).onConflictDoNothing({ target: probes.code }).returning(shown);
+  return p ?? null;
 }
 
-export async function updateProbe(id: number, patch: Partial<Pick<Probe, "zoneId" | "label" | "reportIntervalS" | "archivedAt" | "metrics">>) {
+const ofFarm = (farmId: string, id: number) => and(eq(probes.id, id), eq(probes.farmId, farmId));
+
+export async function patchProbe(
+  farmId: string,
+  id: number,
+  patch: Partial<Pick<Probe, "zoneId" | "label" | "reportIntervalS" | "archivedAt" | "metrics">>,
+): Promise<ProbeRow | null> {
   if (!hasChanges(patch)) {
-    const [p] = await db().select().from(probes).where(eq(probes.id, id));
+    const [p] = await db().select(shown).from(probes).where(ofFarm(farmId, id));
     return p ?? null;
   }
-  const [p] = await db().update(probes).set(patch).where(eq(probes.id, id)).returning();
+  const [p] = await db().update(probes).set(patch).where(ofFarm(farmId, id)).returning(shown);
   return p ?? null;
 }
 
-export async function replaceProbeToken(id: number, token: string) {
-  const [p] = await db()
-    .update(probes)
-    .set({ tokenHash: hashToken(token) })
-    .where(eq(probes.id, id))
-    .returning();
-  return p ?? null;
+/** Whether the probe was there to take the new hash. */
+export async function setProbeTokenHash(farmId: string, id: number, tokenHash: string): Promise<boolean> {
+  const changed = await db().update(probes).set({ tokenHash }).where(ofFarm(farmId, id)).returning({ id: probes.id });
+  return changed.length > 0;
 }
 
 export async function zoneFarm(zoneId: string) {

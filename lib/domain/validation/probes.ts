@@ -24,3 +24,5 @@ export const probeUpdate = z.object({
   reportIntervalS: z.number().int().min(10).max(86_400).optional(),
   archived: z.boolean().optional(),
 });
+export type ProbeCreate = z.output<typeof probeCreate>;
+export type ProbeUpdate = z.output<typeof probeUpdate>;

@@ -4,7 +4,9 @@ import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/db";
 import { insertReadings } from "@/db/queries/readings";
-import { getProbeSeries, getZoneSeries, MAX_POINTS } from "@/db/queries/series";
+import { getProbeSeries } from "@/lib/server/series/probe-series";
+import { MAX_POINTS } from "@/lib/server/series/read-series";
+import { getZoneSeries } from "@/lib/server/series/zone-series";
 import { seriesQuery } from "@/lib/domain/validation/series";
 import { makeFarm, type TestFarm } from "./fixtures";
 

@@ -1,8 +1,7 @@
-import { getProbeSeries } from "@/db/queries/series";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
-import { AppError } from "@/lib/domain/errors";
 import { seriesQuery } from "@/lib/domain/validation/series";
+import { getProbeSeries } from "@/lib/server/series/probe-series";
 
 type Ctx = { params: Promise<{ probeId: string }> };
 
@@ -13,7 +12,5 @@ export const GET = route(async (req, { params }: Ctx) => {
   const id = /^\d{1,9}$/.test(probeId) ? Number(probeId) : Number.NaN;
   await requireMember({ probeId: id }, "read");
   const query = seriesQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
-  const series = await getProbeSeries(id, query);
-  if (!series) throw new AppError("not_found", "Not found.");
-  return Response.json(series);
+  return Response.json(await getProbeSeries(id, query));
 });

@@ -1,7 +1,7 @@
-import { getZoneSeries } from "@/db/queries/series";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { seriesQuery } from "@/lib/domain/validation/series";
+import { getZoneSeries } from "@/lib/server/series/zone-series";
 
 type Ctx = { params: Promise<{ zoneId: string }> };
 

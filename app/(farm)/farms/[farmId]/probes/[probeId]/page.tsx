@@ -1,9 +1,9 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { getProbePlace } from "@/db/queries/logbook";
 import { ProbeCalibration } from "@/components/probes/probe-calibration";
 import { requirePageMember } from "@/lib/web/session";
+import { probeView } from "@/lib/server/probes/probe-view";
 
 export const metadata: Metadata = { title: "Probe calibration" };
 
@@ -11,7 +11,7 @@ export default async function ProbePage({ params }: { params: Promise<{ farmId: 
   const { farmId, probeId } = await params;
   const id = Number(probeId);
   const { role } = await requirePageMember({ farmId, probeId: id }, "read");
-  const probe = await getProbePlace(id);
+  const probe = await probeView(id);
   if (!probe) notFound();
   return (
     <main className="space-y-4 p-3 pb-10">

@@ -5,7 +5,7 @@ import { SWRConfig } from "swr";
 import { getBin } from "@/db/queries/bins";
 import { listFeedings } from "@/db/queries/feedings";
 import { listRulesForBin } from "@/db/queries/rules";
-import { getZoneSeries } from "@/db/queries/series";
+import { getZoneSeries } from "@/lib/server/series/zone-series";
 import { getZoneView, listZoneAlerts, type ZoneAlert } from "@/db/queries/zone-view";
 import { formatMetric, metricStatus, METRIC_TITLES, type AmmoniaLines } from "@/components/charts/metric-words";
 import type { ChartMetric } from "@/components/charts/zone-chart";
