@@ -1,7 +1,6 @@
 import { and, asc, eq, inArray, isNull, or } from "drizzle-orm";
 import { db } from "@/db";
 import { ingredients } from "@/db/schema";
-import { AppError } from "@/lib/domain/errors";
 
 // The shared library plus the farm's own, the farm's first.
 export async function listIngredients(farmId: string) {
@@ -21,16 +20,12 @@ export async function usableIngredientIds(farmId: string, ids: string[]): Promis
   return new Set(rows.map((r) => r.id));
 }
 
-export async function addIngredient(farmId: string, input: Omit<typeof ingredients.$inferInsert, "farmId" | "id" | "createdAt">) {
-  try {
-    const [row] = await db()
-      .insert(ingredients)
-      .values({ ...input, farmId })
-      .returning();
-    return row!;
-  } catch (e) {
-    const code = (e as { code?: string; cause?: { code?: string } }).cause?.code ?? (e as { code?: string }).code;
-    if (code === "23505") throw new AppError("conflict", "Your farm already has an ingredient with that name.", "name");
-    throw e;
-  }
+/** The new row, or null when the farm already has one with that key. */
+export async function insertIngredient(farmId: string, input: Omit<typeof ingredients.$inferInsert, "farmId" | "id" | "createdAt">) {
+  const [row] = await db()
+    .insert(ingredients)
+    .values({ ...input, farmId })
+    .onConflictDoNothing({ target: [ingredients.farmId, ingredients.key] })
+    .returning();
+  return row ?? null;
 }

@@ -1,8 +1,7 @@
 import { and, asc, eq, gt, isNull, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { db } from "@/db";
-import { farms, invitations, memberships, users, type Role } from "@/db/schema";
-import { AppError } from "@/lib/domain/errors";
+import { farms, invitations, memberships, users, type Membership, type Role } from "@/db/schema";
 
 export async function listTeam(farmId: string) {
   return (
@@ -74,37 +73,51 @@ export async function getInvitationByTokenHash(tokenHash: string) {
 }
 
 type Joiner = { userId: string } | { newUser: { email: string; name: string; passwordHash: string; timezone: string } };
+type Joined = { farmId: string; userId: string; role: Role };
 
-// Takes the invitation (compare-and-set on accepted_at, so a link works once even when tapped twice)
-// and adds the membership in the same transaction. Null when the link is used, expired or unknown.
-export async function acceptInvitation(tokenHash: string, joiner: Joiner, now = new Date()) {
-  return db().transaction(async (tx) => {
-    const [inv] = await tx
-      .update(invitations)
-      .set({ acceptedAt: now })
-      .where(and(eq(invitations.tokenHash, tokenHash), isNull(invitations.acceptedAt), gt(invitations.expiresAt, now)))
-      .returning();
-    if (!inv) return null;
-    let userId: string;
-    if ("userId" in joiner) userId = joiner.userId;
-    else {
-      const [u] = await tx.insert(users).values(joiner.newUser).onConflictDoNothing().returning({ id: users.id });
-      if (!u) throw new AppError("conflict", "An account with this e-mail already exists; sign in to join.");
-      userId = u.id;
-    }
-    // Someone already on the team keeps the role they have.
-    await tx.insert(memberships).values({ userId, farmId: inv.farmId, role: inv.role }).onConflictDoNothing();
-    const [m] = await tx
-      .select({ role: memberships.role })
-      .from(memberships)
-      .where(and(eq(memberships.userId, userId), eq(memberships.farmId, inv.farmId)));
-    return { farmId: inv.farmId, userId, role: m!.role };
-  });
+// Thrown inside the transaction only to roll back the taken invitation.
+class EmailTaken extends Error {}
+
+/**
+ * Takes the invitation (compare-and-set on accepted_at, so a link works once even when tapped twice)
+ * and adds the membership in the same transaction. `gone` when the link is used, expired or unknown;
+ * `email_taken` when a new account's address was signed up meanwhile (nothing is kept then).
+ */
+export async function acceptInvitation(tokenHash: string, joiner: Joiner, now = new Date()): Promise<{ joined: Joined } | { refused: "gone" | "email_taken" }> {
+  try {
+    return await db().transaction(async (tx) => {
+      const [inv] = await tx
+        .update(invitations)
+        .set({ acceptedAt: now })
+        .where(and(eq(invitations.tokenHash, tokenHash), isNull(invitations.acceptedAt), gt(invitations.expiresAt, now)))
+        .returning();
+      if (!inv) return { refused: "gone" as const };
+      let userId: string;
+      if ("userId" in joiner) userId = joiner.userId;
+      else {
+        const [u] = await tx.insert(users).values(joiner.newUser).onConflictDoNothing().returning({ id: users.id });
+        if (!u) throw new EmailTaken();
+        userId = u.id;
+      }
+      // Someone already on the team keeps the role they have.
+      await tx.insert(memberships).values({ userId, farmId: inv.farmId, role: inv.role }).onConflictDoNothing();
+      const [m] = await tx
+        .select({ role: memberships.role })
+        .from(memberships)
+        .where(and(eq(memberships.userId, userId), eq(memberships.farmId, inv.farmId)));
+      return { joined: { farmId: inv.farmId, userId, role: m!.role } };
+    });
+  } catch (e) {
+    if (e instanceof EmailTaken) return { refused: "email_taken" };
+    throw e;
+  }
 }
 
+export type MembershipChange = { changed: Membership | null } | { refused: "not_member" | "last_owner" };
+
 // Role changes and removals lock the farm's owner rows first, so two owners demoting each other at
-// the same moment cannot leave the farm with none.
-async function changeMembership(farmId: string, userId: string, next: Role | null) {
+// the same moment cannot leave the farm with none: the guard must run under that lock, so it is here.
+async function changeMembership(farmId: string, userId: string, next: Role | null): Promise<MembershipChange> {
   return db().transaction(async (tx) => {
     const owners = await tx
       .select({ userId: memberships.userId })
@@ -115,24 +128,19 @@ async function changeMembership(farmId: string, userId: string, next: Role | nul
       .select({ role: memberships.role })
       .from(memberships)
       .where(and(eq(memberships.farmId, farmId), eq(memberships.userId, userId)));
-    if (!cur) throw new AppError("not_found", "That person is not on this farm's team.");
-    if (cur.role === "owner" && next !== "owner" && owners.length <= 1) {
-      throw new AppError(
-        "conflict",
-        next === null
-          ? "This is the farm's last owner and cannot be removed. Make someone else an owner first."
-          : "This is the farm's last owner and must stay an owner. Make someone else an owner first.",
-      );
-    }
+    if (!cur) return { refused: "not_member" as const };
+    if (cur.role === "owner" && next !== "owner" && owners.length <= 1) return { refused: "last_owner" as const };
     const where = and(eq(memberships.farmId, farmId), eq(memberships.userId, userId));
     if (next === null) {
       await tx.delete(memberships).where(where);
-      return null;
+      return { changed: null };
     }
     const [row] = await tx.update(memberships).set({ role: next }).where(where).returning();
-    return row!;
+    return { changed: row! };
   });
 }
 
-export const changeMemberRole = (farmId: string, userId: string, role: Role) => changeMembership(farmId, userId, role);
-export const removeMember = (farmId: string, userId: string) => changeMembership(farmId, userId, null);
+/** The member's new row, or why not: not on the team, or the farm's last owner. */
+export const updateMemberRole = (farmId: string, userId: string, role: Role) => changeMembership(farmId, userId, role);
+/** `changed: null` once removed, or why not: not on the team, or the farm's last owner. */
+export const deleteMember = (farmId: string, userId: string) => changeMembership(farmId, userId, null);

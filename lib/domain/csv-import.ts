@@ -101,6 +101,29 @@ export function checkMapping(header: string[], mapping: ImportMapping): { field:
   return null;
 }
 
+export type FileRefusal = { code: "invalid" | "too_large"; field: string; message: string };
+
+/** An uploaded file read as a table, or why it cannot be imported at all: empty, too many rows,
+ * or a mapped column its header lacks. Bad rows are not refusals; mapRows reports them. */
+export function readImportFile(bytes: Uint8Array, mapping: ImportMapping): { ok: true; table: CsvTable } | { ok: false; refusal: FileRefusal } {
+  const table = readCsv(decodeFile(bytes));
+  const refuse = (code: FileRefusal["code"], field: string, message: string) => ({ ok: false as const, refusal: { code, field, message } });
+  if (table.header.length === 0) return refuse("invalid", "file", "The file is empty: it needs a header line and rows.");
+  if (table.rows.length > MAX_IMPORT_ROWS)
+    return refuse("too_large", "file", `The file has ${table.rows.length} rows; import at most ${MAX_IMPORT_ROWS} at a time.`);
+  const wrong = checkMapping(table.header, mapping);
+  return wrong ? refuse("invalid", wrong.field, wrong.message) : { ok: true, table };
+}
+
+/** The mapping as stored: only the choices made (undefined fields dropped). */
+export const plainMapping = (m: ImportMapping) => JSON.parse(JSON.stringify(m)) as Record<string, string>;
+
+/** Two stored mappings compared key by key, so the same choices match whatever order they were sent in. */
+export function sameMapping(a: Record<string, string>, b: Record<string, string>): boolean {
+  const keys = new Set([...Object.keys(a), ...Object.keys(b)]);
+  return [...keys].every((k) => a[k] === b[k]);
+}
+
 /** Text of an uploaded file: UTF-8, or Windows-1252 as older logger software writes it. */
 export function decodeFile(bytes: Uint8Array): string {
   try {

@@ -14,3 +14,4 @@ export const ingredientCreate = z
     source: plainText("The source", { min: 1, max: 300, empty: "Say where the values come from (a lab report, a table, your own measurement)." }),
   })
   .refine((v) => v.nitrogenPct == null || v.carbonPct != null || v.cn != null, { message: "With %N give %C or C:N.", path: ["carbonPct"] });
+export type IngredientCreate = z.infer<typeof ingredientCreate>;

@@ -17,6 +17,7 @@ export const personName = plainText("Your name", { min: 1, max: 80, empty: "Tell
 
 export const invitationCreate = z.object({ email, role });
 export const roleChange = z.object({ role });
+export type InvitationCreate = z.infer<typeof invitationCreate>;
 
 // Forms post the farm and subject ids as hidden fields.
 const id = z.string().uuid("Unknown id.");
@@ -27,6 +28,7 @@ export const removeForm = z.object({ farmId: id, userId: id });
 
 const token = z.string().min(16).max(200);
 export const joinNewForm = z.object({ token, name: personName, password: newPassword });
+export type JoinNew = z.infer<typeof joinNewForm>;
 export const joinMeForm = z.object({ token });
 export const forgotForm = z.object({ email });
 export const resetForm = z.object({ token, password: newPassword });

@@ -2,7 +2,8 @@
 
 import { redirect } from "next/navigation";
 import { requireUser } from "@/lib/web/session";
-import { joinAsUser, joinWithNewAccount } from "@/lib/server/team/invitations";
+import { joinAsUser } from "@/lib/server/team/join-as-user";
+import { joinWithNewAccount } from "@/lib/server/team/join-with-new-account";
 import { joinMeForm, joinNewForm } from "@/lib/domain/validation/team";
 import { validatedAction, type ActionState } from "@/lib/web/validated-action";
 
@@ -13,7 +14,7 @@ const asNew = validatedAction(joinNewForm, async ({ token, name, password }) => 
 });
 
 const asMe = validatedAction(joinMeForm, async ({ token }) => {
-  const j = await joinAsUser(token, await requireUser());
+  const j = await joinAsUser({ userId: await requireUser() }, token);
   return `/farms/${j.farmId}`;
 });
 

@@ -2,9 +2,9 @@ import type { Metadata } from "next";
 import { DeadLink } from "@/components/auth/dead-link";
 import { SignOutButton } from "@/components/auth/sign-out-button";
 import { JoinAsMeForm, JoinForm } from "@/components/team/join-form";
-import { getUser } from "@/db/queries/users";
 import { currentUserId } from "@/lib/web/session";
-import { INVITATION_REFUSALS, lookupInvitation } from "@/lib/server/team/invitations";
+import { INVITATION_REFUSALS } from "@/lib/server/team/invitation-link";
+import { joinView } from "@/lib/server/team/join-view";
 import { ROLE_WORDS } from "@/lib/domain/team-words";
 import { joinMe, joinNew } from "./actions";
 
@@ -15,12 +15,11 @@ const TITLES = { unknown: "This link does not work", used: "Already used", expir
 
 export default async function JoinPage({ params }: { params: Promise<{ token: string }> }) {
   const { token } = await params;
-  const inv = await lookupInvitation(token);
+  const inv = await joinView(token, await currentUserId());
   if (inv.state !== "open") {
     return <DeadLink title={TITLES[inv.state]} message={INVITATION_REFUSALS[inv.state]} next={{ href: "/sign-in", label: "Go to sign in" }} />;
   }
-  const userId = await currentUserId();
-  const me = userId ? await getUser(userId) : null;
+  const myEmail = inv.signedInAs;
   const role = ROLE_WORDS[inv.role];
   return (
     <>
@@ -35,13 +34,13 @@ export default async function JoinPage({ params }: { params: Promise<{ token: st
         {inv.invitedByName ?? "An owner"} invited <strong className="break-all">{inv.email}</strong> as {inv.role === "owner" ? "an" : "a"}{" "}
         <strong>{role.name.toLowerCase()}</strong> ({role.does}).
       </p>
-      {me && me.email.toLowerCase() === inv.email.toLowerCase() ? (
+      {myEmail && myEmail.toLowerCase() === inv.email.toLowerCase() ? (
         <JoinAsMeForm token={token} farmName={inv.farmName} action={joinMe} />
-      ) : me ? (
+      ) : myEmail ? (
         <div role="alert" className="space-y-3 rounded-2xl bg-white p-5 ring-1 ring-soil-300">
           <p>
-            You are signed in as <strong className="break-all">{me.email}</strong>, but this invitation is for{" "}
-            <strong className="break-all">{inv.email}</strong>. Sign out, then open the link again.
+            You are signed in as <strong className="break-all">{myEmail}</strong>, but this invitation is for <strong className="break-all">{inv.email}</strong>
+            . Sign out, then open the link again.
           </p>
           <div className="rounded-xl bg-soil-800">
             <SignOutButton />

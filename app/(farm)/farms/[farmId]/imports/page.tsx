@@ -1,19 +1,18 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
-import { getFarm } from "@/db/queries/farms";
-import { listFarmProbes, listImports } from "@/db/queries/imports";
 import { BadRows, ImportForm } from "@/components/imports/import-form";
 import { requirePageMember } from "@/lib/web/session";
+import { importsView } from "@/lib/server/imports/imports-view";
 import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 
 export const metadata: Metadata = { title: "Import logger files" };
 
 export default async function ImportsPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
-  const { role } = await requirePageMember({ farmId }, "read");
-  const farm = await getFarm(farmId);
-  if (!farm) notFound();
-  const [history, probes] = await Promise.all([listImports(farmId), role === "owner" ? listFarmProbes(farmId) : Promise.resolve([])]);
+  const who = await requirePageMember({ farmId }, "read");
+  const view = await importsView(who);
+  if (!view) notFound();
+  const { farm, history, probes } = view;
   return (
     <main className="space-y-6 p-4">
       <div>
@@ -26,8 +25,8 @@ export default async function ImportsPage({ params }: { params: Promise<{ farmId
           so importing a file twice adds nothing.
         </p>
       </div>
-      {role === "owner" ? (
-        <ImportForm farmId={farmId} probes={probes.map((p) => ({ code: p.code, label: p.label }))} timezone={timeZoneOrUtc(farm.timezone)} />
+      {who.role === "owner" ? (
+        <ImportForm farmId={farmId} probes={probes} timezone={timeZoneOrUtc(farm.timezone)} />
       ) : (
         <p className="rounded-xl bg-soil-100 p-4">Only an owner of {farm.name} can import files. You can read the history below.</p>
       )}

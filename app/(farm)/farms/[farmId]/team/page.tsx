@@ -1,11 +1,10 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
-import { getFarm } from "@/db/queries/farms";
-import { listPendingInvitations, listTeam } from "@/db/queries/team";
 import { InviteForm } from "@/components/team/invite-form";
 import { MemberList } from "@/components/team/member-card";
 import { PendingInvitations } from "@/components/team/pending-invitations";
 import { requirePageMember } from "@/lib/web/session";
+import { teamView } from "@/lib/server/team/team-view";
 import { changeRole, invite, remove, revoke } from "./actions";
 import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 
@@ -14,10 +13,10 @@ export const metadata: Metadata = { title: "Team" };
 export default async function TeamPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
   const who = await requirePageMember({ farmId }, "read");
-  const farm = await getFarm(farmId);
-  if (!farm) notFound();
+  const view = await teamView(who);
+  if (!view) notFound();
+  const { farm, members: team, invitations: pending } = view;
   const owner = who.role === "owner";
-  const [team, pending] = await Promise.all([listTeam(farmId), owner ? listPendingInvitations(farmId) : Promise.resolve([])]);
   const day = (d: Date) => d.toLocaleDateString("en-GB", { timeZone: timeZoneOrUtc(farm.timezone), day: "numeric", month: "short", year: "numeric" });
   return (
     <main className="space-y-6 p-4">
@@ -39,7 +38,7 @@ export default async function TeamPage({ params }: { params: Promise<{ farmId: s
             role: m.role,
             joined: day(m.joinedAt),
             isYou: m.userId === who.userId,
-            ...(owner ? { email: m.email } : {}),
+            email: m.email,
           }))}
           manage={owner ? { farmId, changeRole, remove } : undefined}
         />

@@ -1,7 +1,8 @@
-import { importCsv, listImports } from "@/db/queries/imports";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
-import { readImportUpload } from "@/lib/domain/validation/imports";
+import { readImportUpload } from "@/lib/web/import-body";
+import { importCsv } from "@/lib/server/imports/import-csv";
+import { listImports } from "@/lib/server/imports/list-imports";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 
@@ -9,7 +10,7 @@ type Ctx = { params: Promise<{ farmId: string }> };
 export const GET = route(async (_req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "read");
-  return Response.json({ imports: await listImports(who.farmId) });
+  return Response.json(await listImports(who));
 });
 
 // POST /api/farms/[farmId]/imports — owners import a logger CSV with a column mapping; 201 with
@@ -17,7 +18,6 @@ export const GET = route(async (_req, { params }: Ctx) => {
 export const POST = route(async (req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "manage");
-  const upload = await readImportUpload(req);
-  const outcome = await importCsv({ farmId: who.farmId, userId: who.userId, ...upload });
+  const outcome = await importCsv(who, await readImportUpload(req));
   return Response.json(outcome, { status: outcome.duplicate ? 200 : 201 });
 });

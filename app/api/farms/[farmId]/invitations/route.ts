@@ -1,8 +1,8 @@
-import { listPendingInvitations } from "@/db/queries/team";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
-import { inviteToFarm } from "@/lib/server/team/invitations";
+import { inviteToFarm } from "@/lib/server/team/invite";
+import { listInvitations } from "@/lib/server/team/list-invitations";
 import { invitationCreate } from "@/lib/domain/validation/team";
 
 type Ctx = { params: Promise<{ farmId: string }> };
@@ -11,7 +11,7 @@ type Ctx = { params: Promise<{ farmId: string }> };
 export const GET = route(async (_req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "manage");
-  return Response.json({ invitations: await listPendingInvitations(who.farmId) });
+  return Response.json(await listInvitations(who));
 });
 
 // POST /api/farms/[farmId]/invitations — owners invite someone by e-mail with a role; the link is mailed
@@ -19,5 +19,5 @@ export const POST = route(async (req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "manage");
   const input = invitationCreate.parse(await readJson(req));
-  return Response.json({ invitation: await inviteToFarm({ farmId: who.farmId, ...input, invitedBy: who.userId }) }, { status: 201 });
+  return Response.json({ invitation: await inviteToFarm(who, input) }, { status: 201 });
 });

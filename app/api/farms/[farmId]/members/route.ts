@@ -1,6 +1,6 @@
-import { listPendingInvitations, listTeam } from "@/db/queries/team";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
+import { listMembers } from "@/lib/server/team/list-members";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 
@@ -9,10 +9,5 @@ type Ctx = { params: Promise<{ farmId: string }> };
 export const GET = route(async (_req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "read");
-  const owner = who.role === "owner";
-  const [team, pending] = await Promise.all([listTeam(who.farmId), owner ? listPendingInvitations(who.farmId) : null]);
-  return Response.json({
-    members: team.map((m) => ({ userId: m.userId, name: m.name, role: m.role, joinedAt: m.joinedAt, ...(owner ? { email: m.email } : {}) })),
-    ...(pending ? { invitations: pending } : {}),
-  });
+  return Response.json(await listMembers(who));
 });

@@ -1,8 +1,6 @@
-import { deleteInvitation } from "@/db/queries/team";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
-import { AppError } from "@/lib/domain/errors";
-import { isUuid } from "@/lib/domain/validation/team";
+import { revokeInvitation } from "@/lib/server/team/revoke-invitation";
 
 type Ctx = { params: Promise<{ farmId: string; invitationId: string }> };
 
@@ -10,8 +8,6 @@ type Ctx = { params: Promise<{ farmId: string; invitationId: string }> };
 export const DELETE = route(async (_req, { params }: Ctx) => {
   const { farmId, invitationId } = await params;
   const who = await requireMember({ farmId }, "manage");
-  if (!isUuid(invitationId) || !(await deleteInvitation(who.farmId, invitationId))) {
-    throw new AppError("not_found", "No open invitation with that id on this farm.");
-  }
+  await revokeInvitation(who, invitationId);
   return new Response(null, { status: 204 });
 });
