@@ -1,0 +1,116 @@
+// One evaluation of a zone's rules: its recent readings, feedings, probes and open alerts read in
+// one go, the rules resolved once (the same table sizes the lookback and judges the readings), and
+// each transition applied to the alerts table and queued for the crew. The rule runner in ingest/
+// decides when; this decides what.
+import createDebug from "debug";
+import { escalateAlert, raiseAlert, settleOpenAlert, takeDueReminders, updateOpenAlert } from "@/db/queries/alerts";
+import { loadZoneRuleContext } from "@/db/queries/rule-inputs";
+import {
+  evaluateZone,
+  lookback,
+  overridesFromRuleRows,
+  resolveRules,
+  type ResolvedRules,
+  type RuleKind,
+  type RuleRow,
+  type Transition,
+} from "@/lib/domain/rules";
+import { getSpecies, speciesProfiles } from "@/lib/domain/species";
+import type { Metric } from "@/lib/domain/vocabulary";
+import { deliverHeldAlerts, notifyAlert } from "./notify";
+
+const log = createDebug("wormward:rules");
+
+/** Evaluates one zone at `at` (only `kinds`, when given) and applies what changed. */
+export async function evaluateZoneNow(
+  zoneId: string,
+  at: Date,
+  opts: { kinds?: RuleKind[]; onTransition?: (t: Transition, at: Date) => void } = {},
+): Promise<Transition[]> {
+  const { kinds } = opts;
+  // Resolved once: the same rules size the lookback and judge the readings.
+  let rules = null as ResolvedRules | null;
+  const ctx = await loadZoneRuleContext(zoneId, at, {
+    readings: !(kinds && kinds.every((k) => k === "silent_probe")),
+    windows: (species, rows, binId) => {
+      rules = resolveRules(getSpecies(species) ?? speciesProfiles["eisenia-fetida"], overridesFromRuleRows(rows as RuleRow[], binId));
+      return lookback(rules);
+    },
+  });
+  if (!ctx) return [];
+  const species = getSpecies(ctx.bin.species);
+  if (!species || !rules) {
+    log("bin %s has unknown species %s; its rules are skipped", ctx.bin.id, ctx.bin.species);
+    return [];
+  }
+  const series = new Map<string, { probeId: number; metric: Metric; points: { t: number; v: number }[] }>();
+  for (const r of ctx.readings) {
+    const key = `${r.probeId}:${r.metric}`;
+    let s = series.get(key);
+    if (!s) series.set(key, (s = { probeId: r.probeId, metric: r.metric as Metric, points: [] }));
+    s.points.push({ t: new Date(r.ts).getTime(), v: r.value });
+  }
+  const transitions = evaluateZone({
+    now: at.getTime(),
+    zone: { id: ctx.zone.id, kind: ctx.zone.kind, binName: ctx.bin.name, zoneName: ctx.zone.name },
+    species,
+    rules,
+    readings: [...series.values()],
+    recentFeedings: ctx.feedings.map((f) => ({ at: f.at.getTime(), zoneId: f.zoneId, mixMoisturePct: f.mixMoisturePct, mixCn: f.mixCn, totalKg: f.totalKg })),
+    probes: ctx.probes.map((p) => ({
+      id: p.id,
+      code: p.code,
+      label: p.label,
+      reportIntervalS: p.reportIntervalS,
+      lastSeenAt: p.lastSeenAt?.getTime() ?? null,
+      metrics: p.metrics,
+      refusals: ctx.refusals.filter((r) => r.probeId === p.id).map((r) => ({ at: r.at.getTime(), reason: r.reason })),
+    })),
+    openAlerts: ctx.openAlerts.map((a) => ({
+      subject: a.subject,
+      kind: a.kind,
+      level: a.level,
+      state: a.state,
+      raisedAt: a.raisedAt.getTime(),
+      details: a.details,
+      value: a.value,
+      message: a.message,
+    })),
+    kinds,
+    unitSystem: ctx.farm.unitSystem,
+    timeZone: ctx.farm.timezone,
+  });
+  for (const t of transitions) {
+    await apply(t, ctx.bin.farmId, ctx.bin.id, at);
+    opts.onTransition?.(t, at);
+  }
+  return transitions;
+}
+
+async function apply(t: Transition, farmId: string, binId: string, at: Date) {
+  const update = { value: t.value, message: t.message, details: t.details };
+  if (t.type === "raise") {
+    const row = await raiseAlert({ farmId, binId, zoneId: t.zoneId, probeId: t.probeId, subject: t.subject, kind: t.kind, level: t.level, ...update }, at);
+    if (row) {
+      log("raised %s %s: %s", t.level, t.subject, t.message);
+      await notifyAlert(row, "raised", at);
+    }
+  } else if (t.type === "escalate") {
+    const row = await escalateAlert(t.subject, update, at);
+    if (row) {
+      log("escalated %s: %s", t.subject, t.message);
+      await notifyAlert(row, "escalated", at);
+    }
+  } else if (t.type === "update") {
+    await updateOpenAlert(t.subject, update);
+  } else {
+    const row = await settleOpenAlert(t.subject, { value: t.value, message: t.message }, at);
+    if (row) log("settled %s", t.subject);
+  }
+}
+
+/** Reminds the crew of act-now alerts unclaimed for `afterMs`, and sends what quiet hours held back. */
+export async function remindAndRelease(afterMs: number, at: Date) {
+  for (const a of await takeDueReminders(afterMs, at)) await notifyAlert(a, "reminder", at);
+  await deliverHeldAlerts(at);
+}
