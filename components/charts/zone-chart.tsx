@@ -3,7 +3,7 @@
 import { useEffect, useMemo, useRef, useState } from "react";
 import uPlot from "uplot";
 import "uplot/dist/uPlot.min.css";
-import type { SeriesAnswer } from "@/db/queries/series";
+import type { Series } from "@/lib/client/wire";
 import { clockFormat } from "@/components/logbook/format";
 import { useSeries } from "@/lib/client/hooks/use-series";
 import { formatNumber, temperatureForDisplay, type UnitSystem } from "@/lib/domain/units";
@@ -46,7 +46,7 @@ function medianStep(t: readonly number[]): number {
 
 // One table per probe: mean (and min/max when points are aggregates), with an explicit null where
 // readings stop for more than three steps, so a silent probe shows as a gap rather than a ramp.
-function tablesOf(ans: SeriesAnswer, conv: (v: number) => number, aggregated: boolean): uPlot.AlignedData[] {
+function tablesOf(ans: Series, conv: (v: number) => number, aggregated: boolean): uPlot.AlignedData[] {
   return ans.series
     .filter((s) => s.t.length > 0)
     .map((s) => {

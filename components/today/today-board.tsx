@@ -3,7 +3,7 @@
 import Link from "next/link";
 import { useState } from "react";
 import { useSWRConfig } from "swr";
-import type { Today } from "@/db/queries/today";
+import type { TodayBin, TodayZone } from "@/lib/client/wire";
 import { Sparkline } from "@/components/charts/sparkline";
 import { StatusMark } from "@/components/ui/status-mark";
 import { KIND_WORDS } from "@/lib/domain/alert-words";
@@ -12,8 +12,8 @@ import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/
 import { todayKey } from "@/lib/client/swr-keys";
 import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/domain/units";
 
-type Zone = Today["bins"][number]["zones"][number];
-type Bin = Today["bins"][number];
+type Zone = TodayZone;
+type Bin = TodayBin;
 
 function ago(iso: string) {
   const min = Math.round((Date.now() - Date.parse(iso)) / 60_000);
@@ -125,7 +125,7 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
                     {a.binName ? ` · ${a.binName}` : ""}
                   </span>
                   <span className="text-sm font-normal">
-                    {a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(String(a.raisedAt))}`}
+                    {a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(a.raisedAt)}`}
                   </span>
                 </div>
                 <p className="text-sm">{a.message}</p>

@@ -2,15 +2,9 @@
 // sent as its ISO 8601 string (ECMAScript Date.prototype.toJSON); the types say so, and a page that
 // primes a client component's cache passes the same shape the API answers with.
 
-export type Wire<T> = T extends Date
-  ? string
-  : T extends (infer U)[]
-    ? Wire<U>[]
-    : T extends readonly (infer U)[]
-      ? readonly Wire<U>[]
-      : T extends object
-        ? { [K in keyof T]: Wire<T[K]> }
-        : T;
+// A mapped type over an array or a tuple keeps it an array or a tuple (TypeScript handbook,
+// "Mapped Types" on arrays and tuples), so only the Dates inside change.
+export type Wire<T> = T extends Date ? string : T extends object ? { [K in keyof T]: Wire<T[K]> } : T;
 
 /** The value as the API's JSON answer would carry it: dates as ISO strings, nothing else changed. */
 export function toWire<T>(value: T): Wire<T> {

@@ -1,11 +1,10 @@
 import useSWR from "swr";
-import type { FeedingEntry } from "@/db/queries/feedings";
 import { fetcher } from "@/lib/client/fetcher";
 import { feedingsKey } from "@/lib/client/swr-keys";
 
-/** A logbook feeding as the API sends it (times as ISO strings). */
-export type Feeding = Omit<FeedingEntry, "at" | "createdAt"> & { at: string; createdAt: string };
-export type FeedingItem = Feeding["items"][number];
+import type { Feeding } from "@/lib/client/wire";
+
+export type { Feeding, FeedingItem } from "@/lib/client/wire";
 
 // A bin's feedings, newest first, with items and who logged them; null binId waits.
 export function useFeedings(binId: string | null) {

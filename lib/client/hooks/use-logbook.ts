@@ -1,10 +1,10 @@
 import useSWR from "swr";
-import type { LogbookEntry } from "@/db/queries/logbook";
 import { fetcher } from "@/lib/client/fetcher";
 import { logbookKey } from "@/lib/client/swr-keys";
 
-/** A merged logbook entry as the API sends it (times as ISO strings). */
-export type LogbookItem = Omit<LogbookEntry, "at" | "createdAt"> & { at: string; createdAt: string };
+import type { LogbookItem } from "@/lib/client/wire";
+
+export type { LogbookItem } from "@/lib/client/wire";
 
 // A bin's whole logbook, newest first; null binId waits.
 export function useLogbook(binId: string | null) {

@@ -1,5 +1,5 @@
 import useSWR from "swr";
-import type { SeriesAnswer } from "@/db/queries/series";
+import type { Series } from "@/lib/client/wire";
 import type { Metric } from "@/lib/domain/vocabulary";
 import { fetcher } from "@/lib/client/fetcher";
 
@@ -20,7 +20,7 @@ export function seriesKey(target: SeriesTarget | null | undefined, window: Serie
 
 // keepPreviousData: moving the time window keeps the old line on screen until the new one arrives.
 export function useSeries(target: SeriesTarget | null | undefined, window: SeriesWindow | null | undefined) {
-  const { data, error, isLoading } = useSWR<SeriesAnswer>(seriesKey(target, window), fetcher, {
+  const { data, error, isLoading } = useSWR<Series>(seriesKey(target, window), fetcher, {
     keepPreviousData: true,
     refreshInterval: window?.to ? 0 : 60_000,
   });

@@ -1,5 +1,5 @@
 import useSWR from "swr";
-import type { Today } from "@/db/queries/today";
+import type { Today } from "@/lib/client/wire";
 import { fetcher } from "@/lib/client/fetcher";
 import { todayKey } from "@/lib/client/swr-keys";
 
