@@ -2,6 +2,7 @@
 
 import { useState } from "react";
 import { useSWRConfig } from "swr";
+import { failureOf, send } from "@/lib/client/fetcher";
 import { todayKey } from "@/lib/client/swr-keys";
 import { BIN_STYLES } from "@/lib/domain/vocabulary";
 
@@ -25,14 +26,20 @@ export function AddBinForm({ farmId }: { farmId: string }) {
     const f = new FormData(e.currentTarget);
     setBusy(true);
     setErrors({});
-    const res = await fetch(`/api/farms/${farmId}/bins`, {
-      method: "POST",
-      headers: { "content-type": "application/json" },
-      body: JSON.stringify({ name: f.get("name"), style: f.get("style"), species: f.get("species"), zoneCount: Number(f.get("zoneCount")) }),
-    });
-    const body = await res.json().catch(() => null);
-    setBusy(false);
-    if (!res.ok) return setErrors({ [body?.error?.field ?? "form"]: body?.error?.message ?? "Could not add the bin." });
+    let body: { bin: { name: string; zones: unknown[] } };
+    try {
+      body = await send("POST", `/api/farms/${farmId}/bins`, {
+        name: f.get("name"),
+        style: f.get("style"),
+        species: f.get("species"),
+        zoneCount: Number(f.get("zoneCount")),
+      });
+    } catch (err) {
+      const { field = "form", message } = failureOf(err);
+      return setErrors({ [field]: message });
+    } finally {
+      setBusy(false);
+    }
     setDone(`Added ${body.bin.name} with ${body.bin.zones.length} zone${body.bin.zones.length === 1 ? "" : "s"}.`);
     setOpen(false);
     await mutate(todayKey(farmId));

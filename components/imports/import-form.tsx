@@ -2,6 +2,7 @@
 
 import { useRouter } from "next/navigation";
 import { useEffect, useId, useRef, useState } from "react";
+import { failureOf, send } from "@/lib/client/fetcher";
 import { guessMapping, IMPORT_METRICS, readCsv, readHeader } from "@/lib/domain/csv-import";
 import { METRICS } from "@/lib/domain/metrics";
 
@@ -104,16 +105,10 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
     if (unit) form.set("unit", unit);
     form.set("timezone", tz);
     try {
-      const res = await fetch(`/api/farms/${farmId}/imports`, { method: "POST", body: form });
-      const body = (await res.json().catch(() => null)) as (Outcome & { error?: Failure }) | null;
-      if (!res.ok || !body || body.error) {
-        setFailure(body?.error ?? { message: `The import failed (${res.status}).` });
-      } else {
-        setOutcome(body);
-        router.refresh();
-      }
-    } catch {
-      setFailure({ message: "No connection to the server; nothing was imported. Try again." });
+      setOutcome(await send<Outcome>("POST", `/api/farms/${farmId}/imports`, form));
+      router.refresh();
+    } catch (err) {
+      setFailure(failureOf(err));
     } finally {
       setBusy(false);
     }

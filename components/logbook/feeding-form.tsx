@@ -1,11 +1,12 @@
 "use client";
 
 import { useEffect, useMemo, useRef, useState } from "react";
-import { useSWRConfig } from "swr";
 import { MixVerdictMark } from "@/components/logbook/mix-verdict";
 import { zoneWords } from "@/components/logbook/format";
 import { useIngredients, type IngredientRow } from "@/lib/client/hooks/use-ingredients";
 import { amendmentForMoisture, beddingForCn, checkMix, WATER, WORM_BED_TARGET, type Amendment, type MixItem } from "@/lib/domain/mix";
+import { failureOf, send } from "@/lib/client/fetcher";
+import { useBinRefresh } from "@/lib/client/revalidate";
 import { feedingsKey } from "@/lib/client/swr-keys";
 import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 
@@ -66,7 +67,7 @@ export function FeedingForm({
   system: UnitSystem;
 }) {
   const { data: lib } = useIngredients(farmId);
-  const { mutate } = useSWRConfig();
+  const refresh = useBinRefresh(binId);
   const [rows, setRows] = useState<Row[]>([]);
   const [zoneId, setZoneId] = useState<string>(defaultZoneId ?? zones.find((z) => z.kind === "fresh")?.id ?? "");
   const [notes, setNotes] = useState("");
@@ -171,25 +172,20 @@ export function FeedingForm({
       })),
     };
     try {
-      const res = await fetch(feedingsKey(binId)!, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify(body) });
-      const out = await res.json().catch(() => null);
-      if (!res.ok) {
-        const field = out?.error?.field ?? "form";
-        const message = String(out?.error?.message ?? `Could not log the feeding (${res.status}).`).replace(/^[\w.]+: /, "");
-        setErrors({ [field]: message });
-        const at = /^items\.(\d+)\.(\w+)$/.exec(field);
-        const row = at ? rows[Number(at[1])] : undefined;
-        setStatus({ ok: false, text: `Not logged. ${row ? `${row.name || `Item ${Number(at![1]) + 1}`}: ` : ""}${message}` });
-        focusNext.current = row ? `item-${row.key}-${at![2]}` : field === "zoneId" ? "feeding-zone" : null;
-        return;
-      }
+      const out = await send<{ mix: { totalMassKg: number; verdict: string } }>("POST", feedingsKey(binId)!, body);
       const where = zoneWords(zones.find((z) => z.id === zoneId));
       setStatus({ ok: true, text: `Logged ${formatMass(out.mix.totalMassKg, system, { digits: 2 })} for ${where}: ${out.mix.verdict}.` });
       setRows([]);
       setNotes("");
-      await mutate(feedingsKey(binId));
-    } catch {
-      setStatus({ ok: false, text: "Not logged: the network did not answer. Nothing was saved; try again." });
+      await refresh();
+    } catch (err) {
+      const { field = "form", message: said } = failureOf(err);
+      const message = said.replace(/^[\w.]+: /, "");
+      setErrors({ [field]: message });
+      const at = /^items\.(\d+)\.(\w+)$/.exec(field);
+      const row = at ? rows[Number(at[1])] : undefined;
+      setStatus({ ok: false, text: `Not logged. ${row ? `${row.name || `Item ${Number(at![1]) + 1}`}: ` : ""}${message}` });
+      focusNext.current = row ? `item-${row.key}-${at![2]}` : field === "zoneId" ? "feeding-zone" : null;
     } finally {
       setBusy(false);
     }

@@ -1,11 +1,10 @@
 "use client";
 
-import { useEffect, useMemo, useRef, useState } from "react";
-import { useSWRConfig } from "swr";
+import { useMemo, useState } from "react";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
-import { useFeedings } from "@/lib/client/hooks/use-feedings";
 import { useLogbook, type LogbookItem } from "@/lib/client/hooks/use-logbook";
-import { feedingsKey } from "@/lib/client/swr-keys";
+import { failureOf, send } from "@/lib/client/fetcher";
+import { useBinRefresh } from "@/lib/client/revalidate";
 import { formatMass, formatNumber, formatPercent, formatVolume, type UnitSystem } from "@/lib/domain/units";
 
 type Zone = { id: string; kind: string; name: string | null };
@@ -62,25 +61,19 @@ export function LogbookList({
   userId: string;
   isOwner: boolean;
 }) {
-  const { data, error, mutate } = useLogbook(binId);
-  const { mutate: mutateKey } = useSWRConfig();
+  const { data, error } = useLogbook(binId);
+  const refresh = useBinRefresh(binId);
   const clock = useMemo(() => clockFormat(timezone), [timezone]);
   const [status, setStatus] = useState<string>("");
   const [now] = useState(() => Date.now());
-  // The feeding form refreshes the feedings key only; follow it so a new feeding shows here too.
-  const { data: feedings } = useFeedings(binId);
-  const seen = useRef(feedings);
-  useEffect(() => {
-    if (feedings && feedings !== seen.current) void mutate();
-    seen.current = feedings;
-  }, [feedings, mutate]);
-
   async function undo(e: LogbookItem) {
-    const res = await fetch(`/api/logbook/${e.kind}/${e.id}`, { method: "DELETE" }).catch(() => null);
-    const body = await res?.json().catch(() => null);
-    setStatus(res?.ok ? `${KINDS[e.kind].word} removed.` : `Not removed: ${body?.error?.message ?? "no connection."}`);
-    await mutate();
-    if (e.kind === "feeding") await mutateKey(feedingsKey(binId));
+    try {
+      await send("DELETE", `/api/logbook/${e.kind}/${e.id}`);
+      setStatus(`${KINDS[e.kind].word} removed.`);
+    } catch (err) {
+      setStatus(`Not removed: ${failureOf(err).message}`);
+    }
+    await refresh();
   }
 
   if (!data) return <p className="text-soil-700">{error ? error.message : "Loading the logbook…"}</p>;

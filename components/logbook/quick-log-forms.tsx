@@ -1,9 +1,9 @@
 "use client";
 
 import { useState } from "react";
-import { useSWRConfig } from "swr";
 import { zoneWords } from "@/components/logbook/format";
-import { logbookKey } from "@/lib/client/swr-keys";
+import { failureOf, send } from "@/lib/client/fetcher";
+import { useBinRefresh } from "@/lib/client/revalidate";
 import { massToKg, UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/domain/units";
 
 type Zone = { id: string; kind: string; name: string | null };
@@ -19,7 +19,7 @@ const TITLES: Record<Kind, { title: string; button: string; done: string; path: 
 
 // One compact form per kind: where, an amount in the farm's units (or the note's text), optional notes.
 function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; zones: Zone[]; system: UnitSystem }) {
-  const { mutate } = useSWRConfig();
+  const refresh = useBinRefresh(binId);
   const [zoneId, setZoneId] = useState("");
   const [amount, setAmount] = useState("");
   const [notes, setNotes] = useState("");
@@ -46,23 +46,20 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
       value = kind === "watering" ? volumeToLitres(n, system) : massToKg(n, system);
     }
     setBusy(true);
-    const res = await fetch(`/api/bins/${binId}/${t.path}`, {
-      method: "POST",
-      headers: { "content-type": "application/json" },
-      body: JSON.stringify({ zoneId: zoneId || null, notes: kind === "note" ? null : notes.trim() || null, [field]: value }),
-    }).catch(() => null);
-    const body = await res?.json().catch(() => null);
-    setBusy(false);
-    if (!res?.ok) {
-      const err = body?.error as { message?: string; field?: string } | undefined;
-      setErrors({ [err?.field ?? "form"]: err?.message ?? "Could not reach the server; try again." });
-      setStatus({ ok: false, text: `Not logged: ${err?.message ?? "no connection."}` });
+    try {
+      await send("POST", `/api/bins/${binId}/${t.path}`, { zoneId: zoneId || null, notes: kind === "note" ? null : notes.trim() || null, [field]: value });
+    } catch (err) {
+      const f = failureOf(err);
+      setErrors({ [f.field ?? "form"]: f.message });
+      setStatus({ ok: false, text: `Not logged: ${f.message}` });
       return;
+    } finally {
+      setBusy(false);
     }
     setAmount("");
     setNotes("");
     setStatus({ ok: true, text: t.done });
-    await mutate(logbookKey(binId));
+    await refresh();
   }
 
   const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg";

@@ -1,28 +1,10 @@
 "use client";
 
 import { useState } from "react";
-import useSWR from "swr";
-import { fetcher } from "@/lib/client/fetcher";
-import { probeCalibrationKey } from "@/lib/client/swr-keys";
+import { failureOf, send } from "@/lib/client/fetcher";
+import { useCalibration } from "@/lib/client/hooks/use-calibration";
+import type { RecordedSample } from "@/lib/client/wire";
 import { formatNumber } from "@/lib/domain/units";
-
-type Sample = {
-  id: string;
-  at: string;
-  wetMassG: number;
-  dryMassG: number;
-  tareG: number;
-  ovenTempC: number | null;
-  rawReading: number | null;
-  moistureWbPct: number;
-  byName: string | null;
-};
-type Residual = { sampleId: string; raw: number; moisturePct: number; residual: number };
-type CalibrationView = {
-  calibration: { slope: number; intercept: number; r2: number; fittedAt: string; points: number } | null;
-  samples: Sample[];
-  residuals: Residual[];
-};
 
 const num = (s: FormDataEntryValue | null) => (typeof s !== "string" || s.trim() === "" ? undefined : Number(s.trim().replace(",", ".")));
 const FIELDS = [
@@ -35,8 +17,7 @@ const FIELDS = [
 
 // Oven-dry samples beside one probe, and the straight line from its raw count to moisture (wet basis).
 export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId: number; placed: boolean; canLog: boolean; canFit: boolean }) {
-  const key = probeCalibrationKey(probeId)!;
-  const { data, error, mutate } = useSWR<CalibrationView>(key, fetcher);
+  const { data, error, mutate } = useCalibration(probeId);
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
   const [fitStatus, setFitStatus] = useState<{ ok: boolean; text: string } | null>(null);
@@ -56,21 +37,20 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
     setErrors(errs);
     if (Object.keys(errs).length) return setStatus({ ok: false, text: "Not recorded: check the marked fields." });
     setBusy(true);
-    const res = await fetch(`/api/probes/${probeId}/samples`, {
-      method: "POST",
-      headers: { "content-type": "application/json" },
-      body: JSON.stringify(body),
-    }).catch(() => null);
-    const out = await res?.json().catch(() => null);
-    setBusy(false);
-    if (!res?.ok) {
-      setErrors({ [out?.error?.field ?? "form"]: out?.error?.message ?? "No connection." });
-      return setStatus({ ok: false, text: `Not recorded: ${out?.error?.message ?? "no connection."}` });
+    let out: RecordedSample;
+    try {
+      out = await send("POST", `/api/probes/${probeId}/samples`, body);
+    } catch (err) {
+      const { field = "form", message } = failureOf(err);
+      setErrors({ [field]: message });
+      return setStatus({ ok: false, text: `Not recorded: ${message}` });
+    } finally {
+      setBusy(false);
     }
     form.reset();
     const raw =
       out.rawFrom === "probe"
-        ? ` The probe read ${formatNumber(out.sample.rawReading, 0)} then.`
+        ? ` The probe read ${formatNumber(out.sample.rawReading!, 0)} then.`
         : out.rawFrom === "none"
           ? " No probe reading within 10 minutes: this sample cannot join a fit."
           : "";
@@ -79,20 +59,23 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
   }
 
   async function fit() {
-    const res = await fetch(`/api/probes/${probeId}/calibration`, { method: "POST" }).catch(() => null);
-    const out = await res?.json().catch(() => null);
-    setFitStatus(
-      res?.ok
-        ? { ok: true, text: `Fitted from ${out.calibration.points} samples.` }
-        : { ok: false, text: `Not fitted: ${out?.error?.message ?? "no connection."}` },
-    );
+    try {
+      const out = await send<{ calibration: { points: number } }>("POST", `/api/probes/${probeId}/calibration`);
+      setFitStatus({ ok: true, text: `Fitted from ${out.calibration.points} samples.` });
+    } catch (err) {
+      setFitStatus({ ok: false, text: `Not fitted: ${failureOf(err).message}` });
+    }
     await mutate();
   }
 
   async function clear() {
     if (!confirm("Forget this calibration? New raw readings will not be turned into moisture until you fit again.")) return;
-    const res = await fetch(`/api/probes/${probeId}/calibration`, { method: "DELETE" }).catch(() => null);
-    setFitStatus(res?.ok ? { ok: true, text: "Calibration cleared." } : { ok: false, text: "Not cleared." });
+    try {
+      await send("DELETE", `/api/probes/${probeId}/calibration`);
+      setFitStatus({ ok: true, text: "Calibration cleared." });
+    } catch (err) {
+      setFitStatus({ ok: false, text: `Not cleared: ${failureOf(err).message}` });
+    }
     await mutate();
   }
 

@@ -2,24 +2,11 @@
 
 import { useState } from "react";
 import Link from "next/link";
-import useSWR from "swr";
-import { fetcher } from "@/lib/client/fetcher";
+import { failureOf, send } from "@/lib/client/fetcher";
+import { useProbes } from "@/lib/client/hooks/use-probes";
+import { probesKey } from "@/lib/client/swr-keys";
+import type { ProbeRow, RegisteredProbe } from "@/lib/client/wire";
 
-type ProbeRow = {
-  id: number;
-  code: string;
-  label: string | null;
-  binName: string | null;
-  zoneKind: string | null;
-  zoneId: string | null;
-  lastSeenAt: string | null;
-  online: boolean;
-  batteryV: number | null;
-  signalDbm: number | null;
-  firmware: string | null;
-  reportIntervalS: number;
-  archivedAt: string | null;
-};
 type ZoneOption = { id: string; label: string };
 
 function seen(iso: string | null) {
@@ -44,8 +31,7 @@ function TokenBox({ code, token, onDone }: { code: string; token: string; onDone
 }
 
 export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones: ZoneOption[]; canManage: boolean }) {
-  const key = `/api/farms/${farmId}/probes`;
-  const { data, error, mutate } = useSWR<{ probes: ProbeRow[] }>(key, fetcher, { refreshInterval: 30_000 });
+  const { data, error, mutate } = useProbes(farmId);
   const [shown, setShown] = useState<{ code: string; token: string } | null>(null);
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [busy, setBusy] = useState(false);
@@ -55,14 +41,20 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
     const f = new FormData(e.currentTarget);
     setBusy(true);
     setErrors({});
-    const res = await fetch(key, {
-      method: "POST",
-      headers: { "content-type": "application/json" },
-      body: JSON.stringify({ code: f.get("code"), zoneId: f.get("zoneId") || null, label: f.get("label") || null, metrics: f.getAll("metrics") }),
-    });
-    const body = await res.json().catch(() => null);
-    setBusy(false);
-    if (!res.ok) return setErrors({ [body?.error?.field ?? "form"]: body?.error?.message ?? "Could not register the probe." });
+    let body: RegisteredProbe;
+    try {
+      body = await send("POST", probesKey(farmId)!, {
+        code: f.get("code"),
+        zoneId: f.get("zoneId") || null,
+        label: f.get("label") || null,
+        metrics: f.getAll("metrics"),
+      });
+    } catch (err) {
+      const { field = "form", message } = failureOf(err);
+      return setErrors({ [field]: message });
+    } finally {
+      setBusy(false);
+    }
     setShown({ code: body.probe.code, token: body.token });
     (e.target as HTMLFormElement).reset();
     await mutate();
@@ -70,13 +62,20 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
 
   async function newToken(p: ProbeRow) {
     if (!confirm(`Replace the token of ${p.code}? The probe stops reporting until it has the new one.`)) return;
-    const res = await fetch(`/api/probes/${p.id}/token`, { method: "POST" });
-    const body = await res.json().catch(() => null);
-    if (res.ok) setShown({ code: p.code, token: body.token });
+    try {
+      const { token } = await send<{ token: string }>("POST", `/api/probes/${p.id}/token`);
+      setShown({ code: p.code, token });
+    } catch (err) {
+      setErrors({ form: failureOf(err).message });
+    }
   }
 
   async function archive(p: ProbeRow, archived: boolean) {
-    await fetch(`/api/probes/${p.id}`, { method: "PATCH", headers: { "content-type": "application/json" }, body: JSON.stringify({ archived }) });
+    try {
+      await send("PATCH", `/api/probes/${p.id}`, { archived });
+    } catch (err) {
+      setErrors({ form: failureOf(err).message });
+    }
     await mutate();
   }
 

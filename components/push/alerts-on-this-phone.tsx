@@ -1,6 +1,7 @@
 "use client";
 
 import { useEffect, useState } from "react";
+import { fetcher, send } from "@/lib/client/fetcher";
 
 type State = "checking" | "unsupported" | "denied" | "off" | "on" | "busy";
 
@@ -8,13 +9,6 @@ function keyBytes(base64url: string) {
   const b64 = base64url.replace(/-/g, "+").replace(/_/g, "/");
   const raw = atob(b64 + "=".repeat((4 - (b64.length % 4)) % 4));
   return Uint8Array.from(raw, (c) => c.charCodeAt(0));
-}
-
-async function api(path: string, method: string, body?: unknown) {
-  const res = await fetch(path, { method, headers: body ? { "content-type": "application/json" } : {}, body: body ? JSON.stringify(body) : undefined });
-  const json = await res.json().catch(() => null);
-  if (!res.ok) throw new Error(json?.error?.message ?? `Request failed (${res.status})`);
-  return json;
 }
 
 // Subscribe, unsubscribe and send a test push for this browser.
@@ -41,10 +35,10 @@ export function AlertsOnThisPhone() {
     try {
       const permission = await Notification.requestPermission();
       if (permission !== "granted") return setState(permission === "denied" ? "denied" : "off");
-      const { publicKey } = await api("/api/push/key", "GET");
+      const { publicKey } = await fetcher<{ publicKey: string }>("/api/push/key");
       const reg = await navigator.serviceWorker.ready;
       const sub = await reg.pushManager.subscribe({ userVisibleOnly: true, applicationServerKey: keyBytes(publicKey) });
-      await api("/api/push/subscriptions", "POST", sub.toJSON());
+      await send("POST", "/api/push/subscriptions", sub.toJSON());
       setState("on");
       setNote("Alerts will come to this phone.");
     } catch (e) {
@@ -59,7 +53,7 @@ export function AlertsOnThisPhone() {
       const reg = await navigator.serviceWorker.ready;
       const sub = await reg.pushManager.getSubscription();
       if (sub) {
-        await api("/api/push/subscriptions", "DELETE", { endpoint: sub.endpoint });
+        await send("DELETE", "/api/push/subscriptions", { endpoint: sub.endpoint });
         await sub.unsubscribe();
       }
       setState("off");
@@ -73,7 +67,7 @@ export function AlertsOnThisPhone() {
   async function test() {
     setNote(null);
     try {
-      const r = await api("/api/push/test", "POST");
+      const r = await send<{ sent: number }>("POST", "/api/push/test");
       setNote(`Test sent to ${r.sent} phone${r.sent === 1 ? "" : "s"}.`);
     } catch (e) {
       setNote((e as Error).message);

@@ -1,8 +1,9 @@
 "use client";
 
 import { useState } from "react";
-import useSWR from "swr";
-import { fetcher, FetchError } from "@/lib/client/fetcher";
+import { failureOf, send } from "@/lib/client/fetcher";
+import { useBinRules } from "@/lib/client/hooks/use-bin-rules";
+import { binRulesKey } from "@/lib/client/swr-keys";
 import type { UnitSystem } from "@/lib/domain/units";
 import { RuleCard, type KindRow, type KindState } from "./rule-card";
 
@@ -12,8 +13,6 @@ export type RulesData = {
   overrides: Record<string, { enabled?: boolean; thresholds?: Record<string, number> } | undefined>;
   effective: Record<string, { enabled: boolean; t: Record<string, number> }>;
 };
-
-export const rulesKey = (binId: string) => `/api/bins/${binId}/rules`;
 
 type Message = { ok?: string; error?: string; fieldErrors?: Record<string, string> };
 
@@ -31,25 +30,21 @@ export function RulesTable({
   system: UnitSystem;
   canEdit: boolean;
 }) {
-  const { data, mutate } = useSWR<RulesData>(rulesKey(binId), fetcher, { fallbackData: initial });
+  const { data, mutate } = useBinRules<RulesData>(binId, initial);
   const rules = data ?? initial;
   const [messages, setMessages] = useState<Record<string, Message>>({});
   const [busy, setBusy] = useState<string | null>(null);
   const say = (kind: string, m: Message) => setMessages((all) => ({ ...all, [kind]: m }));
 
-  async function send(kind: string, method: "PUT" | "DELETE", body?: unknown): Promise<boolean> {
+  async function change(kind: string, method: "PUT" | "DELETE", body?: unknown): Promise<boolean> {
     setBusy(kind);
     try {
-      const url = method === "PUT" ? rulesKey(binId) : `${rulesKey(binId)}?kind=${encodeURIComponent(kind)}`;
-      const res = await fetch(url, { method, headers: { "content-type": "application/json" }, body: body === undefined ? undefined : JSON.stringify(body) });
-      if (!res.ok) {
-        const e = ((await res.json().catch(() => null)) as { error?: { message?: string; field?: string } } | null)?.error;
-        throw new FetchError(e?.message ?? `Request failed (${res.status})`, res.status, e?.field);
-      }
+      const url = method === "PUT" ? binRulesKey(binId)! : `${binRulesKey(binId)}?kind=${encodeURIComponent(kind)}`;
+      await send(method, url, body);
       await mutate();
       return true;
     } catch (e) {
-      const err = e instanceof FetchError ? e : new FetchError("The network dropped; nothing was changed.", 0);
+      const err = failureOf(e);
       const key = err.field?.startsWith("thresholds.") ? err.field.slice("thresholds.".length) : null;
       say(kind, key ? { error: "Check the marked field.", fieldErrors: { [key]: err.message } } : { error: err.message });
       return false;
@@ -59,10 +54,10 @@ export function RulesTable({
   }
 
   const save = async (kind: string, s: KindState) => {
-    if (await send(kind, "PUT", { kind, enabled: s.enabled, thresholds: s.thresholds })) say(kind, { ok: `Saved for this bin.` });
+    if (await change(kind, "PUT", { kind, enabled: s.enabled, thresholds: s.thresholds })) say(kind, { ok: `Saved for this bin.` });
   };
   const reset = async (kind: string) => {
-    if (await send(kind, "DELETE")) say(kind, { ok: "Back to the species defaults." });
+    if (await change(kind, "DELETE")) say(kind, { ok: "Back to the species defaults." });
   };
 
   return (

@@ -9,6 +9,7 @@ import { StatusMark } from "@/components/ui/status-mark";
 import { KIND_WORDS } from "@/lib/domain/alert-words";
 import { useToday } from "@/lib/client/hooks/use-today";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
+import { failureOf, send } from "@/lib/client/fetcher";
 import { todayKey } from "@/lib/client/swr-keys";
 import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/domain/units";
 
@@ -76,9 +77,12 @@ function ClaimButton({ alertId, farmId }: { alertId: string; farmId: string }) {
   const { mutate } = useSWRConfig();
   const [note, setNote] = useState<string | null>(null);
   async function claim() {
-    const res = await fetch(`/api/alerts/${alertId}/claim`, { method: "POST" });
-    const body = await res.json().catch(() => null);
-    setNote(res.ok ? "Claimed: you are on it." : (body?.error?.message ?? "Could not claim it."));
+    try {
+      await send("POST", `/api/alerts/${alertId}/claim`);
+      setNote("Claimed: you are on it.");
+    } catch (err) {
+      setNote(failureOf(err).message);
+    }
     await mutate(todayKey(farmId));
   }
   return (

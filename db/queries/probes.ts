@@ -58,8 +58,29 @@ export async function setProbeOnline(code: string, online: boolean, ex: Executor
 export type ProbeRow = Omit<Probe, "tokenHash">;
 const { tokenHash: _hash, ...shown } = getTableColumns(probes);
 
+/** A probe as the probes list shows it (raw SQL, so typed here). */
+export type ProbeStatusRow = {
+  id: number;
+  code: string;
+  label: string | null;
+  zoneId: string | null;
+  zoneKind: string | null;
+  zonePosition: number | null;
+  binId: string | null;
+  binName: string | null;
+  metrics: string[];
+  reportIntervalS: number;
+  lastSeenAt: Date | null;
+  online: boolean;
+  batteryV: number | null;
+  signalDbm: number | null;
+  firmware: string | null;
+  calibration: unknown;
+  archivedAt: Date | null;
+};
+
 export async function listFarmProbesWithStatus(farmId: string) {
-  const r = await db().execute(sql`
+  const r = await db().execute<ProbeStatusRow>(sql`
     select p.id, p.code, p.label, p.zone_id as "zoneId", z.kind as "zoneKind", z.position as "zonePosition",
            b.id as "binId", b.name as "binName", p.metrics, p.report_interval_s as "reportIntervalS",
            p.last_seen_at as "lastSeenAt", p.online, p.battery_v as "batteryV", p.signal_dbm as "signalDbm",

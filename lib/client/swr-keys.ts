@@ -10,3 +10,7 @@ export const zoneSeriesKey = (zoneId: string, metric: string, from?: string) => 
 };
 export const logbookKey = (binId: string | null) => (binId ? `/api/bins/${binId}/logbook` : null);
 export const probeCalibrationKey = (probeId: number | null) => (probeId != null ? `/api/probes/${probeId}/calibration` : null);
+export const probesKey = (farmId: string | null) => (farmId ? `/api/farms/${farmId}/probes` : null);
+export const binRulesKey = (binId: string | null) => (binId ? `/api/bins/${binId}/rules` : null);
+/** Matches the Today key of any farm. */
+export const isTodayKey = (key: unknown): boolean => typeof key === "string" && /^\/api\/farms\/[^/?]+\/today$/.test(key);

@@ -8,6 +8,10 @@ import type { LogbookEntry } from "@/db/queries/logbook";
 import type { SeriesAnswer } from "@/db/queries/series";
 import type { Today as TodayRow } from "@/db/queries/today";
 import type { Wire } from "@/lib/domain/wire";
+import type { addSample } from "@/lib/server/probes/add-sample";
+import type { calibrationView } from "@/lib/server/probes/calibration-view";
+import type { listProbes } from "@/lib/server/probes/list-probes";
+import type { registerProbe } from "@/lib/server/probes/register";
 
 /** A logbook feeding with its items and who logged it. */
 export type Feeding = Wire<FeedingEntry>;
@@ -22,3 +26,11 @@ export type Series = Wire<SeriesAnswer>;
 export type Today = Wire<TodayRow>;
 export type TodayBin = Today["bins"][number];
 export type TodayZone = TodayBin["zones"][number];
+/** The farm's probes with presence, battery and place. */
+export type ProbeRow = Wire<Awaited<ReturnType<typeof listProbes>>["probes"][number]>;
+/** A probe's oven-dry samples, its fitted line and each sample's residual. */
+export type CalibrationView = Wire<Awaited<ReturnType<typeof calibrationView>>>;
+/** What registering a probe answers: the probe and its one-time token. */
+export type RegisteredProbe = Wire<Awaited<ReturnType<typeof registerProbe>>>;
+/** What recording an oven-dry sample answers. */
+export type RecordedSample = Wire<Awaited<ReturnType<typeof addSample>>>;
