@@ -3,6 +3,7 @@
 import { NewPasswordField } from "@/components/auth/new-password-field";
 import { useActionState } from "react";
 import type { ActionState } from "@/lib/web/validated-action";
+import { FormAnswer, SubmitButton } from "@/components/ui/form-parts";
 
 type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 
@@ -14,12 +15,10 @@ export function ResetForm({ token, email, action }: { token: string; email: stri
       <input type="hidden" name="token" value={token} />
       <input type="email" name="username" autoComplete="username" value={email} readOnly hidden />
       <NewPasswordField label="New password" error={err} />
-      <p aria-live="polite" className="min-h-6 text-clay-700">
-        {state.error}
-      </p>
-      <button disabled={pending} className="h-14 w-full rounded-xl bg-leaf-700 text-lg font-bold text-white disabled:opacity-60">
-        {pending ? "Saving…" : "Set new password"}
-      </button>
+      <FormAnswer state={{ error: state.error }} />
+      <SubmitButton pending={pending} busy="Saving…">
+        Set new password
+      </SubmitButton>
     </form>
   );
 }

@@ -2,6 +2,7 @@
 
 import { signIn } from "next-auth/react";
 import { useState } from "react";
+import { TextField } from "@/components/ui/form-parts";
 
 export function SignInForm({ next }: { next: string }) {
   const [error, setError] = useState<string | null>(null);
@@ -25,27 +26,8 @@ export function SignInForm({ next }: { next: string }) {
 
   return (
     <form onSubmit={onSubmit} className="space-y-5 rounded-2xl bg-white p-5 shadow-sm ring-1 ring-soil-300">
-      <label className="block">
-        <span className="mb-1 block font-bold">E-mail</span>
-        <input
-          name="email"
-          type="email"
-          autoComplete="username"
-          required
-          inputMode="email"
-          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
-        />
-      </label>
-      <label className="block">
-        <span className="mb-1 block font-bold">Password</span>
-        <input
-          name="password"
-          type="password"
-          autoComplete="current-password"
-          required
-          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
-        />
-      </label>
+      <TextField label="E-mail" name="email" type="email" autoComplete="username" required inputMode="email" />
+      <TextField label="Password" name="password" type="password" autoComplete="current-password" required />
       <p aria-live="polite" className="min-h-6 text-clay-700">
         {error}
       </p>

@@ -9,6 +9,7 @@ import { failureOf, send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
 import { feedingsKey } from "@/lib/client/swr-keys";
 import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
+import { LogStatus } from "@/components/ui/form-parts";
 
 type Zone = { id: string; kind: string; name: string | null };
 type Row = {
@@ -437,20 +438,7 @@ export function FeedingForm({
       <button disabled={busy} className="min-h-14 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">
         {busy ? "Logging…" : "Log this feeding"}
       </button>
-      <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>
-        {status && (
-          <span className="inline-flex items-center gap-1">
-            <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
-              {status.ok ? (
-                <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" />
-              ) : (
-                <path d="M2 2 10 10M10 2 2 10" stroke="currentColor" strokeWidth="2" />
-              )}
-            </svg>
-            {status.text}
-          </span>
-        )}
-      </p>
+      <LogStatus status={status} />
     </form>
   );
 }

@@ -5,6 +5,7 @@ import { zoneWords } from "@/components/logbook/format";
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
 import { massToKg, UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/domain/units";
+import { LogStatus } from "@/components/ui/form-parts";
 
 type Zone = { id: string; kind: string; name: string | null };
 type Kind = "watering" | "harvest" | "note";
@@ -146,20 +147,7 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
       <button disabled={busy} className="min-h-12 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">
         {busy ? "Logging…" : t.button}
       </button>
-      <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>
-        {status && (
-          <span className="inline-flex items-center gap-1">
-            <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
-              {status.ok ? (
-                <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" />
-              ) : (
-                <path d="M2 2 10 10M10 2 2 10" stroke="currentColor" strokeWidth="2" />
-              )}
-            </svg>
-            {status.text}
-          </span>
-        )}
-      </p>
+      <LogStatus status={status} />
     </form>
   );
 }

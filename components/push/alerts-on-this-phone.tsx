@@ -29,40 +29,41 @@ export function AlertsOnThisPhone() {
     });
   }, []);
 
-  async function turnOn() {
+  /** One change of this phone's subscription: busy while it runs, the old state back if it fails. */
+  async function change(run: () => Promise<[State, string | null]>, before: State) {
     setState("busy");
     setNote(null);
     try {
+      const [after, said] = await run();
+      setState(after);
+      setNote(said);
+    } catch (e) {
+      setNote((e as Error).message);
+      setState(before);
+    }
+  }
+
+  const turnOn = () =>
+    change(async () => {
       const permission = await Notification.requestPermission();
-      if (permission !== "granted") return setState(permission === "denied" ? "denied" : "off");
+      if (permission !== "granted") return [permission === "denied" ? "denied" : "off", null];
       const { publicKey } = await fetcher<{ publicKey: string }>("/api/push/key");
       const reg = await navigator.serviceWorker.ready;
       const sub = await reg.pushManager.subscribe({ userVisibleOnly: true, applicationServerKey: keyBytes(publicKey) });
       await send("POST", "/api/push/subscriptions", sub.toJSON());
-      setState("on");
-      setNote("Alerts will come to this phone.");
-    } catch (e) {
-      setNote((e as Error).message);
-      setState("off");
-    }
-  }
+      return ["on", "Alerts will come to this phone."];
+    }, "off");
 
-  async function turnOff() {
-    setState("busy");
-    try {
+  const turnOff = () =>
+    change(async () => {
       const reg = await navigator.serviceWorker.ready;
       const sub = await reg.pushManager.getSubscription();
       if (sub) {
         await send("DELETE", "/api/push/subscriptions", { endpoint: sub.endpoint });
         await sub.unsubscribe();
       }
-      setState("off");
-      setNote("This phone will get no more alerts.");
-    } catch (e) {
-      setNote((e as Error).message);
-      setState("on");
-    }
-  }
+      return ["off", "This phone will get no more alerts."];
+    }, "on");
 
   async function test() {
     setNote(null);

@@ -6,6 +6,20 @@ import type { ActionState } from "@/lib/web/validated-action";
 type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 type Bin = { id: string; name: string; detail: string };
 
+const BinName = ({ bin }: { bin: Bin }) => (
+  <span>
+    <span className="block text-lg font-bold">{bin.name}</span>
+    <span className="block text-sm text-soil-700">{bin.detail}</span>
+  </span>
+);
+
+const Refusal = ({ error }: { error?: string }) =>
+  error ? (
+    <p aria-live="polite" className="text-sm font-bold text-clay-700">
+      {error}
+    </p>
+  ) : null;
+
 // Archiving asks once more: the bin leaves Today (its readings and logbook stay).
 function LiveBin({ farmId, bin, action }: { farmId: string; bin: Bin; action: Action }) {
   const [state, formAction, pending] = useActionState(action, {});
@@ -13,10 +27,7 @@ function LiveBin({ farmId, bin, action }: { farmId: string; bin: Bin; action: Ac
   return (
     <li className="py-3">
       <div className="flex items-center justify-between gap-2">
-        <span>
-          <span className="block text-lg font-bold">{bin.name}</span>
-          <span className="block text-sm text-soil-700">{bin.detail}</span>
-        </span>
+        <BinName bin={bin} />
         {!asking && (
           <button
             type="button"
@@ -43,11 +54,7 @@ function LiveBin({ farmId, bin, action }: { farmId: string; bin: Bin; action: Ac
           </div>
         </form>
       )}
-      {state.error && (
-        <p aria-live="polite" className="text-sm font-bold text-clay-700">
-          {state.error}
-        </p>
-      )}
+      <Refusal error={state.error} />
     </li>
   );
 }
@@ -59,10 +66,7 @@ function ArchivedBin({ farmId, bin, action }: { farmId: string; bin: Bin; action
       <form action={formAction} className="flex items-center justify-between gap-2">
         <input type="hidden" name="farmId" value={farmId} />
         <input type="hidden" name="binId" value={bin.id} />
-        <span>
-          <span className="block text-lg font-bold">{bin.name}</span>
-          <span className="block text-sm text-soil-700">{bin.detail}</span>
-        </span>
+        <BinName bin={bin} />
         <button
           disabled={pending}
           aria-label={`Bring back ${bin.name}`}
@@ -71,11 +75,7 @@ function ArchivedBin({ farmId, bin, action }: { farmId: string; bin: Bin; action
           {pending ? "…" : "Bring back"}
         </button>
       </form>
-      {state.error && (
-        <p aria-live="polite" className="text-sm font-bold text-clay-700">
-          {state.error}
-        </p>
-      )}
+      <Refusal error={state.error} />
     </li>
   );
 }

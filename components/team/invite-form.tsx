@@ -3,6 +3,7 @@
 import { useActionState } from "react";
 import { ROLE_WORDS, ROLES } from "@/lib/domain/team-words";
 import type { ActionState } from "@/lib/web/validated-action";
+import { FieldError, FormAnswer, SubmitButton, TextField } from "@/components/ui/form-parts";
 
 type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 
@@ -15,24 +16,7 @@ export function InviteForm({ farmId, action }: { farmId: string; action: Action 
         Invite someone
       </h2>
       <input type="hidden" name="farmId" value={farmId} />
-      <label className="block">
-        <span className="mb-1 block font-bold">E-mail</span>
-        <input
-          name="email"
-          type="email"
-          inputMode="email"
-          autoComplete="off"
-          required
-          aria-invalid={!!err("email")}
-          aria-describedby={err("email") ? "invite-email-error" : undefined}
-          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
-        />
-        {err("email") && (
-          <span id="invite-email-error" className="text-sm text-clay-700">
-            {err("email")}
-          </span>
-        )}
-      </label>
+      <TextField label="E-mail" error={err("email")} name="email" type="email" inputMode="email" autoComplete="off" required />
       <fieldset>
         <legend className="mb-1 font-bold">Role</legend>
         <div className="space-y-2">
@@ -49,14 +33,12 @@ export function InviteForm({ farmId, action }: { farmId: string; action: Action 
             </label>
           ))}
         </div>
-        {err("role") && <span className="text-sm text-clay-700">{err("role")}</span>}
+        <FieldError error={err("role")} />
       </fieldset>
-      <button disabled={pending} className="h-14 w-full rounded-xl bg-leaf-700 text-lg font-bold text-white disabled:opacity-60">
-        {pending ? "Sending…" : "Send invitation"}
-      </button>
-      <p aria-live="polite" className={`min-h-6 text-sm ${state.error ? "text-clay-700" : "text-leaf-700"}`}>
-        {state.error ?? state.ok}
-      </p>
+      <SubmitButton pending={pending} busy="Sending…">
+        Send invitation
+      </SubmitButton>
+      <FormAnswer state={state} small />
     </form>
   );
 }

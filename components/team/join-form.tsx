@@ -3,6 +3,7 @@
 import { NewPasswordField } from "@/components/auth/new-password-field";
 import { useActionState } from "react";
 import type { ActionState } from "@/lib/web/validated-action";
+import { FormAnswer, SubmitButton, TextField } from "@/components/ui/form-parts";
 
 type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 
@@ -13,35 +14,21 @@ export function JoinForm({ token, email, action }: { token: string; email: strin
   return (
     <form action={formAction} className="space-y-5 rounded-2xl bg-white p-5 shadow-sm ring-1 ring-soil-300">
       <input type="hidden" name="token" value={token} />
-      <label className="block">
-        <span className="mb-1 block font-bold">E-mail</span>
-        <input
-          type="email"
-          name="username"
-          autoComplete="username"
-          value={email}
-          readOnly
-          className="h-12 w-full rounded-xl border border-soil-300 bg-soil-100 px-3 text-lg text-soil-700"
-        />
-      </label>
-      <label className="block">
-        <span className="mb-1 block font-bold">Your name</span>
-        <input
-          name="name"
-          autoComplete="name"
-          required
-          aria-invalid={!!err("name")}
-          className="h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
-        />
-        {err("name") && <span className="text-sm text-clay-700">{err("name")}</span>}
-      </label>
+      <TextField
+        label="E-mail"
+        type="email"
+        name="username"
+        autoComplete="username"
+        value={email}
+        readOnly
+        className="h-12 w-full rounded-xl border border-soil-300 bg-soil-100 px-3 text-lg text-soil-700"
+      />
+      <TextField label="Your name" error={err("name")} name="name" autoComplete="name" required />
       <NewPasswordField label="Password" error={err("password")} />
-      <p aria-live="polite" className="min-h-6 text-clay-700">
-        {state.error}
-      </p>
-      <button disabled={pending} className="h-14 w-full rounded-xl bg-leaf-700 text-lg font-bold text-white disabled:opacity-60">
-        {pending ? "Joining…" : "Join the team"}
-      </button>
+      <FormAnswer state={{ error: state.error }} />
+      <SubmitButton pending={pending} busy="Joining…">
+        Join the team
+      </SubmitButton>
     </form>
   );
 }
@@ -52,12 +39,8 @@ export function JoinAsMeForm({ token, farmName, action }: { token: string; farmN
   return (
     <form action={formAction} className="space-y-4 rounded-2xl bg-white p-5 ring-1 ring-soil-300">
       <input type="hidden" name="token" value={token} />
-      <button disabled={pending} className="h-14 w-full rounded-xl bg-leaf-700 text-lg font-bold text-white disabled:opacity-60">
-        {pending ? "Joining…" : `Join ${farmName}`}
-      </button>
-      <p aria-live="polite" className="min-h-6 text-clay-700">
-        {state.error}
-      </p>
+      <SubmitButton pending={pending} busy="Joining…">{`Join ${farmName}`}</SubmitButton>
+      <FormAnswer state={{ error: state.error }} />
     </form>
   );
 }

@@ -24,6 +24,20 @@ function ago(iso: string) {
   return h < 48 ? `${h} h ago` : `${Math.round(h / 24)} days ago`;
 }
 
+type Spark = { points: Zone["spark"]["temperature"]; band: [number, number]; color: string };
+
+/** One reading of a zone: its value, its band in words and the last 24 hours. */
+function Reading({ title, value, band, spark, label }: { title: string; value: string; band: string | null; spark: Spark | null; label: string }) {
+  return (
+    <div>
+      <div className="text-xs tracking-wide text-soil-500 uppercase">{title}</div>
+      <div className="tabular text-2xl font-bold">{value}</div>
+      <StatusMark band={band} />
+      {spark && <Sparkline points={spark.points} band={spark.band} color={spark.color} label={label} />}
+    </div>
+  );
+}
+
 function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: UnitSystem; farmId: string }) {
   const species = getSpecies(bin.species);
   const t = zone.latest.temperature;
@@ -42,32 +56,20 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
         <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
       </div>
       <div className="mt-2 grid grid-cols-2 gap-3">
-        <div>
-          <div className="text-xs tracking-wide text-soil-500 uppercase">Temperature</div>
-          <div className="tabular text-2xl font-bold">{t ? formatTemperature(t.value, units) : "—"}</div>
-          <StatusMark band={tBand} />
-          {species && (
-            <Sparkline
-              points={zone.spark.temperature}
-              band={[species.temperatureC.comfortLow, species.temperatureC.comfortHigh]}
-              color="#b5523b"
-              label={`${bin.name}, ${zoneName}: temperature over the last 24 hours`}
-            />
-          )}
-        </div>
-        <div>
-          <div className="text-xs tracking-wide text-soil-500 uppercase">Moisture</div>
-          <div className="tabular text-2xl font-bold">{m ? formatPercent(m.value) : "—"}</div>
-          <StatusMark band={mBand} />
-          {species && (
-            <Sparkline
-              points={zone.spark.moisture}
-              band={[species.moisturePct.comfortLow, species.moisturePct.comfortHigh]}
-              color="#4a6b85"
-              label={`${bin.name}, ${zoneName}: moisture over the last 24 hours`}
-            />
-          )}
-        </div>
+        <Reading
+          title="Temperature"
+          value={t ? formatTemperature(t.value, units) : "—"}
+          band={tBand}
+          spark={species && { points: zone.spark.temperature, band: [species.temperatureC.comfortLow, species.temperatureC.comfortHigh], color: "#b5523b" }}
+          label={`${bin.name}, ${zoneName}: temperature over the last 24 hours`}
+        />
+        <Reading
+          title="Moisture"
+          value={m ? formatPercent(m.value) : "—"}
+          band={mBand}
+          spark={species && { points: zone.spark.moisture, band: [species.moisturePct.comfortLow, species.moisturePct.comfortHigh], color: "#4a6b85" }}
+          label={`${bin.name}, ${zoneName}: moisture over the last 24 hours`}
+        />
       </div>
     </li>
   );
