@@ -1,7 +1,6 @@
 import { and, asc, eq, isNull, sql } from "drizzle-orm";
 import { db } from "@/db";
-import { bins, zones, type BinStyle, type ZoneKind } from "@/db/schema";
-import { AppError } from "@/lib/domain/errors";
+import { bins, zones, type BinStyle, type Zone, type ZoneKind } from "@/db/schema";
 import { hasChanges } from "./patch";
 
 export async function listBins(farmId: string, opts: { includeArchived?: boolean } = {}) {
@@ -71,10 +70,11 @@ export async function getZone(id: string) {
   return z ?? null;
 }
 
-export async function addZone(binId: string, input: { kind: ZoneKind; name?: string | null }) {
+/** The new zone at the harvest end, or null when the bin already has `maxLive` zones in use. */
+export async function addZone(binId: string, input: { kind: ZoneKind; name?: string | null }, maxLive: number) {
   return db().transaction(async (tx) => {
     const live = await tx.select({ position: zones.position, archivedAt: zones.archivedAt }).from(zones).where(eq(zones.binId, binId));
-    if (live.filter((z) => !z.archivedAt).length >= 6) throw new AppError("invalid", "A bin has at most 6 zones.", "kind");
+    if (live.filter((z) => !z.archivedAt).length >= maxLive) return null;
     const position = Math.max(0, ...live.map((z) => z.position)) + 1;
     const [z] = await tx
       .insert(zones)
@@ -84,14 +84,18 @@ export async function addZone(binId: string, input: { kind: ZoneKind; name?: str
   });
 }
 
-export async function updateZone(id: string, patch: Partial<typeof zones.$inferInsert>) {
-  if (!hasChanges(patch)) return getZone(id);
+export type ZoneChange = { changed: Zone | null } | { refused: "position_taken" };
+
+/** The zone as changed (null when it is gone), or a refusal when another zone of its bin holds that position. */
+export async function updateZone(id: string, patch: Partial<typeof zones.$inferInsert>): Promise<ZoneChange> {
+  if (!hasChanges(patch)) return { changed: await getZone(id) };
   try {
     const [z] = await db().update(zones).set(patch).where(eq(zones.id, id)).returning();
-    return z ?? null;
+    return { changed: z ?? null };
   } catch (e) {
+    // 23505 unique_violation (PostgreSQL manual, appendix A) on the bin's (bin_id, position) key.
     if ((e as { cause?: { code?: string }; code?: string }).cause?.code === "23505" || (e as { code?: string }).code === "23505") {
-      throw new AppError("conflict", "Another zone of this bin already has that position.", "position");
+      return { refused: "position_taken" };
     }
     throw e;
   }
@@ -102,9 +106,8 @@ export async function archiveZone(id: string) {
   return z ?? null;
 }
 
-// A log entry may name a zone only of its own bin.
-export async function assertZoneInBin(binId: string, zoneId: string | null, ex: Pick<ReturnType<typeof db>, "select"> = db()) {
-  if (!zoneId) return;
-  const [z] = await ex.select({ binId: zones.binId }).from(zones).where(eq(zones.id, zoneId));
-  if (z?.binId !== binId) throw new AppError("invalid", "That zone is not in this bin.", "zoneId");
+/** The bin a zone belongs to, or null when there is no such zone. */
+export async function binOfZone(zoneId: string): Promise<string | null> {
+  const [z] = await db().select({ binId: zones.binId }).from(zones).where(eq(zones.id, zoneId));
+  return z?.binId ?? null;
 }

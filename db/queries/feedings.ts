@@ -1,6 +1,5 @@
 import { and, desc, eq, gte, inArray } from "drizzle-orm";
 import { db } from "@/db";
-import { assertZoneInBin } from "./bins";
 import { feedingItems, feedings, users } from "@/db/schema";
 
 export type NewFeeding = {
@@ -18,7 +17,6 @@ export type NewFeeding = {
 
 export async function insertFeeding(f: NewFeeding) {
   return db().transaction(async (tx) => {
-    await assertZoneInBin(f.binId, f.zoneId, tx);
     const { items, ...row } = f;
     const [feeding] = await tx.insert(feedings).values(row).returning();
     await tx.insert(feedingItems).values(items.map((i) => ({ ...i, feedingId: feeding!.id })));

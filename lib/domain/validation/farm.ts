@@ -33,16 +33,29 @@ const binFields = {
   depthCm: size,
   notes: longText("Notes", { max: 2000 }).nullable().optional(),
 };
+/** A bin has 1 to 6 zones (the design brief's zones of a bin). */
+export const MAX_ZONES = 6;
 export const binCreate = z.object({
   ...binFields,
-  zoneCount: z.number().int().min(1, "A bin has at least 1 zone.").max(6, "A bin has at most 6 zones.").default(3),
+  zoneCount: z.number().int().min(1, "A bin has at least 1 zone.").max(MAX_ZONES, `A bin has at most ${MAX_ZONES} zones.`).default(3),
 });
 export const binUpdate = z.object(binFields).partial();
+/** PATCH /api/bins/[binId]: the fields to change; {"archived": false} brings an archived bin back,
+ * any other value of it is ignored as an unknown key would be. */
+export const binPatch = binUpdate
+  .extend({ archived: z.unknown().optional() })
+  .transform(({ archived, ...fields }) => ({ fields, bringBack: archived === false }));
+/** ?archived=1 lists archived bins too. */
+export const binListQuery = z.object({ archived: z.string().optional() }).transform((q) => ({ includeArchived: q.archived === "1" }));
+export type BinCreate = z.output<typeof binCreate>;
+export type BinPatch = z.output<typeof binPatch>;
 
 const zoneName = plainText("The zone name", { max: 40 }).nullable().optional();
 export const zoneCreate = z.object({ kind: z.enum(ZONE_KINDS), name: zoneName });
 export const zoneUpdate = z.object({
   kind: z.enum(ZONE_KINDS).optional(),
   name: zoneName,
-  position: z.number().int().min(1).max(6).optional(),
+  position: z.number().int().min(1).max(MAX_ZONES).optional(),
 });
+export type ZoneCreate = z.output<typeof zoneCreate>;
+export type ZoneUpdate = z.output<typeof zoneUpdate>;

@@ -13,6 +13,12 @@ export const wateringCreate = z.object({ ...logCommon, litres: quantity("Water",
 // Kitchen scales read to 1 g; 100 t is far beyond a farm's single harvest.
 export const harvestCreate = z.object({ ...logCommon, massKg: quantity("Mass", "kg", { min: 0.001, max: 100_000, minWords: "1 g" }) });
 export const noteCreate = z.object({ ...logCommon, text: longText("The note", { min: 1, max: 4000, empty: "Write the note." }) });
+export type WateringCreate = z.output<typeof wateringCreate>;
+export type HarvestCreate = z.output<typeof harvestCreate>;
+export type NoteCreate = z.output<typeof noteCreate>;
+/** ?limit= for one kind's list (waterings, harvests, notes), newest first. */
+export const logEntryListQuery = z.object({ limit: z.coerce.number().int().min(1).max(500).default(50) });
+export type LogEntryListQuery = z.output<typeof logEntryListQuery>;
 
 // Oven-dry samples are weighed on a lab or kitchen balance: 1 mg (0.001 g) resolution at best.
 const grams = (what: string, zero: boolean) => quantity(what, "g", { min: 0.001, max: 100_000, zero });

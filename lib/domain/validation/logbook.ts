@@ -33,3 +33,8 @@ export const feedingListQuery = z.object({
   since: instant("since").optional(),
   limit: z.coerce.number().int().min(1).max(500).default(50),
 });
+export type FeedingListQuery = z.output<typeof feedingListQuery>;
+
+/** ?limit= for a bin's whole logbook, every kind merged. */
+export const logbookQuery = z.object({ limit: z.coerce.number().int().min(1).max(500).default(100) });
+export type LogbookQuery = z.output<typeof logbookQuery>;

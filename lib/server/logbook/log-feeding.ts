@@ -4,6 +4,7 @@ import type { Who } from "@/lib/server/auth/authorize";
 import { AppError } from "@/lib/domain/errors";
 import { checkMix } from "@/lib/domain/mix";
 import type { FeedingCreate } from "@/lib/domain/validation/logbook";
+import { entryRow } from "./entry-row";
 
 /** Logs a feeding with its mix check. Each item's ingredient must be the farm's own or the shared
  * library's; an unknown id and another farm's id get the same answer, so ids reveal nothing. */
@@ -27,17 +28,13 @@ export async function logFeeding(who: Pick<Who, "farmId" | "userId">, binId: str
   if (bad >= 0)
     throw new AppError("invalid", "That ingredient is not in this farm's list or the shared library; choose one from the list.", `items.${bad}.ingredientId`);
 
+  const { items, ...common } = input;
   const feeding = await insertFeeding({
-    farmId: who.farmId,
-    binId,
-    zoneId: input.zoneId ?? null,
-    at: input.at ?? new Date(),
-    byUserId: who.userId,
-    notes: input.notes ?? null,
+    ...(await entryRow(who, binId, common)),
     mixMoisturePct: mix.value.moisturePct,
     mixCn: mix.value.cn,
     totalKg: mix.value.totalMassKg,
-    items: input.items.map((i) => ({
+    items: items.map((i) => ({
       ingredientId: i.ingredientId ?? null,
       name: i.name,
       massKg: i.massKg,

@@ -1,8 +1,10 @@
-import { archiveBin, getBin, updateBin } from "@/db/queries/bins";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
-import { binUpdate } from "@/lib/domain/validation/farm";
+import { archiveBinAs } from "@/lib/server/bins/archive-bin";
+import { editBin } from "@/lib/server/bins/edit-bin";
+import { readBin } from "@/lib/server/bins/read-bin";
+import { binPatch } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ binId: string }> };
 
@@ -10,22 +12,20 @@ type Ctx = { params: Promise<{ binId: string }> };
 export const GET = route(async (_req, { params }: Ctx) => {
   const { binId } = await params;
   await requireMember({ binId }, "read");
-  return Response.json({ bin: await getBin(binId) });
+  return Response.json(await readBin(binId));
 });
 
 // PATCH /api/bins/[binId] — owners edit a bin; {"archived": false} brings an archived bin back
 export const PATCH = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   await requireMember({ binId }, "manage");
-  const body = (await readJson(req)) as Record<string, unknown> | null;
-  const restore = body && typeof body === "object" && body.archived === false;
-  const patch = binUpdate.parse(restore ? { ...body, archived: undefined } : body);
-  return Response.json({ bin: await updateBin(binId, { ...patch, ...(restore ? { archivedAt: null } : {}) }) });
+  const input = binPatch.parse(await readJson(req));
+  return Response.json(await editBin(binId, input));
 });
 
 // DELETE /api/bins/[binId] — owners archive a bin (its readings and logbook stay)
 export const DELETE = route(async (_req, { params }: Ctx) => {
   const { binId } = await params;
-  await requireMember({ binId }, "manage");
-  return Response.json({ bin: await archiveBin(binId) });
+  const who = await requireMember({ binId }, "manage");
+  return Response.json({ bin: await archiveBinAs(who, binId) });
 });

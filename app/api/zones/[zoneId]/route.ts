@@ -1,7 +1,9 @@
-import { archiveZone, getZone, updateZone } from "@/db/queries/bins";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
+import { archiveZoneAs } from "@/lib/server/zones/archive-zone";
+import { editZone } from "@/lib/server/zones/edit-zone";
+import { readZone } from "@/lib/server/zones/read-zone";
 import { zoneUpdate } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ zoneId: string }> };
@@ -10,20 +12,20 @@ type Ctx = { params: Promise<{ zoneId: string }> };
 export const GET = route(async (_req, { params }: Ctx) => {
   const { zoneId } = await params;
   await requireMember({ zoneId }, "read");
-  return Response.json({ zone: await getZone(zoneId) });
+  return Response.json(await readZone(zoneId));
 });
 
 // PATCH /api/zones/[zoneId] — owners rename a zone, change its kind or position
 export const PATCH = route(async (req, { params }: Ctx) => {
   const { zoneId } = await params;
   await requireMember({ zoneId }, "manage");
-  const patch = zoneUpdate.parse(await readJson(req));
-  return Response.json({ zone: await updateZone(zoneId, patch) });
+  const input = zoneUpdate.parse(await readJson(req));
+  return Response.json(await editZone(zoneId, input));
 });
 
 // DELETE /api/zones/[zoneId] — owners archive a zone (its readings stay)
 export const DELETE = route(async (_req, { params }: Ctx) => {
   const { zoneId } = await params;
   await requireMember({ zoneId }, "manage");
-  return Response.json({ zone: await archiveZone(zoneId) });
+  return Response.json(await archiveZoneAs(zoneId));
 });

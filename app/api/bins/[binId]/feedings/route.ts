@@ -1,7 +1,7 @@
-import { listFeedings } from "@/db/queries/feedings";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
+import { listBinFeedings } from "@/lib/server/logbook/list-feedings";
 import { logFeeding } from "@/lib/server/logbook/log-feeding";
 import { feedingCreate, feedingListQuery } from "@/lib/domain/validation/logbook";
 
@@ -12,7 +12,7 @@ export const GET = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   await requireMember({ binId }, "read");
   const q = feedingListQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
-  return Response.json({ feedings: await listFeedings(binId, q) });
+  return Response.json(await listBinFeedings(binId, q));
 });
 
 // POST /api/bins/[binId]/feedings — log a feeding; the mix check is computed and kept with it

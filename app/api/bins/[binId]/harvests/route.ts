@@ -1,6 +1,24 @@
-import { insertHarvest, listHarvests } from "@/db/queries/logbook";
-import { logEntryRoutes } from "@/lib/web/api/log-entry-routes";
-import { harvestCreate } from "@/lib/domain/validation/log-entries";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { listEntries } from "@/lib/server/logbook/list-entries";
+import { logHarvest } from "@/lib/server/logbook/log-harvest";
+import { logEntryListQuery, harvestCreate } from "@/lib/domain/validation/log-entries";
 
-// GET /api/bins/[binId]/harvests — newest first; POST — log one (keepers and owners)
-export const { GET, POST } = logEntryRoutes({ schema: harvestCreate, insert: insertHarvest, list: listHarvests, many: "harvests", one: "harvest" });
+type Ctx = { params: Promise<{ binId: string }> };
+
+// GET /api/bins/[binId]/harvests?limit= — newest first, with who
+export const GET = route(async (req, { params }: Ctx) => {
+  const { binId } = await params;
+  await requireMember({ binId }, "read");
+  const q = logEntryListQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
+  return Response.json(await listEntries("harvests", binId, q));
+});
+
+// POST /api/bins/[binId]/harvests — keepers and owners log one
+export const POST = route(async (req, { params }: Ctx) => {
+  const { binId } = await params;
+  const who = await requireMember({ binId }, "log");
+  const input = harvestCreate.parse(await readJson(req));
+  return Response.json(await logHarvest(who, binId, input), { status: 201 });
+});

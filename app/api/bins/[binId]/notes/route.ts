@@ -1,6 +1,24 @@
-import { insertNote, listNotes } from "@/db/queries/logbook";
-import { logEntryRoutes } from "@/lib/web/api/log-entry-routes";
-import { noteCreate } from "@/lib/domain/validation/log-entries";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { listEntries } from "@/lib/server/logbook/list-entries";
+import { logNote } from "@/lib/server/logbook/log-note";
+import { logEntryListQuery, noteCreate } from "@/lib/domain/validation/log-entries";
 
-// GET /api/bins/[binId]/notes — newest first; POST — log one (keepers and owners)
-export const { GET, POST } = logEntryRoutes({ schema: noteCreate, insert: insertNote, list: listNotes, many: "notes", one: "note" });
+type Ctx = { params: Promise<{ binId: string }> };
+
+// GET /api/bins/[binId]/notes?limit= — newest first, with who
+export const GET = route(async (req, { params }: Ctx) => {
+  const { binId } = await params;
+  await requireMember({ binId }, "read");
+  const q = logEntryListQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
+  return Response.json(await listEntries("notes", binId, q));
+});
+
+// POST /api/bins/[binId]/notes — keepers and owners log one
+export const POST = route(async (req, { params }: Ctx) => {
+  const { binId } = await params;
+  const who = await requireMember({ binId }, "log");
+  const input = noteCreate.parse(await readJson(req));
+  return Response.json(await logNote(who, binId, input), { status: 201 });
+});

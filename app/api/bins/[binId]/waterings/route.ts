@@ -1,6 +1,24 @@
-import { insertWatering, listWaterings } from "@/db/queries/logbook";
-import { logEntryRoutes } from "@/lib/web/api/log-entry-routes";
-import { wateringCreate } from "@/lib/domain/validation/log-entries";
+import { route } from "@/lib/web/api/route";
+import { requireMember } from "@/lib/web/session";
+import { readJson } from "@/lib/web/errors";
+import { listEntries } from "@/lib/server/logbook/list-entries";
+import { logWatering } from "@/lib/server/logbook/log-watering";
+import { logEntryListQuery, wateringCreate } from "@/lib/domain/validation/log-entries";
 
-// GET /api/bins/[binId]/waterings — newest first; POST — log one (keepers and owners)
-export const { GET, POST } = logEntryRoutes({ schema: wateringCreate, insert: insertWatering, list: listWaterings, many: "waterings", one: "watering" });
+type Ctx = { params: Promise<{ binId: string }> };
+
+// GET /api/bins/[binId]/waterings?limit= — newest first, with who
+export const GET = route(async (req, { params }: Ctx) => {
+  const { binId } = await params;
+  await requireMember({ binId }, "read");
+  const q = logEntryListQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
+  return Response.json(await listEntries("waterings", binId, q));
+});
+
+// POST /api/bins/[binId]/waterings — keepers and owners log one
+export const POST = route(async (req, { params }: Ctx) => {
+  const { binId } = await params;
+  const who = await requireMember({ binId }, "log");
+  const input = wateringCreate.parse(await readJson(req));
+  return Response.json(await logWatering(who, binId, input), { status: 201 });
+});

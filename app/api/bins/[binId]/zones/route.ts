@@ -1,7 +1,8 @@
-import { addZone, getBin } from "@/db/queries/bins";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
+import { addBinZone } from "@/lib/server/zones/add-zone";
+import { listBinZones } from "@/lib/server/zones/list-zones";
 import { zoneCreate } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ binId: string }> };
@@ -10,7 +11,7 @@ type Ctx = { params: Promise<{ binId: string }> };
 export const GET = route(async (_req, { params }: Ctx) => {
   const { binId } = await params;
   await requireMember({ binId }, "read");
-  return Response.json({ zones: (await getBin(binId))?.zones ?? [] });
+  return Response.json(await listBinZones(binId));
 });
 
 // POST /api/bins/[binId]/zones — owners add a zone at the harvest end
@@ -18,5 +19,5 @@ export const POST = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   await requireMember({ binId }, "manage");
   const input = zoneCreate.parse(await readJson(req));
-  return Response.json({ zone: await addZone(binId, input) }, { status: 201 });
+  return Response.json(await addBinZone(binId, input), { status: 201 });
 });

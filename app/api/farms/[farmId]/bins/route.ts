@@ -1,8 +1,9 @@
-import { createBin, listBins } from "@/db/queries/bins";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
-import { binCreate, defaultZoneKinds } from "@/lib/domain/validation/farm";
+import { addBin } from "@/lib/server/bins/add-bin";
+import { listFarmBins } from "@/lib/server/bins/list-bins";
+import { binCreate, binListQuery } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 
@@ -10,14 +11,14 @@ type Ctx = { params: Promise<{ farmId: string }> };
 export const GET = route(async (req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "read");
-  const includeArchived = new URL(req.url).searchParams.get("archived") === "1";
-  return Response.json({ bins: await listBins(who.farmId, { includeArchived }) });
+  const q = binListQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
+  return Response.json(await listFarmBins(who, q));
 });
 
 // POST /api/farms/[farmId]/bins — owners add a bin; its zones are made from zoneCount
 export const POST = route(async (req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "manage");
-  const { zoneCount, ...bin } = binCreate.parse(await readJson(req));
-  return Response.json({ bin: await createBin(who.farmId, { ...bin, zoneKinds: defaultZoneKinds(zoneCount) }) }, { status: 201 });
+  const input = binCreate.parse(await readJson(req));
+  return Response.json(await addBin(who, input), { status: 201 });
 });

@@ -2,26 +2,20 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { SWRConfig } from "swr";
-import { getBin } from "@/db/queries/bins";
-import { getFarm } from "@/db/queries/farms";
-import { listFeedings } from "@/db/queries/feedings";
-import { listIngredients } from "@/db/queries/ingredients";
-import { latestOfZones } from "@/db/queries/zone-view";
 import { zoneWords } from "@/components/logbook/format";
 import { FeedingForm } from "@/components/logbook/feeding-form";
 import { FeedingLog } from "@/components/logbook/feeding-log";
 import { LogbookList } from "@/components/logbook/logbook-list";
 import { QuickLogForms } from "@/components/logbook/quick-log-forms";
-import { listLogbook } from "@/db/queries/logbook";
 import { StatusMark } from "@/components/ui/status-mark";
 import { requirePageMember } from "@/lib/web/session";
+import { binPageView } from "@/lib/server/bins/bin-page-view";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
 import { feedingsKey, ingredientsKey, logbookKey } from "@/lib/client/swr-keys";
 import { formatPercent, formatTemperature } from "@/lib/domain/units";
+import { toWire } from "@/lib/domain/wire";
 
 export const metadata: Metadata = { title: "Bin" };
-
-const json = <T,>(x: T): T => JSON.parse(JSON.stringify(x));
 
 export default async function BinPage({
   params,
@@ -31,24 +25,17 @@ export default async function BinPage({
   searchParams: Promise<{ zone?: string | string[] }>;
 }) {
   const { farmId, binId } = await params;
-  const { role, userId } = await requirePageMember({ farmId, binId }, "read");
-  const canLog = role !== "viewer";
-  const [bin, farm, feedings, library, logbook] = await Promise.all([
-    getBin(binId),
-    getFarm(farmId),
-    listFeedings(binId),
-    canLog ? listIngredients(farmId) : null,
-    listLogbook(binId),
-  ]);
-  if (!bin || !farm) notFound();
-  const latest = await latestOfZones(bin.zones.map((z) => z.id));
+  const who = await requirePageMember({ farmId, binId }, "read");
+  const view = await binPageView(who, binId);
+  if (!view) notFound();
+  const { bin, farm, latest, canLog } = view;
   const profile = getSpecies(bin.species);
   const zones = bin.zones.map((z) => ({ id: z.id, kind: z.kind, name: z.name }));
   const asked = (await searchParams).zone;
   const defaultZoneId = typeof asked === "string" && zones.some((z) => z.id === asked) ? asked : null;
   // Prime SWR with the server's answers so the logbook and the library paint at once.
-  const fallback: Record<string, unknown> = { [feedingsKey(binId)!]: json({ feedings }), [logbookKey(binId)!]: json({ entries: logbook }) };
-  if (library) fallback[ingredientsKey(farmId)!] = json({ ingredients: library });
+  const fallback: Record<string, unknown> = { [feedingsKey(binId)!]: toWire(view.feedings), [logbookKey(binId)!]: toWire(view.logbook) };
+  if (view.library) fallback[ingredientsKey(farmId)!] = toWire(view.library);
 
   return (
     <main className="space-y-4 p-3 pb-10">
@@ -123,7 +110,7 @@ export default async function BinPage({
           <p className="mb-2 text-sm text-soil-700">
             Feedings, water, harvests, notes and oven-dry samples, newest first. Undo is open for 24 hours to whoever logged it.
           </p>
-          <LogbookList binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} userId={userId} isOwner={role === "owner"} />
+          <LogbookList binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} userId={who.userId} isOwner={who.role === "owner"} />
         </section>
       </SWRConfig>
     </main>

@@ -2,33 +2,25 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { SWRConfig } from "swr";
-import { getBin } from "@/db/queries/bins";
-import { listFeedings } from "@/db/queries/feedings";
-import { listRulesForBin } from "@/db/queries/rules";
-import { getZoneSeries } from "@/lib/server/series/zone-series";
-import { getZoneView, listZoneAlerts, type ZoneAlert } from "@/db/queries/zone-view";
-import { formatMetric, metricStatus, METRIC_TITLES, type AmmoniaLines } from "@/components/charts/metric-words";
-import type { ChartMetric } from "@/components/charts/zone-chart";
+import { formatMetric, metricStatus, METRIC_TITLES } from "@/components/charts/metric-words";
 import { ZoneCharts } from "@/components/charts/zone-charts";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
 import { StatusMark } from "@/components/ui/status-mark";
 import { requirePageMember } from "@/lib/web/session";
-import { overridesFromRuleRows, resolveRules } from "@/lib/domain/rules/params";
-import { getSpecies } from "@/lib/domain/species";
+import { zonePageView } from "@/lib/server/zones/zone-page-view";
 import { feedingsKey, zoneSeriesKey } from "@/lib/client/swr-keys";
-import { seriesQuery } from "@/lib/domain/validation/series";
 import { KIND_WORDS } from "@/lib/domain/alert-words";
-import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
+import { toWire } from "@/lib/domain/wire";
 
 export const metadata: Metadata = { title: "Zone" };
 
-const json = <T,>(x: T): T => JSON.parse(JSON.stringify(x));
+type ZoneAlert = NonNullable<Awaited<ReturnType<typeof zonePageView>>>["alerts"][number];
 
 function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => string }) {
   const actNow = a.level === "act_now";
   const state =
     a.state === "settled"
-      ? `settled ${a.settledAt ? clock(String(a.settledAt)) : ""}`
+      ? `settled ${a.settledAt ? clock(a.settledAt.toISOString()) : ""}`
       : a.state === "claimed"
         ? `claimed by ${a.claimedByName ?? "someone"}`
         : "raised, nobody on it yet";
@@ -47,7 +39,7 @@ function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => s
           </svg>
           {actNow ? "Act now" : "Heads-up"} · {KIND_WORDS[a.kind] ?? a.kind}
         </span>
-        <span className="tabular text-sm font-normal">{clock(String(a.raisedAt))}</span>
+        <span className="tabular text-sm font-normal">{clock(a.raisedAt.toISOString())}</span>
       </div>
       <p className="text-sm">{a.message}</p>
       <p className="mt-1 flex items-center gap-1 text-sm">
@@ -68,30 +60,15 @@ function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => s
 
 export default async function ZonePage({ params }: { params: Promise<{ farmId: string; zoneId: string }> }) {
   const { farmId, zoneId } = await params;
-  const { role } = await requirePageMember({ farmId, zoneId }, "read");
-  const view = await getZoneView(zoneId);
+  const who = await requirePageMember({ farmId, zoneId }, "read");
+  const view = await zonePageView(who, zoneId);
   if (!view) notFound();
-  const { zone, bin, unitSystem: system } = view;
-  const timezone = timeZoneOrUtc(view.timezone);
-  const profile = getSpecies(bin.species);
-  const rules = profile ? resolveRules(profile, overridesFromRuleRows(await listRulesForBin(farmId, bin.id), bin.id)) : null;
-  const ammonia: AmmoniaLines = { headsUpAtPpm: rules?.ammonia.t.headsUpAtPpm ?? 10, actNowAtPpm: rules?.ammonia.t.actNowAtPpm ?? 25 };
-  const metrics: ChartMetric[] = ["temperature", "moisture", ...(view.metrics.includes("ammonia") || view.latest.ammonia ? (["ammonia"] as const) : [])];
-  // A server component renders once per request, so reading the clock here is what we mean.
-  // eslint-disable-next-line react-hooks/purity
-  const since = new Date(Date.now() - 30 * 86_400_000);
-  const [binRow, feedings, alerts, ...series] = await Promise.all([
-    getBin(bin.id),
-    listFeedings(bin.id),
-    listZoneAlerts(zoneId, { since }),
-    ...metrics.map((metric) => getZoneSeries(zoneId, seriesQuery.parse({ metric }))),
-  ]);
-  const binZones = (binRow?.zones ?? []).map((z) => ({ id: z.id, kind: z.kind, name: z.name }));
+  const { zone, bin, unitSystem: system, timezone, profile, ammonia, metrics, binZones, alerts } = view;
   // Prime SWR with the server's answers so the phone paints the charts at once.
-  const fallback: Record<string, unknown> = { [feedingsKey(bin.id)!]: json({ feedings }) };
-  metrics.forEach((m, i) => (fallback[zoneSeriesKey(zoneId, m)] = json(series[i])));
+  const fallback: Record<string, unknown> = { [feedingsKey(bin.id)!]: toWire(view.feedings) };
+  for (const { metric, answer } of view.series) fallback[zoneSeriesKey(zoneId, metric)] = toWire(answer);
   const clock = clockFormat(timezone);
-  const canLog = role !== "viewer";
+  const canLog = who.role !== "viewer";
   const title = zoneWords(zone);
 
   return (

@@ -1,29 +1,26 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { getBin } from "@/db/queries/bins";
-import { getFarm } from "@/db/queries/farms";
-import { listRulesForBin } from "@/db/queries/rules";
-import { RulesTable, type RulesData } from "@/components/rules/rules-table";
-import { KIND_WORDS } from "@/lib/server/alerts/notify";
+import { RulesTable } from "@/components/rules/rules-table";
+import { KIND_WORDS } from "@/lib/domain/alert-words";
 import { requirePageMember } from "@/lib/web/session";
-import { defaultRuleTable, overridesFromRuleRows, resolveRules, type RuleRow } from "@/lib/domain/rules";
+import { binWithFarm } from "@/lib/server/bins/bin-with-farm";
+import { binRulesView } from "@/lib/server/rules/bin-rules-view";
 import { getSpecies } from "@/lib/domain/species";
+import { toWire } from "@/lib/domain/wire";
 
 export const metadata: Metadata = { title: "Alert rules" };
 
 export default async function BinRulesPage({ params }: { params: Promise<{ farmId: string; binId: string }> }) {
   const { farmId, binId } = await params;
-  const { role } = await requirePageMember({ farmId, binId }, "read");
-  const [bin, farm, rows] = await Promise.all([getBin(binId), getFarm(farmId), listRulesForBin(farmId, binId)]);
-  const species = bin ? getSpecies(bin.species) : null;
-  if (!bin || !farm || !species) notFound();
+  const who = await requirePageMember({ farmId, binId }, "read");
+  const place = await binWithFarm(who, binId);
+  const species = place && getSpecies(place.bin.species);
+  if (!place || !species) notFound();
+  const { bin, farm } = place;
   // The same answer GET /api/bins/[binId]/rules gives, so the client's SWR cache starts full.
-  const overrides = overridesFromRuleRows(rows as RuleRow[], binId);
-  const initial = JSON.parse(
-    JSON.stringify({ species: species.id, defaults: defaultRuleTable(species), overrides, effective: resolveRules(species, overrides) }),
-  ) as RulesData;
-  const owner = role === "owner";
+  const initial = toWire(await binRulesView(who, binId));
+  const owner = who.role === "owner";
 
   return (
     <main className="space-y-4 p-3 pb-10">

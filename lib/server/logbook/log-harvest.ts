@@ -1,0 +1,9 @@
+import { insertHarvest } from "@/db/queries/logbook";
+import type { Who } from "@/lib/server/auth/authorize";
+import type { HarvestCreate } from "@/lib/domain/validation/log-entries";
+import { entryRow } from "./entry-row";
+
+/** A keeper or owner logs castings harvested from the bin. */
+export async function logHarvest(who: Pick<Who, "farmId" | "userId">, binId: string, input: HarvestCreate) {
+  return { harvest: await insertHarvest(await entryRow(who, binId, input)) };
+}

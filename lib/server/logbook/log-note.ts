@@ -1,0 +1,9 @@
+import { insertNote } from "@/db/queries/logbook";
+import type { Who } from "@/lib/server/auth/authorize";
+import type { NoteCreate } from "@/lib/domain/validation/log-entries";
+import { entryRow } from "./entry-row";
+
+/** A keeper or owner writes a note in the bin's logbook. */
+export async function logNote(who: Pick<Who, "farmId" | "userId">, binId: string, input: NoteCreate) {
+  return { note: await insertNote(await entryRow(who, binId, input)) };
+}

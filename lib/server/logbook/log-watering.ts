@@ -1,0 +1,9 @@
+import { insertWatering } from "@/db/queries/logbook";
+import type { Who } from "@/lib/server/auth/authorize";
+import type { WateringCreate } from "@/lib/domain/validation/log-entries";
+import { entryRow } from "./entry-row";
+
+/** A keeper or owner logs water given to the bin. */
+export async function logWatering(who: Pick<Who, "farmId" | "userId">, binId: string, input: WateringCreate) {
+  return { watering: await insertWatering(await entryRow(who, binId, input)) };
+}
