@@ -1,9 +1,8 @@
 import { and, asc, desc, eq, gte, lte, sql } from "drizzle-orm";
 import { db } from "@/db";
+import type { LogKind } from "@/lib/domain/vocabulary";
 import { feedings, harvests, logNotes, ovenDrySamples, probes, readings, users, waterings as wateringsTable, zones } from "@/db/schema";
 
-export const LOG_KINDS = ["feeding", "watering", "harvest", "note", "sample"] as const;
-export type LogKind = (typeof LOG_KINDS)[number];
 
 const tables = { feeding: feedings, watering: wateringsTable, harvest: harvests, note: logNotes, sample: ovenDrySamples } as const;
 

@@ -38,3 +38,7 @@ export type RejectSource = (typeof REJECT_SOURCES)[number];
 
 export const SPECIES_IDS = ["eisenia-fetida", "eisenia-hortensis", "eudrilus-eugeniae", "perionyx-excavatus"] as const;
 export type SpeciesId = (typeof SPECIES_IDS)[number];
+
+/** The kinds of logbook entry, as the logbook lists them and the undo names them. */
+export const LOG_KINDS = ["feeding", "watering", "harvest", "note", "sample"] as const;
+export type LogKind = (typeof LOG_KINDS)[number];

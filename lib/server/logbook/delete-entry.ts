@@ -1,4 +1,5 @@
-import { deleteLogEntry, getLogEntry, LOG_KINDS, type LogKind } from "@/db/queries/logbook";
+import { deleteLogEntry, getLogEntry } from "@/db/queries/logbook";
+import { LOG_KINDS, type LogKind } from "@/lib/domain/vocabulary";
 import { authorize } from "@/lib/server/auth/authorize";
 import { AppError } from "@/lib/domain/errors";
 
