@@ -9,9 +9,9 @@ import { faultVerdict, silentVerdict } from "./probe-health";
 import type { OpenAlert, ProbeContext, Transition, ZoneRuleInput } from "./types";
 import { wordsFor } from "./words";
 
-export const ZONE_KINDS = ["heat", "chill", "drying", "soggy", "ammonia"] as const satisfies readonly RuleKind[];
+export const ZONE_ALERT_KINDS = ["heat", "chill", "drying", "soggy", "ammonia"] as const satisfies readonly RuleKind[];
 export const PROBE_KINDS = ["silent_probe", "probe_fault"] as const satisfies readonly RuleKind[];
-export type ZoneAlertKind = (typeof ZONE_KINDS)[number];
+export type ZoneAlertKind = (typeof ZONE_ALERT_KINDS)[number];
 export type ProbeAlertKind = (typeof PROBE_KINDS)[number];
 
 export const isProbeKind = (kind: AlertKind): kind is ProbeAlertKind => (PROBE_KINDS as readonly string[]).includes(kind);

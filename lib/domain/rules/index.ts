@@ -36,7 +36,7 @@ export * from "./params";
 export type * from "./types";
 export {
   PROBE_KINDS,
-  ZONE_KINDS,
+  ZONE_ALERT_KINDS,
   applyTransitions,
   evaluateZone,
   isProbeKind,

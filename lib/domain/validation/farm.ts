@@ -3,8 +3,6 @@ import { plainText, longText, quantity, timeZone } from "./fields";
 
 import { BIN_STYLES, SPECIES_IDS as SPECIES, UNIT_SYSTEMS, ZONE_KINDS, type ZoneKind } from "../vocabulary";
 
-export { BIN_STYLES, ZONE_KINDS };
-
 const name = plainText("The name", { min: 1, max: 80, empty: "Give it a name." });
 // From a 10 cm worm tower to a 1 km windrow; under 1 cm is a typo, not a bin.
 const size = quantity("Size", "cm", { min: 1, max: 100_000 }).nullable().optional();
