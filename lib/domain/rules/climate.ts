@@ -2,8 +2,8 @@
 // with a heads-up line, an act-now line, a duration before raising, and a deadband plus a duration
 // before settling. Heat also watches the rate of rise after a feeding; drying also the day's trend.
 import { formatNumber } from "../units";
-import { HOUR, MINUTE, judge, worstOf, type Judged, type RuleContext, type Trigger, type Verdict } from "./context";
-import { rateAt, trendAt, type Trend } from "./series";
+import { HOUR, MINUTE, judge, worstOf, type Judged, type ProbeView, type RuleContext, type Trigger, type Verdict } from "./context";
+import { rateAt, trendAt, type Sample, type Trend } from "./series";
 import { withTrend } from "./words";
 
 const memo = <T>(f: (i: number) => T) => {
@@ -14,17 +14,38 @@ const memo = <T>(f: (i: number) => T) => {
   };
 };
 
-/** The verdict on a zone's worst probe. Every alert's details name the reading it stands on
- * (metric, SenML unit, probe, trigger, value, time); `words` adds the rule's own. */
-function zoneVerdict(
-  judged: Judged[],
-  extremity: (j: Judged) => number,
-  reading: { metric: "temperature" | "moisture"; unit: "Cel" | "/100" },
-  words: (worst: Judged) => { message: string; settleMessage: string; details: Record<string, unknown> },
+type Reading = { metric: "temperature" | "moisture"; unit: "Cel" | "/100" };
+const TEMPERATURE: Reading = { metric: "temperature", unit: "Cel" };
+const MOISTURE: Reading = { metric: "moisture", unit: "/100" };
+type Words = { message: string; settleMessage: string; details: Record<string, unknown> };
+
+/** What a band rule decides for one probe's series: its triggers (worst first), when it counts as
+ * back inside, and what its words need at the judged reading. */
+type SeriesJudgement<E> = { triggers: Trigger[]; clear: (i: number) => boolean; extra: (i: number) => E };
+
+/** A band rule's verdict on a zone: every fresh probe of the metric judged, the worst one speaks.
+ * Every alert's details name the reading it stands on (metric, SenML unit, probe, trigger, value,
+ * time); `words` adds the rule's own. */
+function bandVerdict<E>(
+  ctx: RuleContext,
+  o: {
+    reading: Reading;
+    settleMinutes: number;
+    judgeSeries: (view: ProbeView) => SeriesJudgement<E>;
+    extremity: (j: Judged) => number;
+    words: (worst: Judged, extra: E) => Words;
+  },
 ): Verdict | null {
-  const worst = worstOf(judged, extremity);
+  const extras = new Map<Judged, E>();
+  const judged = ctx.fresh(o.reading.metric).map((view) => {
+    const { triggers, clear, extra } = o.judgeSeries(view);
+    const j = judge(view, triggers, clear, o.settleMinutes * MINUTE);
+    extras.set(j, extra(j.i));
+    return j;
+  });
+  const worst = worstOf(judged, o.extremity);
   if (!worst) return null;
-  const { message, settleMessage, details } = words(worst);
+  const { message, settleMessage, details } = o.words(worst, extras.get(worst)!);
   return {
     level: worst.held?.level ?? null,
     clear: judged.every((j) => j.clear),
@@ -33,7 +54,7 @@ function zoneVerdict(
     message,
     settleMessage,
     details: {
-      ...reading,
+      ...o.reading,
       probeId: worst.view.probeId,
       trigger: worst.held?.id ?? null,
       value: worst.last.v,
@@ -43,92 +64,97 @@ function zoneVerdict(
   };
 }
 
+/** The message of the trigger that held, or the near-the-edge words when none has. */
+const said = (worst: Judged, near: string, byTrigger: Record<string, () => string>) => {
+  const words = worst.held ? byTrigger[worst.held.id] : undefined;
+  return words ? words() : near;
+};
+
+/** A band rule's two lines as triggers, each held `raiseMinutes` before raising: act now past the
+ * far line, heads-up past the band's edge. `past` says which side is out (below for chill and
+ * drying, above for soggy; heat's act-now line counts from the line itself). */
+function bandTriggers(
+  s: Sample[],
+  raiseMinutes: number,
+  actNow: { id: string; past: (v: number) => boolean },
+  headsUp: { id: string; past: (v: number) => boolean },
+): Trigger[] {
+  const holdMs = raiseMinutes * MINUTE;
+  return [
+    { id: actNow.id, level: "act_now", holdMs, holds: (i) => actNow.past(s[i]!.v) },
+    { id: headsUp.id, level: "heads_up", holdMs, holds: (i) => headsUp.past(s[i]!.v) },
+  ];
+}
+
 export function heatVerdict(ctx: RuleContext): Verdict | null {
   const r = ctx.rules.heat.t;
   const { w } = ctx;
   const watchMs = r.feedingWatchHours * HOUR;
-  const extra = new Map<Judged, { rate: number | null; feedingAt: number | null; feedingKg: number | null }>();
-  const judged = ctx.fresh("temperature").map((view) => {
-    const s = view.s;
-    const rate = memo((i) => rateAt(s, i, r.riseWindowMinutes * MINUTE, view.gapMs));
-    const watched = (i: number) => ctx.feedingAt(s[i]!.t, watchMs);
-    const fastRise = (i: number, limit: number) => watched(i) !== null && (rate(i) ?? Number.NEGATIVE_INFINITY) >= limit;
-    const triggers: Trigger[] = [
-      { id: "warm-stress", level: "act_now", holdMs: r.raiseMinutes * MINUTE, holds: (i) => s[i]!.v >= r.actNowAtC },
-      { id: "above-band", level: "heads_up", holdMs: r.raiseMinutes * MINUTE, holds: (i) => s[i]!.v > r.headsUpAboveC },
-      // The least-squares window is what makes the rise "sustained"; it needs no extra hold.
-      { id: "fast-rise", level: "heads_up", holdMs: 0, holds: (i) => fastRise(i, r.riseRateCPerHour) },
-    ];
-    const clear = (i: number) => s[i]!.v <= r.headsUpAboveC - r.deadbandC && !fastRise(i, r.riseRateCPerHour - r.riseDeadbandCPerHour);
-    const j = judge(view, triggers, clear, r.settleMinutes * MINUTE);
-    const f = watched(j.i);
-    extra.set(j, { rate: rate(j.i), feedingAt: f?.at ?? null, feedingKg: f?.totalKg ?? null });
-    return j;
-  });
   const band = w.tempRange(ctx.input.species.temperatureC.comfortLow, r.headsUpAboveC);
-  return zoneVerdict(
-    judged,
-    (j) => j.last.v,
-    { metric: "temperature", unit: "Cel" },
-    (worst) => {
-      const { rate, feedingAt, feedingKg } = extra.get(worst)!;
-      const now = withTrend(w.temp(worst.last.v), w.tempTrend(rate));
-      // The feeding's clock time, not "n h ago": a message that changes every minute is churn.
-      const feed = feedingAt === null ? "" : ` since the ${feedingKg ? `${formatNumber(feedingKg, 1)} kg ` : ""}feeding at ${w.clock(feedingAt)}`;
-      let message: string;
-      switch (worst.held?.id) {
-        case "warm-stress":
-          message = `${w.place}: ${now}, at or above ${w.temp(r.actNowAtC)} where ${w.worms} suffer. Cool the bed now.`;
-          break;
-        case "above-band":
-          message = `${w.place}: ${now}, above the comfortable ${band} for ${w.worms}.`;
-          break;
-        case "fast-rise":
-          message =
-            worst.last.v <= r.headsUpAboveC
-              ? `${w.place}: ${now}${feed}. Still inside ${band}, but heating fast.`
-              : `${w.place}: ${now}${feed}, leaving the comfortable ${band}.`;
-          break;
-        default:
-          message = `${w.place}: ${now}, near the top of the comfortable ${band}.`;
-      }
+  return bandVerdict(ctx, {
+    reading: TEMPERATURE,
+    settleMinutes: r.settleMinutes,
+    judgeSeries: (view) => {
+      const s = view.s;
+      const rate = memo((i) => rateAt(s, i, r.riseWindowMinutes * MINUTE, view.gapMs));
+      const watched = (i: number) => ctx.feedingAt(s[i]!.t, watchMs);
+      const fastRise = (i: number, limit: number) => watched(i) !== null && (rate(i) ?? Number.NEGATIVE_INFINITY) >= limit;
       return {
-        message,
-        settleMessage: `${w.place}: cooled to ${w.temp(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
-        details: {
-          ratePerHour: rate,
-          feedingAt,
-          headsUpAboveC: r.headsUpAboveC,
-          actNowAtC: r.actNowAtC,
-          riseRateCPerHour: r.riseRateCPerHour,
+        triggers: [
+          ...bandTriggers(s, r.raiseMinutes, { id: "warm-stress", past: (v) => v >= r.actNowAtC }, { id: "above-band", past: (v) => v > r.headsUpAboveC }),
+          // The least-squares window is what makes the rise "sustained"; it needs no extra hold.
+          { id: "fast-rise", level: "heads_up", holdMs: 0, holds: (i) => fastRise(i, r.riseRateCPerHour) },
+        ],
+        clear: (i) => s[i]!.v <= r.headsUpAboveC - r.deadbandC && !fastRise(i, r.riseRateCPerHour - r.riseDeadbandCPerHour),
+        extra: (i) => {
+          const f = watched(i);
+          return { rate: rate(i), feedingAt: f?.at ?? null, feedingKg: f?.totalKg ?? null };
         },
       };
     },
-  );
+    extremity: (j) => j.last.v,
+    words: (worst, { rate, feedingAt, feedingKg }) => {
+      const now = withTrend(w.temp(worst.last.v), w.tempTrend(rate));
+      // The feeding's clock time, not "n h ago": a message that changes every minute is churn.
+      const feed = feedingAt === null ? "" : ` since the ${feedingKg ? `${formatNumber(feedingKg, 1)} kg ` : ""}feeding at ${w.clock(feedingAt)}`;
+      const message = said(worst, `${w.place}: ${now}, near the top of the comfortable ${band}.`, {
+        "warm-stress": () => `${w.place}: ${now}, at or above ${w.temp(r.actNowAtC)} where ${w.worms} suffer. Cool the bed now.`,
+        "above-band": () => `${w.place}: ${now}, above the comfortable ${band} for ${w.worms}.`,
+        "fast-rise": () =>
+          worst.last.v <= r.headsUpAboveC
+            ? `${w.place}: ${now}${feed}. Still inside ${band}, but heating fast.`
+            : `${w.place}: ${now}${feed}, leaving the comfortable ${band}.`,
+      });
+      return {
+        message,
+        settleMessage: `${w.place}: cooled to ${w.temp(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
+        details: { ratePerHour: rate, feedingAt, headsUpAboveC: r.headsUpAboveC, actNowAtC: r.actNowAtC, riseRateCPerHour: r.riseRateCPerHour },
+      };
+    },
+  });
 }
 
 export function chillVerdict(ctx: RuleContext): Verdict | null {
   const r = ctx.rules.chill.t;
   const heat = ctx.rules.heat.t;
   const { w } = ctx;
-  const rates = new Map<Judged, number | null>();
-  const judged = ctx.fresh("temperature").map((view) => {
-    const s = view.s;
-    const triggers: Trigger[] = [
-      { id: "cold-stress", level: "act_now", holdMs: r.raiseMinutes * MINUTE, holds: (i) => s[i]!.v < r.actNowBelowC },
-      { id: "below-band", level: "heads_up", holdMs: r.raiseMinutes * MINUTE, holds: (i) => s[i]!.v < r.headsUpBelowC },
-    ];
-    const j = judge(view, triggers, (i) => s[i]!.v >= r.headsUpBelowC + r.deadbandC, r.settleMinutes * MINUTE);
-    rates.set(j, rateAt(s, j.i, heat.riseWindowMinutes * MINUTE, view.gapMs));
-    return j;
-  });
   const band = w.tempRange(r.headsUpBelowC, ctx.input.species.temperatureC.comfortHigh);
-  return zoneVerdict(
-    judged,
-    (j) => -j.last.v,
-    { metric: "temperature", unit: "Cel" },
-    (worst) => {
-      const now = withTrend(w.temp(worst.last.v), w.tempTrend(rates.get(worst) ?? null));
+  return bandVerdict(ctx, {
+    reading: TEMPERATURE,
+    settleMinutes: r.settleMinutes,
+    judgeSeries: (view) => ({
+      triggers: bandTriggers(
+        view.s,
+        r.raiseMinutes,
+        { id: "cold-stress", past: (v) => v < r.actNowBelowC },
+        { id: "below-band", past: (v) => v < r.headsUpBelowC },
+      ),
+      clear: (i) => view.s[i]!.v >= r.headsUpBelowC + r.deadbandC,
+      extra: (i) => rateAt(view.s, i, heat.riseWindowMinutes * MINUTE, view.gapMs),
+    }),
+    extremity: (j) => -j.last.v,
+    words: (worst, rate) => {
+      const now = withTrend(w.temp(worst.last.v), w.tempTrend(rate));
       const message =
         worst.held?.id === "cold-stress"
           ? `${w.place}: ${now}, below ${w.temp(r.actNowBelowC)} where ${w.worms} stop feeding. Warm the bed now.`
@@ -138,14 +164,10 @@ export function chillVerdict(ctx: RuleContext): Verdict | null {
       return {
         message,
         settleMessage: `${w.place}: warmed to ${w.temp(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
-        details: {
-          ratePerHour: rates.get(worst) ?? null,
-          headsUpBelowC: r.headsUpBelowC,
-          actNowBelowC: r.actNowBelowC,
-        },
+        details: { ratePerHour: rate, headsUpBelowC: r.headsUpBelowC, actNowBelowC: r.actNowBelowC },
       };
     },
-  );
+  });
 }
 
 const pointsRate = (perHour: number) => `${formatNumber(Math.abs(perHour), 2)} points/h`;
@@ -155,49 +177,42 @@ const moistureTrend = (t: Trend | null) =>
 export function dryingVerdict(ctx: RuleContext): Verdict | null {
   const r = ctx.rules.drying.t;
   const { w } = ctx;
-  const trends = new Map<Judged, Trend | null>();
-  const judged = ctx.fresh("moisture").map((view) => {
-    const s = view.s;
-    const trend = memo((i) => trendAt(s, i, r.trendWindowHours * HOUR, r.trendMinSpanHours * HOUR, r.headsUpBelowPct));
-    const crossesWithin = (i: number, ms: number) => {
-      const at = trend(i)?.crossingAt ?? null;
-      return at !== null && at - s[i]!.t <= ms;
-    };
-    const triggers: Trigger[] = [
-      { id: "far-below-band", level: "act_now", holdMs: r.raiseMinutes * MINUTE, holds: (i) => s[i]!.v < r.actNowBelowPct },
-      { id: "below-band", level: "heads_up", holdMs: r.raiseMinutes * MINUTE, holds: (i) => s[i]!.v < r.headsUpBelowPct },
-      // A day's least-squares line is already smooth; it needs no extra hold.
-      { id: "drying-trend", level: "heads_up", holdMs: 0, holds: (i) => crossesWithin(i, r.trendHorizonHours * HOUR) },
-    ];
-    const clear = (i: number) => s[i]!.v >= r.headsUpBelowPct + r.deadbandPct && !crossesWithin(i, r.trendSettleHorizonHours * HOUR);
-    const j = judge(view, triggers, clear, r.settleMinutes * MINUTE);
-    trends.set(j, trend(j.i));
-    return j;
-  });
   const band = w.pctRange(r.headsUpBelowPct, ctx.input.species.moisturePct.comfortHigh);
-  return zoneVerdict(
-    judged,
-    (j) => -j.last.v,
-    { metric: "moisture", unit: "/100" },
-    (worst) => {
-      const trend = trends.get(worst) ?? null;
+  return bandVerdict(ctx, {
+    reading: MOISTURE,
+    settleMinutes: r.settleMinutes,
+    judgeSeries: (view) => {
+      const s = view.s;
+      const trend = memo((i) => trendAt(s, i, r.trendWindowHours * HOUR, r.trendMinSpanHours * HOUR, r.headsUpBelowPct));
+      const crossesWithin = (i: number, ms: number) => {
+        const at = trend(i)?.crossingAt ?? null;
+        return at !== null && at - s[i]!.t <= ms;
+      };
+      return {
+        triggers: [
+          ...bandTriggers(
+            s,
+            r.raiseMinutes,
+            { id: "far-below-band", past: (v) => v < r.actNowBelowPct },
+            { id: "below-band", past: (v) => v < r.headsUpBelowPct },
+          ),
+          // A day's least-squares line is already smooth; it needs no extra hold.
+          { id: "drying-trend", level: "heads_up", holdMs: 0, holds: (i) => crossesWithin(i, r.trendHorizonHours * HOUR) },
+        ],
+        clear: (i) => s[i]!.v >= r.headsUpBelowPct + r.deadbandPct && !crossesWithin(i, r.trendSettleHorizonHours * HOUR),
+        extra: trend,
+      };
+    },
+    extremity: (j) => -j.last.v,
+    words: (worst, trend) => {
       const now = withTrend(`moisture ${w.pct(worst.last.v)}`, moistureTrend(trend));
       const at = trend?.crossingAt ?? null;
-      let message: string;
-      switch (worst.held?.id) {
-        case "far-below-band":
-          message = `${w.place}: ${now}, far below the comfortable ${band}. Water the bed now.`;
-          break;
-        case "below-band":
-          message = `${w.place}: ${now}, below the comfortable ${band} for ${w.worms}.`;
-          break;
-        case "drying-trend":
-          message =
-            `${w.place}: ${now}; at this rate it drops below ${w.pct(r.headsUpBelowPct)} ` + `in about ${w.span(at! - worst.last.t)} (around ${w.clock(at!)}).`;
-          break;
-        default:
-          message = `${w.place}: ${now}, near the bottom of the comfortable ${band}.`;
-      }
+      const message = said(worst, `${w.place}: ${now}, near the bottom of the comfortable ${band}.`, {
+        "far-below-band": () => `${w.place}: ${now}, far below the comfortable ${band}. Water the bed now.`,
+        "below-band": () => `${w.place}: ${now}, below the comfortable ${band} for ${w.worms}.`,
+        "drying-trend": () =>
+          `${w.place}: ${now}; at this rate it drops below ${w.pct(r.headsUpBelowPct)} in about ${w.span(at! - worst.last.t)} (around ${w.clock(at!)}).`,
+      });
       return {
         message,
         settleMessage: `${w.place}: moisture back to ${w.pct(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
@@ -210,31 +225,30 @@ export function dryingVerdict(ctx: RuleContext): Verdict | null {
         },
       };
     },
-  );
+  });
 }
 
 export function soggyVerdict(ctx: RuleContext): Verdict | null {
   const r = ctx.rules.soggy.t;
   const dry = ctx.rules.drying.t;
   const { w } = ctx;
-  const trends = new Map<Judged, Trend | null>();
-  const judged = ctx.fresh("moisture").map((view) => {
-    const s = view.s;
-    const triggers: Trigger[] = [
-      { id: "far-above-band", level: "act_now", holdMs: r.raiseMinutes * MINUTE, holds: (i) => s[i]!.v > r.actNowAbovePct },
-      { id: "above-band", level: "heads_up", holdMs: r.raiseMinutes * MINUTE, holds: (i) => s[i]!.v > r.headsUpAbovePct },
-    ];
-    const j = judge(view, triggers, (i) => s[i]!.v <= r.headsUpAbovePct - r.deadbandPct, r.settleMinutes * MINUTE);
-    trends.set(j, trendAt(s, j.i, dry.trendWindowHours * HOUR, dry.trendMinSpanHours * HOUR, r.headsUpAbovePct));
-    return j;
-  });
   const band = w.pctRange(ctx.input.species.moisturePct.comfortLow, r.headsUpAbovePct);
-  return zoneVerdict(
-    judged,
-    (j) => j.last.v,
-    { metric: "moisture", unit: "/100" },
-    (worst) => {
-      const now = withTrend(`moisture ${w.pct(worst.last.v)}`, moistureTrend(trends.get(worst) ?? null));
+  return bandVerdict(ctx, {
+    reading: MOISTURE,
+    settleMinutes: r.settleMinutes,
+    judgeSeries: (view) => ({
+      triggers: bandTriggers(
+        view.s,
+        r.raiseMinutes,
+        { id: "far-above-band", past: (v) => v > r.actNowAbovePct },
+        { id: "above-band", past: (v) => v > r.headsUpAbovePct },
+      ),
+      clear: (i) => view.s[i]!.v <= r.headsUpAbovePct - r.deadbandPct,
+      extra: (i) => trendAt(view.s, i, dry.trendWindowHours * HOUR, dry.trendMinSpanHours * HOUR, r.headsUpAbovePct),
+    }),
+    extremity: (j) => j.last.v,
+    words: (worst, trend) => {
+      const now = withTrend(`moisture ${w.pct(worst.last.v)}`, moistureTrend(trend));
       const message =
         worst.held?.id === "far-above-band"
           ? `${w.place}: ${now}, far above the comfortable ${band}. Mix in dry bedding now.`
@@ -244,12 +258,8 @@ export function soggyVerdict(ctx: RuleContext): Verdict | null {
       return {
         message,
         settleMessage: `${w.place}: moisture down to ${w.pct(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
-        details: {
-          ratePerHour: trends.get(worst)?.ratePerHour ?? null,
-          headsUpAbovePct: r.headsUpAbovePct,
-          actNowAbovePct: r.actNowAbovePct,
-        },
+        details: { ratePerHour: trend?.ratePerHour ?? null, headsUpAbovePct: r.headsUpAbovePct, actNowAbovePct: r.actNowAbovePct },
       };
     },
-  );
+  });
 }

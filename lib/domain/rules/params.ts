@@ -27,6 +27,9 @@ const mid = (a: number, b: number) => (a + b) / 2;
 const param = <K extends string>(key: K, label: string, unit: ParamUnit, source: string, value: (s: SpeciesProfile) => number) =>
   ({ key, label, unit, source, value }) as const;
 
+/** A parameter with no published source: a keeper's rule of thumb, fixed for every species. */
+const common = <K extends string>(key: K, label: string, unit: ParamUnit, n: number) => param(key, label, unit, COMMON, fixed(n));
+
 const raise = (n: number) => param("raiseMinutes", "Held this long before raising", "min", COMMON, fixed(n));
 const settle = (n: number) => param("settleMinutes", "Held back inside the band before settling", "min", COMMON, fixed(n));
 /** A band rule's lines: heads-up, act now, held 10 min before raising and 15 min inside the band
@@ -38,20 +41,20 @@ export const RULE_PARAMETERS = {
     ...bandLines(
       param("headsUpAboveC", "Heads-up above", "°C", "species: top of the comfortable band", (s) => s.temperatureC.comfortHigh),
       param("actNowAtC", "Act now at or above", "°C", "species: warm stress (growth falls off)", (s) => s.temperatureC.warmStress),
-      param("deadbandC", "Must fall this far below the heads-up line to settle", "°C", COMMON, fixed(0.5)),
+      common("deadbandC", "Must fall this far below the heads-up line to settle", "°C", 0.5),
     ),
-    param("riseRateCPerHour", "After a feeding, heads-up on a rise faster than", "°C/h", COMMON, fixed(1)),
-    param("riseWindowMinutes", "Rise measured (least squares) over the last", "min", COMMON, fixed(60)),
-    param("riseDeadbandCPerHour", "Rise must slow this far below the limit to settle", "°C/h", COMMON, fixed(0.5)),
+    common("riseRateCPerHour", "After a feeding, heads-up on a rise faster than", "°C/h", 1),
+    common("riseWindowMinutes", "Rise measured (least squares) over the last", "min", 60),
+    common("riseDeadbandCPerHour", "Rise must slow this far below the limit to settle", "°C/h", 0.5),
     // Fresh feed can self-heat and kill the worms (Wikipedia "Vermicompost", "Climate and temperature", V);
     // how long to watch has no published figure.
-    param("feedingWatchHours", "Watch a zone for a fast rise this long after a feeding", "h", COMMON, fixed(72)),
+    common("feedingWatchHours", "Watch a zone for a fast rise this long after a feeding", "h", 72),
   ],
   chill: [
     ...bandLines(
       param("headsUpBelowC", "Heads-up below", "°C", "species: bottom of the comfortable band", (s) => s.temperatureC.comfortLow),
       param("actNowBelowC", "Act now below", "°C", "species: cold stress", (s) => s.temperatureC.coldStress),
-      param("deadbandC", "Must rise this far above the heads-up line to settle", "°C", COMMON, fixed(0.5)),
+      common("deadbandC", "Must rise this far above the heads-up line to settle", "°C", 0.5),
     ),
   ],
   drying: [
@@ -60,12 +63,12 @@ export const RULE_PARAMETERS = {
       param("actNowBelowPct", "Act now below", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
         mid(s.moisturePct.lethalDry, s.moisturePct.comfortLow),
       ),
-      param("deadbandPct", "Must rise this far above the heads-up line to settle", "% points", COMMON, fixed(2)),
+      common("deadbandPct", "Must rise this far above the heads-up line to settle", "% points", 2),
     ),
-    param("trendWindowHours", "Drying trend fitted (least squares) over the last", "h", COMMON, fixed(24)),
-    param("trendMinSpanHours", "Trend needs readings spanning at least", "h", COMMON, fixed(6)),
-    param("trendHorizonHours", "Heads-up when the trend crosses the band within", "h", COMMON, fixed(12)),
-    param("trendSettleHorizonHours", "Trend settles once a crossing is further off than", "h", COMMON, fixed(18)),
+    common("trendWindowHours", "Drying trend fitted (least squares) over the last", "h", 24),
+    common("trendMinSpanHours", "Trend needs readings spanning at least", "h", 6),
+    common("trendHorizonHours", "Heads-up when the trend crosses the band within", "h", 12),
+    common("trendSettleHorizonHours", "Trend settles once a crossing is further off than", "h", 18),
   ],
   soggy: [
     ...bandLines(
@@ -73,7 +76,7 @@ export const RULE_PARAMETERS = {
       param("actNowAbovePct", "Act now above", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
         mid(s.moisturePct.comfortHigh, s.moisturePct.lethalWet),
       ),
-      param("deadbandPct", "Must fall this far below the heads-up line to settle", "% points", COMMON, fixed(2)),
+      common("deadbandPct", "Must fall this far below the heads-up line to settle", "% points", 2),
     ),
   ],
   ammonia: [
@@ -88,29 +91,29 @@ export const RULE_PARAMETERS = {
         "from memory: NIOSH REL for people, 25 ppm (NIOSH Pocket Guide to Chemical Hazards, ammonia; not verified)",
         fixed(25),
       ),
-      param("deadbandPpm", "Must fall this far below the heads-up line to settle", "ppm", COMMON, fixed(2)),
+      common("deadbandPpm", "Must fall this far below the heads-up line to settle", "ppm", 2),
     ),
     // Cornell "Compost Chemistry" (V): below ~30:1 excess nitrogen is lost as ammonia gas.
     param("riskCnBelow", "No ammonia probe: risk when the last feeding's C:N is below", "C:N", `${COMMON}, under Cornell's ~30:1`, fixed(25)),
     param("riskWetAbovePct", "… and its mix moisture is above", "%", "species: top of the comfortable band", (s) => s.moisturePct.comfortHigh),
-    param("riskWarmingCPerHour", "… or the zone warms faster than", "°C/h", COMMON, fixed(0.5)),
-    param("riskWarmingDeadbandCPerHour", "Warming must slow this far below that to settle", "°C/h", COMMON, fixed(0.5)),
-    param("riskWindowMinutes", "Warming measured over the last", "min", COMMON, fixed(60)),
-    param("riskWatchHours", "A feeding counts for this long", "h", COMMON, fixed(72)),
+    common("riskWarmingCPerHour", "… or the zone warms faster than", "°C/h", 0.5),
+    common("riskWarmingDeadbandCPerHour", "Warming must slow this far below that to settle", "°C/h", 0.5),
+    common("riskWindowMinutes", "Warming measured over the last", "min", 60),
+    common("riskWatchHours", "A feeding counts for this long", "h", 72),
   ],
   silent_probe: [
-    param("missedReports", "Silent after this many missed reports", "reports", COMMON, fixed(3)),
-    param("minSilentMinutes", "… and never sooner than", "min", COMMON, fixed(10)),
-    param("settleMinutes", "Reporting again this long before settling", "min", COMMON, fixed(0)),
+    common("missedReports", "Silent after this many missed reports", "reports", 3),
+    common("minSilentMinutes", "… and never sooner than", "min", 10),
+    common("settleMinutes", "Reporting again this long before settling", "min", 0),
   ],
   probe_fault: [
     raise(5),
     settle(15),
-    param("stuckHours", "Stuck when a value does not change for", "h", COMMON, fixed(6)),
+    common("stuckHours", "Stuck when a value does not change for", "h", 6),
     // A 12-bit digital probe (DS18B20 style) reads in 1/16 °C steps: from memory.
     param("temperatureStepC", "Temperature sensor step", "°C", "from memory: 12-bit digital probe", fixed(0.0625)),
-    param("moistureStepPct", "Moisture step", "%", COMMON, fixed(0.1)),
-    param("rawStepCounts", "Raw moisture step", "count", COMMON, fixed(1)),
+    common("moistureStepPct", "Moisture step", "%", 0.1),
+    common("rawStepCounts", "Raw moisture step", "count", 1),
   ],
 } as const satisfies Record<RuleKind, readonly ParamSpec[]>;
 
