@@ -1,16 +1,10 @@
+import { zonedFormat } from "@/lib/domain/clock";
 import { checkMix, type MixVerdict } from "@/lib/domain/mix";
 import type { Feeding } from "@/lib/client/hooks/use-feedings";
 
 // Times print in the farm's own time zone, so the server's first paint and the phone agree.
 export function clockFormat(timeZone: string): (iso: string | number) => string {
-  const opts = { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit", hourCycle: "h23" } as const;
-  let fmt: Intl.DateTimeFormat;
-  try {
-    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, timeZone });
-  } catch {
-    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, timeZone: "UTC" });
-  }
-  return (t) => fmt.format(new Date(t));
+  return zonedFormat(timeZone, { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
 }
 
 /** The mix check's verdict for a logged feeding, recomputed from its stored items. */

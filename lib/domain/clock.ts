@@ -36,3 +36,15 @@ export function zonedToUtc(wall: number, timeZone: string): number {
   const valid = [before, after].map((o) => wall - o).filter((t) => wall - zoneOffset(t, timeZone) === t);
   return valid.length > 0 ? Math.min(...valid) : wall - before;
 }
+
+/** A formatter of instants in the farm's time zone (ECMA-402 Intl.DateTimeFormat, en-GB, 24-hour);
+ * an unknown zone falls back to UTC rather than failing the page. */
+export function zonedFormat(timeZone: string, opts: Intl.DateTimeFormatOptions): (t: string | number | Date) => string {
+  let fmt: Intl.DateTimeFormat;
+  try {
+    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, hourCycle: "h23", timeZone });
+  } catch {
+    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, hourCycle: "h23", timeZone: "UTC" });
+  }
+  return (t) => fmt.format(new Date(t));
+}

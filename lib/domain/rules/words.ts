@@ -2,6 +2,7 @@
 // metric; the farm's unit system only changes how a message prints them.
 import { UNIT_LABELS, celsiusDeltaToFahrenheit, formatNumber, formatTemperature, temperatureForDisplay, type UnitSystem } from "../units";
 import type { ProbeContext, ZoneRuleInput } from "./types";
+import { zonedFormat } from "../clock";
 
 const MINUTE = 60_000;
 
@@ -36,16 +37,7 @@ export function span(ms: number): string {
   return rest ? `${d} days ${rest} h` : `${d} days`;
 }
 
-function clockIn(timeZone: string): (ms: number) => string {
-  const opts = { hour: "2-digit", minute: "2-digit", hourCycle: "h23" } as const;
-  let fmt: Intl.DateTimeFormat;
-  try {
-    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, timeZone });
-  } catch {
-    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, timeZone: "UTC" });
-  }
-  return (ms) => fmt.format(new Date(ms));
-}
+const clockIn = (timeZone: string): ((ms: number) => string) => zonedFormat(timeZone, { hour: "2-digit", minute: "2-digit" });
 
 export function wordsFor(input: Pick<ZoneRuleInput, "zone" | "species" | "unitSystem" | "timeZone">): Words {
   const system: UnitSystem = input.unitSystem ?? "metric";
