@@ -115,15 +115,14 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
   }
 
   const errorFor = (...fields: string[]) => (failure?.field && fields.includes(failure.field) ? failure.message : undefined);
+  /** An input's id and, when the server named its field, the error tied to it. */
+  const tied = (id: string, ...fields: string[]) => ({
+    id,
+    "aria-invalid": errorFor(...fields) ? true : undefined,
+    "aria-describedby": errorFor(...fields) ? `${id}-error` : undefined,
+  });
   const columnSelect = (field: string, v: string, set: (s: string) => void, opts: { fixed?: string; optional?: boolean }) => (
-    <select
-      id={`${uid}-${field}`}
-      value={v}
-      onChange={(e) => set(e.target.value)}
-      className={input}
-      aria-invalid={errorFor(field) ? true : undefined}
-      aria-describedby={errorFor(field) ? `${uid}-${field}-error` : undefined}
-    >
+    <select {...tied(`${uid}-${field}`, field)} value={v} onChange={(e) => set(e.target.value)} className={input}>
       {(opts.optional || v === NONE) && <option value={NONE}>{opts.optional ? "— none —" : "Choose a column"}</option>}
       {opts.fixed && <option value={FIXED}>{opts.fixed}</option>}
       {header.map((h) => (
@@ -144,7 +143,7 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
       >
         <input
           ref={fileInput}
-          id={`${uid}-file`}
+          {...tied(`${uid}-file`, "file")}
           type="file"
           accept=".csv,.txt,text/csv"
           onChange={(e) => void onFile(e.target.files?.[0] ?? null)}
@@ -234,14 +233,12 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
               error={errorFor("timezone")}
             >
               <input
-                id={`${uid}-tz`}
+                {...tied(`${uid}-tz`, "timezone")}
                 value={tz}
                 onChange={(e) => setTz(e.target.value)}
                 className={input}
                 autoComplete="off"
                 spellCheck={false}
-                aria-invalid={errorFor("timezone") ? true : undefined}
-                aria-describedby={errorFor("timezone") ? `${uid}-tz-error` : undefined}
               />
             </Field>
           </fieldset>
