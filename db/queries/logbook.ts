@@ -3,7 +3,6 @@ import { db } from "@/db";
 import type { LogKind } from "@/lib/domain/vocabulary";
 import { feedings, harvests, logNotes, ovenDrySamples, probes, readings, users, waterings as wateringsTable, zones } from "@/db/schema";
 
-
 const tables = { feeding: feedings, watering: wateringsTable, harvest: harvests, note: logNotes, sample: ovenDrySamples } as const;
 
 type Common = { farmId: string; binId: string; zoneId: string | null; at: Date; byUserId: string; notes: string | null };
