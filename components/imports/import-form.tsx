@@ -17,6 +17,13 @@ type Outcome = {
 };
 type Failure = { message: string; field?: string };
 
+// What each field expects, in the keeper's words.
+const HINTS = {
+  file: "One reading per row: a time, a value, and the probe and metric as columns or chosen below.",
+  unit: "Without one, values are read as °C, % wet basis, ppm, V and dBm.",
+  timezone: "Times like 2025-05-01 14:30 are read in this zone; times ending in Z or +02:00 keep their own.",
+};
+
 const FIXED = "__fixed__";
 const NONE = "";
 const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg";
@@ -135,12 +142,7 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
 
   return (
     <form onSubmit={onSubmit} className="space-y-5 rounded-2xl bg-white p-4 shadow-sm ring-1 ring-soil-300">
-      <Field
-        id={`${uid}-file`}
-        label="Logger file (CSV)"
-        hint="One reading per row: a time, a value, and the probe and metric as columns or chosen below."
-        error={errorFor("file")}
-      >
+      <Field id={`${uid}-file`} label="Logger file (CSV)" hint={HINTS.file} error={errorFor("file")}>
         <input
           ref={fileInput}
           {...tied(`${uid}-file`, "file")}
@@ -218,20 +220,10 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
                 </select>
               </Field>
             )}
-            <Field
-              id={`${uid}-unit`}
-              label="Unit column (if any)"
-              hint="Without one, values are read as °C, % wet basis, ppm, V and dBm."
-              error={errorFor("unit")}
-            >
+            <Field id={`${uid}-unit`} label="Unit column (if any)" hint={HINTS.unit} error={errorFor("unit")}>
               {columnSelect("unit", unit, setUnit, { optional: true })}
             </Field>
-            <Field
-              id={`${uid}-tz`}
-              label="Time zone of times without one"
-              hint="Times like 2025-05-01 14:30 are read in this zone; times ending in Z or +02:00 keep their own."
-              error={errorFor("timezone")}
-            >
+            <Field id={`${uid}-tz`} label="Time zone of times without one" hint={HINTS.timezone} error={errorFor("timezone")}>
               <input
                 {...tied(`${uid}-tz`, "timezone")}
                 value={tz}

@@ -14,9 +14,15 @@ const memo = <T>(f: (i: number) => T) => {
   };
 };
 
+type BandKind = "heat" | "chill" | "drying" | "soggy";
 type Reading = { metric: "temperature" | "moisture"; unit: "Cel" | "/100" };
-const TEMPERATURE: Reading = { metric: "temperature", unit: "Cel" };
-const MOISTURE: Reading = { metric: "moisture", unit: "/100" };
+/** What each band rule reads, with the stored SenML unit (RFC 8428 §12.1: Cel, /100). */
+const READS: Record<BandKind, Reading> = {
+  heat: { metric: "temperature", unit: "Cel" },
+  chill: { metric: "temperature", unit: "Cel" },
+  drying: { metric: "moisture", unit: "/100" },
+  soggy: { metric: "moisture", unit: "/100" },
+};
 type Words = { message: string; settleMessage: string; details: Record<string, unknown> };
 
 /** What a band rule decides for one probe's series: its triggers (worst first), when it counts as
@@ -28,18 +34,19 @@ type SeriesJudgement<E> = { triggers: Trigger[]; clear: (i: number) => boolean; 
  * time); `words` adds the rule's own. */
 function bandVerdict<E>(
   ctx: RuleContext,
+  kind: BandKind,
   o: {
-    reading: Reading;
-    settleMinutes: number;
     judgeSeries: (view: ProbeView) => SeriesJudgement<E>;
     extremity: (j: Judged) => number;
     words: (worst: Judged, extra: E) => Words;
   },
 ): Verdict | null {
+  const reading = READS[kind];
+  const settleMs = ctx.rules[kind].t.settleMinutes * MINUTE;
   const extras = new Map<Judged, E>();
-  const judged = ctx.fresh(o.reading.metric).map((view) => {
+  const judged = ctx.fresh(reading.metric).map((view) => {
     const { triggers, clear, extra } = o.judgeSeries(view);
-    const j = judge(view, triggers, clear, o.settleMinutes * MINUTE);
+    const j = judge(view, triggers, clear, settleMs);
     extras.set(j, extra(j.i));
     return j;
   });
@@ -54,7 +61,7 @@ function bandVerdict<E>(
     message,
     settleMessage,
     details: {
-      ...o.reading,
+      ...reading,
       probeId: worst.view.probeId,
       trigger: worst.held?.id ?? null,
       value: worst.last.v,
@@ -91,9 +98,7 @@ export function heatVerdict(ctx: RuleContext): Verdict | null {
   const { w } = ctx;
   const watchMs = r.feedingWatchHours * HOUR;
   const band = w.tempRange(ctx.input.species.temperatureC.comfortLow, r.headsUpAboveC);
-  return bandVerdict(ctx, {
-    reading: TEMPERATURE,
-    settleMinutes: r.settleMinutes,
+  return bandVerdict(ctx, "heat", {
     judgeSeries: (view) => {
       const s = view.s;
       const rate = memo((i) => rateAt(s, i, r.riseWindowMinutes * MINUTE, view.gapMs));
@@ -139,9 +144,7 @@ export function chillVerdict(ctx: RuleContext): Verdict | null {
   const heat = ctx.rules.heat.t;
   const { w } = ctx;
   const band = w.tempRange(r.headsUpBelowC, ctx.input.species.temperatureC.comfortHigh);
-  return bandVerdict(ctx, {
-    reading: TEMPERATURE,
-    settleMinutes: r.settleMinutes,
+  return bandVerdict(ctx, "chill", {
     judgeSeries: (view) => ({
       triggers: bandTriggers(
         view.s,
@@ -178,9 +181,7 @@ export function dryingVerdict(ctx: RuleContext): Verdict | null {
   const r = ctx.rules.drying.t;
   const { w } = ctx;
   const band = w.pctRange(r.headsUpBelowPct, ctx.input.species.moisturePct.comfortHigh);
-  return bandVerdict(ctx, {
-    reading: MOISTURE,
-    settleMinutes: r.settleMinutes,
+  return bandVerdict(ctx, "drying", {
     judgeSeries: (view) => {
       const s = view.s;
       const trend = memo((i) => trendAt(s, i, r.trendWindowHours * HOUR, r.trendMinSpanHours * HOUR, r.headsUpBelowPct));
@@ -233,9 +234,7 @@ export function soggyVerdict(ctx: RuleContext): Verdict | null {
   const dry = ctx.rules.drying.t;
   const { w } = ctx;
   const band = w.pctRange(ctx.input.species.moisturePct.comfortLow, r.headsUpAbovePct);
-  return bandVerdict(ctx, {
-    reading: MOISTURE,
-    settleMinutes: r.settleMinutes,
+  return bandVerdict(ctx, "soggy", {
     judgeSeries: (view) => ({
       triggers: bandTriggers(
         view.s,

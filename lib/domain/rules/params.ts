@@ -32,9 +32,22 @@ const common = <K extends string>(key: K, label: string, unit: ParamUnit, n: num
 
 const raise = (n: number) => param("raiseMinutes", "Held this long before raising", "min", COMMON, fixed(n));
 const settle = (n: number) => param("settleMinutes", "Held back inside the band before settling", "min", COMMON, fixed(n));
+/** A moisture act-now line half-way between the comfortable band and the species' survival limit. */
+const halfwayToLimit = <K extends string>(key: K, label: string, ends: (m: SpeciesProfile["moisturePct"]) => [number, number]) =>
+  param(key, label, "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) => mid(...ends(s.moisturePct)));
 /** A band rule's lines: heads-up, act now, held 10 min before raising and 15 min inside the band
  * (past the deadband) before settling (common practice). */
 const bandLines = <H, A, D>(headsUp: H, actNow: A, deadband: D) => [headsUp, actNow, raise(10), settle(15), deadband] as const;
+
+/** How the drying rule reads a day's trend: a least-squares line over a window, trusted once the
+ * readings span long enough, raising when it crosses the band soon and settling when the crossing
+ * moves further off (all common practice). */
+const DRYING_TREND = [
+  common("trendWindowHours", "Drying trend fitted (least squares) over the last", "h", 24),
+  common("trendMinSpanHours", "Trend needs readings spanning at least", "h", 6),
+  common("trendHorizonHours", "Heads-up when the trend crosses the band within", "h", 12),
+  common("trendSettleHorizonHours", "Trend settles once a crossing is further off than", "h", 18),
+] as const;
 
 export const RULE_PARAMETERS = {
   heat: [
@@ -60,22 +73,15 @@ export const RULE_PARAMETERS = {
   drying: [
     ...bandLines(
       param("headsUpBelowPct", "Heads-up below", "%", "species: bottom of the comfortable moisture band", (s) => s.moisturePct.comfortLow),
-      param("actNowBelowPct", "Act now below", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
-        mid(s.moisturePct.lethalDry, s.moisturePct.comfortLow),
-      ),
+      halfwayToLimit("actNowBelowPct", "Act now below", (m) => [m.lethalDry, m.comfortLow]),
       common("deadbandPct", "Must rise this far above the heads-up line to settle", "% points", 2),
     ),
-    common("trendWindowHours", "Drying trend fitted (least squares) over the last", "h", 24),
-    common("trendMinSpanHours", "Trend needs readings spanning at least", "h", 6),
-    common("trendHorizonHours", "Heads-up when the trend crosses the band within", "h", 12),
-    common("trendSettleHorizonHours", "Trend settles once a crossing is further off than", "h", 18),
+    ...DRYING_TREND,
   ],
   soggy: [
     ...bandLines(
       param("headsUpAbovePct", "Heads-up above", "%", "species: top of the comfortable moisture band", (s) => s.moisturePct.comfortHigh),
-      param("actNowAbovePct", "Act now above", "%", `${COMMON}: half-way from the band to the species' survival limit`, (s) =>
-        mid(s.moisturePct.comfortHigh, s.moisturePct.lethalWet),
-      ),
+      halfwayToLimit("actNowAbovePct", "Act now above", (m) => [m.comfortHigh, m.lethalWet]),
       common("deadbandPct", "Must fall this far below the heads-up line to settle", "% points", 2),
     ),
   ],
