@@ -1,12 +1,12 @@
 import { redirect } from "next/navigation";
-import { listMyFarms } from "@/db/queries/users";
 import { currentUserId } from "@/lib/web/session";
+import { listFarmsOf } from "@/lib/server/farms/list-farms";
 
 // Home goes to Today of the person's first farm.
 export default async function Home() {
   const userId = await currentUserId();
   if (!userId) redirect("/sign-in");
-  const [first] = await listMyFarms(userId);
+  const [first] = await listFarmsOf(userId);
   if (first) redirect(`/farms/${first.id}`);
   return (
     <main className="p-5">

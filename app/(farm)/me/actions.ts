@@ -3,12 +3,12 @@
 import { revalidatePath } from "next/cache";
 import { requireUser } from "@/lib/web/session";
 import { updateMe } from "@/lib/server/people/update-me";
-import { quietHoursForm } from "@/lib/domain/validation/alerts";
+import { meForm } from "@/lib/domain/validation/alerts";
 import { validatedAction } from "@/lib/web/validated-action";
 
-export const saveQuietHours = validatedAction(quietHoursForm, async (input) => {
+export const saveQuietHours = validatedAction(meForm, async (patch) => {
   const userId = await requireUser();
-  await updateMe(userId, { quietFrom: input.quietFrom || null, quietTo: input.quietTo || null, timezone: input.timezone });
+  await updateMe(userId, patch);
   revalidatePath("/me");
-  return input.quietFrom ? `Quiet from ${input.quietFrom} to ${input.quietTo}; act-now alerts still come through.` : "Quiet hours cleared.";
+  return patch.quietFrom ? `Quiet from ${patch.quietFrom} to ${patch.quietTo}; act-now alerts still come through.` : "Quiet hours cleared.";
 });

@@ -1,26 +1,25 @@
 import type { Metadata } from "next";
 import { redirect } from "next/navigation";
-import { getUser, listMyFarms } from "@/db/queries/users";
 import { QuietHoursForm } from "@/components/me/quiet-hours-form";
 import { AlertsOnThisPhone } from "@/components/push/alerts-on-this-phone";
 import { currentUserId } from "@/lib/web/session";
+import { readMe } from "@/lib/server/people/read-me";
 import { saveQuietHours } from "./actions";
 
 export const metadata: Metadata = { title: "You" };
 
 export default async function MePage() {
   const userId = await currentUserId();
-  const user = userId ? await getUser(userId) : null;
-  if (!user) redirect("/sign-in");
-  const farms = await listMyFarms(user.id);
-  const crew = farms.some((f) => f.role !== "viewer");
+  if (!userId) redirect("/sign-in");
+  const user = await readMe(userId);
+  const crew = user.farms.some((f) => f.role !== "viewer");
   return (
     <main className="space-y-4 p-3">
       <div className="px-1 pt-1">
         <h1 className="text-3xl font-bold">{user.name}</h1>
         <p className="text-soil-700">{user.email}</p>
         <ul className="mt-1 text-sm text-soil-700">
-          {farms.map((f) => (
+          {user.farms.map((f) => (
             <li key={f.id}>
               {f.name}: {f.role}
             </li>

@@ -12,8 +12,13 @@ const unitSystem = z.enum(UNIT_SYSTEMS, { message: "Choose metric or imperial." 
 const farmFields = { name, unitSystem, timezone: timeZone };
 export const farmCreate = z.object({ name, unitSystem: unitSystem.default("metric"), timezone: timeZone.default("UTC") });
 export const farmUpdate = z.object(farmFields).partial();
-/** The settings form posts every field, and the farm's id as a hidden field. */
-export const farmForm = z.object({ farmId: z.string().uuid(), ...farmFields });
+export type FarmCreate = z.output<typeof farmCreate>;
+export type FarmUpdate = z.output<typeof farmUpdate>;
+/** The settings form: PATCH /api/farms/[farmId]'s schema with every field posted, and the farm's id
+ * as a hidden field. */
+export const farmForm = farmUpdate.required().extend({ farmId: z.string().uuid() });
+/** The settings page's archive and bring-back buttons: the farm of the page and the bin. */
+export const binOfFarmForm = z.object({ farmId: z.string().uuid(), binId: z.string().uuid() });
 
 // Zones default by count, ordered from the feeding side to the harvest side.
 export function defaultZoneKinds(count: number): ZoneKind[] {

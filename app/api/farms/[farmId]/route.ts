@@ -1,7 +1,8 @@
-import { getFarm, updateFarm } from "@/db/queries/farms";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
+import { readFarm } from "@/lib/server/farms/read-farm";
+import { updateFarmSettings } from "@/lib/server/farms/update-farm";
 import { farmUpdate } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ farmId: string }> };
@@ -10,7 +11,7 @@ type Ctx = { params: Promise<{ farmId: string }> };
 export const GET = route(async (_req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "read");
-  return Response.json({ farm: await getFarm(who.farmId), role: who.role });
+  return Response.json(await readFarm(who));
 });
 
 // PATCH /api/farms/[farmId] — owners rename the farm or change its units and timezone
@@ -18,5 +19,5 @@ export const PATCH = route(async (req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "manage");
   const patch = farmUpdate.parse(await readJson(req));
-  return Response.json({ farm: await updateFarm(who.farmId, patch) });
+  return Response.json({ farm: await updateFarmSettings(who, patch) });
 });

@@ -1,10 +1,8 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
-import { listBins } from "@/db/queries/bins";
-import { getFarm } from "@/db/queries/farms";
 import { BinArchive } from "@/components/settings/bin-archive";
 import { FarmForm } from "@/components/settings/farm-form";
 import { requirePageMember } from "@/lib/web/session";
+import { farmSettingsView } from "@/lib/server/farms/settings-view";
 import { archiveBinAction, bringBackBin, saveFarm } from "./actions";
 import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 
@@ -12,9 +10,7 @@ export const metadata: Metadata = { title: "Settings" };
 
 export default async function SettingsPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
-  const { role } = await requirePageMember({ farmId }, "read");
-  const farm = await getFarm(farmId);
-  if (!farm) notFound();
+  const { farm, bins } = await farmSettingsView(await requirePageMember({ farmId }, "read"));
   const heading = (
     <div className="px-1 pt-1">
       <a href={`/farms/${farmId}`} className="inline-flex min-h-11 items-center text-sm text-soil-500">
@@ -24,7 +20,7 @@ export default async function SettingsPage({ params }: { params: Promise<{ farmI
       <h1 className="text-3xl font-bold">Settings</h1>
     </div>
   );
-  if (role !== "owner") {
+  if (!bins) {
     return (
       <main className="space-y-4 p-3">
         {heading}
@@ -32,7 +28,6 @@ export default async function SettingsPage({ params }: { params: Promise<{ farmI
       </main>
     );
   }
-  const bins = await listBins(farmId, { includeArchived: true });
   // A time zone stored before the API checked them must not keep the owner from fixing it here.
   const day = (d: Date) => d.toLocaleDateString("en-GB", { timeZone: timeZoneOrUtc(farm.timezone), day: "numeric", month: "short", year: "numeric" });
   const zonesWord = (n: number) => `${n} zone${n === 1 ? "" : "s"}`;

@@ -1,6 +1,6 @@
-import { listAlerts } from "@/db/queries/alerts";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
+import { listFarmAlerts } from "@/lib/server/alerts/list-alerts";
 import { alertListQuery } from "@/lib/domain/validation/alerts";
 
 type Ctx = { params: Promise<{ farmId: string }> };
@@ -9,6 +9,6 @@ type Ctx = { params: Promise<{ farmId: string }> };
 export const GET = route(async (req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "read");
-  const q = alertListQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
-  return Response.json({ alerts: await listAlerts(who.farmId, { open: q.state === "open" }) });
+  const query = alertListQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
+  return Response.json({ alerts: await listFarmAlerts(who, query) });
 });

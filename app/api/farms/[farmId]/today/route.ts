@@ -1,6 +1,6 @@
-import { getToday } from "@/db/queries/today";
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
+import { readToday } from "@/lib/server/farms/read-today";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 
@@ -8,5 +8,5 @@ type Ctx = { params: Promise<{ farmId: string }> };
 export const GET = route(async (_req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "read");
-  return Response.json(await getToday(who.farmId));
+  return Response.json(await readToday(who));
 });
