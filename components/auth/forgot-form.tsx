@@ -1,12 +1,9 @@
 "use client";
 
 import { useActionState } from "react";
-import { FormAnswer, SubmitButton, TextField } from "@/components/ui/form-parts";
-import type { ActionState } from "@/lib/web/validated-action";
+import { FormAnswer, SubmitButton, TextField, type FormAction } from "@/components/ui/form-parts";
 
-type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
-
-export function ForgotForm({ action }: { action: Action }) {
+export function ForgotForm({ action }: { action: FormAction }) {
   const [state, formAction, pending] = useActionState(action, {});
   const err = state.fieldErrors?.email;
   return (

@@ -2,12 +2,9 @@
 
 import { NewPasswordField } from "@/components/auth/new-password-field";
 import { useActionState } from "react";
-import type { ActionState } from "@/lib/web/validated-action";
-import { FormAnswer, SubmitButton } from "@/components/ui/form-parts";
+import { FormAnswer, SubmitButton, type FormAction } from "@/components/ui/form-parts";
 
-type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
-
-export function ResetForm({ token, email, action }: { token: string; email: string; action: Action }) {
+export function ResetForm({ token, email, action }: { token: string; email: string; action: FormAction }) {
   const [state, formAction, pending] = useActionState(action, {});
   const err = state.fieldErrors?.password;
   return (

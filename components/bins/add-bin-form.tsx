@@ -1,9 +1,10 @@
 "use client";
 
 import { useState } from "react";
-import { useSWRConfig } from "swr";
-import { failureOf, send } from "@/lib/client/fetcher";
-import { todayKey } from "@/lib/client/swr-keys";
+import { send } from "@/lib/client/fetcher";
+import { useTodayRefresh } from "@/lib/client/revalidate";
+import { useSend } from "@/lib/client/use-send";
+import type { AddedBin } from "@/lib/client/wire";
 import { BIN_STYLES } from "@/lib/domain/vocabulary";
 
 const SPECIES = [
@@ -15,34 +16,27 @@ const SPECIES = [
 
 // Owners add a bin from Today; its zones are made from the count, feeding side first.
 export function AddBinForm({ farmId }: { farmId: string }) {
-  const { mutate } = useSWRConfig();
+  const refreshToday = useTodayRefresh(farmId);
   const [open, setOpen] = useState(false);
-  const [busy, setBusy] = useState(false);
-  const [errors, setErrors] = useState<Record<string, string>>({});
+  const { busy, errors, run } = useSend();
   const [done, setDone] = useState<string | null>(null);
 
   async function submit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const f = new FormData(e.currentTarget);
-    setBusy(true);
-    setErrors({});
-    let body: { bin: { name: string; zones: unknown[] } };
-    try {
-      body = await send("POST", `/api/farms/${farmId}/bins`, {
+    const sent = await run(() =>
+      send<AddedBin>("POST", `/api/farms/${farmId}/bins`, {
         name: f.get("name"),
         style: f.get("style"),
         species: f.get("species"),
         zoneCount: Number(f.get("zoneCount")),
-      });
-    } catch (err) {
-      const { field = "form", message } = failureOf(err);
-      return setErrors({ [field]: message });
-    } finally {
-      setBusy(false);
-    }
+      }),
+    );
+    if (!sent.ok) return;
+    const body = sent.value;
     setDone(`Added ${body.bin.name} with ${body.bin.zones.length} zone${body.bin.zones.length === 1 ? "" : "s"}.`);
     setOpen(false);
-    await mutate(todayKey(farmId));
+    await refreshToday();
   }
 
   const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3";

@@ -3,18 +3,11 @@
 import { useRouter } from "next/navigation";
 import { useEffect, useId, useRef, useState } from "react";
 import { failureOf, send } from "@/lib/client/fetcher";
+import type { ImportResult } from "@/lib/client/wire";
 import { guessMapping, IMPORT_METRICS, readCsv, readHeader } from "@/lib/domain/csv-import";
 import { METRICS } from "@/lib/domain/metrics";
 
 type ProbeChoice = { code: string; label: string | null };
-type Outcome = {
-  duplicate: boolean;
-  import: { id: string; createdAt: string; rowsTotal: number; rowsStored: number; rowsRejected: number; report: { line: number; reason: string }[] };
-  alreadyStored: number;
-  repeats: number;
-  reportTruncated: boolean;
-  earlier: { id: string; createdAt: string }[];
-};
 type Failure = { message: string; field?: string };
 
 // What each field expects, in the keeper's words.
@@ -62,7 +55,7 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
   const [unit, setUnit] = useState(NONE);
   const [tz, setTz] = useState(timezone);
   const [busy, setBusy] = useState(false);
-  const [outcome, setOutcome] = useState<Outcome | null>(null);
+  const [outcome, setOutcome] = useState<ImportResult | null>(null);
   const [failure, setFailure] = useState<Failure | null>(null);
   const fileInput = useRef<HTMLInputElement>(null);
 
@@ -112,7 +105,7 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
     if (unit) form.set("unit", unit);
     form.set("timezone", tz);
     try {
-      setOutcome(await send<Outcome>("POST", `/api/farms/${farmId}/imports`, form));
+      setOutcome(await send<ImportResult>("POST", `/api/farms/${farmId}/imports`, form));
       router.refresh();
     } catch (err) {
       setFailure(failureOf(err));
@@ -254,7 +247,7 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
   );
 }
 
-function Result({ outcome }: { outcome: Outcome }) {
+function Result({ outcome }: { outcome: ImportResult }) {
   const i = outcome.import;
   if (outcome.duplicate) {
     return (

@@ -3,7 +3,8 @@
 import { useEffect, useMemo, useRef, useState } from "react";
 import { MixVerdictMark } from "@/components/logbook/mix-verdict";
 import { zoneWords } from "@/components/logbook/format";
-import { useIngredients, type IngredientRow } from "@/lib/client/hooks/use-ingredients";
+import { useIngredients } from "@/lib/client/hooks/use-ingredients";
+import type { IngredientRow, LoggedFeeding, ZoneChoice } from "@/lib/client/wire";
 import { amendmentForMoisture, beddingForCn, checkMix, WATER, WORM_BED_TARGET, type Amendment, type MixItem } from "@/lib/domain/mix";
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
@@ -11,7 +12,6 @@ import { feedingsKey } from "@/lib/client/swr-keys";
 import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import { LogStatus } from "@/components/ui/form-parts";
 
-type Zone = { id: string; kind: string; name: string | null };
 type Row = {
   key: number;
   ingredientId: string | null;
@@ -63,7 +63,7 @@ export function FeedingForm({
 }: {
   farmId: string;
   binId: string;
-  zones: Zone[];
+  zones: ZoneChoice[];
   defaultZoneId: string | null;
   system: UnitSystem;
 }) {
@@ -173,7 +173,7 @@ export function FeedingForm({
       })),
     };
     try {
-      const out = await send<{ mix: { totalMassKg: number; verdict: string } }>("POST", feedingsKey(binId)!, body);
+      const out = await send<LoggedFeeding>("POST", feedingsKey(binId)!, body);
       const where = zoneWords(zones.find((z) => z.id === zoneId));
       setStatus({ ok: true, text: `Logged ${formatMass(out.mix.totalMassKg, system, { digits: 2 })} for ${where}: ${out.mix.verdict}.` });
       setRows([]);

@@ -4,12 +4,11 @@ import { useMemo } from "react";
 import { clockFormat, feedingIssues, zoneWords } from "@/components/logbook/format";
 import { MixVerdictMark } from "@/components/logbook/mix-verdict";
 import { useFeedings } from "@/lib/client/hooks/use-feedings";
+import type { ZoneChoice } from "@/lib/client/wire";
 import { formatMass, formatNumber, formatPercent, type UnitSystem } from "@/lib/domain/units";
 
-type Zone = { id: string; kind: string; name: string | null };
-
 // A bin's feedings, newest first: where, items, total, the mix check kept with it, who and when.
-export function FeedingLog({ binId, zones, system, timezone }: { binId: string; zones: Zone[]; system: UnitSystem; timezone: string }) {
+export function FeedingLog({ binId, zones, system, timezone }: { binId: string; zones: ZoneChoice[]; system: UnitSystem; timezone: string }) {
   const { data, error } = useFeedings(binId);
   const clock = useMemo(() => clockFormat(timezone), [timezone]);
   if (!data) return <p className="text-soil-700">{error ? error.message : "Loading the logbook…"}</p>;

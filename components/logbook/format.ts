@@ -1,6 +1,6 @@
 import { zonedFormat } from "@/lib/domain/clock";
 import { checkMix, type MixVerdict } from "@/lib/domain/mix";
-import type { Feeding } from "@/lib/client/hooks/use-feedings";
+import type { Feeding } from "@/lib/client/wire";
 
 // Times print in the farm's own time zone, so the server's first paint and the phone agree.
 export function clockFormat(timeZone: string): (iso: string | number) => string {

@@ -2,12 +2,11 @@
 
 import { useMemo, useState } from "react";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
-import { useLogbook, type LogbookItem } from "@/lib/client/hooks/use-logbook";
+import { useLogbook } from "@/lib/client/hooks/use-logbook";
+import type { LogbookItem, ZoneChoice } from "@/lib/client/wire";
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
 import { formatMass, formatNumber, formatPercent, formatVolume, type UnitSystem } from "@/lib/domain/units";
-
-type Zone = { id: string; kind: string; name: string | null };
 
 // Each kind has its own word and its own shape, so the list never leans on colour alone.
 const KINDS: Record<LogbookItem["kind"], { word: string; shape: React.ReactNode; cls: string }> = {
@@ -55,7 +54,7 @@ export function LogbookList({
   isOwner,
 }: {
   binId: string;
-  zones: Zone[];
+  zones: ZoneChoice[];
   system: UnitSystem;
   timezone: string;
   userId: string;

@@ -2,12 +2,13 @@
 
 import { useState } from "react";
 import { zoneWords } from "@/components/logbook/format";
-import { failureOf, send } from "@/lib/client/fetcher";
+import { send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
+import { useSend } from "@/lib/client/use-send";
+import type { ZoneChoice } from "@/lib/client/wire";
 import { massToKg, UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/domain/units";
 import { LogStatus } from "@/components/ui/form-parts";
 
-type Zone = { id: string; kind: string; name: string | null };
 type Kind = "watering" | "harvest" | "note";
 
 const num = (s: string) => (s.trim() === "" ? NaN : Number(s.trim().replace(",", ".")));
@@ -19,14 +20,13 @@ const TITLES: Record<Kind, { title: string; button: string; done: string; path: 
 };
 
 // One compact form per kind: where, an amount in the farm's units (or the note's text), optional notes.
-function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; zones: Zone[]; system: UnitSystem }) {
+function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; zones: ZoneChoice[]; system: UnitSystem }) {
   const refresh = useBinRefresh(binId);
   const [zoneId, setZoneId] = useState("");
   const [amount, setAmount] = useState("");
   const [notes, setNotes] = useState("");
-  const [errors, setErrors] = useState<Record<string, string>>({});
+  const { busy, errors, setErrors, run } = useSend();
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
-  const [busy, setBusy] = useState(false);
   const t = TITLES[kind];
   const unit = kind === "watering" ? UNIT_LABELS[system].volume : UNIT_LABELS[system].mass;
   const field = kind === "watering" ? "litres" : kind === "harvest" ? "massKg" : "text";
@@ -46,17 +46,10 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
       }
       value = kind === "watering" ? volumeToLitres(n, system) : massToKg(n, system);
     }
-    setBusy(true);
-    try {
-      await send("POST", `/api/bins/${binId}/${t.path}`, { zoneId: zoneId || null, notes: kind === "note" ? null : notes.trim() || null, [field]: value });
-    } catch (err) {
-      const f = failureOf(err);
-      setErrors({ [f.field ?? "form"]: f.message });
-      setStatus({ ok: false, text: `Not logged: ${f.message}` });
-      return;
-    } finally {
-      setBusy(false);
-    }
+    const sent = await run(() =>
+      send("POST", `/api/bins/${binId}/${t.path}`, { zoneId: zoneId || null, notes: kind === "note" ? null : notes.trim() || null, [field]: value }),
+    );
+    if (!sent.ok) return setStatus({ ok: false, text: `Not logged: ${sent.message}` });
     setAmount("");
     setNotes("");
     setStatus({ ok: true, text: t.done });
@@ -152,7 +145,7 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
   );
 }
 
-export function QuickLogForms(props: { binId: string; zones: Zone[]; system: UnitSystem }) {
+export function QuickLogForms(props: { binId: string; zones: ZoneChoice[]; system: UnitSystem }) {
   return (
     <div className="space-y-4">
       <QuickForm kind="watering" {...props} />

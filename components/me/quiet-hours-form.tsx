@@ -1,11 +1,10 @@
 "use client";
 
 import { useActionState } from "react";
-import { FormAnswer, SubmitButton, TextField } from "@/components/ui/form-parts";
-import type { ActionState } from "@/lib/web/validated-action";
+import { FormAnswer, SubmitButton, TextField, type FormAction } from "@/components/ui/form-parts";
 
 type Props = {
-  action: (prev: ActionState, form: FormData) => Promise<ActionState>;
+  action: FormAction;
   quietFrom: string | null;
   quietTo: string | null;
   timezone: string;

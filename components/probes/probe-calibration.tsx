@@ -1,9 +1,11 @@
 "use client";
 
 import { useState } from "react";
+import { Panel } from "@/components/ui/panel";
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useCalibration } from "@/lib/client/hooks/use-calibration";
-import type { RecordedSample } from "@/lib/client/wire";
+import { useSend } from "@/lib/client/use-send";
+import type { FittedCalibration, RecordedSample } from "@/lib/client/wire";
 import { formatNumber } from "@/lib/domain/units";
 
 const num = (s: FormDataEntryValue | null) => (typeof s !== "string" || s.trim() === "" ? undefined : Number(s.trim().replace(",", ".")));
@@ -18,10 +20,9 @@ const FIELDS = [
 // Oven-dry samples beside one probe, and the straight line from its raw count to moisture (wet basis).
 export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId: number; placed: boolean; canLog: boolean; canFit: boolean }) {
   const { data, error, mutate } = useCalibration(probeId);
-  const [errors, setErrors] = useState<Record<string, string>>({});
+  const { busy, errors, setErrors, run } = useSend();
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
   const [fitStatus, setFitStatus] = useState<{ ok: boolean; text: string } | null>(null);
-  const [busy, setBusy] = useState(false);
 
   async function record(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -36,17 +37,9 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
     }
     setErrors(errs);
     if (Object.keys(errs).length) return setStatus({ ok: false, text: "Not recorded: check the marked fields." });
-    setBusy(true);
-    let out: RecordedSample;
-    try {
-      out = await send("POST", `/api/probes/${probeId}/samples`, body);
-    } catch (err) {
-      const { field = "form", message } = failureOf(err);
-      setErrors({ [field]: message });
-      return setStatus({ ok: false, text: `Not recorded: ${message}` });
-    } finally {
-      setBusy(false);
-    }
+    const sent = await run(() => send<RecordedSample>("POST", `/api/probes/${probeId}/samples`, body));
+    if (!sent.ok) return setStatus({ ok: false, text: `Not recorded: ${sent.message}` });
+    const out = sent.value;
     form.reset();
     const raw =
       out.rawFrom === "probe"
@@ -60,7 +53,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
 
   async function fit() {
     try {
-      const out = await send<{ calibration: { points: number } }>("POST", `/api/probes/${probeId}/calibration`);
+      const out = await send<FittedCalibration>("POST", `/api/probes/${probeId}/calibration`);
       setFitStatus({ ok: true, text: `Fitted from ${out.calibration.points} samples.` });
     } catch (err) {
       setFitStatus({ ok: false, text: `Not fitted: ${failureOf(err).message}` });
@@ -83,10 +76,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
   const cal = data?.calibration;
   return (
     <div className="space-y-4">
-      <section aria-labelledby="cal-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="cal-h" className="text-xl font-bold">
-          Calibration
-        </h2>
+      <Panel id="cal-h" title="Calibration">
         {!data ? (
           <p className="text-soil-700">{error ? error.message : "Loading…"}</p>
         ) : cal ? (
@@ -152,7 +142,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
         <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${fitStatus?.ok ? "text-leaf-700" : "text-clay-700"}`}>
           {fitStatus?.text}
         </p>
-      </section>
+      </Panel>
 
       {canLog && (
         <form onSubmit={record} noValidate className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
@@ -201,10 +191,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
         </form>
       )}
 
-      <section aria-labelledby="samples-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="samples-h" className="text-xl font-bold">
-          Samples
-        </h2>
+      <Panel id="samples-h" title="Samples">
         {data && data.samples.length === 0 && <p className="text-soil-700">No samples yet.</p>}
         {data && data.samples.length > 0 && (
           <ol aria-label="Samples, newest first" className="divide-y divide-soil-100">
@@ -220,7 +207,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
             ))}
           </ol>
         )}
-      </section>
+      </Panel>
     </div>
   );
 }

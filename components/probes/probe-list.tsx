@@ -4,8 +4,9 @@ import { useState } from "react";
 import Link from "next/link";
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useProbes } from "@/lib/client/hooks/use-probes";
+import { useSend } from "@/lib/client/use-send";
 import { probesKey } from "@/lib/client/swr-keys";
-import type { ProbeRow, RegisteredProbe } from "@/lib/client/wire";
+import type { ProbeRow, RegisteredProbe, RotatedToken } from "@/lib/client/wire";
 
 type ZoneOption = { id: string; label: string };
 
@@ -33,28 +34,21 @@ function TokenBox({ code, token, onDone }: { code: string; token: string; onDone
 export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones: ZoneOption[]; canManage: boolean }) {
   const { data, error, mutate } = useProbes(farmId);
   const [shown, setShown] = useState<{ code: string; token: string } | null>(null);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [busy, setBusy] = useState(false);
+  const { busy, errors, setErrors, run } = useSend();
 
   async function register(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
     const f = new FormData(e.currentTarget);
-    setBusy(true);
-    setErrors({});
-    let body: RegisteredProbe;
-    try {
-      body = await send("POST", probesKey(farmId)!, {
+    const sent = await run(() =>
+      send<RegisteredProbe>("POST", probesKey(farmId)!, {
         code: f.get("code"),
         zoneId: f.get("zoneId") || null,
         label: f.get("label") || null,
         metrics: f.getAll("metrics"),
-      });
-    } catch (err) {
-      const { field = "form", message } = failureOf(err);
-      return setErrors({ [field]: message });
-    } finally {
-      setBusy(false);
-    }
+      }),
+    );
+    if (!sent.ok) return;
+    const body = sent.value;
     setShown({ code: body.probe.code, token: body.token });
     (e.target as HTMLFormElement).reset();
     await mutate();
@@ -63,7 +57,7 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
   async function newToken(p: ProbeRow) {
     if (!confirm(`Replace the token of ${p.code}? The probe stops reporting until it has the new one.`)) return;
     try {
-      const { token } = await send<{ token: string }>("POST", `/api/probes/${p.id}/token`);
+      const { token } = await send<RotatedToken>("POST", `/api/probes/${p.id}/token`);
       setShown({ code: p.code, token });
     } catch (err) {
       setErrors({ form: failureOf(err).message });

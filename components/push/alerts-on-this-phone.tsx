@@ -1,7 +1,8 @@
 "use client";
 
 import { useEffect, useState } from "react";
-import { fetcher, send } from "@/lib/client/fetcher";
+import { send } from "@/lib/client/fetcher";
+import type { PushKey, PushTestResult } from "@/lib/client/wire";
 
 type State = "checking" | "unsupported" | "denied" | "off" | "on" | "busy";
 
@@ -47,7 +48,7 @@ export function AlertsOnThisPhone() {
     change(async () => {
       const permission = await Notification.requestPermission();
       if (permission !== "granted") return [permission === "denied" ? "denied" : "off", null];
-      const { publicKey } = await fetcher<{ publicKey: string }>("/api/push/key");
+      const { publicKey } = await send<PushKey>("GET", "/api/push/key");
       const reg = await navigator.serviceWorker.ready;
       const sub = await reg.pushManager.subscribe({ userVisibleOnly: true, applicationServerKey: keyBytes(publicKey) });
       await send("POST", "/api/push/subscriptions", sub.toJSON());
@@ -68,7 +69,7 @@ export function AlertsOnThisPhone() {
   async function test() {
     setNote(null);
     try {
-      const r = await send<{ sent: number }>("POST", "/api/push/test");
+      const r = await send<PushTestResult>("POST", "/api/push/test");
       setNote(`Test sent to ${r.sent} phone${r.sent === 1 ? "" : "s"}.`);
     } catch (e) {
       setNote((e as Error).message);

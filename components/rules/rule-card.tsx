@@ -1,36 +1,36 @@
 "use client";
 
 import { useState } from "react";
+import type { RuleKindRow, RuleParam } from "@/lib/client/wire";
 import { formatNumber, type UnitSystem } from "@/lib/domain/units";
 import { fromShown, toShown, unitLabel } from "./rule-units";
 
-export type ParamRow = { key: string; label: string; unit: string; source: string; value: number };
-export type KindRow = { kind: string; enabled: boolean; params: ParamRow[] };
 export type KindState = { enabled: boolean; thresholds: Record<string, number> };
 
-type Message = { ok?: string; error?: string; fieldErrors?: Record<string, string> };
+/** What a kind's card says after a save, a reset or a refused value. */
+export type RuleMessage = { ok?: string; error?: string; fieldErrors?: Record<string, string> };
 
 const shown = (n: number) => formatNumber(n, Number.isInteger(n) ? 0 : Math.min(4, String(n).split(".")[1]?.length ?? 1));
 
 type Props = {
-  row: KindRow;
+  row: RuleKindRow;
   word: string;
   own: { enabled?: boolean; thresholds?: Record<string, number> } | undefined;
   effective: { enabled: boolean; t: Record<string, number> };
   system: UnitSystem;
   canEdit: boolean;
   busy: boolean;
-  message: Message | undefined;
+  message: RuleMessage | undefined;
   onSave: (s: KindState) => void;
   onReset: () => void;
-  onInvalid: (m: Message) => void;
+  onInvalid: (m: RuleMessage) => void;
 };
 
 // One alert kind: its switch, each number with the species default and where that default comes from,
 // and (for owners) an input holding this bin's own value; blank means "use the default".
 export function RuleCard({ row, word, own, effective, system, canEdit, busy, message, onSave, onReset, onInvalid }: Props) {
   const ownT = own?.thresholds ?? {};
-  const initialText = (p: ParamRow) => (ownT[p.key] === undefined ? "" : String(toShown(p.key, p.unit, ownT[p.key]!, system)));
+  const initialText = (p: RuleParam) => (ownT[p.key] === undefined ? "" : String(toShown(p.key, p.unit, ownT[p.key]!, system)));
   const [enabled, setEnabled] = useState(effective.enabled);
   const [texts, setTexts] = useState<Record<string, string>>(() => Object.fromEntries(row.params.map((p) => [p.key, initialText(p)])));
   const id = `rule-${row.kind}`;

@@ -4,17 +4,9 @@ import { useState } from "react";
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useBinRules } from "@/lib/client/hooks/use-bin-rules";
 import { binRulesKey } from "@/lib/client/swr-keys";
+import type { BinRules } from "@/lib/client/wire";
 import type { UnitSystem } from "@/lib/domain/units";
-import { RuleCard, type KindRow, type KindState } from "./rule-card";
-
-export type RulesData = {
-  species: string;
-  defaults: KindRow[];
-  overrides: Record<string, { enabled?: boolean; thresholds?: Record<string, number> } | undefined>;
-  effective: Record<string, { enabled: boolean; t: Record<string, number> }>;
-};
-
-type Message = { ok?: string; error?: string; fieldErrors?: Record<string, string> };
+import { RuleCard, type KindState, type RuleMessage } from "./rule-card";
 
 // Every alert kind of one bin; owners change, save or reset one kind at a time, everyone else reads.
 export function RulesTable({
@@ -25,16 +17,16 @@ export function RulesTable({
   canEdit,
 }: {
   binId: string;
-  initial: RulesData;
+  initial: BinRules;
   words: Record<string, string>;
   system: UnitSystem;
   canEdit: boolean;
 }) {
-  const { data, mutate } = useBinRules<RulesData>(binId, initial);
+  const { data, mutate } = useBinRules(binId, initial);
   const rules = data ?? initial;
-  const [messages, setMessages] = useState<Record<string, Message>>({});
+  const [messages, setMessages] = useState<Record<string, RuleMessage>>({});
   const [busy, setBusy] = useState<string | null>(null);
-  const say = (kind: string, m: Message) => setMessages((all) => ({ ...all, [kind]: m }));
+  const say = (kind: string, m: RuleMessage) => setMessages((all) => ({ ...all, [kind]: m }));
 
   async function change(kind: string, method: "PUT" | "DELETE", body?: unknown): Promise<boolean> {
     setBusy(kind);

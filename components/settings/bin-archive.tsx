@@ -1,9 +1,9 @@
 "use client";
 
 import { useActionState, useState } from "react";
-import type { ActionState } from "@/lib/web/validated-action";
+import type { FormAction } from "@/components/ui/form-parts";
+import { Panel } from "@/components/ui/panel";
 
-type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 type Bin = { id: string; name: string; detail: string };
 
 const BinName = ({ bin }: { bin: Bin }) => (
@@ -21,7 +21,7 @@ const Refusal = ({ error }: { error?: string }) =>
   ) : null;
 
 // Archiving asks once more: the bin leaves Today (its readings and logbook stay).
-function LiveBin({ farmId, bin, action }: { farmId: string; bin: Bin; action: Action }) {
+function LiveBin({ farmId, bin, action }: { farmId: string; bin: Bin; action: FormAction }) {
   const [state, formAction, pending] = useActionState(action, {});
   const [asking, setAsking] = useState(false);
   return (
@@ -59,7 +59,7 @@ function LiveBin({ farmId, bin, action }: { farmId: string; bin: Bin; action: Ac
   );
 }
 
-function ArchivedBin({ farmId, bin, action }: { farmId: string; bin: Bin; action: Action }) {
+function ArchivedBin({ farmId, bin, action }: { farmId: string; bin: Bin; action: FormAction }) {
   const [state, formAction, pending] = useActionState(action, {});
   return (
     <li className="py-3">
@@ -90,15 +90,12 @@ export function BinArchive({
   farmId: string;
   live: Bin[];
   archived: Bin[];
-  archive: Action;
-  bringBack: Action;
+  archive: FormAction;
+  bringBack: FormAction;
 }) {
   return (
     <>
-      <section aria-labelledby="live-bins-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="live-bins-h" className="text-xl font-bold">
-          Bins
-        </h2>
+      <Panel id="live-bins-h" title="Bins">
         {live.length === 0 ? (
           <p className="mt-2">No bins in use.</p>
         ) : (
@@ -108,11 +105,8 @@ export function BinArchive({
             ))}
           </ul>
         )}
-      </section>
-      <section aria-labelledby="archived-bins-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="archived-bins-h" className="text-xl font-bold">
-          Archived bins
-        </h2>
+      </Panel>
+      <Panel id="archived-bins-h" title="Archived bins">
         {archived.length === 0 ? (
           <p className="mt-2 text-soil-700">None archived.</p>
         ) : (
@@ -122,7 +116,7 @@ export function BinArchive({
             ))}
           </ul>
         )}
-      </section>
+      </Panel>
     </>
   );
 }

@@ -3,11 +3,10 @@
 import { useActionState, useState } from "react";
 import { SegmentedControl } from "@/components/ui/segmented-control";
 import type { UnitSystem } from "@/lib/domain/units";
-import { FieldError, FormAnswer, SubmitButton, TextField } from "@/components/ui/form-parts";
-import type { ActionState } from "@/lib/web/validated-action";
+import { FieldError, FormAnswer, SubmitButton, TextField, type FormAction } from "@/components/ui/form-parts";
 
 type Props = {
-  action: (prev: ActionState, form: FormData) => Promise<ActionState>;
+  action: FormAction;
   farmId: string;
   name: string;
   unitSystem: UnitSystem;

@@ -2,12 +2,9 @@
 
 import { useActionState } from "react";
 import { ROLE_WORDS, ROLES } from "@/lib/domain/team-words";
-import type { ActionState } from "@/lib/web/validated-action";
-import { FieldError, FormAnswer, SubmitButton, TextField } from "@/components/ui/form-parts";
+import { FieldError, FormAnswer, SubmitButton, TextField, type FormAction } from "@/components/ui/form-parts";
 
-type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
-
-export function InviteForm({ farmId, action }: { farmId: string; action: Action }) {
+export function InviteForm({ farmId, action }: { farmId: string; action: FormAction }) {
   const [state, formAction, pending] = useActionState(action, {});
   const err = (f: string) => state.fieldErrors?.[f];
   return (

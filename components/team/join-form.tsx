@@ -2,13 +2,10 @@
 
 import { NewPasswordField } from "@/components/auth/new-password-field";
 import { useActionState } from "react";
-import type { ActionState } from "@/lib/web/validated-action";
-import { FormAnswer, SubmitButton, TextField } from "@/components/ui/form-parts";
-
-type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
+import { FormAnswer, SubmitButton, TextField, type FormAction } from "@/components/ui/form-parts";
 
 // A new account: name and password; on success the action sends the person on to sign in.
-export function JoinForm({ token, email, action }: { token: string; email: string; action: Action }) {
+export function JoinForm({ token, email, action }: { token: string; email: string; action: FormAction }) {
   const [state, formAction, pending] = useActionState(action, {});
   const err = (f: string) => state.fieldErrors?.[f];
   return (
@@ -34,7 +31,7 @@ export function JoinForm({ token, email, action }: { token: string; email: strin
 }
 
 // Already signed in with the invited address: one tap, then Today of the farm.
-export function JoinAsMeForm({ token, farmName, action }: { token: string; farmName: string; action: Action }) {
+export function JoinAsMeForm({ token, farmName, action }: { token: string; farmName: string; action: FormAction }) {
   const [state, formAction, pending] = useActionState(action, {});
   return (
     <form action={formAction} className="space-y-4 rounded-2xl bg-white p-5 ring-1 ring-soil-300">

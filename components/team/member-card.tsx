@@ -5,10 +5,10 @@ import type { TeamRole as Role } from "@/lib/domain/team-words";
 import { ROLE_WORDS, ROLES } from "@/lib/domain/team-words";
 import type { ActionState } from "@/lib/web/validated-action";
 import { RoleBadge } from "./role-badge";
+import type { FormAction } from "@/components/ui/form-parts";
 
-type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 export type Member = { userId: string; name: string; role: Role; email?: string; joined: string; isYou: boolean };
-type Manage = { farmId: string; changeRole: Action; remove: Action };
+type Manage = { farmId: string; changeRole: FormAction; remove: FormAction };
 type Remove = { action: (form: FormData) => void; pending: boolean };
 
 function Controls({ member, manage, remove }: { member: Member & { lastOwner: boolean }; manage: Manage; remove: Remove }) {

@@ -2,14 +2,13 @@
 
 import { useActionState } from "react";
 import type { TeamRole as Role } from "@/lib/domain/team-words";
-import type { ActionState } from "@/lib/web/validated-action";
 import { RoleBadge } from "./role-badge";
+import type { FormAction } from "@/components/ui/form-parts";
 
-type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 export type PendingInvitation = { id: string; email: string; role: Role; expires: string; invitedByName: string | null };
 
 // One action state for the whole list: a revoked row disappears, and the word stays here.
-export function PendingInvitations({ farmId, invitations, action }: { farmId: string; invitations: PendingInvitation[]; action: Action }) {
+export function PendingInvitations({ farmId, invitations, action }: { farmId: string; invitations: PendingInvitation[]; action: FormAction }) {
   const [state, formAction, pending] = useActionState(action, {});
   return (
     <section aria-labelledby="pending-h">

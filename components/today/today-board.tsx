@@ -2,15 +2,15 @@
 
 import Link from "next/link";
 import { useState } from "react";
-import { useSWRConfig } from "swr";
 import type { TodayBin, TodayZone } from "@/lib/client/wire";
 import { Sparkline } from "@/components/charts/sparkline";
 import { StatusMark } from "@/components/ui/status-mark";
+import { Panel } from "@/components/ui/panel";
 import { KIND_WORDS } from "@/lib/domain/alert-words";
 import { useToday } from "@/lib/client/hooks/use-today";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
 import { failureOf, send } from "@/lib/client/fetcher";
-import { todayKey } from "@/lib/client/swr-keys";
+import { useTodayRefresh } from "@/lib/client/revalidate";
 import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/domain/units";
 
 type Zone = TodayZone;
@@ -76,7 +76,7 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
 }
 
 function ClaimButton({ alertId, farmId }: { alertId: string; farmId: string }) {
-  const { mutate } = useSWRConfig();
+  const refreshToday = useTodayRefresh(farmId);
   const [note, setNote] = useState<string | null>(null);
   async function claim() {
     try {
@@ -85,7 +85,7 @@ function ClaimButton({ alertId, farmId }: { alertId: string; farmId: string }) {
     } catch (err) {
       setNote(failureOf(err).message);
     }
-    await mutate(todayKey(farmId));
+    await refreshToday();
   }
   return (
     <div className="mt-2">
@@ -104,10 +104,7 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
   if (!data) return <p className="p-4 text-soil-700">{error ? error.message : "Loading…"}</p>;
   return (
     <div className="space-y-4 p-3">
-      <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-        <h2 id="alerts-h" className="text-lg font-bold">
-          Open alerts
-        </h2>
+      <Panel id="alerts-h" title="Open alerts" small>
         {data.alerts.length === 0 ? (
           <p className="mt-1 text-soil-700">None. Every bin is quiet.</p>
         ) : (
@@ -140,7 +137,7 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
             ))}
           </ul>
         )}
-      </section>
+      </Panel>
       {data.bins.length === 0 && (
         <p className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">No bins yet. An owner adds bins and their zones; probes then report here.</p>
       )}

@@ -5,6 +5,9 @@ import type { ActionState } from "@/lib/web/validated-action";
 // the same everywhere: the label names the input, an error is tied to it (aria-describedby), and
 // the answer is announced (aria-live) where the button is.
 
+/** A server action as useActionState calls it (lib/web/validated-action.ts). */
+export type FormAction = (prev: ActionState, form: FormData) => Promise<ActionState>;
+
 export const INPUT_CLASS = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg";
 
 type FieldProps = { label: string; hint?: ReactNode; error?: string; children?: ReactNode } & InputHTMLAttributes<HTMLInputElement>;

@@ -7,17 +7,32 @@ import type { listIngredients } from "@/db/queries/ingredients";
 import type { LogbookEntry } from "@/db/queries/logbook";
 import type { SeriesAnswer } from "@/db/queries/series";
 import type { Today as TodayRow } from "@/db/queries/today";
+import type { Zone } from "@/db/schema";
 import type { Wire } from "@/lib/domain/wire";
+import type { addBin } from "@/lib/server/bins/add-bin";
+import type { ImportOutcome } from "@/lib/server/imports/import-csv";
+import type { logFeeding } from "@/lib/server/logbook/log-feeding";
 import type { addSample } from "@/lib/server/probes/add-sample";
 import type { calibrationView } from "@/lib/server/probes/calibration-view";
+import type { fitProbeCalibration } from "@/lib/server/probes/fit-calibration";
 import type { listProbes } from "@/lib/server/probes/list-probes";
 import type { registerProbe } from "@/lib/server/probes/register";
+import type { rotateProbeToken } from "@/lib/server/probes/rotate-token";
+import type { pushPublicKey } from "@/lib/server/push/public-key";
+import type { testPush } from "@/lib/server/push/test-push";
+import type { binRulesView } from "@/lib/server/rules/bin-rules-view";
+
+type Answer<F extends (...args: never[]) => unknown> = Wire<Awaited<ReturnType<F>>>;
 
 /** A logbook feeding with its items and who logged it. */
 export type Feeding = Wire<FeedingEntry>;
 export type FeedingItem = Feeding["items"][number];
+/** What logging a feeding answers: the feeding and its mix check. */
+export type LoggedFeeding = Answer<typeof logFeeding>;
+/** A zone of a bin as the logbook forms offer it. */
+export type ZoneChoice = Pick<Wire<Zone>, "id" | "kind" | "name">;
 /** A library or farm ingredient. */
-export type IngredientRow = Wire<Awaited<ReturnType<typeof listIngredients>>[number]>;
+export type IngredientRow = Answer<typeof listIngredients>[number];
 /** One entry of a bin's merged logbook. */
 export type LogbookItem = Wire<LogbookEntry>;
 /** A zone's or probe's series for one metric and window. */
@@ -27,10 +42,26 @@ export type Today = Wire<TodayRow>;
 export type TodayBin = Today["bins"][number];
 export type TodayZone = TodayBin["zones"][number];
 /** The farm's probes with presence, battery and place. */
-export type ProbeRow = Wire<Awaited<ReturnType<typeof listProbes>>["probes"][number]>;
+export type ProbeRow = Answer<typeof listProbes>["probes"][number];
 /** A probe's oven-dry samples, its fitted line and each sample's residual. */
-export type CalibrationView = Wire<Awaited<ReturnType<typeof calibrationView>>>;
+export type CalibrationView = Answer<typeof calibrationView>;
 /** What registering a probe answers: the probe and its one-time token. */
-export type RegisteredProbe = Wire<Awaited<ReturnType<typeof registerProbe>>>;
+export type RegisteredProbe = Answer<typeof registerProbe>;
 /** What recording an oven-dry sample answers. */
-export type RecordedSample = Wire<Awaited<ReturnType<typeof addSample>>>;
+export type RecordedSample = Answer<typeof addSample>;
+/** What fitting a probe's calibration answers: the line, its residuals and the raw range sampled. */
+export type FittedCalibration = Answer<typeof fitProbeCalibration>;
+/** A probe's new token, shown once. */
+export type RotatedToken = Answer<typeof rotateProbeToken>;
+/** A bin's alert rules: each kind's species defaults, the owners' overrides and what applies. */
+export type BinRules = Answer<typeof binRulesView>;
+export type RuleKindRow = BinRules["defaults"][number];
+export type RuleParam = RuleKindRow["params"][number];
+/** A new bin with its zones. */
+export type AddedBin = Answer<typeof addBin>;
+/** What importing a logger CSV answers. */
+export type ImportResult = Wire<ImportOutcome>;
+/** The VAPID public key a browser subscribes with. */
+export type PushKey = Answer<typeof pushPublicKey>;
+/** How many of the caller's phones a test push reached. */
+export type PushTestResult = Answer<typeof testPush>;

@@ -1,10 +1,7 @@
 import useSWR from "swr";
 import { fetcher } from "@/lib/client/fetcher";
 import { feedingsKey } from "@/lib/client/swr-keys";
-
 import type { Feeding } from "@/lib/client/wire";
-
-export type { Feeding, FeedingItem } from "@/lib/client/wire";
 
 // A bin's feedings, newest first, with items and who logged them; null binId waits.
 export function useFeedings(binId: string | null) {

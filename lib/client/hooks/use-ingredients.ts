@@ -1,10 +1,7 @@
 import useSWR from "swr";
 import { fetcher } from "@/lib/client/fetcher";
 import { ingredientsKey } from "@/lib/client/swr-keys";
-
 import type { IngredientRow } from "@/lib/client/wire";
-
-export type { IngredientRow } from "@/lib/client/wire";
 
 // The published library plus the farm's own; it changes rarely, so no polling.
 export function useIngredients(farmId: string | null) {

@@ -1,10 +1,7 @@
 import useSWR from "swr";
 import { fetcher } from "@/lib/client/fetcher";
 import { logbookKey } from "@/lib/client/swr-keys";
-
 import type { LogbookItem } from "@/lib/client/wire";
-
-export type { LogbookItem } from "@/lib/client/wire";
 
 // A bin's whole logbook, newest first; null binId waits.
 export function useLogbook(binId: string | null) {
