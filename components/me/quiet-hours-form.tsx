@@ -21,7 +21,7 @@ export function QuietHoursForm({ action, quietFrom, quietTo, timezone }: Props) 
         <TextField label="From" error={err("quietFrom")} type="time" name="quietFrom" defaultValue={quietFrom ?? ""} />
         <TextField label="To" error={err("quietTo")} type="time" name="quietTo" defaultValue={quietTo ?? ""} />
       </div>
-      <TextField label="Timezone" error={err("timezone")} name="timezone" defaultValue={timezone} />
+      <TextField label="Time zone" error={err("timezone")} name="timezone" defaultValue={timezone} />
       <SubmitButton pending={pending} busy="Saving…" quiet>
         Save quiet hours
       </SubmitButton>

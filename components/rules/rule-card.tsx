@@ -144,7 +144,7 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
         {canEdit && (
           <div className="grid grid-cols-2 gap-2">
             <button disabled={busy} className="min-h-12 rounded-xl bg-soil-800 px-4 font-bold text-white disabled:opacity-60">
-              {busy ? "Saving…" : `Save ${word.toLowerCase()}`}
+              {busy ? "Saving…" : `Save ${word.toLowerCase()} rule`}
             </button>
             <button
               type="button"

@@ -40,7 +40,7 @@ export function FarmForm({ action, farmId, name, unitSystem, timezone, zones }: 
         <FieldError error={err("unitSystem")} />
       </div>
       <TextField
-        label="Timezone"
+        label="Time zone"
         hint="For logbook times and the day's charts."
         error={err("timezone")}
         name="timezone"

@@ -70,7 +70,7 @@ describe("alert rules of a bin, on a phone", () => {
     expect(await line.getAttribute("placeholder")).toBe(String(heatDefault(before, "headsUpAboveC")));
     expect(await heat.getByText("species: top of the comfortable band").count()).toBe(1);
     await line.fill("27.5");
-    await heat.getByRole("button", { name: "Save heat" }).click();
+    await heat.getByRole("button", { name: "Save heat rule" }).click();
     await expect.poll(() => heat.getByText("Saved for this bin.").count(), SLOW).toBe(1);
 
     await p.reload();
@@ -93,7 +93,7 @@ describe("alert rules of a bin, on a phone", () => {
     const heat = p.getByRole("region", { name: "Heat", exact: true });
     const minutes = heat.getByLabel("Held this long before raising", { exact: true });
     await minutes.fill("-5");
-    await heat.getByRole("button", { name: "Save heat" }).click();
+    await heat.getByRole("button", { name: "Save heat rule" }).click();
     const err = p.locator(`#rule-heat-raiseMinutes-err`);
     await expect.poll(() => err.count(), SLOW).toBe(1);
     expect(await err.textContent()).toContain("Held this long before raising cannot be negative.");
@@ -180,7 +180,7 @@ describe("farm settings, on a phone", () => {
   it("an unknown timezone is refused beside its field", async () => {
     const p = await signedIn("noor@alder-row.example");
     await p.goto(`${appUrl()}/farms/${farmId}/settings`);
-    await p.getByLabel("Timezone").fill("Europe/Atlantis");
+    await p.getByLabel("Time zone").fill("Europe/Atlantis");
     await p.getByRole("button", { name: "Save farm settings" }).click();
     await expect.poll(() => p.getByText("Unknown time zone; use a name such as Europe/Dublin or UTC.").count(), SLOW).toBe(1);
     const f = await c.query(`select timezone from farms where id = $1`, [farmId]);
@@ -225,7 +225,7 @@ describe("farm settings, on a phone", () => {
     await expect.poll(() => heat.count(), SLOW).toBe(1);
     expect(await p.getByText("Only an owner of Alder Row Worm Farm can change these rules.").count()).toBe(1);
     expect(await p.locator("main input").count()).toBe(0);
-    expect(await p.getByRole("button", { name: "Save heat" }).count()).toBe(0);
+    expect(await p.getByRole("button", { name: "Save heat rule" }).count()).toBe(0);
     expect(await p.getByRole("button", { name: "Back to defaults" }).count()).toBe(0);
     expect(await heat.getByText("This bin:").count()).toBeGreaterThan(5);
     await p.screenshot({ path: screenshotPath("rules-keeper-read-only") });

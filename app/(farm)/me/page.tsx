@@ -5,6 +5,7 @@ import { AlertsOnThisPhone } from "@/components/push/alerts-on-this-phone";
 import { currentUserId } from "@/lib/web/session";
 import { readMe } from "@/lib/server/people/read-me";
 import { saveQuietHours } from "./actions";
+import { ROLE_WORDS } from "@/lib/domain/team-words";
 
 export const metadata: Metadata = { title: "You" };
 
@@ -21,7 +22,7 @@ export default async function MePage() {
         <ul className="mt-1 text-sm text-soil-700">
           {user.farms.map((f) => (
             <li key={f.id}>
-              {f.name}: {f.role}
+              {f.name}: {ROLE_WORDS[f.role].name}, {ROLE_WORDS[f.role].does}
             </li>
           ))}
         </ul>

@@ -107,6 +107,16 @@ describe("pages authorize once, through one helper", () => {
     }
   });
 
+  it("the browser tab names the bin, and the zone with its bin; another farm's names never reach a title", async () => {
+    const { rows } = await c.query(`select id, name from bins where id = any($1::uuid[])`, [[mine.binId, theirs.binId]]);
+    const nameOf = (id: string) => rows.find((r) => r.id === id).name as string;
+    const title = async (path: string) => /<title>([^<]*)<\/title>/.exec(await (await owner.fetch(path)).text())?.[1] ?? "";
+    expect(await title(`/farms/${mine.farmId}/bins/${mine.binId}`)).toContain(nameOf(mine.binId));
+    expect(await title(`/farms/${mine.farmId}/zones/${mine.zones.working}`)).toContain(`Working zone · ${nameOf(mine.binId)}`);
+    expect(await title(`/farms/${mine.farmId}/bins/${theirs.binId}`)).not.toContain(nameOf(theirs.binId));
+    expect(await title(`/farms/${mine.farmId}/zones/${theirs.zones.working}`)).not.toContain(nameOf(theirs.binId));
+  });
+
   it("ids that are not ids are a 404, not an error", async () => {
     for (const path of [`/farms/not-a-farm`, `/farms/${mine.farmId}/bins/not-a-bin`, `/farms/${mine.farmId}/zones/1`, `/farms/${mine.farmId}/probes/abc`]) {
       const r = await refusal(owner, path);

@@ -14,8 +14,13 @@ import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/
 import { feedingsKey, ingredientsKey, logbookKey } from "@/lib/client/swr-keys";
 import { formatPercent, formatTemperature } from "@/lib/domain/units";
 import { toWire } from "@/lib/domain/wire";
+import { binTitle } from "@/lib/server/places/page-title";
 
-export const metadata: Metadata = { title: "Bin" };
+export async function generateMetadata({ params }: { params: Promise<{ farmId: string; binId: string }> }): Promise<Metadata> {
+  const { farmId, binId } = await params;
+  await requirePageMember({ farmId, binId }, "read");
+  return { title: await binTitle(binId) };
+}
 
 export default async function BinPage({
   params,

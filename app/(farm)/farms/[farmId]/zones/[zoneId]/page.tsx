@@ -11,8 +11,13 @@ import { zonePageView } from "@/lib/server/zones/zone-page-view";
 import { feedingsKey, zoneSeriesKey } from "@/lib/client/swr-keys";
 import { KIND_WORDS } from "@/lib/domain/alert-words";
 import { toWire } from "@/lib/domain/wire";
+import { zoneTitle } from "@/lib/server/places/page-title";
 
-export const metadata: Metadata = { title: "Zone" };
+export async function generateMetadata({ params }: { params: Promise<{ farmId: string; zoneId: string }> }): Promise<Metadata> {
+  const { farmId, zoneId } = await params;
+  await requirePageMember({ farmId, zoneId }, "read");
+  return { title: await zoneTitle(zoneId) };
+}
 
 type ZoneAlert = NonNullable<Awaited<ReturnType<typeof zonePageView>>>["alerts"][number];
 
