@@ -16,7 +16,7 @@ export function QuietHoursForm({ action, quietFrom, quietTo, timezone }: Props) 
   return (
     <form action={formAction} className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
       <h2 className="text-lg font-bold">Quiet hours</h2>
-      <p className="text-sm text-soil-700">Heads-ups wait until your quiet hours end (unless someone has taken them on); act-now alerts always come through.</p>
+      <p className="text-sm text-soil-700">Heads-ups wait until your quiet hours end (unless someone has claimed them); act-now alerts always come through.</p>
       <div className="grid grid-cols-2 gap-3">
         <TextField label="From" error={err("quietFrom")} type="time" name="quietFrom" defaultValue={quietFrom ?? ""} />
         <TextField label="To" error={err("quietTo")} type="time" name="quietTo" defaultValue={quietTo ?? ""} />
