@@ -1,9 +1,10 @@
-import { updateBin } from "@/db/queries/bins";
 import type { Who } from "@/lib/server/auth/authorize";
 import { binOfFarm } from "./bin-of-farm";
+import { editBin } from "./edit-bin";
 
-/** An owner brings an archived bin of their farm back onto Today. */
+/** An owner brings an archived bin of their farm back onto Today: PATCH /api/bins/[binId]'s
+ * {"archived": false}, for a form that names the farm and the bin apart. */
 export async function bringBackBinAs(who: Pick<Who, "farmId">, binId: string) {
   const bin = await binOfFarm(who, binId);
-  return (await updateBin(bin.id, { archivedAt: null })) ?? bin;
+  return (await editBin(bin.id, { fields: {}, bringBack: true })).bin ?? bin;
 }
