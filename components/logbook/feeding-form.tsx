@@ -180,8 +180,7 @@ export function FeedingForm({
       setNotes("");
       await refresh();
     } catch (err) {
-      const { field = "form", message: said } = failureOf(err);
-      const message = said.replace(/^[\w.]+: /, "");
+      const { field = "form", message } = failureOf(err);
       setErrors({ [field]: message });
       const at = /^items\.(\d+)\.(\w+)$/.exec(field);
       const row = at ? rows[Number(at[1])] : undefined;

@@ -18,7 +18,13 @@ async function answerOf<T>(res: Response, fallback: string): Promise<T> {
   const body = await res.json().catch(() => null);
   if (res.ok) return body as T;
   const e = (body as ErrorEnvelope | null)?.error;
-  throw new FetchError(e?.message ?? fallback, res.status, e?.field);
+  throw new FetchError(e?.message ? plainSentence(e.message, e.field) : fallback, res.status, e?.field);
+}
+
+/** The API names the field before its message ("name: Give it a name.") for callers that show the
+ * message alone; a form shows it beside the field, so the name is left off there. */
+export function plainSentence(message: string, field?: string): string {
+  return field && message.startsWith(`${field}: `) ? message.slice(field.length + 2) : message;
 }
 
 // The one SWR fetcher: throws an Error carrying the status and the server's message.

@@ -247,7 +247,8 @@ describe("the zone page and logging a feeding", () => {
       await expect.poll(() => mass.getAttribute("aria-invalid")).toBe("true");
       const errorId = (await mass.getAttribute("aria-describedby"))!;
       const error = form.locator(`[id="${errorId}"]`);
-      await expect.poll(() => error.textContent()).toMatch(/Mass must be more than 0/);
+      // a plain sentence beside the field, without the field's name (items.0.massKg) in front
+      await expect.poll(() => error.textContent()).toMatch(/^Mass must be more than 0/);
       // the message sits right under the mass input, not somewhere else on the page
       const [m, e] = [(await mass.boundingBox())!, (await error.boundingBox())!];
       expect(e.y).toBeGreaterThanOrEqual(m.y + m.height - 1);

@@ -1,5 +1,5 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
-import { failureOf, FetchError, fetcher, NO_CONNECTION, send } from "@/lib/client/fetcher";
+import { failureOf, FetchError, fetcher, NO_CONNECTION, plainSentence, send } from "@/lib/client/fetcher";
 
 // The one client write path: what goes out, and how a refusal or a lost connection comes back.
 const answer = (status: number, body: unknown) => new Response(body === undefined ? null : JSON.stringify(body), { status });
@@ -43,6 +43,14 @@ describe("send()", () => {
     expect(err).toBeInstanceOf(FetchError);
     expect(err).toMatchObject({ message: "Name is required.", status: 422, field: "name" });
     expect(failureOf(err)).toEqual({ message: "Name is required.", field: "name" });
+  });
+
+  it("a form gets the sentence without the field's name in front, since it shows it beside the field", async () => {
+    stubFetch(async () => answer(422, { error: { code: "invalid", message: "items.0.massKg: Give the mass in kg.", field: "items.0.massKg" } }));
+    await expect(send("POST", "/api/bins/b1/feedings", {})).rejects.toMatchObject({ message: "Give the mass in kg.", field: "items.0.massKg" });
+    // Only the named field's own prefix goes; a sentence that merely has a colon keeps it.
+    expect(plainSentence("Authorization: Bearer is missing.", undefined)).toBe("Authorization: Bearer is missing.");
+    expect(plainSentence("endpoint: Not a push service.", "name")).toBe("endpoint: Not a push service.");
   });
 
   it("an answer without the envelope still says what happened, with its status", async () => {
