@@ -1,6 +1,7 @@
 import { zonedFormat } from "@/lib/domain/clock";
 import { checkMix, type MixVerdict } from "@/lib/domain/mix";
 import type { Feeding } from "@/lib/client/wire";
+import { zoneName } from "@/lib/domain/zone-words";
 
 // Times print in the farm's own time zone, so the server's first paint and the phone agree.
 export function clockFormat(timeZone: string): (iso: string | number) => string {
@@ -29,5 +30,4 @@ function feedingCheck(f: Pick<Feeding, "items">) {
   return r.ok ? r.value : null;
 }
 
-export const zoneWords = (z: { kind: string; name: string | null } | null | undefined) =>
-  z ? z.name?.trim() || `${z.kind[0]!.toUpperCase()}${z.kind.slice(1)} zone` : "Whole bin";
+export const zoneWords = (z: { kind: string; name: string | null } | null | undefined) => (z ? zoneName(z) : "Whole bin");

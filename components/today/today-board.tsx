@@ -12,6 +12,7 @@ import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useTodayRefresh } from "@/lib/client/revalidate";
 import { formatPercent, formatTemperature, type UnitSystem } from "@/lib/domain/units";
+import { zoneName } from "@/lib/domain/zone-words";
 
 type Zone = TodayZone;
 type Bin = TodayBin;
@@ -44,13 +45,13 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
   const m = zone.latest.moisture;
   const tBand = species && t ? classifyTemperature(species, t.value) : null;
   const mBand = species && m ? classifyMoisture(species, m.value) : null;
-  const zoneName = zone.name ?? `${zone.kind[0]!.toUpperCase()}${zone.kind.slice(1)} zone`;
+  const zoneLabel = zoneName(zone);
   return (
     <li className="border-t border-soil-100 py-3 first:border-t-0">
       <div className="flex items-baseline justify-between gap-2">
         <h3 className="font-bold">
           <Link href={`/farms/${farmId}/zones/${zone.id}`} className="inline-flex min-h-11 items-center underline underline-offset-4">
-            {zoneName}
+            {zoneLabel}
           </Link>
         </h3>
         <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
@@ -61,14 +62,14 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
           value={t ? formatTemperature(t.value, units) : "—"}
           band={tBand}
           spark={species && { points: zone.spark.temperature, band: [species.temperatureC.comfortLow, species.temperatureC.comfortHigh], color: "#b5523b" }}
-          label={`${bin.name}, ${zoneName}: temperature over the last 24 hours`}
+          label={`${bin.name}, ${zoneLabel}: temperature over the last 24 hours`}
         />
         <Reading
           title="Moisture"
           value={m ? formatPercent(m.value) : "—"}
           band={mBand}
           spark={species && { points: zone.spark.moisture, band: [species.moisturePct.comfortLow, species.moisturePct.comfortHigh], color: "#4a6b85" }}
-          label={`${bin.name}, ${zoneName}: moisture over the last 24 hours`}
+          label={`${bin.name}, ${zoneLabel}: moisture over the last 24 hours`}
         />
       </div>
     </li>

@@ -60,3 +60,11 @@ export async function requirePageMember(target: PageTarget, may: Permission): Pr
   if (!role || !roleAllows(role, may)) notFound();
   return { userId, farmId: farmOfUrl, role };
 }
+
+/** A page-shaped read done once per request for the same person and thing, however many of the
+ * tab's title (generateMetadata) and the page ask. React's cache compares arguments by identity,
+ * and requirePageMember hands each caller a new Who, so the person is passed as its parts. */
+export function oncePerRequest<T, I extends string | number>(read: (who: Who, id: I) => Promise<T>) {
+  const once = cache((userId: string, farmId: string, role: Who["role"], id: I) => read({ userId, farmId, role }, id));
+  return (who: Who, id: I) => once(who.userId, who.farmId, who.role, id);
+}

@@ -8,6 +8,7 @@ import { env } from "@/lib/server/env";
 import { formatNumber, formatMass, temperatureForDisplay, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import { localClock, zonedToUtc } from "@/lib/domain/clock";
 import { KIND_WORDS, LEVEL_WORDS } from "../../domain/alert-words";
+import { zoneName } from "@/lib/domain/zone-words";
 
 export { localClock };
 
@@ -47,7 +48,7 @@ export function summarize(data: DigestData, units: UnitSystem): BinSummary[] {
       );
     lines.push(raised || settled ? `Alerts: ${raised} raised${kinds.length ? ` (${kinds.join(", ")})` : ""}, ${settled} settled` : "Alerts: none");
     for (const z of data.zones.filter((z) => z.binId === bin.id)) {
-      const label = z.name ?? `${z.kind[0]!.toUpperCase()}${z.kind.slice(1)} zone`;
+      const label = zoneName(z);
       const t = data.ranges.find((r) => r.zoneId === z.id && r.metric === "temperature");
       const m = data.ranges.find((r) => r.zoneId === z.id && r.metric === "moisture");
       const parts = [

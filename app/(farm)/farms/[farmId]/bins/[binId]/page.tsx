@@ -8,19 +8,21 @@ import { FeedingLog } from "@/components/logbook/feeding-log";
 import { LogbookList } from "@/components/logbook/logbook-list";
 import { QuickLogForms } from "@/components/logbook/quick-log-forms";
 import { StatusMark } from "@/components/ui/status-mark";
-import { requirePageMember } from "@/lib/web/session";
+import { oncePerRequest, requirePageMember } from "@/lib/web/session";
 import { binPageView } from "@/lib/server/bins/bin-page-view";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
 import { feedingsKey, ingredientsKey, logbookKey } from "@/lib/client/swr-keys";
 import { formatPercent, formatTemperature } from "@/lib/domain/units";
 import { toWire } from "@/lib/domain/wire";
-import { binTitle } from "@/lib/server/places/page-title";
 
 export async function generateMetadata({ params }: { params: Promise<{ farmId: string; binId: string }> }): Promise<Metadata> {
   const { farmId, binId } = await params;
-  await requirePageMember({ farmId, binId }, "read");
-  return { title: await binTitle(binId) };
+  const view = await pageView(await requirePageMember({ farmId, binId }, "read"), binId);
+  return { title: view?.bin.name ?? "Bin" };
 }
+
+// One read per request, shared by the tab's title and the page.
+const pageView = oncePerRequest(binPageView);
 
 export default async function BinPage({
   params,
@@ -31,7 +33,7 @@ export default async function BinPage({
 }) {
   const { farmId, binId } = await params;
   const who = await requirePageMember({ farmId, binId }, "read");
-  const view = await binPageView(who, binId);
+  const view = await pageView(who, binId);
   if (!view) notFound();
   const { bin, farm, latest, canLog } = view;
   const profile = getSpecies(bin.species);

@@ -6,18 +6,20 @@ import { formatMetric, metricStatus, METRIC_TITLES } from "@/components/charts/m
 import { ZoneCharts } from "@/components/charts/zone-charts";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
 import { StatusMark } from "@/components/ui/status-mark";
-import { requirePageMember } from "@/lib/web/session";
+import { oncePerRequest, requirePageMember } from "@/lib/web/session";
 import { zonePageView } from "@/lib/server/zones/zone-page-view";
 import { feedingsKey, zoneSeriesKey } from "@/lib/client/swr-keys";
 import { KIND_WORDS } from "@/lib/domain/alert-words";
 import { toWire } from "@/lib/domain/wire";
-import { zoneTitle } from "@/lib/server/places/page-title";
 
 export async function generateMetadata({ params }: { params: Promise<{ farmId: string; zoneId: string }> }): Promise<Metadata> {
   const { farmId, zoneId } = await params;
-  await requirePageMember({ farmId, zoneId }, "read");
-  return { title: await zoneTitle(zoneId) };
+  const view = await pageView(await requirePageMember({ farmId, zoneId }, "read"), zoneId);
+  return { title: view ? `${zoneWords(view.zone)} · ${view.bin.name}` : "Zone" };
 }
+
+// One read per request, shared by the tab's title and the page.
+const pageView = oncePerRequest(zonePageView);
 
 type ZoneAlert = NonNullable<Awaited<ReturnType<typeof zonePageView>>>["alerts"][number];
 
@@ -66,7 +68,7 @@ function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => s
 export default async function ZonePage({ params }: { params: Promise<{ farmId: string; zoneId: string }> }) {
   const { farmId, zoneId } = await params;
   const who = await requirePageMember({ farmId, zoneId }, "read");
-  const view = await zonePageView(who, zoneId);
+  const view = await pageView(who, zoneId);
   if (!view) notFound();
   const { zone, bin, unitSystem: system, timezone, profile, ammonia, metrics, binZones, alerts } = view;
   // Prime SWR with the server's answers so the phone paints the charts at once.
