@@ -11,3 +11,14 @@ export const KIND_WORDS: Record<AlertKind, string> = {
   probe_fault: "Probe fault",
 };
 export const LEVEL_WORDS: Record<AlertLevel, string> = { heads_up: "Heads-up", act_now: "Act now" };
+
+// Heat and ammonia harm people as well as worms in a closed room (common practice; the cautions in
+// the README). Said wherever such an alert is said: its card, its push and its e-mail.
+const CLOSED_ROOM =
+  "If the bin is in a closed room, air the room before you work there. Do not rely on this alert for anyone's safety.";
+const CAUTIONS: Partial<Record<AlertKind, string>> = { heat: CLOSED_ROOM, ammonia: CLOSED_ROOM };
+
+/** The caution that goes with an alert of this kind, or null when it needs none. */
+export function cautionFor(kind: AlertKind): string | null {
+  return CAUTIONS[kind] ?? null;
+}
