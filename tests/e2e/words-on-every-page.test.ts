@@ -40,7 +40,7 @@ function schemaKeys(schema: unknown, into: Set<string>) {
 const FIELD_KEYS = new Set<string>();
 for (const mod of Object.values(import.meta.glob("../../lib/domain/validation/*.ts", { eager: true })))
   for (const exported of Object.values(mod as Record<string, unknown>)) schemaKeys(exported, FIELD_KEYS);
-const RAW_FIELD = new RegExp(`(^|[\\s(])(${[...FIELD_KEYS].join("|")})(\\.[\\w.]+)?: \\S`);
+const RAW_FIELD = new RegExp(`(^|[\\s(])(${[...FIELD_KEYS].join("|")})(\\.[\\w.]+)?: [A-Z]`);
 // Things of ours that are not for keepers: a notes file, a section of one, code that leaked.
 const INTERNAL = /\b[\w-]+\.md\b|check-values|verified-techniques|shared\/(notes|reference)|\bundefined\b|\bNaN\b|\[object Object\]|\bnull\b|TODO|FIXME/;
 
@@ -173,7 +173,7 @@ type Finding = { url: string; what: string; line: string };
 
 function findings(url: string, text: string, units: UnitSystem): Finding[] {
   const out: Finding[] = [];
-  for (const line of text.split("\n")) {
+  for (const line of new Set(text.split("\n"))) {
     if (RAW_FIELD.test(line)) out.push({ url, what: "raw field name", line });
     if (INTERNAL.test(line)) out.push({ url, what: "internal reference", line });
     if (UNITS_OF[OTHER[units]].test(line)) out.push({ url, what: `${OTHER[units]} unit on this ${units} farm`, line });
