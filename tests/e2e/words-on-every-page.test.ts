@@ -32,9 +32,14 @@ const OTHER: Record<UnitSystem, UnitSystem> = { metric: "imperial", imperial: "m
 // A field's key in front of a sentence, as zod paths or the API's `${field}: ${message}` print it:
 // every key of every input schema (lib/domain/validation), alone or as a path ("items.0.massKg").
 function schemaKeys(schema: unknown, into: Set<string>) {
-  const def = (schema as { def?: { type?: string; shape?: Record<string, unknown>; element?: unknown; innerType?: unknown; in?: unknown; schema?: unknown } })?.def;
+  const def = (schema as { def?: { type?: string; shape?: Record<string, unknown>; element?: unknown; innerType?: unknown; in?: unknown; schema?: unknown } })
+    ?.def;
   if (!def) return;
-  if (def.shape) for (const [k, v] of Object.entries(def.shape)) into.add(k), schemaKeys(v, into);
+  if (def.shape)
+    for (const [k, v] of Object.entries(def.shape)) {
+      into.add(k);
+      schemaKeys(v, into);
+    }
   for (const inner of [def.element, def.innerType, def.in, def.schema]) if (inner) schemaKeys(inner, into);
 }
 const FIELD_KEYS = new Set<string>();
@@ -95,8 +100,7 @@ async function makeFarm(units: UnitSystem): Promise<Farm> {
       if (i === 0) rows.push({ probeId: p.id, metric: "ammonia", ts: new Date(t), value: 3 });
     }
     // The last 20 minutes every minute, so the rules' holds are met.
-    for (let t = now - 20 * 60_000; t <= now; t += 60_000)
-      rows.push({ probeId: p.id, metric: "temperature", ts: new Date(t), value: i === 0 ? 33 : 21 });
+    for (let t = now - 20 * 60_000; t <= now; t += 60_000) rows.push({ probeId: p.id, metric: "temperature", ts: new Date(t), value: i === 0 ? 33 : 21 });
   }
   await insertReadings(rows);
 
@@ -119,7 +123,10 @@ async function makeFarm(units: UnitSystem): Promise<Farm> {
   await json(await s.fetch(`/api/bins/${binId}/waterings`, { method: "POST", json: { litres: 3, zoneId: zones[2]!.id, at: hoursAgo(5) } }), 201);
   await json(await s.fetch(`/api/bins/${binId}/harvests`, { method: "POST", json: { massKg: 6.2, zoneId: zones[2]!.id, at: hoursAgo(4) } }), 201);
   await json(await s.fetch(`/api/bins/${binId}/notes`, { method: "POST", json: { text: "Moved the lid for air.", at: hoursAgo(3) } }), 201);
-  await json(await s.fetch(`/api/probes/${probes[1]!.id}/samples`, { method: "POST", json: { wetMassG: 52.3, dryMassG: 11.1, tareG: 0, rawReading: 1800 } }), 201);
+  await json(
+    await s.fetch(`/api/probes/${probes[1]!.id}/samples`, { method: "POST", json: { wetMassG: 52.3, dryMassG: 11.1, tareG: 0, rawReading: 1800 } }),
+    201,
+  );
 
   const { createRuleRunner } = await import("@/ingest/rule-runner");
   const runner = createRuleRunner({ coalesceMs: 10 });
