@@ -14,8 +14,7 @@ export const LEVEL_WORDS: Record<AlertLevel, string> = { heads_up: "Heads-up", a
 
 // Heat and ammonia harm people as well as worms in a closed room (common practice; the cautions in
 // the README). Said wherever such an alert is said: its card, its push and its e-mail.
-const CLOSED_ROOM =
-  "If the bin is in a closed room, air the room before you work there. Do not rely on this alert for anyone's safety.";
+const CLOSED_ROOM = "If the bin is in a closed room, air the room before you work there. Do not rely on this alert for anyone's safety.";
 const CAUTIONS: Partial<Record<AlertKind, string>> = { heat: CLOSED_ROOM, ammonia: CLOSED_ROOM };
 
 /** The caution that goes with an alert of this kind, or null when it needs none. */
