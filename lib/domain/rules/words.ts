@@ -3,6 +3,7 @@
 import { UNIT_LABELS, celsiusDeltaToFahrenheit, formatMass, formatNumber, formatTemperature, temperatureForDisplay, type UnitSystem } from "../units";
 import type { ProbeContext, ZoneRuleInput } from "./types";
 import { zonedFormat } from "../clock";
+import { zoneInBin } from "../zone-words";
 
 const MINUTE = 60_000;
 
@@ -45,13 +46,12 @@ const clockIn = (timeZone: string): ((ms: number) => string) => zonedFormat(time
 export function wordsFor(input: Pick<ZoneRuleInput, "zone" | "species" | "unitSystem" | "timeZone">): Words {
   const system: UnitSystem = input.unitSystem ?? "metric";
   const zone = input.zone;
-  const zonePart = zone.zoneName?.trim() ? zone.zoneName.trim() : `${zone.kind} zone`;
   const rate = (c: number) => {
     const v = system === "metric" ? Math.abs(c) : celsiusDeltaToFahrenheit(Math.abs(c));
     return `${formatNumber(v, 1)} ${UNIT_LABELS[system].rate}`;
   };
   return {
-    place: `${zone.binName}, ${zonePart}`,
+    place: zoneInBin(zone.binName, { kind: zone.kind, name: zone.zoneName }),
     worms: `${input.species.commonName}s`,
     temp: (c, fine) =>
       fine ? `${Number(formatNumber(temperatureForDisplay(c, system), 2))} ${UNIT_LABELS[system].temperature}` : formatTemperature(c, system),
