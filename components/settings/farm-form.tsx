@@ -15,8 +15,8 @@ type Props = {
 };
 
 const UNITS = [
-  { value: "metric", label: "Metric (°C, kg)" },
-  { value: "imperial", label: "Imperial (°F, lb)" },
+  { value: "metric", label: "Metric (°C, kg, L)" },
+  { value: "imperial", label: "Imperial (°F, lb, US gal)" },
 ] as const;
 
 export function FarmForm({ action, farmId, name, unitSystem, timezone, zones }: Props) {

@@ -148,7 +148,7 @@ describe("farm settings, on a phone", () => {
     await p.goto(`${appUrl()}/farms/${own}`);
     await p.getByRole("navigation", { name: "Farm" }).getByRole("link", { name: "Settings" }).click();
     await p.waitForURL(`**/farms/${own}/settings`, SLOW);
-    await p.getByRole("button", { name: "Imperial (°F, lb)" }).click();
+    await p.getByRole("button", { name: "Imperial (°F, lb, US gal)" }).click();
     await p.getByRole("button", { name: "Save farm settings" }).click();
     await expect.poll(() => p.getByText(/Saved\. Temperatures in °F/).count(), SLOW).toBe(1);
     await p.screenshot({ path: screenshotPath("settings-owner-imperial"), fullPage: true });
@@ -163,7 +163,7 @@ describe("farm settings, on a phone", () => {
     await p.screenshot({ path: screenshotPath("today-imperial") });
 
     await p.goto(`${appUrl()}/farms/${own}/settings`);
-    await p.getByRole("button", { name: "Metric (°C, kg)" }).click();
+    await p.getByRole("button", { name: "Metric (°C, kg, L)" }).click();
     await p.getByRole("button", { name: "Save farm settings" }).click();
     await expect.poll(() => p.getByText(/Saved\. Temperatures in °C/).count(), SLOW).toBe(1);
     await p.goto(`${appUrl()}/farms/${own}`);
