@@ -68,7 +68,11 @@ describe("alert rules of a bin, on a phone", () => {
     const line = heat.getByLabel("Heads-up above", { exact: true });
     expect(await line.inputValue()).toBe("");
     expect(await line.getAttribute("placeholder")).toBe(String(heatDefault(before, "headsUpAboveC")));
-    expect(await heat.getByText("species: top of the comfortable band").count()).toBe(1);
+    // What the rule does comes first, in words; where each number comes from is folded away.
+    expect(await heat.getByText(/^Tells the crew when the bed stays above \d+(\.\d)? °C for 10 min/).isVisible()).toBe(true);
+    expect(await heat.getByText("From the worm species: top of the comfortable band.").isVisible()).toBe(false);
+    await heat.getByText("Where this comes from").click();
+    expect(await heat.getByText("From the worm species: top of the comfortable band.").isVisible()).toBe(true);
     await line.fill("27.5");
     await heat.getByRole("button", { name: "Save heat rule" }).click();
     await expect.poll(() => heat.getByText("Saved for this bin.").count(), SLOW).toBe(1);
