@@ -11,6 +11,7 @@ import { useBinRefresh } from "@/lib/client/revalidate";
 import { feedingsKey } from "@/lib/client/swr-keys";
 import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import { LogStatus } from "@/components/ui/form-parts";
+import { ingredientSourceWords } from "@/lib/domain/ingredients";
 
 type Row = {
   key: number;
@@ -29,14 +30,6 @@ type Field = "name" | "massKg" | "moisturePct" | "nitrogenPct" | "cn";
 // (lib/domain/rules/params.ts riskCnBelow 25; Cornell: below ~30:1 excess nitrogen goes off as ammonia).
 const MOISTURE_AIM = Math.round((WORM_BED_TARGET.moisturePct.low + WORM_BED_TARGET.moisturePct.high) / 2);
 const CN_AIM = 25;
-
-const STATUS_WORDS: Record<string, string> = {
-  V: "read in the source",
-  "V-2nd": "from a secondary copy",
-  M: "from memory, not verified",
-  gap: "no published value",
-  farm: "your farm's own",
-};
 
 const text = (n: number | null | undefined) => (n == null || !Number.isFinite(n) ? "" : String(n));
 /** A typed number: decimal comma allowed; empty is NaN. */
@@ -314,9 +307,7 @@ export function FeedingForm({
                 </button>
               </div>
               {r.source && (
-                <p className="mt-1 text-xs text-soil-700">
-                  Source ({STATUS_WORDS[r.sourceStatus ?? ""] ?? r.sourceStatus}): {r.source}. Change the values for your own batch.
-                </p>
+                <p className="mt-1 text-xs text-soil-700">{ingredientSourceWords(r.source, r.sourceStatus)} Change the values for your own batch.</p>
               )}
               <div className="mt-2 grid grid-cols-2 gap-3">
                 {numberField(r, i, "massKg", `Mass (${massUnit})`)}
