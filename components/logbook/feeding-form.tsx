@@ -12,6 +12,7 @@ import { feedingsKey } from "@/lib/client/swr-keys";
 import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import { LogStatus } from "@/components/ui/form-parts";
 import { ingredientSourceWords } from "@/lib/domain/ingredients";
+import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
 
 type Row = {
   key: number;
@@ -420,8 +421,9 @@ export function FeedingForm({
         <p className="font-bold">Careful</p>
         <ul className="list-disc pl-5">
           <li>A big load of fresh food can heat up by itself and give off ammonia: feed a little at a time and watch the zone&apos;s temperature.</li>
-          <li>Wash your hands after handling bedding, food scraps or castings.</li>
-          <li>Castings and leachate go on the soil, not on produce about to be eaten.</li>
+          <li>{WASH_HANDS}</li>
+          <li>{CASTINGS_NOT_FOOD}</li>
+          <li>{LOCAL_CODES}</li>
         </ul>
       </aside>
 

@@ -8,6 +8,7 @@ import { useSend } from "@/lib/client/use-send";
 import type { FittedCalibration, RecordedSample } from "@/lib/client/wire";
 import { formatNumber } from "@/lib/domain/units";
 import { calibrationMatch } from "@/lib/domain/calibration";
+import { LOCAL_CODES } from "@/lib/domain/safety-words";
 
 const num = (s: FormDataEntryValue | null) => (typeof s !== "string" || s.trim() === "" ? undefined : Number(s.trim().replace(",", ".")));
 const FIELDS = [
@@ -190,7 +191,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
             probe&apos;s own reading nearest the time of sampling (within 10 minutes).
           </p>
           <p className="text-sm font-bold">
-            Use an oven that is not used for food. Wash your hands after handling bedding; let the oven and sample cool before weighing.
+            Use an oven that is not used for food. Wash your hands after handling bedding; let the oven and sample cool before weighing. {LOCAL_CODES}
           </p>
           <details className="text-sm text-soil-700">
             <summary className="min-h-11 cursor-pointer py-2 font-bold">Where this comes from</summary>

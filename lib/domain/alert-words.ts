@@ -13,8 +13,11 @@ export const KIND_WORDS: Record<AlertKind, string> = {
 export const LEVEL_WORDS: Record<AlertLevel, string> = { heads_up: "Heads-up", act_now: "Act now" };
 
 // Heat and ammonia harm people as well as worms in a closed room (common practice; the cautions in
-// the README). Said wherever such an alert is said: its card, its push and its e-mail.
-const CLOSED_ROOM = "If the bin is in a closed room, air the room before you work there. Do not rely on this alert for anyone's safety.";
+// the README). Said wherever such an alert is said: its card, its push, its e-mail and the digest.
+const AIR_THE_ROOM = "If the bin is in a closed room, air the room before you work there.";
+const CLOSED_ROOM = `${AIR_THE_ROOM} Do not rely on this alert for anyone's safety.`;
+/** The same caution under the ammonia chart, which is not an alert. */
+export const AMMONIA_CHART_CAUTION = `${AIR_THE_ROOM} Do not rely on this chart for anyone's safety.`;
 const CAUTIONS: Partial<Record<AlertKind, string>> = { heat: CLOSED_ROOM, ammonia: CLOSED_ROOM };
 
 /** The caution that goes with an alert of this kind, or null when it needs none. */

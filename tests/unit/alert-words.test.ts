@@ -2,7 +2,7 @@
 // and for heat and ammonia the closed-room caution, which no other kind carries.
 import { describe, expect, it } from "vitest";
 import { ALERT_KINDS } from "@/lib/domain/vocabulary";
-import { alertMailText, alertPushBody, cautionFor } from "@/lib/domain/alert-words";
+import { AMMONIA_CHART_CAUTION, alertMailText, alertPushBody, cautionFor } from "@/lib/domain/alert-words";
 
 const message = "Long Bed North, fresh zone: 86.4 °F and rising 3.6 °F/h since the 26.5 lb feeding at 06:00.";
 
@@ -29,5 +29,9 @@ describe("alert push and e-mail bodies", () => {
       "Open Wormward to claim it: https://app.test/farms/f#alert-a",
     ]);
     expect(alertMailText("drying", message, "https://app.test/x").split("\n\n")).toEqual([message, "Open Wormward to claim it: https://app.test/x"]);
+  });
+
+  it("the ammonia chart's caption says the same about a closed room, of the chart rather than an alert", () => {
+    expect(AMMONIA_CHART_CAUTION).toBe(cautionFor("ammonia")!.replace("this alert", "this chart"));
   });
 });

@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import type { DigestData } from "@/db/queries/digest";
 import { addDays, dayBounds, localClock, renderDigest } from "@/lib/server/alerts/digest";
 import { cautionFor } from "@/lib/domain/alert-words";
+import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
 
 describe("farm-local days", () => {
   it("a summer day in Dublin runs from 23:00 UTC to 23:00 UTC", () => {
@@ -68,6 +69,8 @@ describe("the digest text", () => {
     expect(d.text).toContain(`  Alerts: 3 raised (2 heads-up heat, 1 heads-up soggy), 1 settled\n  ${cautionFor("heat")}\n`);
     expect(d.text).toContain("  Feedings: 1 logged, 10.0 lb in all\n");
     expect(d.text).toContain("Open Today: http://app.test/farms/f1");
+    // The handling cautions close every digest.
+    expect(d.text).toContain(`${CASTINGS_NOT_FOOD} ${WASH_HANDS} ${LOCAL_CODES}`);
   });
 
   it("says the closed-room caution under a bin's heat or ammonia alerts, once, and not under others", () => {

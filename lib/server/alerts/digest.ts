@@ -9,6 +9,7 @@ import { formatNumber, formatMass, temperatureForDisplay, UNIT_LABELS, type Unit
 import { localClock, zonedToUtc } from "@/lib/domain/clock";
 import { KIND_WORDS, LEVEL_WORDS, cautionFor } from "../../domain/alert-words";
 import { zoneName } from "@/lib/domain/zone-words";
+import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
 
 export { localClock };
 
@@ -74,7 +75,7 @@ export function renderDigest(p: { farm: Pick<Farm, "id" | "name" | "unitSystem" 
   const subject = `[Wormward] ${p.farm.name}: your day, ${dayWords}`;
   const bins = summarize(p.data, p.farm.unitSystem);
   const link = `${p.appUrl}/farms/${p.farm.id}`;
-  const footer = "Castings and leachate go on the soil, not on produce about to be eaten; wash your hands after work in the bins.";
+  const footer = `${CASTINGS_NOT_FOOD} ${WASH_HANDS} ${LOCAL_CODES}`;
   const text = [
     `${p.farm.name} — ${dayWords} (${p.farm.timezone})`,
     "",
