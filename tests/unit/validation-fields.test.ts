@@ -14,7 +14,7 @@ import {
   usableTimeZone,
 } from "@/lib/domain/validation/fields";
 import { farmCreate, farmUpdate } from "@/lib/domain/validation/farm";
-import { harvestCreate, harvestCreateFor, wateringCreateFor } from "@/lib/domain/validation/log-entries";
+import { harvestCreate, harvestCreateFor, sampleCreateFor, wateringCreateFor } from "@/lib/domain/validation/log-entries";
 import { feedingCreateFor } from "@/lib/domain/validation/logbook";
 import { lbToKg } from "@/lib/domain/units";
 import { meUpdate } from "@/lib/domain/validation/alerts";
@@ -81,6 +81,12 @@ describe("measured amounts", () => {
     const metric = [harvestCreateFor("metric").safeParse(big), wateringCreateFor("metric").safeParse(big)].map(issue);
     expect(metric).toEqual(["Mass cannot be over 100000 kg.", "Water cannot be over 10000 L."]);
     expect(harvestCreate).toBe(harvestCreateFor("metric"));
+  });
+  it("an oven-dry sample's oven limits are said in °F on an imperial farm and °C on a metric one; the check is the same", () => {
+    const hot = { wetMassG: 10, dryMassG: 3, ovenTempC: 150 };
+    expect(issue(sampleCreateFor("imperial").safeParse(hot))).toBe("Oven temperature above 266 °F burns organic matter.");
+    expect(issue(sampleCreateFor("metric").safeParse(hot))).toBe("Oven temperature above 130 °C burns organic matter.");
+    expect(issue(sampleCreateFor("imperial").safeParse({ ...hot, ovenTempC: 30 }))).toBe("Oven temperature below 104 °F will not dry the sample.");
   });
   it("NaN, Infinity and numbers sent as text are not amounts", () => {
     for (const v of [Number.NaN, Number.POSITIVE_INFINITY, "3"]) expect(mass.safeParse(v).success, String(v)).toBe(false);
