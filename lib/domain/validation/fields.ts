@@ -76,6 +76,7 @@ function amountChecks(what: string, o: QuantityOptions, say: Saying) {
     else if (v > o.max) issue(`${what} cannot be over ${amount(o.max, false)}.`);
   });
 }
+
 function checkMin(what: string, o: QuantityOptions) {
   if (o.min <= FLOAT4_MIN_NORMAL) throw new Error(`quantity ${what}: min must be a real measurement`);
 }
