@@ -166,6 +166,14 @@ describe("farm settings, on a phone", () => {
     expect(await p.getByText(/°C/).count()).toBe(0);
     await p.screenshot({ path: screenshotPath("today-imperial") });
 
+    // The probe's calibration page: the oven in °F, 70 °C said as 158 °F, and the food-oven caution.
+    await p.goto(`${appUrl()}/farms/${own}/probes/${probe.rows[0].id}`);
+    const oven = p.getByLabel("Oven (°F)");
+    await oven.waitFor(SLOW);
+    expect(await oven.inputValue()).toBe("158");
+    expect(await p.getByText("Use an oven that is not used for food.", { exact: false }).count()).toBe(1);
+    expect(await p.getByText(/°C/).count()).toBe(0);
+
     await p.goto(`${appUrl()}/farms/${own}/settings`);
     await p.getByRole("button", { name: "Metric (°C, kg, L)" }).click();
     await p.getByRole("button", { name: "Save farm settings" }).click();
