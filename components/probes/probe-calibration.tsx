@@ -164,7 +164,7 @@ export function ProbeCalibration({
             </details>
           </>
         ) : (
-          <p className="mt-1">Not calibrated: its moisture-raw readings are stored as raw counts.</p>
+          <p className="mt-1">Not calibrated: its moisture readings are kept as raw counts until a line is fitted from oven-dry samples.</p>
         )}
         {canFit && data && (
           <div className="mt-3 flex flex-wrap gap-2">
