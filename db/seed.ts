@@ -66,7 +66,11 @@ export async function seedIngredients(d: Db) {
         note: i.note ?? null,
       })),
     )
-    .onConflictDoNothing();
+    // A database seeded before takes the library's current sources and notes (the values stay).
+    .onConflictDoUpdate({
+      target: [ingredients.farmId, ingredients.key],
+      set: { source: sql`excluded.source`, sourceStatus: sql`excluded.source_status`, note: sql`excluded.note` },
+    });
 }
 
 export async function isEmpty(d: Db) {

@@ -1,10 +1,11 @@
 "use client";
 
-import { useMemo, useState } from "react";
+import { Fragment, useMemo, useState } from "react";
 import { clockFormat, feedingVerdict, zoneWords } from "@/components/logbook/format";
 import { SegmentedControl } from "@/components/ui/segmented-control";
 import { useFeedings } from "@/lib/client/hooks/use-feedings";
 import { getSpecies } from "@/lib/domain/species";
+import { AMMONIA_CHART_CAUTION } from "@/lib/domain/alert-words";
 import { formatMass, formatNumber, formatPercent, type UnitSystem } from "@/lib/domain/units";
 import { describeMetric, displayUnit, METRIC_COLORS, METRIC_TITLES, metricBand, type AmmoniaLines } from "./metric-words";
 import { ZoneChart, type ChartMark, type ChartMetric } from "./zone-chart";
@@ -76,21 +77,24 @@ export function ZoneCharts(p: Props) {
       </div>
       <SegmentedControl label="Chart window" options={RANGES} value={range} onChange={choose} />
       {p.metrics.map((m) => (
-        <ZoneChart
-          key={m}
-          zoneId={p.zoneId}
-          metric={m}
-          title={METRIC_TITLES[m]}
-          from={from}
-          rangeWords={r.words}
-          band={metricBand(m, profile, p.ammonia, p.system)}
-          unit={displayUnit(m, p.system)}
-          system={p.system}
-          timezone={p.timezone}
-          color={METRIC_COLORS[m]}
-          marks={marks}
-          describe={(v) => describeMetric(m, v, profile, p.ammonia, p.system)}
-        />
+        <Fragment key={m}>
+          <ZoneChart
+            zoneId={p.zoneId}
+            metric={m}
+            title={METRIC_TITLES[m]}
+            from={from}
+            rangeWords={r.words}
+            band={metricBand(m, profile, p.ammonia, p.system)}
+            unit={displayUnit(m, p.system)}
+            system={p.system}
+            timezone={p.timezone}
+            color={METRIC_COLORS[m]}
+            marks={marks}
+            describe={(v) => describeMetric(m, v, profile, p.ammonia, p.system)}
+          />
+          {/* The ammonia chart carries the same caution as an ammonia alert. */}
+          {m === "ammonia" && <p className="text-sm font-bold">{AMMONIA_CHART_CAUTION}</p>}
+        </Fragment>
       ))}
     </section>
   );

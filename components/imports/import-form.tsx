@@ -12,7 +12,7 @@ type Failure = { message: string; field?: string };
 
 // What each field expects, in the keeper's words.
 const HINTS = {
-  file: "One reading per row: a time, a value, and the probe and metric as columns or chosen below.",
+  file: "One reading per row: a time, a value, and the probe and what it measures as columns or chosen below.",
   unit: "Without one, values are read as °C, % wet basis, ppm, V and dBm.",
   timezone: "Times like 2025-05-01 14:30 are read in this zone; times ending in Z or +02:00 keep their own.",
 };
@@ -197,11 +197,11 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
                 </select>
               </Field>
             )}
-            <Field id={`${uid}-metric`} label="Metric" error={errorFor("metric", "metricFixed")}>
-              {columnSelect("metric", metric, setMetric, { fixed: "One metric for the whole file" })}
+            <Field id={`${uid}-metric`} label="Measures" error={errorFor("metric", "metricFixed")}>
+              {columnSelect("metric", metric, setMetric, { fixed: "The same for the whole file" })}
             </Field>
             {metric === FIXED && (
-              <Field id={`${uid}-metric-fixed`} label="Which metric?">
+              <Field id={`${uid}-metric-fixed`} label="Measures, for the whole file">
                 <select id={`${uid}-metric-fixed`} value={metricFixed} onChange={(e) => setMetricFixed(e.target.value)} className={input}>
                   {IMPORT_METRICS.map((m) => (
                     <option key={m} value={m}>

@@ -11,6 +11,8 @@ import { useBinRefresh } from "@/lib/client/revalidate";
 import { feedingsKey } from "@/lib/client/swr-keys";
 import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import { LogStatus } from "@/components/ui/form-parts";
+import { ingredientSourceWords } from "@/lib/domain/ingredients";
+import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
 
 type Row = {
   key: number;
@@ -29,14 +31,6 @@ type Field = "name" | "massKg" | "moisturePct" | "nitrogenPct" | "cn";
 // (lib/domain/rules/params.ts riskCnBelow 25; Cornell: below ~30:1 excess nitrogen goes off as ammonia).
 const MOISTURE_AIM = Math.round((WORM_BED_TARGET.moisturePct.low + WORM_BED_TARGET.moisturePct.high) / 2);
 const CN_AIM = 25;
-
-const STATUS_WORDS: Record<string, string> = {
-  V: "read in the source",
-  "V-2nd": "from a secondary copy",
-  M: "from memory, not verified",
-  gap: "no published value",
-  farm: "your farm's own",
-};
 
 const text = (n: number | null | undefined) => (n == null || !Number.isFinite(n) ? "" : String(n));
 /** A typed number: decimal comma allowed; empty is NaN. */
@@ -314,9 +308,7 @@ export function FeedingForm({
                 </button>
               </div>
               {r.source && (
-                <p className="mt-1 text-xs text-soil-700">
-                  Source ({STATUS_WORDS[r.sourceStatus ?? ""] ?? r.sourceStatus}): {r.source}. Change the values for your own batch.
-                </p>
+                <p className="mt-1 text-xs text-soil-700">{ingredientSourceWords(r.source, r.sourceStatus)} Change the values for your own batch.</p>
               )}
               <div className="mt-2 grid grid-cols-2 gap-3">
                 {numberField(r, i, "massKg", `Mass (${massUnit})`)}
@@ -429,8 +421,9 @@ export function FeedingForm({
         <p className="font-bold">Careful</p>
         <ul className="list-disc pl-5">
           <li>A big load of fresh food can heat up by itself and give off ammonia: feed a little at a time and watch the zone&apos;s temperature.</li>
-          <li>Wash your hands after handling bedding, food scraps or castings.</li>
-          <li>Castings and leachate go on the soil, not on produce about to be eaten.</li>
+          <li>{WASH_HANDS}</li>
+          <li>{CASTINGS_NOT_FOOD}</li>
+          <li>{LOCAL_CODES}</li>
         </ul>
       </aside>
 

@@ -11,7 +11,7 @@ import { formatMass, formatNumber, formatPercent, type UnitSystem } from "@/lib/
 export function FeedingLog({ binId, zones, system, timezone }: { binId: string; zones: ZoneChoice[]; system: UnitSystem; timezone: string }) {
   const { data, error } = useFeedings(binId);
   const clock = useMemo(() => clockFormat(timezone), [timezone]);
-  if (!data) return <p className="text-soil-700">{error ? error.message : "Loading the logbook…"}</p>;
+  if (!data) return <p className="text-soil-700">{error ? error.message : "Loading feedings…"}</p>;
   if (data.feedings.length === 0) return <p className="text-soil-700">No feedings logged yet.</p>;
   return (
     <ol aria-label="Feedings, newest first" className="space-y-3">

@@ -7,6 +7,7 @@ import { useBinRefresh } from "@/lib/client/revalidate";
 import { useSend } from "@/lib/client/use-send";
 import type { ZoneChoice } from "@/lib/client/wire";
 import { massToKg, UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/domain/units";
+import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
 import { LogStatus } from "@/components/ui/form-parts";
 
 type Kind = "watering" | "harvest" | "note";
@@ -131,8 +132,9 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
         <aside aria-label="Caution" className="rounded-xl bg-straw-100 p-3 text-sm ring-1 ring-straw-600">
           <p className="font-bold">Careful</p>
           <ul className="list-disc pl-5">
-            <li>Castings and leachate are not food: put them on the soil, not on produce about to be eaten.</li>
-            <li>Wash your hands after handling castings.</li>
+            <li>{CASTINGS_NOT_FOOD}</li>
+            <li>{WASH_HANDS}</li>
+            <li>{LOCAL_CODES}</li>
           </ul>
         </aside>
       )}

@@ -6,19 +6,49 @@ import { failureOf, send } from "@/lib/client/fetcher";
 import { useCalibration } from "@/lib/client/hooks/use-calibration";
 import { useSend } from "@/lib/client/use-send";
 import type { FittedCalibration, RecordedSample } from "@/lib/client/wire";
-import { formatNumber } from "@/lib/domain/units";
+import {
+  celsiusDeltaToFahrenheit,
+  formatNumber,
+  formatTemperature,
+  temperatureForDisplay,
+  temperatureToCelsius,
+  UNIT_LABELS,
+  type UnitSystem,
+} from "@/lib/domain/units";
+import { calibrationMatch } from "@/lib/domain/calibration";
+import { LOCAL_CODES } from "@/lib/domain/safety-words";
 
 const num = (s: FormDataEntryValue | null) => (typeof s !== "string" || s.trim() === "" ? undefined : Number(s.trim().replace(",", ".")));
-const FIELDS = [
-  ["wetMassG", "Wet mass (g)", true],
-  ["dryMassG", "Dry mass (g)", true],
-  ["tareG", "Container (g)", false],
-  ["ovenTempC", "Oven (°C)", false],
-  ["rawReading", "Probe raw reading", false],
-] as const;
+const fieldsIn = (system: UnitSystem) =>
+  [
+    ["wetMassG", "Wet mass (g)", true],
+    ["dryMassG", "Dry mass (g)", true],
+    ["tareG", "Container (g)", false],
+    ["ovenTempC", `Oven (${UNIT_LABELS[system].temperature})`, false],
+    ["rawReading", "Probe raw reading", false],
+  ] as const;
+/** The usual oven temperature for compost samples (TMECC 03.09, from memory). */
+const OVEN_C = 70;
+// Masses stay in grams on every farm (a kitchen or lab balance); the oven is in the farm's units.
+const ovenWords = (c: number, system: UnitSystem) => formatTemperature(c, system, { digits: 0 });
+const spreadWords = (dc: number, system: UnitSystem) =>
+  `${Math.round(system === "metric" ? dc : celsiusDeltaToFahrenheit(dc))} ${UNIT_LABELS[system].temperature}`;
 
 // Oven-dry samples beside one probe, and the straight line from its raw count to moisture (wet basis).
-export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId: number; placed: boolean; canLog: boolean; canFit: boolean }) {
+export function ProbeCalibration({
+  probeId,
+  placed,
+  canLog,
+  canFit,
+  system,
+}: {
+  probeId: number;
+  placed: boolean;
+  canLog: boolean;
+  canFit: boolean;
+  system: UnitSystem;
+}) {
+  const FIELDS = fieldsIn(system);
   const { data, error, mutate } = useCalibration(probeId);
   const { busy, errors, setErrors, run } = useSend();
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
@@ -33,7 +63,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
     for (const [name, label, required] of FIELDS) {
       const v = num(f.get(name));
       if (v === undefined ? required : !Number.isFinite(v)) errs[name] = `${label.replace(/ \(.*\)$/, "")} must be a number.`;
-      body[name] = v;
+      body[name] = name === "ovenTempC" && v !== undefined ? temperatureToCelsius(v, system) : v;
     }
     setErrors(errs);
     if (Object.keys(errs).length) return setStatus({ ok: false, text: "Not recorded: check the marked fields." });
@@ -74,6 +104,8 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
 
   const input = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg tabular";
   const cal = data?.calibration;
+  // Plain words first; slope, intercept, R² and residuals under "The numbers".
+  const match = cal && data ? calibrationMatch({ n: cal.points, residuals: data.residuals.map((r) => r.residual) }) : null;
   return (
     <div className="space-y-4">
       <Panel id="cal-h" title="Calibration">
@@ -81,51 +113,58 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
           <p className="text-soil-700">{error ? error.message : "Loading…"}</p>
         ) : cal ? (
           <>
-            <p className="tabular mt-1" id="cal-line">
-              moisture % = {formatNumber(cal.slope, 4)} × raw + {formatNumber(cal.intercept, 2)}
+            <p className="mt-1 font-bold" id="cal-match">
+              {match!.headline}
             </p>
-            <dl className="tabular mt-2 grid grid-cols-3 gap-2">
-              <div>
-                <dt className="text-xs text-soil-700 uppercase">Slope</dt>
-                <dd className="font-bold">{formatNumber(cal.slope, 4)}</dd>
-              </div>
-              <div>
-                <dt className="text-xs text-soil-700 uppercase">Intercept</dt>
-                <dd className="font-bold">{formatNumber(cal.intercept, 2)}</dd>
-              </div>
-              <div>
-                <dt className="text-xs text-soil-700 uppercase">R²</dt>
-                <dd className="font-bold">{formatNumber(cal.r2, 3)}</dd>
-              </div>
-            </dl>
+            <p className="text-sm">{match!.detail}</p>
             <p className="text-sm text-soil-700">
               From {cal.points} samples, fitted {new Date(cal.fittedAt).toLocaleString("en-GB")}. The line holds only between the lowest and highest raw
               readings sampled.
             </p>
-            {data.residuals.length > 0 && (
-              <table className="tabular mt-2 w-full text-sm">
-                <caption className="text-left font-bold">Residuals (sample − line)</caption>
-                <thead>
-                  <tr>
-                    <th className="text-left">Raw</th>
-                    <th className="text-right">Sample %</th>
-                    <th className="text-right">Residual</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {data.residuals.map((r) => (
-                    <tr key={r.sampleId}>
-                      <td>{formatNumber(r.raw, 0)}</td>
-                      <td className="text-right">{formatNumber(r.moisturePct, 1)}</td>
-                      <td className="text-right">{formatNumber(r.residual, 2)}</td>
+            <details className="mt-2">
+              <summary className="min-h-11 cursor-pointer py-2 font-bold">The numbers</summary>
+              <p className="tabular mt-1" id="cal-line">
+                moisture % = {formatNumber(cal.slope, 4)} × raw + {formatNumber(cal.intercept, 2)}
+              </p>
+              <dl className="tabular mt-2 grid grid-cols-3 gap-2">
+                <div>
+                  <dt className="text-xs text-soil-700 uppercase">Slope</dt>
+                  <dd className="font-bold">{formatNumber(cal.slope, 4)}</dd>
+                </div>
+                <div>
+                  <dt className="text-xs text-soil-700 uppercase">Intercept</dt>
+                  <dd className="font-bold">{formatNumber(cal.intercept, 2)}</dd>
+                </div>
+                <div>
+                  <dt className="text-xs text-soil-700 uppercase">R²</dt>
+                  <dd className="font-bold">{formatNumber(cal.r2, 3)}</dd>
+                </div>
+              </dl>
+              {data.residuals.length > 0 && (
+                <table className="tabular mt-2 w-full text-sm">
+                  <caption className="text-left font-bold">Residuals (sample − line)</caption>
+                  <thead>
+                    <tr>
+                      <th className="text-left">Raw</th>
+                      <th className="text-right">Sample %</th>
+                      <th className="text-right">Residual</th>
                     </tr>
-                  ))}
-                </tbody>
-              </table>
-            )}
+                  </thead>
+                  <tbody>
+                    {data.residuals.map((r) => (
+                      <tr key={r.sampleId}>
+                        <td>{formatNumber(r.raw, 0)}</td>
+                        <td className="text-right">{formatNumber(r.moisturePct, 1)}</td>
+                        <td className="text-right">{formatNumber(r.residual, 2)}</td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              )}
+            </details>
           </>
         ) : (
-          <p className="mt-1">Not calibrated: its moisture-raw readings are stored as raw counts.</p>
+          <p className="mt-1">Not calibrated: its moisture readings are kept as raw counts until a line is fitted from oven-dry samples.</p>
         )}
         {canFit && data && (
           <div className="mt-3 flex flex-wrap gap-2">
@@ -162,7 +201,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
                   id={`sample-${name}`}
                   name={name}
                   inputMode="decimal"
-                  defaultValue={name === "ovenTempC" ? "70" : ""}
+                  defaultValue={name === "ovenTempC" ? String(Math.round(temperatureForDisplay(OVEN_C, system))) : ""}
                   aria-invalid={!!errors[name]}
                   aria-describedby={errors[name] ? `sample-${name}-error` : undefined}
                   className={input}
@@ -176,11 +215,19 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
             ))}
           </div>
           <p className="text-sm text-soil-700">
-            Oven temperature: ASTM D2216 dries soil at 110 ± 5 °C, but notes that organic material can decompose there; compost methods use lower temperatures
-            such as 70 °C (TMECC 03.09). Use the same temperature for every sample of a probe. Leave the raw reading empty to take the probe&apos;s own reading
-            nearest the time of sampling (within 10 minutes).
+            Dry every sample of a probe at the same oven temperature ({ovenWords(OVEN_C, system)} unless you have a reason to change it). Leave the raw reading
+            empty to take the probe&apos;s own reading nearest the time of sampling (within 10 minutes).
           </p>
-          <p className="text-sm text-soil-700">Wash your hands after handling bedding; let the oven and sample cool before weighing.</p>
+          <p className="text-sm font-bold">
+            Use an oven that is not used for food. Wash your hands after handling bedding; let the oven and sample cool before weighing. {LOCAL_CODES}
+          </p>
+          <details className="text-sm text-soil-700">
+            <summary className="min-h-11 cursor-pointer py-2 font-bold">Where this comes from</summary>
+            <p>
+              ASTM D2216 dries soil at {ovenWords(110, system)} ± {spreadWords(5, system)}, but notes that organic material can decompose there; compost methods
+              use lower temperatures such as {ovenWords(OVEN_C, system)} (TMECC 03.09, the US Composting Council&apos;s test methods).
+            </p>
+          </details>
           <button disabled={busy || !placed} className="min-h-12 w-full rounded-xl bg-leaf-700 px-4 text-lg font-bold text-white disabled:opacity-60">
             {busy ? "Recording…" : "Record sample"}
           </button>
@@ -199,7 +246,7 @@ export function ProbeCalibration({ probeId, placed, canLog, canFit }: { probeId:
               <li key={s.id} className="tabular py-2 text-sm">
                 <b>{formatNumber(s.moistureWbPct, 1)} %</b> wet basis · raw {s.rawReading == null ? "—" : formatNumber(s.rawReading, 0)} · wet{" "}
                 {formatNumber(s.wetMassG, 1)} g, dry {formatNumber(s.dryMassG, 1)} g{s.tareG ? `, container ${formatNumber(s.tareG, 1)} g` : ""}
-                {s.ovenTempC != null ? ` · ${formatNumber(s.ovenTempC, 0)} °C` : ""}
+                {s.ovenTempC != null ? ` · oven ${ovenWords(s.ovenTempC, system)}` : ""}
                 <span className="block text-soil-700">
                   {new Date(s.at).toLocaleString("en-GB")} · by {s.byName ?? "someone no longer on the farm"}
                 </span>

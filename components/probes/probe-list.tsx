@@ -168,7 +168,7 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
           </fieldset>
           <p className="text-sm text-soil-700">
             Power probes from a low-voltage supply with ground-fault protection, as your local electrical code requires; keep mains connections out of damp
-            bedding.
+            bedding. Follow local codes and licensed practice.
           </p>
           <button disabled={busy} className="min-h-12 rounded-xl bg-leaf-700 px-4 font-bold text-white disabled:opacity-60">
             {busy ? "Registering…" : "Register"}

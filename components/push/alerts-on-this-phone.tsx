@@ -1,7 +1,7 @@
 "use client";
 
 import { useEffect, useState } from "react";
-import { send } from "@/lib/client/fetcher";
+import { failureOf, send } from "@/lib/client/fetcher";
 import type { PushKey, PushTestResult } from "@/lib/client/wire";
 
 type State = "checking" | "unsupported" | "denied" | "off" | "on" | "busy";
@@ -39,7 +39,8 @@ export function AlertsOnThisPhone() {
       setState(after);
       setNote(said);
     } catch (e) {
-      setNote((e as Error).message);
+      // The API's own sentence, or the one no-connection sentence (a push service out of reach too).
+      setNote(failureOf(e).message);
       setState(before);
     }
   }
@@ -72,7 +73,7 @@ export function AlertsOnThisPhone() {
       const r = await send<PushTestResult>("POST", "/api/push/test");
       setNote(`Test sent to ${r.sent} phone${r.sent === 1 ? "" : "s"}.`);
     } catch (e) {
-      setNote((e as Error).message);
+      setNote(failureOf(e).message);
     }
   }
 

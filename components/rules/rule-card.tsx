@@ -3,6 +3,8 @@
 import { useState } from "react";
 import type { RuleKindRow, RuleParam } from "@/lib/client/wire";
 import { formatNumber, type UnitSystem } from "@/lib/domain/units";
+import { ruleInWords, sourceInWords } from "@/lib/domain/rules/summary";
+import type { RuleKind } from "@/lib/domain/rules/params";
 import { fromShown, toShown, unitLabel } from "./rule-units";
 
 export type KindState = { enabled: boolean; thresholds: Record<string, number> };
@@ -81,6 +83,7 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
             <span className="rounded-full bg-soil-100 px-3 py-1 font-bold">{effective.enabled ? "On" : "Off"}</span>
           )}
         </div>
+        <p id={`${id}-does`}>{ruleInWords(row.kind as RuleKind, { ...Object.fromEntries(row.params.map((p) => [p.key, p.value])), ...effective.t }, system)}</p>
         <p className="text-sm text-soil-700">{hasOwn ? "This bin has its own values." : "Uses the species defaults."}</p>
 
         <ul className="divide-y divide-soil-100">
@@ -100,7 +103,6 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
                   <span className="tabular">
                     {shown(def)} {unit}
                   </span>
-                  <span className="block text-xs text-soil-500">{p.source}</span>
                 </p>
                 {canEdit ? (
                   <div className="mt-2">
@@ -140,6 +142,18 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
             );
           })}
         </ul>
+
+        <details className="text-sm text-soil-700">
+          <summary className="min-h-11 cursor-pointer py-2 font-bold">Where this comes from</summary>
+          <dl className="space-y-2">
+            {row.params.map((p) => (
+              <div key={p.key}>
+                <dt className="font-bold">{p.label}</dt>
+                <dd>{sourceInWords(p.source)}</dd>
+              </div>
+            ))}
+          </dl>
+        </details>
 
         {canEdit && (
           <div className="grid grid-cols-2 gap-2">

@@ -15,8 +15,8 @@ type Props = {
 };
 
 const UNITS = [
-  { value: "metric", label: "Metric (°C, kg)" },
-  { value: "imperial", label: "Imperial (°F, lb)" },
+  { value: "metric", label: "Metric (°C, kg, L)" },
+  { value: "imperial", label: "Imperial (°F, lb, US gal)" },
 ] as const;
 
 export function FarmForm({ action, farmId, name, unitSystem, timezone, zones }: Props) {
@@ -33,7 +33,8 @@ export function FarmForm({ action, farmId, name, unitSystem, timezone, zones }: 
           Units
         </span>
         <span className="block text-sm text-soil-700">Readings are stored metric; this only changes what everyone sees.</span>
-        <div className="mt-1">
+        {/* The one place that names both systems on purpose (data-both-units marks it for the words test). */}
+        <div className="mt-1" data-both-units>
           <SegmentedControl label="Units" options={UNITS} value={units} onChange={setUnits} />
         </div>
         <input type="hidden" name="unitSystem" value={units} />

@@ -1,7 +1,8 @@
 import { and, eq } from "drizzle-orm";
 import { db } from "@/db";
-import { alerts, bins, memberships, probes, zones } from "@/db/schema";
+import { alerts, bins, farms, memberships, probes, zones } from "@/db/schema";
 import type { Role } from "@/db/schema";
+import type { UnitSystem } from "@/lib/domain/vocabulary";
 
 export type Target = { farmId: string } | { binId: string } | { zoneId: string } | { probeId: number } | { alertId: string };
 
@@ -31,10 +32,13 @@ export async function farmOfTarget(target: Target): Promise<string | null> {
   return r?.farmId ?? null;
 }
 
-export async function getRole(userId: string, farmId: string): Promise<Role | null> {
+/** A person's role on a farm, with the farm's unit system (what its refusals and messages are
+ * said in), or null when they are not a member. */
+export async function getMembership(userId: string, farmId: string): Promise<{ role: Role; units: UnitSystem } | null> {
   const [r] = await db()
-    .select({ role: memberships.role })
+    .select({ role: memberships.role, units: farms.unitSystem })
     .from(memberships)
+    .innerJoin(farms, eq(farms.id, memberships.farmId))
     .where(and(eq(memberships.userId, userId), eq(memberships.farmId, farmId)));
-  return r?.role ?? null;
+  return r ?? null;
 }

@@ -10,6 +10,8 @@ export class FetchError extends Error {
 
 /** What every form says when the request never reached us. */
 export const NO_CONNECTION = "No connection: nothing was saved. Try again when you have signal.";
+/** What a list or chart says when its read never reached us: the same words, for reading. */
+export const NO_CONNECTION_READ = "No connection: this could not load. Try again when you have signal.";
 
 type ErrorEnvelope = { error?: { code?: string; message?: string; field?: string } };
 
@@ -27,10 +29,12 @@ export function plainSentence(message: string, field?: string): string {
   return field && message.startsWith(`${field}: `) ? message.slice(field.length + 2) : message;
 }
 
-// The one SWR fetcher: throws an Error carrying the status and the server's message.
+// The one SWR fetcher: throws an Error carrying the status and the server's message; a lost
+// connection is said as the forms say it, not in the browser's words ("Failed to fetch").
 export async function fetcher<T>(url: string): Promise<T> {
-  const res = await fetch(url, { headers: { accept: "application/json" } });
-  return answerOf<T>(res, `Request failed (${res.status})`);
+  const res = await fetch(url, { headers: { accept: "application/json" } }).catch(() => null);
+  if (!res) throw new FetchError(NO_CONNECTION_READ, 0);
+  return answerOf<T>(res, `The server could not load this (${res.status}); try again.`);
 }
 
 type Method = "GET" | "POST" | "PUT" | "PATCH" | "DELETE";

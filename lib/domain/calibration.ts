@@ -133,3 +133,44 @@ export function applyCalibration(cal: Pick<Calibration, "slope" | "intercept">, 
 export function withinCalibratedRange(cal: Pick<Calibration, "rawMin" | "rawMax">, raw: number): boolean {
   return raw >= cal.rawMin && raw <= cal.rawMax;
 }
+
+/** How well a fitted line matches its oven samples, said plainly before the numbers. */
+export type CalibrationMatch = { level: "close" | "fair" | "loose" | "too-few"; headline: string; detail: string };
+
+// Bands in moisture points (% wet basis) of the worst sample's distance from the line: our own
+// choice for a keeper's reading, not from a standard or a published method (not verified). Within
+// ±2 points a probe tells a comfortable bed from a drying one; beyond ±5 points it cannot.
+const CLOSE_POINTS = 2;
+const FAIR_POINTS = 5;
+
+/** The worst residual of a fit, said in a keeper's words ("Close match: readings within ±2
+ * points of the oven samples"). Two samples always sit on their own line, so they say nothing yet. */
+export function calibrationMatch(cal: Pick<Calibration, "residuals" | "n">): CalibrationMatch {
+  if (cal.n < 3) {
+    return {
+      level: "too-few",
+      headline: `Too few samples to tell: ${cal.n} samples always sit on their own line.`,
+      detail: "Record a third sample, at a different moisture, to see how well the probe matches the oven.",
+    };
+  }
+  const worst = Math.max(...cal.residuals.map((r) => Math.abs(r)));
+  const within = `the line is within ±${formatPoints(worst)} points of every oven sample`;
+  if (worst <= CLOSE_POINTS) {
+    return { level: "close", headline: `Close match: readings within ±${CLOSE_POINTS} points of the oven samples.`, detail: `At worst, ${within}.` };
+  }
+  if (worst <= FAIR_POINTS) {
+    return {
+      level: "fair",
+      headline: `Fair match: readings within ±${FAIR_POINTS} points of the oven samples.`,
+      detail: `At worst, ${within}. Good enough to watch for drying or soggy beds; more samples may tighten it.`,
+    };
+  }
+  return {
+    level: "loose",
+    headline: `Loose match: some readings are more than ${FAIR_POINTS} points off the oven samples.`,
+    detail: `At worst, ${within}. Check the probe sits firmly in the bedding, take new samples and fit again.`,
+  };
+}
+
+// One decimal, without a trailing ".0" (rounded up, so "within" stays true).
+const formatPoints = (p: number) => String(Math.ceil(p * 10 - 1e-9) / 10);

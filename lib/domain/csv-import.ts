@@ -84,13 +84,14 @@ export const importMapping = z
   })
   .superRefine((m, ctx) => {
     if (!m.probe && !m.probeCode) ctx.addIssue({ code: "custom", path: ["probe"], message: "Choose the probe column, or one probe for the whole file." });
-    if (!m.metric && !m.metricFixed) ctx.addIssue({ code: "custom", path: ["metric"], message: "Choose the metric column, or one metric for the whole file." });
+    if (!m.metric && !m.metricFixed)
+      ctx.addIssue({ code: "custom", path: ["metric"], message: "Choose the column of what each reading measures, or one measure for the whole file." });
   });
 export type ImportMapping = z.infer<typeof importMapping>;
 
 /** The first mapped column the header lacks, named by the form field that chose it. */
 export function checkMapping(header: string[], mapping: ImportMapping): { field: string; message: string } | null {
-  const labels = { time: "time", value: "value", probe: "probe", metric: "metric", unit: "unit" } as const;
+  const labels = { time: "time", value: "value", probe: "probe", metric: "measure", unit: "unit" } as const;
   for (const key of Object.keys(labels) as (keyof typeof labels)[]) {
     const name = mapping[key];
     if (name !== undefined && !header.includes(name)) {
@@ -202,6 +203,9 @@ export function readHeader(text: string): { delimiter: string; header: string[] 
   return { delimiter, header };
 }
 
+/** What each mapped column holds, in the words of the import form ("Measures" for the metric). */
+const COLUMN_WORDS = { time: "time", value: "value", probe: "probe", metric: "measure", unit: "unit" } as const;
+
 const HEADER_GUESSES: Record<"time" | "probe" | "metric" | "value" | "unit", RegExp> = {
   time: /^(time|timestamp|date ?time|datetime|ts|date|when|utc)$/i,
   probe: /^(probe|probe ?code|probe ?id|sensor|sensor ?id|device|logger|code)$/i,
@@ -269,7 +273,7 @@ export function mapRows(table: CsvTable, mapping: ImportMapping, ctx: { probes: 
   const index = (name: string | undefined) => (name === undefined ? -1 : table.header.indexOf(name));
   const missing = (["time", "value", "probe", "metric", "unit"] as const).filter((k) => mapping[k] !== undefined && index(mapping[k]) < 0);
   if (missing.length > 0) {
-    const which = missing.map((k) => `${k} column ${quote(mapping[k]!)}`).join(", ");
+    const which = missing.map((k) => `${COLUMN_WORDS[k]} column ${quote(mapping[k]!)}`).join(", ");
     return {
       readings: [],
       bad: [{ line: 1, reason: `the header has no ${which}; it has ${table.header.map(quote).join(", ")}` }],
@@ -286,7 +290,7 @@ export function mapRows(table: CsvTable, mapping: ImportMapping, ctx: { probes: 
     const cell = (i: number) => (i < 0 ? "" : (cells[i] ?? "").trim());
     if (cells.every((c) => c.trim() === "")) continue;
     const fail = (field: string, column: string | undefined, why: string) =>
-      bad.push({ line, reason: `${field}${column ? ` (column ${quote(column)})` : ""}: ${why}` });
+      bad.push({ line, reason: `${COLUMN_WORDS[field as keyof typeof COLUMN_WORDS] ?? field}${column ? ` (column ${quote(column)})` : ""}: ${why}` });
     // A NUL or other control character in a cell we read is a damaged line, not a reading.
     const damaged = (["probe", "metric", "time", "value", "unit"] as const).find((k) => col[k] >= 0 && hasControl(cells[col[k]] ?? ""));
     if (damaged) {
@@ -308,7 +312,7 @@ export function mapRows(table: CsvTable, mapping: ImportMapping, ctx: { probes: 
     const metricName = mapping.metric ? cell(col.metric) : mapping.metricFixed!;
     const metric = metricFromName(metricName);
     if (!metric) {
-      fail("metric", mapping.metric, metricName === "" ? "empty" : `${quote(metricName)} is not a metric we store; use ${IMPORT_METRICS.join(", ")}`);
+      fail("metric", mapping.metric, metricName === "" ? "empty" : `${quote(metricName)} is not a measure we store; use ${IMPORT_METRICS.join(", ")}`);
       continue;
     }
 
@@ -368,7 +372,7 @@ export function mapRows(table: CsvTable, mapping: ImportMapping, ctx: { probes: 
     const earlier = seen.get(key);
     if (earlier) {
       if (earlier.value === value) repeats += 1;
-      else fail("value", mapping.value, `line ${earlier.line} has another value for the same probe, metric and time; the first one is kept`);
+      else fail("value", mapping.value, `line ${earlier.line} has another value for the same probe, measure and time; the first one is kept`);
       continue;
     }
     seen.set(key, { line, value });

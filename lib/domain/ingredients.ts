@@ -2,9 +2,12 @@
 // On-Farm Composting Handbook, NRAES-54 (1992), App. A; Cornell Waste Management Institute, "Compost
 // Chemistry"; U. Illinois "Composting Horse Bedding"). C and N are % of dry mass, moisture % wet basis.
 // Where a source gives only C:N and %N, carbon is %N × C:N (Cornell "C/N Ratio", F4).
+// A row cites a handbook, a paper or an extension publication, never a calculator's web page: values
+// that were only found in online calculators or spreadsheets are "common practice" (status M).
 // sourceStatus is the weakest status among a row's numbers:
-//   V = read in the source; V-2nd = seen only in a secondary copy; M = from memory;
-//   gap = no published value found (measure it, or use a supplier's analysis).
+//   V = read in the source; V-2nd = seen only in a copy of the source's table; M = a usual value,
+//   not checked against a published table; gap = no published value found (measure it, or use a
+//   supplier's analysis). ingredientSourceWords says each to a keeper.
 // Published values spread widely (coffee grounds C:N 12 vs 20): keepers override per batch.
 
 export type IngredientKind = "bedding" | "feedstock" | "water";
@@ -23,7 +26,8 @@ export type Ingredient = {
   note?: string;
 };
 
-const RYNK = "Rynk et al., On-Farm Composting Handbook, NRAES-54 (1992), App. A, as transcribed by Missouri S&T 'Compost calculator' (G. Bertrand)";
+const RYNK = "On-Farm Composting Handbook (NRAES-54), Rynk et al. 1992, Appendix A table of raw materials";
+const COMMON = "common practice";
 const CORNELL_CHEM = "Cornell Waste Management Institute, 'Compost Chemistry' (c. 1996)";
 
 export const ingredients: readonly Ingredient[] = [
@@ -47,9 +51,9 @@ export const ingredients: readonly Ingredient[] = [
     carbonPct: 62.5,
     nitrogenPct: 0.1,
     cn: 625,
-    source: "T. Richard, Cornell compost mix spreadsheet defaults (third-party copy)",
-    sourceStatus: "V-2nd",
-    note: "Rynk: C:N 398–852, moisture 3–8 %.",
+    source: COMMON,
+    sourceStatus: "M",
+    note: "The On-Farm Composting Handbook's table gives a range: C:N 398–852, moisture 3–8 %.",
   },
   {
     key: "mixed-paper",
@@ -73,7 +77,7 @@ export const ingredients: readonly Ingredient[] = [
     cn: 80,
     source: RYNK,
     sourceStatus: "V-2nd",
-    note: "Rynk: C:N 48–150, moisture 4–27 %; wheat straw 127. Cornell: 40–100 (V).",
+    note: "The handbook's range: C:N 48–150, moisture 4–27 %; wheat straw 127. Cornell: 40–100.",
   },
   {
     key: "autumn-leaves",
@@ -85,7 +89,7 @@ export const ingredients: readonly Ingredient[] = [
     cn: 54,
     source: RYNK,
     sourceStatus: "V-2nd",
-    note: "Rynk: C:N 40–80. Cornell: 30–80 (V).",
+    note: "The handbook's range: C:N 40–80. Cornell: 30–80.",
   },
   {
     key: "sawdust",
@@ -97,7 +101,7 @@ export const ingredients: readonly Ingredient[] = [
     cn: 442,
     source: RYNK,
     sourceStatus: "V-2nd",
-    note: "C:N 442 with 0.2 % N implies 88 % carbon, more than wood holds: the two figures do not agree; enter your own N. Rynk: C:N 200–750, moisture 19–65 %.",
+    note: "C:N 442 with 0.2 % N implies 88 % carbon, more than wood holds: the two figures do not agree; enter your own N. The handbook's range: C:N 200–750, moisture 19–65 %.",
   },
   {
     key: "horse-bedding",
@@ -118,7 +122,7 @@ export const ingredients: readonly Ingredient[] = [
     carbonPct: null,
     nitrogenPct: null,
     cn: 58,
-    source: "Unattributed bedding lists; from memory",
+    source: COMMON,
     sourceStatus: "M",
   },
   {
@@ -141,9 +145,9 @@ export const ingredients: readonly Ingredient[] = [
     carbonPct: 51.3,
     nitrogenPct: 2.7,
     cn: 19,
-    source: `${RYNK}; %N from memory`,
+    source: `${RYNK}; %N common practice`,
     sourceStatus: "M",
-    note: "Cornell: vegetable scraps 15–20 (V).",
+    note: "Cornell: vegetable scraps 15–20.",
   },
   {
     key: "fruit-waste",
@@ -155,7 +159,7 @@ export const ingredients: readonly Ingredient[] = [
     cn: 40,
     source: RYNK,
     sourceStatus: "V-2nd",
-    note: "Rynk: C:N 20–49, moisture 62–88 %. No %N found.",
+    note: "The handbook's range: C:N 20–49, moisture 62–88 %. No %N found.",
   },
   {
     key: "coffee-grounds",
@@ -165,9 +169,9 @@ export const ingredients: readonly Ingredient[] = [
     carbonPct: 40,
     nitrogenPct: 2,
     cn: 20,
-    source: `${CORNELL_CHEM} (C:N); moisture and %N from Missouri S&T 'Compost calculator' (G. Bertrand)`,
-    sourceStatus: "V-2nd",
-    note: "S. Solomon, Organic Gardener's Composting, gives C:N ≈12 (V).",
+    source: `${CORNELL_CHEM} (C:N); moisture and %N common practice`,
+    sourceStatus: "M",
+    note: "S. Solomon, Organic Gardener's Composting, gives C:N ≈12.",
   },
   {
     key: "grass-clippings",
@@ -177,9 +181,9 @@ export const ingredients: readonly Ingredient[] = [
     carbonPct: 68,
     nitrogenPct: 4,
     cn: 17,
-    source: `${RYNK} (C:N, moisture); %N from Missouri S&T 'Compost calculator' (G. Bertrand)`,
-    sourceStatus: "V-2nd",
-    note: "C:N 17 with 4 % N implies 68 % carbon, high for plant matter: the two figures come from different tables. Cornell: C:N 15–25 (V); a measured sample was 77 % moisture (V).",
+    source: `${RYNK} (C:N, moisture); %N common practice`,
+    sourceStatus: "M",
+    note: "C:N 17 with 4 % N implies 68 % carbon, high for plant matter: the two figures come from different tables. Cornell: C:N 15–25; a measured sample was 77 % moisture.",
   },
   {
     key: "cattle-manure",
@@ -189,8 +193,8 @@ export const ingredients: readonly Ingredient[] = [
     carbonPct: 45.6,
     nitrogenPct: 2.4,
     cn: 19,
-    source: "T. Richard, Cornell compost mix spreadsheet defaults (third-party copy); Missouri S&T 'Compost calculator'",
-    sourceStatus: "V-2nd",
+    source: COMMON,
+    sourceStatus: "M",
   },
   {
     key: "horse-manure",
@@ -202,7 +206,7 @@ export const ingredients: readonly Ingredient[] = [
     cn: 22.5,
     source: "University of Illinois Extension, 'Composting Horse Bedding': C:N 20–25, moisture 70–80 % (midpoints shown), 2.0 % N",
     sourceStatus: "V",
-    note: "Missouri S&T table: C:N 30, moisture 72 %, 1.6 % N (V-2nd).",
+    note: "Other tables give C:N 30, moisture 72 %, 1.6 % N.",
   },
   {
     key: "horse-manure-straw",
@@ -212,8 +216,8 @@ export const ingredients: readonly Ingredient[] = [
     carbonPct: 40.5,
     nitrogenPct: 1.5,
     cn: 27,
-    source: "Farmwest, 'Horse Manure – Managing a Valuable Resource' (2008), unattributed table",
-    sourceStatus: "V-2nd",
+    source: COMMON,
+    sourceStatus: "M",
   },
   {
     key: "water",
@@ -227,3 +231,23 @@ export const ingredients: readonly Ingredient[] = [
     sourceStatus: "V",
   },
 ];
+
+/** Where an ingredient's values come from, worded for a keeper: "Checked against: …", "A usual
+ * value; not checked against a published table", and so on. */
+export function ingredientSourceWords(source: string, status: string | null): string {
+  const usual = "A usual value; not checked against a published table";
+  switch (status) {
+    case "V":
+      return `Checked against: ${source}.`;
+    case "V-2nd":
+      return `Checked against a copy of: ${source}.`;
+    case "M":
+      return source === COMMON ? `${usual}.` : `${usual} (${source}).`;
+    case "gap":
+      return "No published value: measure it, or use the supplier's analysis.";
+    case "farm":
+      return `Your farm's own: ${source}.`;
+    default:
+      return source;
+  }
+}

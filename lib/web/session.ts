@@ -2,7 +2,7 @@ import createDebug from "debug";
 import { getServerSession } from "next-auth";
 import { notFound } from "next/navigation";
 import { cache } from "react";
-import { farmOfTarget, getRole, type Target } from "@/db/queries/access";
+import { farmOfTarget, getMembership, type Target } from "@/db/queries/access";
 import { AppError } from "@/lib/domain/errors";
 import { authorize, type Who } from "../server/auth/authorize";
 import { authOptions } from "./auth-options";
@@ -31,9 +31,9 @@ export async function requireMember(target: Target, may: Permission): Promise<Wh
 }
 
 // cache() compares arguments by identity, so the lookups take plain strings and numbers.
-const roleOnce = cache((userId: string, farmId: string) => {
+const memberOnce = cache((userId: string, farmId: string) => {
   log("role read: %s on %s", userId, farmId);
-  return getRole(userId, farmId);
+  return getMembership(userId, farmId);
 });
 const farmOfBinOnce = cache((binId: string) => farmOfTarget({ binId }));
 const farmOfZoneOnce = cache((zoneId: string) => farmOfTarget({ zoneId }));
@@ -56,15 +56,15 @@ export async function requirePageMember(target: PageTarget, may: Permission): Pr
   const userId = await currentUserId();
   const [farmOfUrl, farmOfThing] = await Promise.all([farmOfTarget({ farmId: target.farmId }), farmOfPageThing(target)]);
   if (!userId || !farmOfUrl || farmOfThing !== farmOfUrl) notFound();
-  const role = await roleOnce(userId, farmOfUrl);
-  if (!role || !roleAllows(role, may)) notFound();
-  return { userId, farmId: farmOfUrl, role };
+  const member = await memberOnce(userId, farmOfUrl);
+  if (!member || !roleAllows(member.role, may)) notFound();
+  return { userId, farmId: farmOfUrl, role: member.role, units: member.units };
 }
 
 /** A page-shaped read done once per request for the same person and thing, however many of the
  * tab's title (generateMetadata) and the page ask. React's cache compares arguments by identity,
  * and requirePageMember hands each caller a new Who, so the person is passed as its parts. */
 export function oncePerRequest<T, I extends string | number>(read: (who: Who, id: I) => Promise<T>) {
-  const once = cache((userId: string, farmId: string, role: Who["role"], id: I) => read({ userId, farmId, role }, id));
-  return (who: Who, id: I) => once(who.userId, who.farmId, who.role, id);
+  const once = cache((userId: string, farmId: string, role: Who["role"], units: Who["units"], id: I) => read({ userId, farmId, role, units }, id));
+  return (who: Who, id: I) => once(who.userId, who.farmId, who.role, who.units, id);
 }

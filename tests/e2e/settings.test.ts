@@ -68,7 +68,11 @@ describe("alert rules of a bin, on a phone", () => {
     const line = heat.getByLabel("Heads-up above", { exact: true });
     expect(await line.inputValue()).toBe("");
     expect(await line.getAttribute("placeholder")).toBe(String(heatDefault(before, "headsUpAboveC")));
-    expect(await heat.getByText("species: top of the comfortable band").count()).toBe(1);
+    // What the rule does comes first, in words; where each number comes from is folded away.
+    expect(await heat.getByText(/^Tells the crew when the bed stays above \d+(\.\d)? °C for 10 min/).isVisible()).toBe(true);
+    expect(await heat.getByText("From the worm species: top of the comfortable band.").isVisible()).toBe(false);
+    await heat.getByText("Where this comes from").click();
+    expect(await heat.getByText("From the worm species: top of the comfortable band.").isVisible()).toBe(true);
     await line.fill("27.5");
     await heat.getByRole("button", { name: "Save heat rule" }).click();
     await expect.poll(() => heat.getByText("Saved for this bin.").count(), SLOW).toBe(1);
@@ -148,7 +152,7 @@ describe("farm settings, on a phone", () => {
     await p.goto(`${appUrl()}/farms/${own}`);
     await p.getByRole("navigation", { name: "Farm" }).getByRole("link", { name: "Settings" }).click();
     await p.waitForURL(`**/farms/${own}/settings`, SLOW);
-    await p.getByRole("button", { name: "Imperial (°F, lb)" }).click();
+    await p.getByRole("button", { name: "Imperial (°F, lb, US gal)" }).click();
     await p.getByRole("button", { name: "Save farm settings" }).click();
     await expect.poll(() => p.getByText(/Saved\. Temperatures in °F/).count(), SLOW).toBe(1);
     await p.screenshot({ path: screenshotPath("settings-owner-imperial"), fullPage: true });
@@ -162,8 +166,16 @@ describe("farm settings, on a phone", () => {
     expect(await p.getByText(/°C/).count()).toBe(0);
     await p.screenshot({ path: screenshotPath("today-imperial") });
 
+    // The probe's calibration page: the oven in °F, 70 °C said as 158 °F, and the food-oven caution.
+    await p.goto(`${appUrl()}/farms/${own}/probes/${probe.rows[0].id}`);
+    const oven = p.getByLabel("Oven (°F)");
+    await oven.waitFor(SLOW);
+    expect(await oven.inputValue()).toBe("158");
+    expect(await p.getByText("Use an oven that is not used for food.", { exact: false }).count()).toBe(1);
+    expect(await p.getByText(/°C/).count()).toBe(0);
+
     await p.goto(`${appUrl()}/farms/${own}/settings`);
-    await p.getByRole("button", { name: "Metric (°C, kg)" }).click();
+    await p.getByRole("button", { name: "Metric (°C, kg, L)" }).click();
     await p.getByRole("button", { name: "Save farm settings" }).click();
     await expect.poll(() => p.getByText(/Saved\. Temperatures in °C/).count(), SLOW).toBe(1);
     await p.goto(`${appUrl()}/farms/${own}`);

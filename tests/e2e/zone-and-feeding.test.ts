@@ -191,7 +191,7 @@ describe("the zone page and logging a feeding", () => {
     expect(entry).toContain(`C:N ${formatNumber(both.cn!, 1)}`);
     expect(entry).toContain(both.verdict);
     expect(entry).toContain("by Tomás Reyes");
-    await page.getByRole("heading", { name: "Logbook" }).scrollIntoViewIfNeeded();
+    await page.getByRole("heading", { name: "Feedings", exact: true }).scrollIntoViewIfNeeded();
     await page.screenshot({ path: screenshotPath("bin-logbook-after-feeding") });
 
     // Back on the zone's chart the feeding is a mark on the time axis; tapping it says what was fed.

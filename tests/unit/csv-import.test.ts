@@ -116,7 +116,7 @@ describe("mapping rows to readings", () => {
     expect(out.bad.map((b) => b.line)).toEqual([3, 4, 5, 6, 7, 8, 9, 11]);
     const reason = (line: number) => out.bad.find((b) => b.line === line)!.reason;
     expect(reason(3)).toBe('probe (column "probe"): no probe "alder-09" on this farm');
-    expect(reason(4)).toMatch(/^metric \(column "metric"\): "pressure" is not a metric/);
+    expect(reason(4)).toMatch(/^measure \(column "metric"\): "pressure" is not a measure/);
     expect(reason(5)).toMatch(/^time \(column "time"\): "01\/05\/2025" is not a time/);
     expect(reason(6)).toBe('value (column "value"): "wet" is not a number');
     expect(reason(7)).toMatch(/^value \(column "value"\): 140 % is outside/);
@@ -185,7 +185,7 @@ describe("mapping rows to readings", () => {
       {
         line: 1,
         reason: expect.stringMatching(
-          /^the header has no time column "time", value column "value", probe column "probe", metric column "metric"; it has "Zeit", "Wert"$/,
+          /^the header has no time column "time", value column "value", probe column "probe", measure column "metric"; it has "Zeit", "Wert"$/,
         ),
       },
     ]);

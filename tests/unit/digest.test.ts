@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
 import type { DigestData } from "@/db/queries/digest";
 import { addDays, dayBounds, localClock, renderDigest } from "@/lib/server/alerts/digest";
+import { cautionFor } from "@/lib/domain/alert-words";
+import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
 
 describe("farm-local days", () => {
   it("a summer day in Dublin runs from 23:00 UTC to 23:00 UTC", () => {
@@ -64,9 +66,30 @@ describe("the digest text", () => {
     // 20 °C = 68 °F, 25 °C = 77 °F; 4.5359237 kg = 10 lb exactly (1 lb = 0.45359237 kg).
     expect(d.text).toContain("  Working zone: temperature 68.0–77.0 °F, moisture 80 %\n");
     expect(d.text).toContain("  Harvest end: no readings\n");
-    expect(d.text).toContain("  Alerts: 3 raised (2 heads-up heat, 1 heads-up soggy), 1 settled\n");
+    expect(d.text).toContain(`  Alerts: 3 raised (2 heads-up heat, 1 heads-up soggy), 1 settled\n  ${cautionFor("heat")}\n`);
     expect(d.text).toContain("  Feedings: 1 logged, 10.0 lb in all\n");
     expect(d.text).toContain("Open Today: http://app.test/farms/f1");
+    // The handling cautions close every digest.
+    expect(d.text).toContain(`${CASTINGS_NOT_FOOD} ${WASH_HANDS} ${LOCAL_CODES}`);
+  });
+
+  it("says the closed-room caution under a bin's heat or ammonia alerts, once, and not under others", () => {
+    const render = (alerts: DigestData["alerts"]) =>
+      renderDigest({
+        farm: { id: "f1", name: "Back Yard", unitSystem: "metric", timezone: "UTC" },
+        date: "2026-02-03",
+        data: { ...data, alerts },
+        appUrl: "http://app.test",
+      });
+    const both = render([
+      { binId: "b1", kind: "heat", level: "act_now", raised: 1, settled: 0 },
+      { binId: "b1", kind: "ammonia", level: "heads_up", raised: 1, settled: 0 },
+    ]);
+    expect(both.text.split(cautionFor("ammonia")!)).toHaveLength(2);
+    expect(both.html).toContain("air the room");
+    expect(render([{ binId: "b1", kind: "soggy", level: "heads_up", raised: 1, settled: 0 }]).text).not.toContain("closed room");
+    // Settled only, none raised that day: nothing to warn of.
+    expect(render([{ binId: "b1", kind: "heat", level: "heads_up", raised: 0, settled: 1 }]).text).not.toContain("closed room");
   });
 
   it("escapes names in the HTML part", () => {

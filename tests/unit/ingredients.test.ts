@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { ingredients } from "@/lib/domain/ingredients";
+import { ingredientSourceWords, ingredients } from "@/lib/domain/ingredients";
 import { checkMix, type MixItem } from "@/lib/domain/mix";
 
 describe("ingredient library", () => {
@@ -35,13 +35,30 @@ describe("ingredient library", () => {
 
   it("matches the published table values", () => {
     const byKey = new Map(ingredients.map((i) => [i.key, i]));
-    // Rynk et al., On-Farm Composting Handbook, NRAES-54 (1992) App. A, via Missouri S&T (V-2nd)
+    // Rynk et al., On-Farm Composting Handbook, NRAES-54 (1992) App. A, seen in a copy of its table (V-2nd)
     expect(byKey.get("corrugated-cardboard")).toMatchObject({ cn: 563, moisturePct: 8, nitrogenPct: 0.1 });
-    // T. Richard, Cornell compost mix spreadsheet default: 45.6 % C / 2.4 % N, 81 % moisture (V-2nd)
-    expect(byKey.get("cattle-manure")).toMatchObject({ carbonPct: 45.6, nitrogenPct: 2.4, moisturePct: 81 });
+    // common practice (the figures were found only in a compost calculator, so no source is claimed)
+    expect(byKey.get("cattle-manure")).toMatchObject({ carbonPct: 45.6, nitrogenPct: 2.4, moisturePct: 81, source: "common practice", sourceStatus: "M" });
     // University of Illinois Extension, "Composting Horse Bedding": 70.3, 40 %, 0.79 % N (V)
     expect(byKey.get("horse-bedding")).toMatchObject({ cn: 70.3, moisturePct: 40, nitrogenPct: 0.79, sourceStatus: "V" });
     expect(byKey.get("water")).toMatchObject({ kind: "water", moisturePct: 100 });
+  });
+
+  it("cites handbooks, papers and extension publications, never a calculator or a spreadsheet", () => {
+    for (const i of ingredients) expect(`${i.source} ${i.note ?? ""}`, i.key).not.toMatch(/calculator|spreadsheet|Missouri S&T|Farmwest/i);
+    expect(ingredients.find((i) => i.key === "straw")!.source).toBe(
+      "On-Farm Composting Handbook (NRAES-54), Rynk et al. 1992, Appendix A table of raw materials",
+    );
+  });
+
+  it("says where values come from in a keeper's words, not as status codes", () => {
+    expect(ingredientSourceWords("University of Illinois Extension, 'Composting Horse Bedding'", "V")).toBe(
+      "Checked against: University of Illinois Extension, 'Composting Horse Bedding'.",
+    );
+    expect(ingredientSourceWords("common practice", "M")).toBe("A usual value; not checked against a published table.");
+    expect(ingredientSourceWords("X; %N common practice", "M")).toBe("A usual value; not checked against a published table (X; %N common practice).");
+    expect(ingredientSourceWords("Our lab, May 2025", "farm")).toBe("Your farm's own: Our lab, May 2025.");
+    for (const i of ingredients) expect(ingredientSourceWords(i.source, i.sourceStatus), i.key).not.toMatch(/read in the source|from memory|\(V(-2nd)?\)/);
   });
 
   it("every complete row works in a mix check", () => {

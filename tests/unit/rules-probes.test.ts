@@ -108,9 +108,7 @@ describe("probe fault", () => {
     const { brief, events } = run([{ probeId: 4, metric: "temperature", points: temp }], probe({ refusals }), 80, ["probe_fault", "silent_probe"]);
     expect(brief).toEqual(["25 raise probe_fault", "55 settle probe_fault"]);
     expect(events[0]).toMatchObject({ subject: "probe:4:probe_fault", value: 85, details: { cause: "error-code", metric: "temperature" } });
-    expect(events[0]!.message).toBe(
-      "Flow-through A, working zone: probe p-4 sends 85 °C for temperature, a sensor error code, not a reading. Check its wiring.",
-    );
+    expect(events[0]!.message).toBe("Flow-through A, working zone: probe p-4 sends 85 for temperature, a sensor error code, not a reading. Check its wiring.");
     expect(events[1]!.message).toBe("Flow-through A, working zone: probe p-4 reads normally again.");
   });
 

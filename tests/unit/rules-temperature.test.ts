@@ -186,6 +186,44 @@ describe("heat by rate of rise after a feeding", () => {
     );
   });
 
+  it("names the feeding's mass in the farm's units: 12 kg is 26.5 lb on an imperial farm", () => {
+    const { events } = run(rising, { feedings: [feedingHere(0)], unitSystem: "imperial" });
+    expect(events[0]!.message).toBe(
+      "Long Bed North, fresh zone: 71.6 °F and rising 3.6 °F/h since the 26.5 lb feeding at 06:00. Still inside 59.0–77.0 °F, but heating fast.",
+    );
+    expect(events[0]!.message).not.toMatch(/kg|°C/);
+  });
+
+  it("an open alert worded in °C and kg is worded again in °F and lb at the next evaluation after the farm switches units", () => {
+    const metric = run(rising.slice(0, 61), { feedings: [feedingHere(0)] });
+    const raised = metric.events[0]!;
+    const open: OpenAlert[] = [
+      {
+        subject: raised.subject,
+        kind: "heat",
+        level: "heads_up",
+        state: "raised",
+        raisedAt: at(60),
+        details: raised.details,
+        value: raised.value,
+        message: raised.message,
+      },
+    ];
+    const out = evaluateZone({
+      now: at(61),
+      zone,
+      species: fetida,
+      readings: [{ probeId: 7, metric: "temperature", points: minuteSeries(rising.slice(0, 62)) }],
+      recentFeedings: [feedingHere(0)],
+      probes: [probe(7)],
+      openAlerts: open,
+      kinds: ["heat"],
+      unitSystem: "imperial",
+    });
+    expect(out).toEqual([expect.objectContaining({ type: "update", subject: raised.subject })]);
+    expect(out[0]!.message).toMatch(/°F and rising 3\.6 °F\/h since the 26\.5 lb feeding/);
+  });
+
   it("watches for 72 h after the feeding and no longer", () => {
     // fed 71 h before minute 0: at minute 60 the feeding is exactly 72 h old
     expect(run(rising, { feedings: [{ at: at(-71 * 60), zoneId: "zone-1" }] }).brief[0]).toBe("60 raise heat heads_up");

@@ -1,5 +1,5 @@
 import { afterEach, describe, expect, it, vi } from "vitest";
-import { failureOf, FetchError, fetcher, NO_CONNECTION, plainSentence, send } from "@/lib/client/fetcher";
+import { failureOf, FetchError, fetcher, NO_CONNECTION, NO_CONNECTION_READ, plainSentence, send } from "@/lib/client/fetcher";
 
 // The one client write path: what goes out, and how a refusal or a lost connection comes back.
 const answer = (status: number, body: unknown) => new Response(body === undefined ? null : JSON.stringify(body), { status });
@@ -73,5 +73,14 @@ describe("fetcher()", () => {
     await expect(fetcher("/api/bins/x/feedings")).rejects.toMatchObject({ message: "Not found.", status: 404 });
     stubFetch(async () => answer(200, { feedings: [] }));
     await expect(fetcher("/api/bins/b1/feedings")).resolves.toEqual({ feedings: [] });
+  });
+
+  it("a lost connection on a read is said in the same words as on a save, not the browser's", async () => {
+    stubFetch(async () => Promise.reject(new TypeError("Failed to fetch")));
+    const err = await fetcher("/api/farms/f1/today").catch((e: unknown) => e);
+    expect(err).toMatchObject({ message: NO_CONNECTION_READ, status: 0 });
+    expect(NO_CONNECTION_READ.split(":")[0]).toBe(NO_CONNECTION.split(":")[0]);
+    stubFetch(async () => new Response("<html>bad gateway</html>", { status: 502 }));
+    await expect(fetcher("/api/farms/f1/today")).rejects.toMatchObject({ status: 502, message: "The server could not load this (502); try again." });
   });
 });

@@ -6,6 +6,7 @@ import {
   instant,
   loggedAt,
   longText,
+  measured,
   percent,
   plainText,
   quantity,
@@ -13,6 +14,9 @@ import {
   usableTimeZone,
 } from "@/lib/domain/validation/fields";
 import { farmCreate, farmUpdate } from "@/lib/domain/validation/farm";
+import { harvestCreate, harvestCreateFor, sampleCreateFor, wateringCreateFor } from "@/lib/domain/validation/log-entries";
+import { feedingCreateFor } from "@/lib/domain/validation/logbook";
+import { lbToKg } from "@/lib/domain/units";
 import { meUpdate } from "@/lib/domain/validation/alerts";
 
 const issue = (r: { success: boolean; error?: { issues: { message: string }[] } }) => (r.success ? null : r.error!.issues[0]!.message);
@@ -46,12 +50,43 @@ describe("measured amounts", () => {
     expect(mass.safeParse(1e39).success).toBe(false);
   });
   it("zero and negatives are 'more than 0' where zero is not a mass, and 'not negative' where it is", () => {
-    expect(issue(mass.safeParse(0))).toBe("Mass must be more than 0 kg.");
-    expect(issue(mass.safeParse(-2))).toBe("Mass must be more than 0 kg.");
+    expect(issue(mass.safeParse(0))).toBe("Mass must be more than 0.");
+    expect(issue(mass.safeParse(-2))).toBe("Mass must be more than 0.");
     const tare = quantity("Container mass", "g", { min: 0.001, max: 100_000, zero: true });
     expect(tare.parse(0)).toBe(0);
     expect(issue(tare.safeParse(-1))).toBe("Container mass cannot be negative.");
     expect(tare.safeParse(1e-9).success).toBe(false);
+  });
+  it("a mass, volume or length is refused in the farm's units, with the same limits in kg, L and cm", () => {
+    const metric = measured("Mass", "mass", "metric", { min: 0.001, max: 10_000, minWords: "1 g" });
+    const imperial = measured("Mass", "mass", "imperial", { min: 0.001, max: 10_000, minWords: "1 g" });
+    expect(issue(metric.safeParse(10_001))).toBe("Mass cannot be over 10000 kg.");
+    // 10 000 kg is 22 046.2 lb: said rounded down, so the number said is itself accepted
+    expect(issue(imperial.safeParse(10_001))).toBe("Mass cannot be over 22000 lb.");
+    expect(imperial.safeParse(lbToKg(22_000)).success).toBe(true);
+    expect(issue(metric.safeParse(0.0005))).toBe("Mass is too small to be measured; the smallest is 1 g.");
+    // 1 g is 0.0022046 lb: said rounded up
+    expect(issue(imperial.safeParse(0.0005))).toBe("Mass is too small to be measured; the smallest is 0.00221 lb.");
+    expect(issue(imperial.safeParse(0))).toBe("Mass must be more than 0.");
+    const water = measured("Water", "volume", "imperial", { min: 0.01, max: 10_000 });
+    expect(issue(water.safeParse(10_001))).toBe("Water cannot be over 2640 US gal.");
+    expect(issue(measured("Size", "length", "imperial", { min: 1, max: 100_000 }).safeParse(100_001))).toBe("Size cannot be over 39300 in.");
+  });
+  it("the logbook's schemas refuse in the farm's units: no kg or L on an imperial farm, no lb or gal on a metric one", () => {
+    const big = { massKg: 1e6, litres: 1e6 };
+    const imperial = [harvestCreateFor("imperial").safeParse(big), wateringCreateFor("imperial").safeParse(big)].map(issue);
+    expect(imperial).toEqual(["Mass cannot be over 220000 lb.", "Water cannot be over 2640 US gal."]);
+    const feeding = feedingCreateFor("imperial").safeParse({ items: [{ name: "Straw", massKg: 20_000, moisturePct: 10, nitrogenPct: 0.7, cn: 80 }] });
+    expect(issue(feeding)).toBe("Mass cannot be over 22000 lb.");
+    const metric = [harvestCreateFor("metric").safeParse(big), wateringCreateFor("metric").safeParse(big)].map(issue);
+    expect(metric).toEqual(["Mass cannot be over 100000 kg.", "Water cannot be over 10000 L."]);
+    expect(harvestCreate).toBe(harvestCreateFor("metric"));
+  });
+  it("an oven-dry sample's oven limits are said in °F on an imperial farm and °C on a metric one; the check is the same", () => {
+    const hot = { wetMassG: 10, dryMassG: 3, ovenTempC: 150 };
+    expect(issue(sampleCreateFor("imperial").safeParse(hot))).toBe("Oven temperature above 266 °F burns organic matter.");
+    expect(issue(sampleCreateFor("metric").safeParse(hot))).toBe("Oven temperature above 130 °C burns organic matter.");
+    expect(issue(sampleCreateFor("imperial").safeParse({ ...hot, ovenTempC: 30 }))).toBe("Oven temperature below 104 °F will not dry the sample.");
   });
   it("NaN, Infinity and numbers sent as text are not amounts", () => {
     for (const v of [Number.NaN, Number.POSITIVE_INFINITY, "3"]) expect(mass.safeParse(v).success, String(v)).toBe(false);

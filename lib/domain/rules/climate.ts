@@ -121,7 +121,7 @@ export function heatVerdict(ctx: RuleContext): Verdict | null {
     words: (worst, { rate, feedingAt, feedingKg }) => {
       const now = withTrend(w.temp(worst.last.v), w.tempTrend(rate));
       // The feeding's clock time, not "n h ago": a message that changes every minute is churn.
-      const feed = feedingAt === null ? "" : ` since the ${feedingKg ? `${formatNumber(feedingKg, 1)} kg ` : ""}feeding at ${w.clock(feedingAt)}`;
+      const feed = feedingAt === null ? "" : ` since the ${feedingKg ? `${w.mass(feedingKg)} ` : ""}feeding at ${w.clock(feedingAt)}`;
       const message = said(worst, `${w.place}: ${now}, near the top of the comfortable ${band}.`, {
         "warm-stress": () => `${w.place}: ${now}, at or above ${w.temp(r.actNowAtC)} where ${w.worms} suffer. Cool the bed now.`,
         "above-band": () => `${w.place}: ${now}, above the comfortable ${band} for ${w.worms}.`,

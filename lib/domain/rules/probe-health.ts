@@ -149,7 +149,9 @@ export function faultVerdict(ctx: RuleContext, probe: ProbeContext): Verdict | n
     const last = c.marks[j.i]!;
     const what = c.metric ? METRICS[c.metric].label.toLowerCase() : c.suffix;
     const unit = c.metric ? METRICS[c.metric].displayUnit : "";
-    const shown = (v: number | null) => (v === null ? "a value" : `${Number(formatNumber(v, 2))}${unit ? ` ${unit}` : ""}`);
+    // Temperatures in the farm's units; an error code is a number the sensor sends, not a reading, so it has none.
+    const inUnits = (v: number) => (c.metric === "temperature" ? w.temp(v, "fine") : `${Number(formatNumber(v, 2))}${unit ? ` ${unit}` : ""}`);
+    const shown = (v: number | null) => (v === null ? "a value" : inUnits(v));
     if (j.held!.id === "stuck") {
       const s = c.marks.map((m) => ({ t: m.t, v: m.v! }));
       since = last.t - unchangedFor(s, j.i, r[STUCK_STEP[c.metric as Metric]!]);
@@ -164,9 +166,9 @@ export function faultVerdict(ctx: RuleContext, probe: ProbeContext): Verdict | n
       const range = c.metric ? METRICS[c.metric].range : null;
       message =
         last.cause === "error-code"
-          ? `${w.place}: ${name} sends ${shown(last.v)} for ${what}, a sensor error code, not a reading. Check its wiring.`
+          ? `${w.place}: ${name} sends ${last.v === null ? "a value" : Number(formatNumber(last.v, 2))} for ${what}, a sensor error code, not a reading. Check its wiring.`
           : `${w.place}: ${name} sends ${shown(last.v)} for ${what}, outside what the sensor can measure` +
-            `${range ? ` (${range.min}…${range.max}${unit ? ` ${unit}` : ""})` : ""}. Check the probe.`;
+            `${!range ? "" : c.metric === "temperature" ? ` (${w.tempRange(range.min, range.max)})` : ` (${range.min}…${range.max}${unit ? ` ${unit}` : ""})`}. Check the probe.`;
     }
   }
   return {

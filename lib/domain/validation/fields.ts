@@ -3,6 +3,7 @@
 // `real` or a year 300000 with an error the person cannot act on).
 import { z } from "zod";
 import { localClock, zonedToUtc } from "@/lib/domain/clock";
+import { UNIT_LABELS, lengthForDisplay, massForDisplay, volumeForDisplay, type UnitSystem } from "@/lib/domain/units";
 
 // C0 controls, DEL and C1 controls (Unicode general category Cc), and lone surrogates (Cs), which
 // PostgreSQL cannot store (U+0000: text 22021, jsonb 22P05) or which would silently become U+FFFD.
@@ -35,28 +36,72 @@ export const hasControl = (s: string) => CONTROL.test(s);
 const FLOAT4_MIN_NORMAL = 1.1754943508222875e-38;
 
 type QuantityOptions = {
-  /** Smallest non-zero value that is still a measurement, in `unit`. */
+  /** Smallest non-zero value that is still a measurement, in the stored unit. */
   min: number;
   max: number;
   /** Whether 0 itself is allowed (a tare, a dry mass); values between 0 and `min` never are. */
   zero?: boolean;
-  /** How to say `min` in words, e.g. "1 g". */
+  /** How to say `min` in words on a metric farm, e.g. "1 g". */
   minWords?: string;
 };
 
-/** A measured amount (mass, volume, length, percentage): a finite JSON number within a sensible
- * range for a worm bin. Not finite, subnormal and too-fine values are refused with the field named. */
-export function quantity(what: string, unit: string, o: QuantityOptions) {
-  if (o.min <= FLOAT4_MIN_NORMAL) throw new Error(`quantity ${what}: min must be a real measurement`);
-  const amount = (n: number) => (unit ? `${n} ${unit}` : `${n}`);
+/** How a bound is said: in the stored unit as it is, or converted (`show`) to the farm's units. */
+type Saying = { unit: string; show?: (stored: number) => number };
+
+/** What a stored amount measures; each is stored metric (kg, L, cm) and said in the farm's units. */
+export type Measure = "mass" | "volume" | "length";
+const TO_DISPLAY = { mass: massForDisplay, volume: volumeForDisplay, length: lengthForDisplay } as const;
+
+// A converted bound is said with three significant figures, rounded inward (a maximum down, a
+// minimum up), so the number said is itself accepted: 10 000 kg is "22000 lb", not "22046.2 lb".
+const inward = (v: number, up: boolean) => {
+  if (v === 0) return 0;
+  const step = 10 ** (Math.floor(Math.log10(Math.abs(v))) - 2);
+  const n = (up ? Math.ceil(v / step - 1e-9) : Math.floor(v / step + 1e-9)) * step;
+  return Number(n.toPrecision(3));
+};
+
+function amountChecks(what: string, o: QuantityOptions, say: Saying) {
+  const amount = (stored: number, up: boolean) => {
+    const shown = say.show ? inward(say.show(stored), up) : stored;
+    return say.unit ? `${shown} ${say.unit}` : `${shown}`;
+  };
   // z.number() already refuses NaN and ±Infinity (zod 4); JSON cannot carry them anyway.
   return z.number({ message: `${what} must be a number.` }).superRefine((v, ctx) => {
-    const say = (message: string) => ctx.addIssue({ code: "custom", message });
-    if (v <= 0 && !o.zero) say(`${what} must be more than ${amount(0)}.`);
-    else if (v < 0) say(`${what} cannot be negative.`);
-    else if (v > 0 && v < o.min) say(`${what} is too small to be measured; the smallest is ${o.minWords ?? amount(o.min)}.`);
-    else if (v > o.max) say(`${what} cannot be over ${amount(o.max)}.`);
+    const issue = (message: string) => ctx.addIssue({ code: "custom", message });
+    // "More than 0" needs no unit, so it reads the same on every farm.
+    if (v <= 0 && !o.zero) issue(`${what} must be more than 0.`);
+    else if (v < 0) issue(`${what} cannot be negative.`);
+    else if (v > 0 && v < o.min) issue(`${what} is too small to be measured; the smallest is ${(!say.show && o.minWords) || amount(o.min, true)}.`);
+    else if (v > o.max) issue(`${what} cannot be over ${amount(o.max, false)}.`);
   });
+}
+
+function checkMin(what: string, o: QuantityOptions) {
+  if (o.min <= FLOAT4_MIN_NORMAL) throw new Error(`quantity ${what}: min must be a real measurement`);
+}
+
+/** A measured amount in a unit that is the same on every farm (g, %, a ratio): a finite JSON
+ * number within a sensible range for a worm bin. Not finite, subnormal and too-fine values are
+ * refused with the field named. */
+export function quantity(what: string, unit: string, o: QuantityOptions) {
+  checkMin(what, o);
+  return amountChecks(what, o, { unit });
+}
+
+/** A mass, volume or length, stored metric (`o` in kg, L or cm) and refused in the farm's units:
+ * on an imperial farm "Mass cannot be over 22000 lb.", the limit checked is the same. */
+export function measured(what: string, measure: Measure, system: UnitSystem, o: QuantityOptions) {
+  checkMin(what, o);
+  const unit = UNIT_LABELS[system][measure];
+  if (system === "metric") return amountChecks(what, o, { unit });
+  return amountChecks(what, o, { unit, show: (v) => TO_DISPLAY[measure](v, system) });
+}
+
+/** A schema built once per unit system, for inputs whose refusals name the farm's units. */
+export function perUnitSystem<T>(build: (system: UnitSystem) => T): (system: UnitSystem) => T {
+  const made = { metric: build("metric"), imperial: build("imperial") };
+  return (system) => made[system];
 }
 
 // Lab reports give moisture, carbon and nitrogen to two decimals (TMECC 03.09, 04.01), so a

@@ -1,5 +1,6 @@
 import { z } from "zod";
-import { finiteNumber, loggedAt, longText, quantity } from "./fields";
+import { finiteNumber, loggedAt, longText, measured, perUnitSystem, quantity } from "./fields";
+import { UNIT_LABELS, temperatureForDisplay, type UnitSystem } from "../units";
 
 // One rule for the time of every logbook entry (feedings too): back-dated is fine, the future is not.
 export const logCommon = {
@@ -8,10 +9,18 @@ export const logCommon = {
   notes: longText("Notes", { max: 2000 }).nullable().optional(),
 };
 
-// A cup (0.01 L, 10 mL) is the least anyone waters with; 10 m³ is a large windrow's soaking.
-export const wateringCreate = z.object({ ...logCommon, litres: quantity("Water", "L", { min: 0.01, max: 10_000 }) });
-// Kitchen scales read to 1 g; 100 t is far beyond a farm's single harvest.
-export const harvestCreate = z.object({ ...logCommon, massKg: quantity("Mass", "kg", { min: 0.001, max: 100_000, minWords: "1 g" }) });
+// Amounts are sent metric (litres, massKg) and refused in the farm's units, so an imperial form
+// hears "cannot be over 2640 US gal". The `…For(system)` builders are what the API parses with.
+// A cup (0.01 L, 10 mL) is the least anyone waters with; 10 m³ is a large windrow's soaking (common practice).
+export const wateringCreateFor = perUnitSystem((system: UnitSystem) =>
+  z.object({ ...logCommon, litres: measured("Water", "volume", system, { min: 0.01, max: 10_000 }) }),
+);
+// Kitchen scales read to 1 g; 100 t is far beyond a farm's single harvest (common practice).
+export const harvestCreateFor = perUnitSystem((system: UnitSystem) =>
+  z.object({ ...logCommon, massKg: measured("Mass", "mass", system, { min: 0.001, max: 100_000, minWords: "1 g" }) }),
+);
+export const wateringCreate = wateringCreateFor("metric");
+export const harvestCreate = harvestCreateFor("metric");
 export const noteCreate = z.object({ ...logCommon, text: longText("The note", { min: 1, max: 4000, empty: "Write the note." }) });
 export type WateringCreate = z.output<typeof wateringCreate>;
 export type HarvestCreate = z.output<typeof harvestCreate>;
@@ -22,20 +31,25 @@ export type LogEntryListQuery = z.output<typeof logEntryListQuery>;
 
 // Oven-dry samples are weighed on a lab or kitchen balance: 1 mg (0.001 g) resolution at best.
 const grams = (what: string, zero: boolean) => quantity(what, "g", { min: 0.001, max: 100_000, zero });
-export const sampleCreate = z.object({
-  wetMassG: grams("Wet mass", false),
-  dryMassG: grams("Dry mass", true),
-  tareG: grams("Container mass", true).optional(),
-  // Ovens for moisture run 60–110 °C (TMECC 70 ± 5, ASTM D2216 110 ± 5); outside that, likely a typo.
-  ovenTempC: z
-    .number({ message: "Oven temperature must be a number." })
-    .min(40, "Oven temperature below 40 °C will not dry the sample.")
-    .max(130, "Oven temperature above 130 °C burns organic matter.")
-    .nullable()
-    .optional(),
-  // A raw count from the probe's ADC or capacitance timer; 32-bit counters are the widest in use.
-  rawReading: finiteNumber("Raw reading", { min: -4_294_967_296, max: 4_294_967_296 }).nullable().optional(),
-  at: loggedAt.optional(),
-  notes: logCommon.notes,
-});
+// The oven's limits are said in the farm's units; the field is sent in °C (ovenTempC).
+const ovenLimit = (c: number, system: UnitSystem) => `${Math.round(temperatureForDisplay(c, system))} ${UNIT_LABELS[system].temperature}`;
+export const sampleCreateFor = perUnitSystem((system: UnitSystem) =>
+  z.object({
+    wetMassG: grams("Wet mass", false),
+    dryMassG: grams("Dry mass", true),
+    tareG: grams("Container mass", true).optional(),
+    // Ovens for moisture run 60–110 °C (TMECC 70 ± 5, ASTM D2216 110 ± 5); outside that, likely a typo.
+    ovenTempC: z
+      .number({ message: "Oven temperature must be a number." })
+      .min(40, `Oven temperature below ${ovenLimit(40, system)} will not dry the sample.`)
+      .max(130, `Oven temperature above ${ovenLimit(130, system)} burns organic matter.`)
+      .nullable()
+      .optional(),
+    // A raw count from the probe's ADC or capacitance timer; 32-bit counters are the widest in use.
+    rawReading: finiteNumber("Raw reading", { min: -4_294_967_296, max: 4_294_967_296 }).nullable().optional(),
+    at: loggedAt.optional(),
+    notes: logCommon.notes,
+  }),
+);
+export const sampleCreate = sampleCreateFor("metric");
 export type SampleCreate = z.infer<typeof sampleCreate>;

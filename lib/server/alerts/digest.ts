@@ -7,8 +7,9 @@ import { escapeHtml } from "@/lib/server/mail/app-mailer";
 import { env } from "@/lib/server/env";
 import { formatNumber, formatMass, temperatureForDisplay, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import { localClock, zonedToUtc } from "@/lib/domain/clock";
-import { KIND_WORDS, LEVEL_WORDS } from "../../domain/alert-words";
+import { KIND_WORDS, LEVEL_WORDS, cautionFor } from "../../domain/alert-words";
 import { zoneName } from "@/lib/domain/zone-words";
+import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
 
 export { localClock };
 
@@ -47,6 +48,9 @@ export function summarize(data: DigestData, units: UnitSystem): BinSummary[] {
         (a) => `${a.raised} ${LEVEL_WORDS[a.level as keyof typeof LEVEL_WORDS].toLowerCase()} ${KIND_WORDS[a.kind as keyof typeof KIND_WORDS].toLowerCase()}`,
       );
     lines.push(raised || settled ? `Alerts: ${raised} raised${kinds.length ? ` (${kinds.join(", ")})` : ""}, ${settled} settled` : "Alerts: none");
+    // A heat or ammonia alert carries its caution here as in its push and e-mail, each said once.
+    const cautions = new Set(counts.filter((a) => a.raised > 0).map((a) => cautionFor(a.kind as keyof typeof KIND_WORDS)));
+    for (const c of cautions) if (c) lines.push(c);
     for (const z of data.zones.filter((z) => z.binId === bin.id)) {
       const label = zoneName(z);
       const t = data.ranges.find((r) => r.zoneId === z.id && r.metric === "temperature");
@@ -71,7 +75,7 @@ export function renderDigest(p: { farm: Pick<Farm, "id" | "name" | "unitSystem" 
   const subject = `[Wormward] ${p.farm.name}: your day, ${dayWords}`;
   const bins = summarize(p.data, p.farm.unitSystem);
   const link = `${p.appUrl}/farms/${p.farm.id}`;
-  const footer = "Castings and leachate go on the soil, not on produce about to be eaten; wash your hands after work in the bins.";
+  const footer = `${CASTINGS_NOT_FOOD} ${WASH_HANDS} ${LOCAL_CODES}`;
   const text = [
     `${p.farm.name} — ${dayWords} (${p.farm.timezone})`,
     "",

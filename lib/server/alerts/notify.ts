@@ -13,7 +13,8 @@ import { appMailer } from "@/lib/server/mail/app-mailer";
 import { env } from "@/lib/server/env";
 import { pushConfigured } from "./deliver";
 import { inQuietHours } from "../../domain/quiet-hours";
-import { KIND_WORDS, LEVEL_WORDS } from "../../domain/alert-words";
+import { zoneInBin } from "../../domain/zone-words";
+import { KIND_WORDS, LEVEL_WORDS, alertMailText, alertPushBody } from "../../domain/alert-words";
 
 export { KIND_WORDS, LEVEL_WORDS };
 
@@ -25,7 +26,7 @@ export type MailContent = { subject: string; text: string };
 
 async function messageOf(alert: Alert, reason: Reason) {
   const ctx = await alertContext(alert.id);
-  const where = ctx ? `${ctx.binName}${ctx.zoneKind ? `, ${ctx.zoneName ?? `${ctx.zoneKind} zone`}` : ""}` : "";
+  const where = !ctx ? "" : ctx.zoneKind ? zoneInBin(ctx.binName, { kind: ctx.zoneKind, name: ctx.zoneName }) : ctx.binName;
   const title = `${reason === "reminder" ? "Still unclaimed · " : ""}${LEVEL_WORDS[alert.level]}: ${KIND_WORDS[alert.kind]}${where ? ` · ${where}` : ""}`;
   const url = `${env().APP_URL}/farms/${alert.farmId}#alert-${alert.id}`;
   const payload = {
@@ -33,14 +34,15 @@ async function messageOf(alert: Alert, reason: Reason) {
     kind: alert.kind,
     level: alert.level,
     title,
-    body: alert.message,
+    // The message was worded in the farm's units when last evaluated (lib/domain/rules/words.ts).
+    body: alertPushBody(alert.kind, alert.message),
     bin: ctx?.binName ?? null,
     zone: ctx?.zoneKind ?? null,
     value: alert.value,
     details: alert.details,
     url: `/farms/${alert.farmId}#alert-${alert.id}`,
   };
-  const text = `${alert.message}\n\nOpen Wormward to claim it: ${url}\n\nAmmonia and heat can harm worms quickly and, in a closed room, people too: ventilate before you work in the bin.`;
+  const text = alertMailText(alert.kind, alert.message, url);
   return { payload, mail: { subject: `[Wormward] ${title}`, text } satisfies MailContent };
 }
 

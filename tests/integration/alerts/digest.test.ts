@@ -10,6 +10,7 @@ import { insertReadings, type ReadingInput } from "@/db/queries/readings";
 import { alerts, bins, farms, memberships, probes, users, zones } from "@/db/schema";
 import { createDigestScheduler, sendDueDigests, type DigestScheduler } from "@/ingest/digest";
 import { makeMailer } from "@/lib/server/mail/mail";
+import { cautionFor } from "@/lib/domain/alert-words";
 import { freePort } from "../../setup/global";
 
 process.env.SMTP_PORT = String(inject("smtpPort"));
@@ -146,9 +147,10 @@ describe("the daily digest", () => {
     expect(tote).toBeGreaterThan(-1);
     // Bins in name order: Kitchen Tote, then Long Bed East.
     expect(lines.slice(tote, tote + 4)).toEqual(["Kitchen Tote", "Alerts: none", "Working zone: no readings", "Feedings: none logged"]);
-    expect(lines.slice(bed, bed + 5)).toEqual([
+    expect(lines.slice(bed, bed + 6)).toEqual([
       "Long Bed East",
       "Alerts: 2 raised (1 act now heat, 1 heads-up drying), 2 settled",
+      cautionFor("heat"),
       "Fresh zone: temperature 21.0–27.5 °C, moisture 78–82 %",
       "Curing zone: temperature 19.0–20.5 °C",
       "Feedings: 2 logged, 12.5 kg in all",

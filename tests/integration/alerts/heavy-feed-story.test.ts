@@ -19,6 +19,7 @@ import { probeBaseName } from "@/lib/domain/metrics";
 import { makeVapidKeys } from "@/lib/server/push/push";
 import { newSubscriber, pushMessagesFor, type TestSubscriber } from "../../helpers/push";
 import { connectProbe, createProbes, type TestProbe } from "../ingest/helpers";
+import { cautionFor } from "@/lib/domain/alert-words";
 
 type Ece = { decrypt(body: Buffer, opts: { version: "aes128gcm"; privateKey: unknown; authSecret: Buffer }): Buffer };
 const ece = createRequire(import.meta.url)("http_ece") as Ece;
@@ -143,6 +144,8 @@ describe("a heavy feed heats the fresh zone", () => {
     expect(urgent.bin).toBe("Test bin");
     expect(urgent.zone).toBe("working");
     expect(urgent.body).toMatch(/°C/);
+    // A heat alert's push carries the closed-room caution after its message.
+    expect(urgent.body.endsWith(` ${cautionFor("heat")}`)).toBe(true);
     expect(urgent.value).toBeGreaterThan(25);
     const actNowMessage = messages[payloads.indexOf(urgent)]!;
     console.log(`publish-to-push latency (act now): ${Date.parse(actNowMessage.receivedAt) - escalatedAtReal} ms`);

@@ -9,6 +9,7 @@ import { createDeliveryWorker, type DeliveryWorker } from "@/ingest/delivery-wor
 import { createRuleRunner, type RuleRunner } from "@/ingest/rule-runner";
 import { startIngest, type Ingest } from "@/ingest/service";
 import { probeBaseName } from "@/lib/domain/metrics";
+import { cautionFor } from "@/lib/domain/alert-words";
 import { makeVapidKeys } from "@/lib/server/push/push";
 import { connectProbe, createProbes, type TestProbe } from "../ingest/helpers";
 
@@ -79,6 +80,8 @@ describe("e-mail when push is not possible", () => {
     expect(keeperMail).toHaveLength(1);
     expect(keeperMail[0]!.subject).toMatch(/Act now: Heat · Test bin/);
     expect(keeperMail[0]!.text).toMatch(/33\.5 °C/);
+    // The heat caution is in the mail, after the message.
+    expect(keeperMail[0]!.text).toContain(`\n\n${cautionFor("heat")}\n\n`);
 
     // Fifteen minutes on, nobody has claimed it: the reminder goes out, once, even from two sweeps.
     simNow += 16 * 60_000;

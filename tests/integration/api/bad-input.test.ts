@@ -142,6 +142,24 @@ describe("amounts the database cannot hold", () => {
     await expect422(await keeper.fetch(`/api/bins/${farm.binId}/harvests`, { method: "POST", json: { massKg: 1e-40 } }), "massKg");
   });
 
+  it("on an imperial farm a refused harvest or watering names lb and US gal, on a metric farm kg and L", async () => {
+    const imperial = await makeFarm(c, { zones: ["working"], name: `Zz Imperial ${TAG}` });
+    await c.query(`update farms set unit_system = 'imperial' where id = $1`, [imperial.farmId]);
+    const email = await addMember(c, imperial.farmId, "keeper", PASSWORD);
+    emails.push(email);
+    const k = await signIn(email, PASSWORD);
+    try {
+      const harvest = await expect422(await k.fetch(`/api/bins/${imperial.binId}/harvests`, { method: "POST", json: { massKg: 1e6 } }), "massKg");
+      expect(harvest.error.message).toMatch(/Mass cannot be over 220000 lb\.$/);
+      const water = await expect422(await k.fetch(`/api/bins/${imperial.binId}/waterings`, { method: "POST", json: { litres: 1e6 } }), "litres");
+      expect(water.error.message).toMatch(/Water cannot be over 2640 US gal\.$/);
+      const metric = await expect422(await keeper.fetch(`/api/bins/${farm.binId}/harvests`, { method: "POST", json: { massKg: 1e6 } }), "massKg");
+      expect(metric.error.message).toMatch(/Mass cannot be over 100000 kg\.$/);
+    } finally {
+      await c.query(`delete from farms where id = $1`, [imperial.farmId]);
+    }
+  });
+
   it("a bin 5e-324 cm long is a 422 naming lengthCm", async () => {
     await expect422(await owner.fetch(`/api/bins/${farm.binId}`, { method: "PATCH", json: { lengthCm: 5e-324 } }), "lengthCm");
   });

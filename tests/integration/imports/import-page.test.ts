@@ -53,8 +53,8 @@ describe("the import page", () => {
     expect(await page.getByRole("table").getByText("eighteen").count()).toBe(1);
     await page.getByLabel("Probe", { exact: true }).selectOption({ label: "One probe for the whole file" });
     await page.getByLabel("Which probe?").selectOption(code);
-    await page.getByLabel("Metric", { exact: true }).selectOption({ label: "One metric for the whole file" });
-    await page.getByLabel("Which metric?").selectOption("temperature");
+    await page.getByLabel("Measures", { exact: true }).selectOption({ label: "The same for the whole file" });
+    await page.getByLabel("Measures, for the whole file").selectOption("temperature");
     await page.getByRole("button", { name: "Import readings" }).click();
     await expect.poll(() => page.getByText("2 readings stored").count(), SLOW).toBe(1);
     expect(await page.getByText("1 row refused").count()).toBe(1);
@@ -78,7 +78,7 @@ describe("the import page", () => {
       .getByLabel("Logger file (CSV)")
       .setInputFiles({ name: "odd.csv", mimeType: "text/csv", buffer: Buffer.from("time,probe,value\n2025-04-01T06:00:00Z,x,1\n") });
     await expect.poll(() => page.getByLabel("Time", { exact: true }).inputValue(), SLOW).toBe("time");
-    await page.getByLabel("Metric", { exact: true }).selectOption({ label: "One metric for the whole file" });
+    await page.getByLabel("Measures", { exact: true }).selectOption({ label: "The same for the whole file" });
     const tz = page.getByLabel("Time zone of times without one");
     await tz.fill("Mars/Olympus");
     await page.getByRole("button", { name: "Import readings" }).click();

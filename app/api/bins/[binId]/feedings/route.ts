@@ -3,7 +3,7 @@ import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
 import { listBinFeedings } from "@/lib/server/logbook/list-feedings";
 import { logFeeding } from "@/lib/server/logbook/log-feeding";
-import { feedingCreate, feedingListQuery } from "@/lib/domain/validation/logbook";
+import { feedingCreateFor, feedingListQuery } from "@/lib/domain/validation/logbook";
 
 type Ctx = { params: Promise<{ binId: string }> };
 
@@ -19,6 +19,6 @@ export const GET = route(async (req, { params }: Ctx) => {
 export const POST = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   const who = await requireMember({ binId }, "log");
-  const input = feedingCreate.parse(await readJson(req));
+  const input = feedingCreateFor(who.units).parse(await readJson(req));
   return Response.json(await logFeeding(who, binId, input), { status: 201 });
 });

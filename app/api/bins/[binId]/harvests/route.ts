@@ -3,7 +3,7 @@ import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
 import { listEntries } from "@/lib/server/logbook/list-entries";
 import { logHarvest } from "@/lib/server/logbook/log-harvest";
-import { logEntryListQuery, harvestCreate } from "@/lib/domain/validation/log-entries";
+import { logEntryListQuery, harvestCreateFor } from "@/lib/domain/validation/log-entries";
 
 type Ctx = { params: Promise<{ binId: string }> };
 
@@ -19,6 +19,6 @@ export const GET = route(async (req, { params }: Ctx) => {
 export const POST = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   const who = await requireMember({ binId }, "log");
-  const input = harvestCreate.parse(await readJson(req));
+  const input = harvestCreateFor(who.units).parse(await readJson(req));
   return Response.json(await logHarvest(who, binId, input), { status: 201 });
 });

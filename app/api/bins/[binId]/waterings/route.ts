@@ -3,7 +3,7 @@ import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
 import { listEntries } from "@/lib/server/logbook/list-entries";
 import { logWatering } from "@/lib/server/logbook/log-watering";
-import { logEntryListQuery, wateringCreate } from "@/lib/domain/validation/log-entries";
+import { logEntryListQuery, wateringCreateFor } from "@/lib/domain/validation/log-entries";
 
 type Ctx = { params: Promise<{ binId: string }> };
 
@@ -19,6 +19,6 @@ export const GET = route(async (req, { params }: Ctx) => {
 export const POST = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   const who = await requireMember({ binId }, "log");
-  const input = wateringCreate.parse(await readJson(req));
+  const input = wateringCreateFor(who.units).parse(await readJson(req));
   return Response.json(await logWatering(who, binId, input), { status: 201 });
 });

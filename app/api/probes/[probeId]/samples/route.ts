@@ -1,7 +1,7 @@
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
-import { sampleCreate } from "@/lib/domain/validation/log-entries";
+import { sampleCreateFor } from "@/lib/domain/validation/log-entries";
 import { addSample } from "@/lib/server/probes/add-sample";
 import { listSamples } from "@/lib/server/probes/list-samples";
 
@@ -18,6 +18,6 @@ export const GET = route(async (_req, { params }: Ctx) => {
 export const POST = route(async (req, { params }: Ctx) => {
   const probeId = Number((await params).probeId);
   const who = await requireMember({ probeId }, "log");
-  const input = sampleCreate.parse(await readJson(req));
+  const input = sampleCreateFor(who.units).parse(await readJson(req));
   return Response.json(await addSample(who, probeId, input), { status: 201 });
 });

@@ -102,17 +102,17 @@ export default async function BinPage({
 
       <SWRConfig value={{ fallback }}>
         {canLog && <FeedingForm farmId={farmId} binId={binId} zones={zones} defaultZoneId={defaultZoneId} system={farm.unitSystem} />}
-        <section aria-labelledby="logbook-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-          <h2 id="logbook-h" className="text-xl font-bold">
-            Logbook
+        <section aria-labelledby="feedings-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+          <h2 id="feedings-h" className="text-xl font-bold">
+            Feedings
           </h2>
           <p className="mb-2 text-sm text-soil-700">Feedings, newest first, each with the mix check made when it was logged.</p>
           <FeedingLog binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} />
         </section>
         {canLog && <QuickLogForms binId={binId} zones={zones} system={farm.unitSystem} />}
-        <section aria-labelledby="all-log-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-          <h2 id="all-log-h" className="text-xl font-bold">
-            Everything logged
+        <section aria-labelledby="logbook-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+          <h2 id="logbook-h" className="text-xl font-bold">
+            Logbook
           </h2>
           <p className="mb-2 text-sm text-soil-700">
             Feedings, water, harvests, notes and oven-dry samples, newest first. Undo is open for 24 hours to whoever logged it.

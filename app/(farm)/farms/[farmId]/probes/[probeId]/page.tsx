@@ -10,7 +10,7 @@ export const metadata: Metadata = { title: "Probe calibration" };
 export default async function ProbePage({ params }: { params: Promise<{ farmId: string; probeId: string }> }) {
   const { farmId, probeId } = await params;
   const id = Number(probeId);
-  const { role } = await requirePageMember({ farmId, probeId: id }, "read");
+  const { role, units } = await requirePageMember({ farmId, probeId: id }, "read");
   const probe = await probeView(id);
   if (!probe) notFound();
   return (
@@ -22,7 +22,7 @@ export default async function ProbePage({ params }: { params: Promise<{ farmId: 
         <h1 className="text-3xl font-bold">{probe.label ?? probe.code}</h1>
         <p className="text-sm text-soil-700">Oven-dry samples and the calibration of its moisture reading.</p>
       </div>
-      <ProbeCalibration probeId={id} placed={!!probe.binId} canLog={role !== "viewer"} canFit={role === "owner"} />
+      <ProbeCalibration probeId={id} placed={!!probe.binId} canLog={role !== "viewer"} canFit={role === "owner"} system={units} />
     </main>
   );
 }

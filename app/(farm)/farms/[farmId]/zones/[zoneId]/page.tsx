@@ -30,7 +30,7 @@ function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => s
       ? `settled ${a.settledAt ? clock(a.settledAt.toISOString()) : ""}`
       : a.state === "claimed"
         ? `claimed by ${a.claimedByName ?? "someone"}`
-        : "raised, nobody on it yet";
+        : "raised, not claimed yet";
   return (
     <li
       className={`rounded-xl p-3 ring-1 ${a.state === "settled" ? "bg-paper ring-soil-300" : actNow ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}
