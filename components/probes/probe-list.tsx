@@ -7,6 +7,7 @@ import { useProbes } from "@/lib/client/hooks/use-probes";
 import { useSend } from "@/lib/client/use-send";
 import { probesKey } from "@/lib/client/swr-keys";
 import type { ProbeRow, RegisteredProbe, RotatedToken } from "@/lib/client/wire";
+import { probeTopics } from "@/lib/domain/vocabulary";
 
 type ZoneOption = { id: string; label: string };
 
@@ -22,7 +23,8 @@ function TokenBox({ code, token, onDone }: { code: string; token: string; onDone
       <p className="font-bold">Token for {code}: copy it now, it is shown only once.</p>
       <code className="mt-2 block rounded bg-white p-2 text-sm break-all">{token}</code>
       <p className="mt-2 text-sm">
-        The probe signs in to the broker with user name <b>{code}</b> and this token, and publishes to <code>wormward/{code}/up</code>.
+        The probe signs in to the broker with user name <b>{code}</b> and this token, and publishes its readings to{" "}
+        <code className="break-all">{probeTopics(code).readings}</code>.
       </p>
       <button onClick={onDone} className="mt-2 min-h-11 rounded-lg bg-soil-800 px-4 font-bold text-white">
         I have copied it

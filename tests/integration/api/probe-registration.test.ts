@@ -56,7 +56,7 @@ describe("registering a probe", () => {
     expect(list).not.toContain(stored);
 
     const c = await connect(code, token);
-    await c.publishAsync(`wormward/${code}/up`, JSON.stringify([{ bn: probeBaseName(code), n: "temp", u: "Cel", v: 21.5 }]), { qos: 1 });
+    await c.publishAsync(`wormward/${code}/readings`, JSON.stringify([{ bn: probeBaseName(code), n: "temp", u: "Cel", v: 21.5 }]), { qos: 1 });
     await c.endAsync();
     const rows = await db.query(`select value from readings where probe_id = $1 and metric = 'temperature'`, [probe.id]);
     expect(rows.rows.map((r) => r.value)).toEqual([21.5]);
