@@ -1,5 +1,5 @@
 // A simulated probe fleet for the demo farm: each probe publishes SenML (RFC 8428) JSON over MQTT
-// to wormward/<code>/up with its code and token, as lib/domain/metrics.ts names things. Readings follow a
+// to wormward/<code>/readings with its code and token, as lib/domain/metrics.ts names things. Readings follow a
 // daily ambient swing, slow drying and sensor noise; scenarios (steady, heavy feed, drying, probe
 // dropout) can be started per probe at run time through a small HTTP control endpoint.
 //
@@ -13,6 +13,7 @@ import { pathToFileURL } from "node:url";
 import createDebug from "debug";
 import { connectAsync, DefaultMessageIdProvider, Store, type IClientOptions, type IStore, type MqttClient } from "mqtt";
 import { probeBaseName } from "@/lib/domain/metrics";
+import { PRESENCE_GONE, PRESENCE_HERE, probeTopics } from "@/lib/domain/vocabulary";
 
 const log = createDebug("wormward:fleet");
 
@@ -102,10 +103,10 @@ type StorePacket = Parameters<IStore["put"]>[0];
 class KeptStore implements IStore {
   acked = 0;
   private readonly inner = new Store({ clean: false });
-  private readonly upIds = new Set<number>();
-  constructor(private readonly upTopic: string) {}
+  private readonly readingIds = new Set<number>();
+  constructor(private readonly readingsTopic: string) {}
   put(packet: StorePacket, cb: Parameters<IStore["put"]>[1]) {
-    if (packet.cmd === "publish" && packet.topic === this.upTopic && packet.messageId !== undefined) this.upIds.add(packet.messageId);
+    if (packet.cmd === "publish" && packet.topic === this.readingsTopic && packet.messageId !== undefined) this.readingIds.add(packet.messageId);
     this.inner.put(packet, cb);
     return this;
   }
@@ -114,7 +115,7 @@ class KeptStore implements IStore {
   }
   del(packet: Pick<StorePacket, "messageId">, cb: Parameters<IStore["del"]>[1]) {
     this.inner.del(packet, (err, removed) => {
-      if (!err && packet.messageId !== undefined && this.upIds.delete(packet.messageId)) this.acked += 1;
+      if (!err && packet.messageId !== undefined && this.readingIds.delete(packet.messageId)) this.acked += 1;
       cb(err, removed);
     });
     return this;
@@ -127,14 +128,14 @@ class KeptStore implements IStore {
     this.inner.close(cb);
   }
   unacknowledged(): number {
-    return this.upIds.size;
+    return this.readingIds.size;
   }
 }
 
 type Sim = {
   probe: FleetProbe;
   zone: string;
-  topics: { up: string; status: string };
+  topics: ReturnType<typeof probeTopics>;
   scenario: ScenarioName;
   /** Simulated hours since the scenario started. */
   scenarioH: number;
@@ -187,11 +188,11 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
     const base = ZONE_BASE[zone] ?? ZONE_BASE.working!;
     let markConnected = () => {};
     const connectedOnce = new Promise<void>((r) => (markConnected = r));
-    const up = `wormward/${probe.code}/up`;
+    const topics = probeTopics(probe.code);
     return {
       probe,
       zone,
-      topics: { up, status: `wormward/${probe.code}/status` },
+      topics,
       scenario: "steady",
       scenarioH: 0,
       heatC: 0,
@@ -204,7 +205,7 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
       sentFirmware: false,
       client: null,
       connecting: false,
-      store: new KeptStore(up),
+      store: new KeptStore(topics.readings),
       ids: new DefaultMessageIdProvider(),
       connectedOnce,
       markConnected,
@@ -229,7 +230,7 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
     connectTimeout: 10_000,
     outgoingStore: s.store,
     messageIdProvider: s.ids,
-    will: { topic: s.topics.status, payload: Buffer.from("offline"), qos: 1, retain: false },
+    will: { topic: s.topics.presence, payload: Buffer.from(PRESENCE_GONE), qos: 1, retain: false },
   });
 
   const silent = (s: Sim) => s.scenario === "dropout";
@@ -246,15 +247,15 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
           break;
         }
         client.on("error", (err) => log("%s: %s", s.probe.code, err.message));
-        client.on("offline", () => log("%s: offline", s.probe.code));
+        client.on("offline", () => log("%s: connection lost", s.probe.code));
         client.on("reconnect", () => log("%s: reconnecting", s.probe.code));
         client.on("connect", () => {
           log("%s: connected again", s.probe.code);
-          birth(s, client);
+          announce(s, client);
         });
         s.client = client;
         log("%s: connected", s.probe.code);
-        birth(s, client);
+        announce(s, client);
         s.markConnected();
         break;
       } catch (err) {
@@ -265,9 +266,9 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
     s.connecting = false;
   }
 
-  function birth(s: Sim, client: MqttClient) {
+  function announce(s: Sim, client: MqttClient) {
     s.sentFirmware = false;
-    client.publishAsync(s.topics.status, "online", { qos: 1 }).catch((err: Error) => log("%s: birth not sent (%s)", s.probe.code, err.message));
+    client.publishAsync(s.topics.presence, PRESENCE_HERE, { qos: 1 }).catch((err: Error) => log("%s: \"here\" not sent (%s)", s.probe.code, err.message));
   }
 
   function step(s: Sim, dtH: number) {
@@ -317,7 +318,7 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
     s.ticks += 1;
     // QoS 1: MQTT.js keeps the message in its store until the PUBACK and resends it after a
     // reconnect; the promise is only for logging.
-    s.client.publishAsync(s.topics.up, JSON.stringify(pack), { qos: 1 }).catch((err: Error) => log("%s: publish pending (%s)", s.probe.code, err.message));
+    s.client.publishAsync(s.topics.readings, JSON.stringify(pack), { qos: 1 }).catch((err: Error) => log("%s: publish pending (%s)", s.probe.code, err.message));
   }
 
   function tick() {

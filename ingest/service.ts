@@ -8,6 +8,7 @@ import { db as sharedDb, type Db } from "@/db";
 import { getProbeByCode } from "@/db/queries/probes";
 import { verifyProbeToken } from "@/lib/server/probes/verify-token";
 import type { Probe } from "@/db/schema";
+import { PRESENCE_GONE, PRESENCE_HERE, probeTopics } from "@/lib/domain/vocabulary";
 import { DEFAULT_LIMITS, excerptOf, rejectionText, summarizeRejections, validateSenmlPayload, type TelemetryLimits } from "@/lib/domain/telemetry";
 import { createConnectionLimits, DEFAULT_CONNECTION_LIMITS, type ConnectionLimits } from "./connection-limits";
 import { FrameGuard, PacketTooLarge } from "./frame-guard";
@@ -15,12 +16,6 @@ import { createWriter, type BatchOptions, type RetryOptions } from "./writer";
 
 const log = createDebug("wormward:ingest");
 
-export const TOPIC_ROOT = "wormward";
-export const probeTopics = (code: string) => ({
-  up: `${TOPIC_ROOT}/${code}/up`,
-  status: `${TOPIC_ROOT}/${code}/status`,
-  down: `${TOPIC_ROOT}/${code}/down`,
-});
 
 export type IngestOptions = {
   port: number;
@@ -41,7 +36,7 @@ export type IngestOptions = {
 // A probe's CONNECT holds a client id, a user name (its code), a 43-character token and a short
 // will: a few hundred bytes. The broker reads no more than this from a stranger.
 export const CONNECT_MAX_BYTES = 512;
-// Fixed header (5), topic length (2) and topic, packet id (2): room for wormward/<code>/up and more.
+// Fixed header (5), topic length (2) and topic, packet id (2): room for wormward/<code>/readings and more.
 const PUBLISH_OVERHEAD_BYTES = 512;
 const CONNECT_TIMEOUT_MS = 10_000;
 
@@ -108,13 +103,15 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     return { readings: [], rejections: [], status: { probeId: probe.id, ...status }, origin: originOf(probe) };
   }
 
-  function setOnline(probe: Probe, online: boolean) {
+  // probes.online holds whether the probe has a connection now: a detail the probe list shows
+  // beside "reporting" or "silent", which go by readings (lib/domain/probe-presence.ts).
+  function setConnected(probe: Probe, connected: boolean) {
     writer
-      .submit(statusJob(probe, online ? { online, seenAt: new Date() } : { online }))
-      .catch((e: Error) => log("online=%s of %s not stored: %s", online, probe.code, e.message));
+      .submit(statusJob(probe, connected ? { online: true, seenAt: new Date() } : { online: false }))
+      .catch((e: Error) => log("connected=%s of %s not stored: %s", connected, probe.code, e.message));
   }
 
-  async function onUp(probe: Probe, _client: Client, topic: string, payload: Buffer) {
+  async function onReadings(probe: Probe, _client: Client, topic: string, payload: Buffer) {
     const v = validateSenmlPayload(probe, payload, { limits });
     const origin = originOf(probe, topic, payload);
     if (v.rejections.length) {
@@ -129,16 +126,16 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     });
   }
 
-  async function onStatus(probe: Probe, client: Client, topic: string, payload: Buffer) {
+  async function onPresence(probe: Probe, client: Client, topic: string, payload: Buffer) {
     const said = payload.toString("utf8").trim().toLowerCase();
-    if (said !== "online" && said !== "offline") {
-      const reason = rejectionText({ code: "bad-status", reason: 'a status message is "online" or "offline"' });
+    if (said !== PRESENCE_HERE && said !== PRESENCE_GONE) {
+      const reason = rejectionText({ code: "bad-presence", reason: `a presence message says "${PRESENCE_HERE}" or "${PRESENCE_GONE}"` });
       await writer.submit({ ...statusJob(probe, {}), rejections: [{ ...originOf(probe, topic, payload), reason }] });
       return;
     }
-    // A will from a connection the probe has since replaced must not mark it offline.
+    // A will from a connection the probe has since replaced must not mark it as gone.
     const replaced = [...(live.get(probe.code) ?? [])].some((c) => c !== client);
-    const online = said === "online" ? true : replaced ? null : false;
+    const online = said === PRESENCE_HERE ? true : replaced ? null : false;
     await writer.submit(statusJob(probe, { online, seenAt: new Date() }));
   }
 
@@ -197,8 +194,10 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
       if (packet.topic.startsWith("$SYS/")) return cb(new Error("$SYS/ topic is reserved"));
       const session = client ? sessions.get(client) : undefined;
       if (!client || !session) return refuse(client, `publish to ${packet.topic} without a session`, cb);
-      const { up, status } = probeTopics(session.probe.code);
-      if (packet.topic !== up && packet.topic !== status) return refuse(client, `publish to ${packet.topic}`, cb);
+      // Only the probe's own readings and presence topics, matched exactly: anything else, the old
+      // wormward/<code>/up among them, is refused like any unknown topic.
+      const { readings, presence } = probeTopics(session.probe.code);
+      if (packet.topic !== readings && packet.topic !== presence) return refuse(client, `publish to ${packet.topic}`, cb);
       currentProbe(session)
         .then((probe) => {
           if (!probe) return refuse(client, `publish from archived probe ${session.probe.code}`, cb);
@@ -206,7 +205,7 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
           if (cut !== null) return onReadPast(probe, packet, cut).then(() => cb(null));
           if (packet.retain) return onRetained(probe, packet).then(() => cb(null));
           // MQTT 3.1.1 has no negative PUBACK (§3.4): a recorded rejection is acknowledged.
-          return (packet.topic === up ? onUp : onStatus)(probe, client, packet.topic, packet.payload as Buffer).then(() => cb(null));
+          return (packet.topic === readings ? onReadings : onPresence)(probe, client, packet.topic, packet.payload as Buffer).then(() => cb(null));
         })
         .catch((err: Error) => cb(err));
     },
@@ -214,7 +213,7 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     authorizeSubscribe(client, sub, cb) {
       const session = sessions.get(client);
       // Exact match: a filter with + or # (§4.7.1) would reach other probes' topics.
-      if (session && sub.topic === probeTopics(session.probe.code).down) return cb(null, sub);
+      if (session && sub.topic === probeTopics(session.probe.code).forProbe) return cb(null, sub);
       log("refused subscription to %s from %s", sub.topic, client.id);
       cb(null, null); // SUBACK 0x80, Failure (§3.9.3)
     },
@@ -231,7 +230,7 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     set.add(client);
     live.set(s.probe.code, set);
     log("probe %s connected as %s", s.probe.code, client.id);
-    setOnline(s.probe, true);
+    setConnected(s.probe, true);
   });
   broker.on("clientDisconnect", (client) => {
     const s = sessions.get(client);
@@ -241,7 +240,7 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     if (set && set.size > 0) return;
     live.delete(s.probe.code);
     log("probe %s disconnected", s.probe.code);
-    setOnline(s.probe, false);
+    setConnected(s.probe, false);
   });
   broker.on("keepaliveTimeout", (client) => log("keep-alive of %s ran out", client.id));
 

@@ -7,13 +7,55 @@ import { useProbes } from "@/lib/client/hooks/use-probes";
 import { useSend } from "@/lib/client/use-send";
 import { probesKey } from "@/lib/client/swr-keys";
 import type { ProbeRow, RegisteredProbe, RotatedToken } from "@/lib/client/wire";
+import { presenceWords } from "@/lib/domain/probe-presence";
+import { probeTopics, type ProbePresenceState } from "@/lib/domain/vocabulary";
 
 type ZoneOption = { id: string; label: string };
 
-function seen(iso: string | null) {
-  if (!iso) return "never";
-  const min = Math.round((Date.now() - Date.parse(iso)) / 60_000);
-  return min < 1 ? "just now" : min < 60 ? `${min} min ago` : `${Math.round(min / 60)} h ago`;
+// Presence by word and shape, never by colour alone: a filled dot in a ring sends, a ring crossed
+// through has gone quiet (the silent-probe alert's word), a dashed ring has not sent yet.
+const PRESENCE_LOOK: Record<ProbePresenceState | "archived", { cls: string; shape: React.ReactNode }> = {
+  reporting: {
+    cls: "bg-leaf-100 text-leaf-700 ring-leaf-500",
+    shape: (
+      <>
+        <circle cx="7" cy="7" r="5.5" fill="none" stroke="currentColor" strokeWidth="1.5" />
+        <circle cx="7" cy="7" r="2.5" fill="currentColor" />
+      </>
+    ),
+  },
+  silent: {
+    cls: "bg-straw-100 text-straw-800 ring-straw-600 font-bold ring-2",
+    shape: (
+      <>
+        <circle cx="7" cy="7" r="5.5" fill="none" stroke="currentColor" strokeWidth="1.5" />
+        <path d="M3 11 11 3" stroke="currentColor" strokeWidth="1.75" strokeLinecap="round" />
+      </>
+    ),
+  },
+  "no-reading-yet": {
+    cls: "bg-soil-100 text-soil-700 ring-soil-300",
+    shape: <circle cx="7" cy="7" r="5.5" fill="none" stroke="currentColor" strokeWidth="1.5" strokeDasharray="2.2 2" />,
+  },
+  archived: {
+    cls: "bg-soil-100 text-soil-700 ring-soil-300",
+    shape: <path d="M2 6h10v2H2z" fill="currentColor" />,
+  },
+};
+
+function Presence({ probe, headline }: { probe: ProbeRow; headline: string }) {
+  const look = PRESENCE_LOOK[probe.archivedAt ? "archived" : probe.presence.state];
+  return (
+    <span
+      data-presence={probe.archivedAt ? "archived" : probe.presence.state}
+      className={`inline-flex shrink-0 items-center gap-1 rounded-full px-2 py-0.5 text-sm ring-1 ${look.cls}`}
+    >
+      <svg viewBox="0 0 14 14" width="14" height="14" aria-hidden="true">
+        {look.shape}
+      </svg>
+      {probe.archivedAt ? "archived" : headline}
+    </span>
+  );
 }
 
 function TokenBox({ code, token, onDone }: { code: string; token: string; onDone: () => void }) {
@@ -22,7 +64,8 @@ function TokenBox({ code, token, onDone }: { code: string; token: string; onDone
       <p className="font-bold">Token for {code}: copy it now, it is shown only once.</p>
       <code className="mt-2 block rounded bg-white p-2 text-sm break-all">{token}</code>
       <p className="mt-2 text-sm">
-        The probe signs in to the broker with user name <b>{code}</b> and this token, and publishes to <code>wormward/{code}/up</code>.
+        The probe signs in to the broker with user name <b>{code}</b> and this token, and publishes its readings to{" "}
+        <code className="break-all">{probeTopics(code).readings}</code>.
       </p>
       <button onClick={onDone} className="mt-2 min-h-11 rounded-lg bg-soil-800 px-4 font-bold text-white">
         I have copied it
@@ -81,46 +124,42 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
         <p className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">No probes yet.{canManage ? " Register the first one below." : ""}</p>
       )}
       <ul className="space-y-2">
-        {data.probes.map((p) => (
-          <li key={p.id} className={`rounded-2xl bg-white p-4 ring-1 ring-soil-300 ${p.archivedAt ? "opacity-60" : ""}`}>
-            <div className="flex items-baseline justify-between gap-2">
-              <h2 className="font-bold">{p.label ?? p.code}</h2>
-              <span className={`inline-flex items-center gap-1 text-sm ${p.online ? "text-leaf-700" : "text-soil-500"}`}>
-                <svg viewBox="0 0 10 10" width="10" height="10" aria-hidden="true">
-                  {p.online ? (
-                    <circle cx="5" cy="5" r="4" fill="currentColor" />
-                  ) : (
-                    <circle cx="5" cy="5" r="3.5" fill="none" stroke="currentColor" strokeWidth="1.5" />
-                  )}
-                </svg>
-                {p.archivedAt ? "archived" : p.online ? "connected" : "not connected"}
-              </span>
-            </div>
-            <p className="text-sm text-soil-700">
-              {p.code} · {p.binName ? `${p.binName}, ${p.zoneKind} zone` : "not placed in a zone"}
-            </p>
-            <p className="tabular text-sm">
-              Last report {seen(p.lastSeenAt)} · every {p.reportIntervalS} s{p.batteryV != null ? ` · battery ${p.batteryV.toFixed(2)} V` : ""}
-              {p.signalDbm != null ? ` · signal ${p.signalDbm} dBm` : ""}
-              {p.firmware ? ` · ${p.firmware}` : ""}
-            </p>
-            <Link href={`/farms/${farmId}/probes/${p.id}`} className="inline-flex min-h-11 items-center text-soil-700 underline underline-offset-4">
-              Oven-dry samples and calibration
-            </Link>
-            {canManage && (
-              <div className="mt-2 flex flex-wrap gap-2">
-                {!p.archivedAt && (
-                  <button onClick={() => newToken(p)} className="min-h-11 rounded-lg px-3 ring-1 ring-soil-300">
-                    New token
-                  </button>
-                )}
-                <button onClick={() => archive(p, !p.archivedAt)} className="min-h-11 rounded-lg px-3 ring-1 ring-soil-300">
-                  {p.archivedAt ? "Bring back" : "Archive"}
-                </button>
+        {data.probes.map((p) => {
+          const presence = presenceWords(p.presence, data.at, data.timeZone);
+          return (
+            <li key={p.id} className={`rounded-2xl bg-white p-4 ring-1 ring-soil-300 ${p.archivedAt ? "opacity-60" : ""}`}>
+              <div className="flex items-baseline justify-between gap-2">
+                <h2 className="font-bold">{p.label ?? p.code}</h2>
+                <Presence probe={p} headline={presence.headline} />
               </div>
-            )}
-          </li>
-        ))}
+              <p className="text-sm text-soil-700">
+                {p.code} · {p.binName ? `${p.binName}, ${p.zoneKind} zone` : "not placed in a zone"}
+              </p>
+              {!p.archivedAt && <p className="tabular text-sm">{presence.detail}</p>}
+              <p className="tabular text-sm text-soil-700">
+                Reports every {p.reportIntervalS} s{p.connected ? " · connection open now" : ""}
+                {p.batteryV != null ? ` · battery ${p.batteryV.toFixed(2)} V` : ""}
+                {p.signalDbm != null ? ` · signal ${p.signalDbm} dBm` : ""}
+                {p.firmware ? ` · ${p.firmware}` : ""}
+              </p>
+              <Link href={`/farms/${farmId}/probes/${p.id}`} className="inline-flex min-h-11 items-center text-soil-700 underline underline-offset-4">
+                Oven-dry samples and calibration
+              </Link>
+              {canManage && (
+                <div className="mt-2 flex flex-wrap gap-2">
+                  {!p.archivedAt && (
+                    <button onClick={() => newToken(p)} className="min-h-11 rounded-lg px-3 ring-1 ring-soil-300">
+                      New token
+                    </button>
+                  )}
+                  <button onClick={() => archive(p, !p.archivedAt)} className="min-h-11 rounded-lg px-3 ring-1 ring-soil-300">
+                    {p.archivedAt ? "Bring back" : "Archive"}
+                  </button>
+                </div>
+              )}
+            </li>
+          );
+        })}
       </ul>
       {canManage && (
         <form onSubmit={register} className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">

@@ -68,10 +68,15 @@ export type ProbeStatusRow = {
   zonePosition: number | null;
   binId: string | null;
   binName: string | null;
+  binSpecies: string | null;
   metrics: string[];
   reportIntervalS: number;
+  /** The last time anything was heard from the probe (any message, or its connection opening). */
   lastSeenAt: Date | null;
-  online: boolean;
+  /** The time of its latest stored reading, whichever the metric. */
+  lastReadingAt: Date | null;
+  /** Whether it holds an MQTT connection now (probes.online). */
+  connected: boolean;
   batteryV: number | null;
   signalDbm: number | null;
   firmware: string | null;
@@ -82,15 +87,26 @@ export type ProbeStatusRow = {
 export async function listFarmProbesWithStatus(farmId: string) {
   const r = await db().execute<ProbeStatusRow>(sql`
     select p.id, p.code, p.label, p.zone_id as "zoneId", z.kind as "zoneKind", z.position as "zonePosition",
-           b.id as "binId", b.name as "binName", p.metrics, p.report_interval_s as "reportIntervalS",
-           p.last_seen_at as "lastSeenAt", p.online, p.battery_v as "batteryV", p.signal_dbm as "signalDbm",
-           p.firmware, p.calibration, p.archived_at as "archivedAt"
+           b.id as "binId", b.name as "binName", b.species as "binSpecies", p.metrics, p.report_interval_s as "reportIntervalS",
+           p.last_seen_at as "lastSeenAt", last.ts as "lastReadingAt", p.online as "connected",
+           p.battery_v as "batteryV", p.signal_dbm as "signalDbm", p.firmware, p.calibration, p.archived_at as "archivedAt"
     from probes p
     left join zones z on z.id = p.zone_id
     left join bins b on b.id = z.bin_id
+    -- The latest reading per metric through the readings key (probe, metric, ts), one short index
+    -- walk each, rather than a scan of the probe's whole series.
+    left join lateral (
+      select max(r.ts) as ts
+      from unnest(enum_range(null::metric)) m(metric)
+      cross join lateral (
+        select ts from readings where probe_id = p.id and metric = m.metric order by ts desc limit 1
+      ) r
+    ) last on true
     where p.farm_id = ${farmId}
     order by p.archived_at nulls first, b.name nulls last, z.position, p.code`);
-  return r.rows;
+  // Raw SQL hands timestamps over as text: made Dates here, as the type says.
+  const at = (v: Date | string | null) => (v === null ? null : new Date(v));
+  return r.rows.map((row) => ({ ...row, lastSeenAt: at(row.lastSeenAt), lastReadingAt: at(row.lastReadingAt), archivedAt: at(row.archivedAt) }));
 }
 
 /** The new probe, or null when its code is taken (codes are unique across farms: the broker's user names). */

@@ -10,6 +10,14 @@ export async function listRulesForBin(farmId: string, binId: string) {
     .where(and(eq(rules.farmId, farmId), or(isNull(rules.binId), eq(rules.binId, binId))));
 }
 
+// Every rule row of the farm, farm-wide and per bin, of one kind (the probe list's silent-probe line).
+export async function listFarmRules(farmId: string, kind: AlertKind) {
+  return db()
+    .select()
+    .from(rules)
+    .where(and(eq(rules.farmId, farmId), eq(rules.kind, kind)));
+}
+
 export async function upsertBinRule(farmId: string, binId: string, kind: AlertKind, thresholds: Record<string, number>, enabled: boolean) {
   const [row] = await db()
     .insert(rules)

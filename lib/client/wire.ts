@@ -41,8 +41,9 @@ export type Series = Wire<SeriesAnswer>;
 export type Today = Wire<TodayRow>;
 export type TodayBin = Today["bins"][number];
 export type TodayZone = TodayBin["zones"][number];
-/** The farm's probes with presence, battery and place. */
-export type ProbeRow = Answer<typeof listProbes>["probes"][number];
+/** The farm's probes with presence, battery and place, and the farm's time zone to say times in. */
+export type ProbeList = Answer<typeof listProbes>;
+export type ProbeRow = ProbeList["probes"][number];
 /** A probe's oven-dry samples, its fitted line and each sample's residual. */
 export type CalibrationView = Answer<typeof calibrationView>;
 /** What registering a probe answers: the probe and its one-time token. */

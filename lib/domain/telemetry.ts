@@ -16,7 +16,7 @@ export type RejectCode =
   | "sensor-error"
   | "too-far-ahead"
   | "too-old"
-  | "bad-status"
+  | "bad-presence"
   | "retained";
 
 // whole: the message could not be read as a SenML pack at all (no record was looked at).

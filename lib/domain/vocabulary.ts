@@ -42,3 +42,26 @@ export type SpeciesId = (typeof SPECIES_IDS)[number];
 /** The kinds of logbook entry, as the logbook lists them and the undo names them. */
 export const LOG_KINDS = ["feeding", "watering", "harvest", "note", "sample"] as const;
 export type LogKind = (typeof LOG_KINDS)[number];
+
+// The broker's topics: one family per probe under one root. The probe sends readings (SenML) to
+// its readings topic and says whether it is there on its presence topic (a birth message and its
+// MQTT will); messages for the probe go to its for-probe topic, the one it may subscribe to.
+export const TOPIC_ROOT = "wormward";
+export const PROBE_TOPICS = ["readings", "presence", "for-probe"] as const;
+export type ProbeTopic = (typeof PROBE_TOPICS)[number];
+/** A probe's topics, by what each carries. */
+export const probeTopics = (code: string) => ({
+  readings: `${TOPIC_ROOT}/${code}/readings`,
+  presence: `${TOPIC_ROOT}/${code}/presence`,
+  forProbe: `${TOPIC_ROOT}/${code}/for-probe`,
+});
+
+/** What a presence message says: the probe has connected ("here"), or its connection ended ("gone", as its will). */
+export const PRESENCE_WORDS = ["here", "gone"] as const;
+export type PresenceWord = (typeof PRESENCE_WORDS)[number];
+export const PRESENCE_HERE = "here" satisfies PresenceWord;
+export const PRESENCE_GONE = "gone" satisfies PresenceWord;
+
+/** How the probe list tells a probe's reporting, on the silent-probe rule's line (lib/domain/probe-presence.ts). */
+export const PROBE_PRESENCE = ["reporting", "silent", "no-reading-yet"] as const;
+export type ProbePresenceState = (typeof PROBE_PRESENCE)[number];

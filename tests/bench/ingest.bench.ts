@@ -142,7 +142,7 @@ async function sustained(port: number, fleet: BenchProbe[], d: Db) {
   await Promise.all(
     plans.map(async (msgs, i) => {
       const c = clients[i]!;
-      const topic = `wormward/${fleet[i]!.code}/up`;
+      const topic = `wormward/${fleet[i]!.code}/readings`;
       const inFlight = new Set<Promise<unknown>>();
       for (const m of msgs) {
         while (inFlight.size >= WINDOW) await Promise.race(inFlight);
@@ -202,7 +202,7 @@ async function paced(port: number, fleet: BenchProbe[]) {
       const p = fleet[i]!;
       const { payload } = report(p, start + Math.floor(sent / PROBES) * 10, sent);
       const at = performance.now();
-      pending.push(clients[i]!.publishAsync(`wormward/${p.code}/up`, payload, { qos: 1 }).then(() => latencies.push(performance.now() - at)));
+      pending.push(clients[i]!.publishAsync(`wormward/${p.code}/readings`, payload, { qos: 1 }).then(() => latencies.push(performance.now() - at)));
     }
     await new Promise((r) => setTimeout(r, 5));
   }

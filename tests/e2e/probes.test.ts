@@ -36,10 +36,17 @@ describe("the probes page", () => {
     await page.getByRole("button", { name: "Register" }).click();
     const box = page.getByRole("status");
     await expect.poll(() => box.textContent()).toContain(`Token for ${code}`);
+    expect(await box.textContent()).toContain(`wormward/${code}/readings`);
     await page.screenshot({ path: screenshotPath("probes-token"), fullPage: true });
     await page.getByRole("button", { name: "I have copied it" }).click();
     await expect.poll(() => page.getByRole("status").count()).toBe(0);
     expect(await page.getByText(code).count()).toBeGreaterThan(0);
+    // A probe that has sent nothing says so, by word and by its own mark.
+    const item = page.getByRole("listitem").filter({ hasText: code });
+    await expect.poll(() => item.locator("[data-presence]").getAttribute("data-presence")).toBe("no-reading-yet");
+    expect(await item.locator("[data-presence]").textContent()).toBe("no reading yet");
+    expect(await item.locator("[data-presence] svg").count()).toBe(1);
+    expect(await item.textContent()).not.toMatch(/\b(connected|online|offline)\b/);
     await page.context().close();
   });
 
@@ -48,6 +55,10 @@ describe("the probes page", () => {
     await page.goto(`${appUrl()}/farms/${demoFarm}/probes`);
     await expect.poll(() => page.getByText("alder-01").count()).toBeGreaterThan(0);
     expect(await page.getByRole("button", { name: "Register" }).count()).toBe(0);
+    // Every live probe's presence is one of our words: reporting, silent since hh:mm, or no reading yet.
+    const marks = await page.locator("[data-presence]").allTextContents();
+    expect(marks.length).toBeGreaterThan(0);
+    for (const m of marks) expect(m).toMatch(/^(reporting|silent since (\d{1,2} \w{3} )?\d{2}:\d{2}|no reading yet|archived)$/);
     await page.screenshot({ path: screenshotPath("probes-viewer"), fullPage: true });
     await page.context().close();
   });

@@ -1,7 +1,7 @@
 // One evaluation's view of a zone: each probe's series cleaned and tied to its probe, which
 // feedings count, and the step that turns "what the readings call for" into a transition.
 import type { Metric } from "@/lib/domain/vocabulary";
-import type { AlertLevel, ResolvedRules, RuleKind } from "./params";
+import type { AlertLevel, ResolvedRules, RuleKind, Thresholds } from "./params";
 import { METRICS, type MetricKey } from "../metrics";
 import { cleanSeries, holdsFor, type Sample } from "./series";
 import type { FeedingContext, OpenAlert, ProbeContext, Transition, ZoneRuleInput } from "./types";
@@ -9,6 +9,12 @@ import type { Words } from "./words";
 
 export const MINUTE = 60_000;
 export const HOUR = 3_600_000;
+
+/** How long a probe may send nothing before it is silent: so many missed reports, never sooner than
+ * the rule's minimum. The silent-probe alert and the probe list's "silent since" both draw this line. */
+export function silentLineMs(t: Pick<Thresholds<"silent_probe">, "missedReports" | "minSilentMinutes">, reportIntervalS: number): number {
+  return Math.max(t.missedReports * reportIntervalS * 1000, t.minSilentMinutes * MINUTE);
+}
 
 export type ProbeView = {
   probeId: number;
@@ -38,8 +44,7 @@ export type RuleContext = {
 export function makeContext(input: ZoneRuleInput, rules: ResolvedRules, w: Words): RuleContext {
   const { now } = input;
   const probes = new Map(input.probes.map((p) => [p.id, p]));
-  const silent = rules.silent_probe.t;
-  const silentAfterMs = (p: ProbeContext | undefined) => Math.max(silent.missedReports * (p?.reportIntervalS ?? 60) * 1000, silent.minSilentMinutes * MINUTE);
+  const silentAfterMs = (p: ProbeContext | undefined) => silentLineMs(rules.silent_probe.t, p?.reportIntervalS ?? 60);
 
   const grouped = new Map<string, { probeId: number; metric: Metric; points: { t: number; v: number }[] }>();
   for (const r of input.readings) {

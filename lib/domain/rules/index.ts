@@ -45,5 +45,6 @@ export {
   type ProbeAlertKind,
   type ZoneAlertKind,
 } from "./evaluate";
+export { silentLineMs } from "./context";
 export { refusalFault, refusalFaults, valueFault, type RefusalFault } from "./probe-health";
 export { replay, type ReplayInput, type ReplayStep } from "./replay";

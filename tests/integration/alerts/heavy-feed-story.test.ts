@@ -95,7 +95,7 @@ describe("a heavy feed heats the fresh zone", () => {
       simNow = start + minute * 60_000;
       const pack = JSON.stringify([{ bn: probeBaseName(probe.code), bt: simNow / 1000, n: "temp", u: "Cel", v: +celsius.toFixed(2) }]);
       const sentAt = Date.now();
-      await client.publishAsync(`wormward/${probe.code}/up`, pack, { qos: 1 });
+      await client.publishAsync(`wormward/${probe.code}/readings`, pack, { qos: 1 });
       await runner.idle();
       for (const a of await zoneAlerts()) {
         const last = seen.at(-1);

@@ -65,7 +65,7 @@ describe("e-mail when push is not possible", () => {
     for (let m = 0; m <= 14; m++) {
       simNow = start + m * 60_000;
       await client.publishAsync(
-        `wormward/${probe.code}/up`,
+        `wormward/${probe.code}/readings`,
         JSON.stringify([{ bn: probeBaseName(probe.code), bt: simNow / 1000, n: "temp", u: "Cel", v: 33.5 }]),
         { qos: 1 },
       );

@@ -80,9 +80,9 @@ describe("one farm's slow push endpoint", () => {
     // Farm A's bed is a minute ahead of farm B's, so A's alert (and its hanging push) comes first.
     for (let m = 0; m <= 16 && !bRaisedByPublishAt; m++) {
       simNow = start + m * 60_000;
-      await a.client.publishAsync(`wormward/${a.probe.code}/up`, tempPack(a.probe.code, simNow / 1000, 33.5), { qos: 1 });
+      await a.client.publishAsync(`wormward/${a.probe.code}/readings`, tempPack(a.probe.code, simNow / 1000, 33.5), { qos: 1 });
       const sentAt = Date.now();
-      if (m >= 1) await b.client.publishAsync(`wormward/${b.probe.code}/up`, tempPack(b.probe.code, simNow / 1000, 33.5), { qos: 1 });
+      if (m >= 1) await b.client.publishAsync(`wormward/${b.probe.code}/readings`, tempPack(b.probe.code, simNow / 1000, 33.5), { qos: 1 });
       await runner.idle();
       if (await heatAlertOf(b)) bRaisedByPublishAt = sentAt;
     }

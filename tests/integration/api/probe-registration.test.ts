@@ -54,12 +54,18 @@ describe("registering a probe", () => {
     expect(list).toContain(code);
     expect(list).not.toContain(token);
     expect(list).not.toContain(stored);
+    type Listed = { timeZone: string; probes: { id: number; connected: boolean; presence: { state: string; lastReadingAt: string | null } }[] };
+    const fresh0 = (JSON.parse(list) as Listed).probes.find((x) => x.id === probe.id);
+    expect(fresh0).toMatchObject({ connected: false, presence: { state: "no-reading-yet", lastReadingAt: null } });
 
     const c = await connect(code, token);
-    await c.publishAsync(`wormward/${code}/up`, JSON.stringify([{ bn: probeBaseName(code), n: "temp", u: "Cel", v: 21.5 }]), { qos: 1 });
+    await c.publishAsync(`wormward/${code}/readings`, JSON.stringify([{ bn: probeBaseName(code), n: "temp", u: "Cel", v: 21.5 }]), { qos: 1 });
     await c.endAsync();
     const rows = await db.query(`select value from readings where probe_id = $1 and metric = 'temperature'`, [probe.id]);
     expect(rows.rows.map((r) => r.value)).toEqual([21.5]);
+    // Reporting by its reading, though its connection has ended.
+    const after = (await (await owner.fetch(`/api/farms/${farmId}/probes`)).json()) as Listed;
+    expect(after.probes.find((x) => x.id === probe.id)).toMatchObject({ presence: { state: "reporting", lastReadingAt: expect.any(String) } });
 
     // A new token replaces the old one.
     const rot = await owner.fetch(`/api/probes/${probe.id}/token`, { method: "POST" });

@@ -134,18 +134,18 @@ describe("the simulated probe fleet", () => {
     expect(state.probes.find((p) => p.code === fresh.code)?.scenario).toBe("heavy-feed");
   });
 
-  it("a probe in dropout goes silent and offline while the others keep reporting, then comes back", async () => {
+  it("a probe in dropout goes silent and its connection ends while the others keep reporting, then comes back", async () => {
     const farm = await makeFarm(c, { zones: ["working"], probes: ["working", "working"] });
     ingest = await startIngest({ port: 0 });
     fleet = await startFleet({ probes: fleetProbes(farm), port: ingest.port, intervalMs: 100, controlPort: null, reconnectPeriodMs: 200 });
     await fleet.ready();
     const [gone, stays] = farm.probes as [TestFarm["probes"][0], TestFarm["probes"][0]];
     await until(
-      "both probes online",
+      "both probes connected",
       async () => (await c.query(`select bool_and(online) as on from probes where id = any($1)`, [[gone.id, stays.id]])).rows[0].on === true,
     );
     fleet.trigger(gone.code, "dropout");
-    await until("the dropped probe marked offline", async () => (await c.query(`select online from probes where id = $1`, [gone.id])).rows[0].online === false);
+    await until("the dropped probe marked as not connected", async () => (await c.query(`select online from probes where id = $1`, [gone.id])).rows[0].online === false);
     const n = async (id: number) => count(`select count(*) from readings where probe_id = $1`, [id]);
     const silentFrom = await n(gone.id);
     const othersFrom = await n(stays.id);
@@ -156,5 +156,7 @@ describe("the simulated probe fleet", () => {
     fleet.trigger(gone.code, "steady");
     await until("the probe reports again", async () => (await n(gone.id)) > silentFrom);
     expect((await c.query(`select online from probes where id = $1`, [gone.id])).rows[0].online).toBe(true);
+    // Its birth message ("here" on wormward/<code>/presence) and its will ("gone") were our words: none refused.
+    expect(await count(`select count(*) from rejected_messages where probe_id = any($1)`, [[gone.id, stays.id]])).toBe(0);
   });
 });

@@ -22,7 +22,7 @@ afterEach(async () => {
 });
 
 function job(p: TestProbe, readings: ReadingInput[]): WriteJob {
-  const origin = { farmId: p.farmId, probeId: p.id, source: "mqtt" as const, topic: `wormward/${p.code}/up`, excerpt: "[...]" };
+  const origin = { farmId: p.farmId, probeId: p.id, source: "mqtt" as const, topic: `wormward/${p.code}/readings`, excerpt: "[...]" };
   return { readings, rejections: [], status: { probeId: p.id, seenAt: new Date() }, origin };
 }
 const temps = (p: TestProbe, n: number, from = 0): ReadingInput[] =>
@@ -77,7 +77,7 @@ describe("the batching writer", () => {
     expect((await countReadings([bad.id])).rows).toBe(0);
     const rows = await rejectionsOf(bad.id);
     expect(rows).toHaveLength(1);
-    expect(rows[0]).toMatchObject({ source: "mqtt", topic: `wormward/${bad.code}/up`, excerpt: "[...]", farm_id: bad.farmId });
+    expect(rows[0]).toMatchObject({ source: "mqtt", topic: `wormward/${bad.code}/readings`, excerpt: "[...]", farm_id: bad.farmId });
     expect(rows[0]!.reason).toMatch(/^store-failed: .*pressure/);
   });
 

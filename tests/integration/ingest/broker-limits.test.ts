@@ -113,14 +113,14 @@ describe("packet size", () => {
     clients.push(client);
     let closed = 0;
     client.on("close", () => closed++);
-    const up = `wormward/${p.code}/up`;
+    const readings = `wormward/${p.code}/readings`;
     // The PUBACK comes (so the probe does not send it again), and the connection stays.
-    await client.publishAsync(up, Buffer.alloc(1024 * 1024, 0x20), { qos: 1 });
+    await client.publishAsync(readings, Buffer.alloc(1024 * 1024, 0x20), { qos: 1 });
     const rows = await rejectionsOf(p.id);
     expect(rows).toHaveLength(1);
-    expect(rows[0]).toMatchObject({ topic: up, source: "mqtt" });
+    expect(rows[0]).toMatchObject({ topic: readings, source: "mqtt" });
     expect(rows[0]!.reason).toMatch(/^too-large: a packet of 1048\d{3} bytes was read past; payloads of at most 16384 bytes are accepted/);
-    await client.publishAsync(up, tempPack(p.code, nowS(), 21), { qos: 1 });
+    await client.publishAsync(readings, tempPack(p.code, nowS(), 21), { qos: 1 });
     expect((await countReadings([p.id])).rows).toBe(1);
     expect(closed).toBe(0);
     expect(ingest.stats().cutPackets).toBe(0);
@@ -132,7 +132,7 @@ describe("packet size", () => {
     const client = await connectProbe(ingest.port, p);
     clients.push(client);
     const closed = new Promise<void>((r) => client.once("close", () => r()));
-    client.subscribe(`wormward/${p.code}/down/${"x".repeat(40_000)}`, { qos: 1 });
+    client.subscribe(`wormward/${p.code}/for-probe/${"x".repeat(40_000)}`, { qos: 1 });
     expect(await within(closed, 5_000)).not.toBe("timeout");
     const rows = await waitFor(
       "the cut packet's record",
@@ -149,7 +149,7 @@ describe("packet size", () => {
     const ingest = await broker();
     const client = await connectProbe(ingest.port, p);
     clients.push(client);
-    await client.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, nowS(), 21).padEnd(16 * 1024 + 100, " "), { qos: 1 });
+    await client.publishAsync(`wormward/${p.code}/readings`, tempPack(p.code, nowS(), 21).padEnd(16 * 1024 + 100, " "), { qos: 1 });
     expect(client.connected).toBe(true);
     expect((await rejectionsOf(p.id)).map((r) => r.reason)).toEqual([expect.stringMatching(/^too-large: payload is 16484 bytes/)]);
   });
@@ -224,25 +224,25 @@ describe("retained messages", () => {
     const ingest = await broker();
     const client = await connectProbe(ingest.port, p);
     clients.push(client);
-    const up = `wormward/${p.code}/up`;
+    const readings = `wormward/${p.code}/readings`;
     // Acknowledged (no negative PUBACK in 3.1.1), recorded, and none of its readings stored.
-    await client.publishAsync(up, tempPack(p.code, nowS() - 5, 21), { qos: 1, retain: true });
+    await client.publishAsync(readings, tempPack(p.code, nowS() - 5, 21), { qos: 1, retain: true });
     expect(client.connected).toBe(true);
     const rows = await rejectionsOf(p.id);
     expect(rows).toHaveLength(1);
-    expect(rows[0]).toMatchObject({ topic: up, source: "mqtt" });
+    expect(rows[0]).toMatchObject({ topic: readings, source: "mqtt" });
     expect(rows[0]!.reason).toMatch(/^retained: .*MQTT 3\.1\.1 §3\.3\.1\.3/);
     expect((await countReadings([p.id])).rows).toBe(0);
     // The same pack without the flag is stored.
-    await client.publishAsync(up, tempPack(p.code, nowS() - 5, 21), { qos: 1 });
+    await client.publishAsync(readings, tempPack(p.code, nowS() - 5, 21), { qos: 1 });
     expect((await countReadings([p.id])).rows).toBe(1);
   });
 
   it("a retained will is refused when the broker would publish it", async () => {
     const [p] = (await createProbes(1)) as [TestProbe];
     const ingest = await broker();
-    const status = `wormward/${p.code}/status`;
-    const client = await connectProbe(ingest.port, p, { will: { topic: status, payload: Buffer.from("offline"), qos: 1, retain: true } });
+    const presence = `wormward/${p.code}/presence`;
+    const client = await connectProbe(ingest.port, p, { will: { topic: presence, payload: Buffer.from("gone"), qos: 1, retain: true } });
     clients.push(client);
     client.stream.destroy(); // gone without DISCONNECT: the broker publishes the will (§3.1.2.5)
     const rows = await waitFor(
@@ -251,7 +251,7 @@ describe("retained messages", () => {
       (r) => r.length > 0,
       5_000,
     );
-    expect(rows.map((r) => [r.topic, r.reason.split(":")[0]])).toEqual([[status, "retained"]]);
+    expect(rows.map((r) => [r.topic, r.reason.split(":")[0]])).toEqual([[presence, "retained"]]);
   });
 });
 
@@ -271,7 +271,7 @@ describe("under attack", () => {
     const t = nowS() - 120;
     const publish = async (i: number) => {
       const at = Date.now();
-      await probe.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, t + i, 20 + i / 100), { qos: 1 });
+      await probe.publishAsync(`wormward/${p.code}/readings`, tempPack(p.code, t + i, 20 + i / 100), { qos: 1 });
       return Date.now() - at;
     };
     const quiet: number[] = [];
@@ -324,7 +324,7 @@ describe("under attack", () => {
       (n) => n >= 150,
       5_000,
     );
-    await probe.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, nowS() - 5, 20), { qos: 1 });
+    await probe.publishAsync(`wormward/${p.code}/readings`, tempPack(p.code, nowS() - 5, 20), { qos: 1 });
     expect((await countReadings([p.id])).rows).toBe(1);
     expect(ingest.stats().refusedConnections).toBe(150);
     expect(idle.filter((c) => !c.isClosed())).toHaveLength(50);

@@ -72,7 +72,7 @@ describe("kill -9 of the ingest service mid-stream", () => {
     for (let i = 0; i < MESSAGES; i++) {
       while (inFlight.size >= WINDOW) await Promise.race(inFlight);
       const p: Promise<void> = client
-        .publishAsync(`wormward/${probe.code}/up`, tempPack(probe.code, start + i, 15 + (i % 100) / 10), { qos: 1 })
+        .publishAsync(`wormward/${probe.code}/readings`, tempPack(probe.code, start + i, 15 + (i % 100) / 10), { qos: 1 })
         .then(() => {
           acked++;
         })
@@ -104,19 +104,19 @@ describe("kill -9 of the ingest service mid-stream", () => {
 });
 
 describe("SIGTERM", () => {
-  it("closes cleanly: what it acknowledged is stored, its probes are marked offline, exit code 0", async () => {
+  it("closes cleanly: what it acknowledged is stored, its probes are marked as not connected, exit code 0", async () => {
     await client?.endAsync(true);
     if (!service || service.exitCode !== null) service = await startService();
     const [p] = (await createProbes(1)) as [TestProbe];
     client = await connectProbe(port, p);
     await waitFor(
-      "online",
+      "connected",
       async () => (await db().select().from(probes).where(eq(probes.id, p.id)))[0]?.online,
       (v) => v === true,
       10_000,
     );
     const t = Math.floor(Date.now() / 1000) - 100;
-    await Promise.all(Array.from({ length: 50 }, (_, i) => client!.publishAsync(`wormward/${p.code}/up`, tempPack(p.code, t + i, 20), { qos: 1 })));
+    await Promise.all(Array.from({ length: 50 }, (_, i) => client!.publishAsync(`wormward/${p.code}/readings`, tempPack(p.code, t + i, 20), { qos: 1 })));
     const exited = new Promise<number | null>((resolve) => service!.once("exit", (code) => resolve(code)));
     service!.kill("SIGTERM");
     expect(await exited).toBe(0);

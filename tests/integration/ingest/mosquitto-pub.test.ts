@@ -40,7 +40,7 @@ describe("mosquitto_pub against the ingest broker", () => {
       { n: "battery", u: "V", v: 3.71 },
       { n: "fw", vs: "ww-0.5.0" },
     ]);
-    const r = await mosquittoPub([...creds(a), "-q", "1", "-t", `wormward/${a.code}/up`, "-m", pack]);
+    const r = await mosquittoPub([...creds(a), "-q", "1", "-t", `wormward/${a.code}/readings`, "-m", pack]);
     expect(r).toEqual({ code: 0, stderr: "" });
 
     // QoS 1: mosquitto_pub exits after the PUBACK, and the PUBACK follows the commit.
@@ -66,7 +66,7 @@ describe("mosquitto_pub against the ingest broker", () => {
       "-q",
       "1",
       "-t",
-      `wormward/${b.code}/up`,
+      `wormward/${b.code}/readings`,
       "-m",
       JSON.stringify([{ bn: probeBaseName(b.code), bt: t, n: "temp", u: "Cel", v: 20 }]),
     ]);
@@ -80,7 +80,7 @@ describe("mosquitto_pub against the ingest broker", () => {
     const t = Math.floor(Date.now() / 1000);
     const before = await countReadings([a.id, b.id]);
     const packAsB = JSON.stringify([{ bn: probeBaseName(b.code), bt: t, n: "temp", u: "Cel", v: 21 }]);
-    const r = await mosquittoPub([...creds(a), "-q", "1", "-t", `wormward/${b.code}/up`, "-m", packAsB]);
+    const r = await mosquittoPub([...creds(a), "-q", "1", "-t", `wormward/${b.code}/readings`, "-m", packAsB]);
     // No negative PUBACK in MQTT 3.1.1 (§3.4): the broker closes the connection instead.
     expect(r.code).not.toBe(0);
     expect(await countReadings([a.id, b.id])).toEqual(before);

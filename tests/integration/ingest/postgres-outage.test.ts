@@ -57,7 +57,7 @@ describe("PostgreSQL down for 10 s mid-stream", () => {
     for (let i = 0; i < MESSAGES; i++) {
       while (inFlight.size >= WINDOW) await Promise.race(inFlight);
       const p: Promise<void> = client
-        .publishAsync(`wormward/${probe.code}/up`, tempPack(probe.code, start + i, 20 + (i % 50) / 10), { qos: 1 })
+        .publishAsync(`wormward/${probe.code}/readings`, tempPack(probe.code, start + i, 20 + (i % 50) / 10), { qos: 1 })
         .then(() => {
           ackTimes.push(Date.now());
         })

@@ -55,7 +55,7 @@ describe("a QoS 1 stream from 20 probes", () => {
     expect(expected.size).toBeLessThan(total);
 
     for (const { p } of plans) clients.push(await connectProbe(ingest.port, p));
-    await Promise.all(plans.map(({ p, msgs }, i) => Promise.all(msgs.map((m) => clients[i]!.publishAsync(`wormward/${p.code}/up`, m, { qos: 1 })))));
+    await Promise.all(plans.map(({ p, msgs }, i) => Promise.all(msgs.map((m) => clients[i]!.publishAsync(`wormward/${p.code}/readings`, m, { qos: 1 })))));
 
     // Every PUBACK is in, so every row must already be committed.
     const ids = fleet.map((p) => p.id);

@@ -30,7 +30,7 @@ async function send(i: number, payload: string | Buffer) {
   const p = fleet[i]!;
   const c = await connectProbe(ingest.port, p);
   clients.push(c);
-  await c.publishAsync(`wormward/${p.code}/up`, payload, { qos: 1 });
+  await c.publishAsync(`wormward/${p.code}/readings`, payload, { qos: 1 });
   expect(c.connected).toBe(true);
   return p;
 }
@@ -73,7 +73,7 @@ describe("rejected messages", () => {
       const p = await send(i, body);
       const rows = await rejectionsOf(p.id);
       expect(rows).toHaveLength(1);
-      expect(rows[0]).toMatchObject({ source: "mqtt", topic: `wormward/${p.code}/up`, farm_id: p.farmId });
+      expect(rows[0]).toMatchObject({ source: "mqtt", topic: `wormward/${p.code}/readings`, farm_id: p.farmId });
       expect(rows[0]!.reason).toMatch(reason);
       expect(rows[0]!.excerpt).toBe(Buffer.from(body).subarray(0, 200).toString("utf8"));
       expect((await countReadings([p.id])).rows).toBe(0);

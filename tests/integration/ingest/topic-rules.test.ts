@@ -1,11 +1,13 @@
-// A probe publishes only to its own up and status topics and subscribes only to its own down
-// topic; the MQTT 3.1.1 rules the scheme relies on are checked here, each with its clause.
+// A probe publishes only to its own readings and presence topics and subscribes only to its own
+// for-probe topic (lib/domain/vocabulary.ts probeTopics); the MQTT 3.1.1 rules the scheme relies on
+// are checked here, each with its clause. The retired names (/up, /status, /down) are unknown topics.
 import type { MqttClient } from "mqtt";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { db } from "@/db";
 import { probes } from "@/db/schema";
 import { startIngest, type Ingest } from "@/ingest/service";
+import { probeTopics } from "@/lib/domain/vocabulary";
 import { connectProbe, countReadings, createProbes, rejectionsOf, tempPack, type TestProbe } from "./helpers";
 
 let ingest: Ingest;
@@ -41,24 +43,33 @@ async function publishIsRefused(c: MqttClient, topic: string, payload: string): 
 }
 
 describe("subscriptions", () => {
-  it("grants a probe its own command topic", async () => {
+  it("grants a probe its own for-probe topic, wormward/<code>/for-probe", async () => {
     const c = await connect(a);
-    const granted = await c.subscribeAsync(`wormward/${a.code}/down`, { qos: 1 });
+    expect(probeTopics(a.code).forProbe).toBe(`wormward/${a.code}/for-probe`);
+    const granted = await c.subscribeAsync(probeTopics(a.code).forProbe, { qos: 1 });
     expect(granted.map((g) => g.qos)).toEqual([1]);
   });
 
   // Each refusal is a SUBACK with return code 0x80, Failure (MQTT 3.1.1 §3.9.3).
   it.each([
     ["#", "§4.7.1-2: '#' alone matches every topic, other probes' included"],
-    ["wormward/+/down", "§4.7.1-3: '+' matches any one level, so every probe's command topic"],
+    ["wormward/+/for-probe", "§4.7.1-3: '+' matches any one level, so every probe's for-probe topic"],
     ["wormward/#", "§4.7.1-2: a trailing '#' matches the parent and every level below"],
-    ["+/+/down", "§4.7.1-3: '+' in several levels"],
-    ["OTHER", "another probe's command topic"],
+    ["+/+/for-probe", "§4.7.1-3: '+' in several levels"],
+    ["OTHER", "another probe's for-probe topic"],
+    ["OLD", "its own retired command topic wormward/<code>/down, now an unknown topic"],
     ["UPPER", "§4.7.3: topics are case-sensitive, so a differently cased code is another topic"],
     ["$SYS/#", "§4.7.2-1: '$SYS/#' does match broker topics, which are not for probes"],
   ])("refuses a subscription to %s (%s)", async (filter) => {
     const c = await connect(a);
-    const topic = filter === "OTHER" ? `wormward/${b.code}/down` : filter === "UPPER" ? `wormward/${a.code.toUpperCase()}/down` : filter;
+    const topic =
+      filter === "OTHER"
+        ? probeTopics(b.code).forProbe
+        : filter === "UPPER"
+          ? probeTopics(a.code.toUpperCase()).forProbe
+          : filter === "OLD"
+            ? `wormward/${a.code}/down`
+            : filter;
     await expect(c.subscribeAsync(topic, { qos: 1 })).rejects.toMatchObject({ packet: { granted: [0x80] } });
     expect(c.connected).toBe(true);
   });
@@ -66,10 +77,13 @@ describe("subscriptions", () => {
 
 describe("publications", () => {
   it.each([
-    ["another probe's up topic", () => `wormward/${b.code}/up`],
-    ["its own command topic", () => `wormward/${a.code}/down`],
-    ["a differently cased own topic (§4.7.3: case-sensitive)", () => `wormward/${a.code.toUpperCase()}/up`],
-    ["an own topic with a trailing '/' (§4.7.3: a distinct topic)", () => `wormward/${a.code}/up/`],
+    ["another probe's readings topic", () => probeTopics(b.code).readings],
+    ["another probe's presence topic", () => probeTopics(b.code).presence],
+    ["its own for-probe topic", () => probeTopics(a.code).forProbe],
+    ["a differently cased own topic (§4.7.3: case-sensitive)", () => probeTopics(a.code.toUpperCase()).readings],
+    ["an own topic with a trailing '/' (§4.7.3: a distinct topic)", () => `${probeTopics(a.code).readings}/`],
+    ["its retired readings topic wormward/<code>/up, now an unknown topic", () => `wormward/${a.code}/up`],
+    ["its retired presence topic wormward/<code>/status, now an unknown topic", () => `wormward/${a.code}/status`],
     ["a $SYS topic (aedes' own refusal, kept)", () => "$SYS/anything"],
   ])("closes the connection on a publish to %s and stores nothing", async (_what, topic) => {
     const before = await countReadings([a.id, b.id]);
@@ -81,12 +95,15 @@ describe("publications", () => {
 
   it("refuses a wildcard in a topic name (§4.7.1-1)", async () => {
     const c = await connect(a);
-    expect(await publishIsRefused(c, `wormward/+/up`, tempPack(a.code, Math.floor(Date.now() / 1000), 20))).toBe(true);
+    expect(await publishIsRefused(c, `wormward/+/readings`, tempPack(a.code, Math.floor(Date.now() / 1000), 20))).toBe(true);
   });
 
-  it("accepts the probe's own up topic on the same connection settings", async () => {
+  it("accepts and stores a reading on the probe's own readings topic, wormward/<code>/readings", async () => {
+    const before = await countReadings([a.id]);
     const c = await connect(a);
-    expect(await publishIsRefused(c, `wormward/${a.code}/up`, tempPack(a.code, Math.floor(Date.now() / 1000) - 5, 20))).toBe(false);
+    expect(probeTopics(a.code).readings).toBe(`wormward/${a.code}/readings`);
+    expect(await publishIsRefused(c, probeTopics(a.code).readings, tempPack(a.code, Math.floor(Date.now() / 1000) - 5, 20))).toBe(false);
+    expect((await countReadings([a.id])).rows).toBe(before.rows + 1);
   });
 });
 
@@ -105,7 +122,7 @@ describe("connections", () => {
     const [p] = (await createProbes(1)) as [TestProbe];
     const c = await connect(p);
     await db().update(probes).set({ archivedAt: new Date() }).where(eq(probes.id, p.id));
-    expect(await publishIsRefused(c, `wormward/${p.code}/up`, tempPack(p.code, Math.floor(Date.now() / 1000), 20))).toBe(true);
+    expect(await publishIsRefused(c, probeTopics(p.code).readings, tempPack(p.code, Math.floor(Date.now() / 1000), 20))).toBe(true);
     expect((await countReadings([p.id])).rows).toBe(0);
     await expect(connectProbe(ingest.port, p)).rejects.toMatchObject({ code: 4 });
   });

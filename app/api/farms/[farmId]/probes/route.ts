@@ -7,7 +7,7 @@ import { registerProbe } from "@/lib/server/probes/register";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 
-// GET /api/farms/[farmId]/probes — every probe with its zone, last seen, battery, signal, online
+// GET /api/farms/[farmId]/probes — every probe with its zone, battery, signal and presence (reporting, silent since, no reading yet)
 export const GET = route(async (_req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "read");

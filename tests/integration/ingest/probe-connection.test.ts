@@ -1,5 +1,6 @@
-// A probe is online while it holds a connection, and offline after a clean disconnect, its will
-// message, or a keep-alive that ran out.
+// A probe counts as connected while it holds a connection, and as gone after a clean disconnect, its
+// will ("gone" on wormward/<code>/presence), or a keep-alive that ran out. (The column is probes.online;
+// the probe list shows it only as a detail beside reporting or silent.)
 import { once } from "node:events";
 import net from "node:net";
 import { eq } from "drizzle-orm";
@@ -8,6 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "@/db";
 import { probes } from "@/db/schema";
 import { startIngest, type Ingest } from "@/ingest/service";
+import { PRESENCE_GONE, PRESENCE_HERE, probeTopics } from "@/lib/domain/vocabulary";
 import { connectProbe, createProbes, rejectionsOf, waitFor, type TestProbe } from "./helpers";
 
 let ingest: Ingest;
@@ -25,11 +27,11 @@ afterAll(async () => {
   await ingest.close();
 });
 
-const online = async (p: TestProbe) => (await db().select({ online: probes.online }).from(probes).where(eq(probes.id, p.id)))[0]?.online;
+const connected = async (p: TestProbe) => (await db().select({ online: probes.online }).from(probes).where(eq(probes.id, p.id)))[0]?.online;
 const becomes = (p: TestProbe, want: boolean) =>
   waitFor(
-    `${p.code} online=${want}`,
-    () => online(p),
+    `${p.code} connected=${want}`,
+    () => connected(p),
     (v) => v === want,
     10_000,
   );
@@ -67,32 +69,32 @@ function connectPacket(o: { clientId: string; username: string; password: string
   return Buffer.concat([Buffer.from([0x10, ...remainingLength(body.length)]), body]);
 }
 
-describe("probe online state", () => {
-  it("is online while connected and offline after a clean disconnect", async () => {
+describe("probe connection state", () => {
+  it("is connected while it holds a connection and gone after a clean disconnect", async () => {
     const p = fleet[0]!;
-    expect(await online(p)).toBe(false);
+    expect(await connected(p)).toBe(false);
     const c = await connect(p);
     await becomes(p, true);
     await c.endAsync();
     await becomes(p, false);
   });
 
-  it("goes offline when the connection drops without DISCONNECT", async () => {
+  it("is gone when the connection drops without DISCONNECT and its will says \"gone\"", async () => {
     const p = fleet[1]!;
-    const c = await connect(p, { will: { topic: `wormward/${p.code}/status`, payload: Buffer.from("offline"), qos: 1, retain: false } });
+    const c = await connect(p, { will: { topic: probeTopics(p.code).presence, payload: Buffer.from(PRESENCE_GONE), qos: 1, retain: false } });
     await becomes(p, true);
     c.stream.destroy(); // no DISCONNECT: the broker publishes the will (§3.1.2.5)
     await becomes(p, false);
     expect(await rejectionsOf(p.id)).toEqual([]);
   });
 
-  it("goes offline when the keep-alive runs out: 1.5 × Keep Alive without a packet (§3.1.2-24)", async () => {
+  it("is gone when the keep-alive runs out: 1.5 × Keep Alive without a packet (§3.1.2-24)", async () => {
     const p = fleet[2]!;
     const s = net.connect(ingest.port, "127.0.0.1");
     sockets.push(s);
     await once(s, "connect");
     s.write(
-      connectPacket({ clientId: p.code, username: p.code, password: p.token, keepalive: 1, will: { topic: `wormward/${p.code}/status`, message: "offline" } }),
+      connectPacket({ clientId: p.code, username: p.code, password: p.token, keepalive: 1, will: { topic: probeTopics(p.code).presence, message: PRESENCE_GONE } }),
     );
     const [connack] = (await once(s, "data")) as [Buffer];
     expect([...connack]).toEqual([0x20, 0x02, 0x00, 0x00]); // §3.2: accepted
@@ -103,49 +105,53 @@ describe("probe online state", () => {
     await becomes(p, false);
   });
 
-  it("ignores another probe's will aimed at this probe's status topic", async () => {
+  it("ignores another probe's will aimed at this probe's presence topic", async () => {
     const [victim, other] = [fleet[3]!, fleet[4]!];
-    expect(await online(victim)).toBe(false);
-    const c = await connect(other, { will: { topic: `wormward/${victim.code}/status`, payload: Buffer.from("online"), qos: 1, retain: false } });
+    expect(await connected(victim)).toBe(false);
+    const c = await connect(other, { will: { topic: probeTopics(victim.code).presence, payload: Buffer.from(PRESENCE_HERE), qos: 1, retain: false } });
     c.stream.destroy();
     // The will is authorized (and refused) before the disconnect is handled, so by now it would show.
     await becomes(other, false);
-    expect(await online(victim)).toBe(false);
+    expect(await connected(victim)).toBe(false);
   });
 
-  it("stays online when a second connection drops with its will, or a new one takes over the client id", async () => {
+  it("stays connected when a second connection drops with its will, or a new one takes over the client id", async () => {
     const p = fleet[2]!;
-    const will = { topic: `wormward/${p.code}/status`, payload: Buffer.from("offline"), qos: 1 as const, retain: false };
+    const will = { topic: probeTopics(p.code).presence, payload: Buffer.from(PRESENCE_GONE), qos: 1 as const, retain: false };
     const first = await connect(p, { will });
     const second = await connect(p, { clientId: `${p.code}:2`, will });
     await becomes(p, true);
     first.stream.destroy();
     // Both the will and the disconnect of the first are handled once the second can publish and be acked.
-    await second.publishAsync(`wormward/${p.code}/status`, "online", { qos: 1 });
+    await second.publishAsync(probeTopics(p.code).presence, PRESENCE_HERE, { qos: 1 });
     await new Promise((r) => setTimeout(r, 200));
-    expect(await online(p)).toBe(true);
+    expect(await connected(p)).toBe(true);
     // MQTT 3.1.1 §3.1.4-2: a second CONNECT with the same client id closes the first connection.
     const third = await connect(p, { clientId: `${p.code}:2`, will });
     await new Promise((r) => setTimeout(r, 300));
     expect(third.connected).toBe(true);
-    expect(await online(p)).toBe(true);
+    expect(await connected(p)).toBe(true);
   });
 
-  it("records a status message or will that is neither online nor offline", async () => {
+  it("records a presence message or will that is neither \"here\" nor \"gone\", and the old words too", async () => {
     const p = fleet[0]!;
-    const c = await connect(p, { will: { topic: `wormward/${p.code}/status`, payload: Buffer.from("gone fishing"), qos: 1, retain: false } });
-    await c.publishAsync(`wormward/${p.code}/status`, "sleepy", { qos: 1 });
+    const presence = probeTopics(p.code).presence;
+    const c = await connect(p, { will: { topic: presence, payload: Buffer.from("gone fishing"), qos: 1, retain: false } });
+    await c.publishAsync(presence, "sleepy", { qos: 1 });
+    await c.publishAsync(presence, "online", { qos: 1 });
     c.stream.destroy();
     await becomes(p, false);
     const rows = await waitFor(
-      "two rejections",
+      "three rejections",
       () => rejectionsOf(p.id),
-      (r) => r.length >= 2,
+      (r) => r.length >= 3,
       10_000,
     );
     expect(rows.map((r) => [r.reason.split(":")[0], r.topic, r.excerpt])).toEqual([
-      ["bad-status", `wormward/${p.code}/status`, "sleepy"],
-      ["bad-status", `wormward/${p.code}/status`, "gone fishing"],
+      ["bad-presence", presence, "sleepy"],
+      ["bad-presence", presence, "online"],
+      ["bad-presence", presence, "gone fishing"],
     ]);
+    expect(rows[0]!.reason).toBe('bad-presence: a presence message says "here" or "gone"');
   });
 });
