@@ -52,19 +52,17 @@ export function AlertCard({
   return (
     <div data-level={level} className={`rounded-xl p-3 ${settled ? "bg-paper ring-1 ring-soil-300" : look.card}`}>
       <div className="flex flex-wrap items-center justify-between gap-x-2 gap-y-1">
-        <span className="flex flex-wrap items-center gap-x-2 gap-y-1 font-bold">
-          <span className={`inline-flex items-center gap-1.5 rounded-md px-2 py-0.5 text-sm font-bold ${settled ? "bg-soil-100 text-soil-800" : look.badge}`}>
-            <Mark name={look.mark} size={16} />
-            {LEVEL_WORDS[level]}
-          </span>
-          <span>
-            {KIND_WORDS[kind] ?? kind}
-            {where ? ` · ${where}` : ""}
-          </span>
+        <span className={`inline-flex items-center gap-1.5 rounded-md px-2 py-0.5 text-sm font-bold ${settled ? "bg-soil-100 text-soil-800" : look.badge}`}>
+          <Mark name={look.mark} size={16} />
+          {LEVEL_WORDS[level]}
         </span>
         <span className="tabular text-sm">{when}</span>
       </div>
-      <p className="mt-1">{message}</p>
+      <h3 className="mt-1.5 text-lg leading-snug font-bold">
+        {KIND_WORDS[kind] ?? kind}
+        {where ? ` · ${where}` : ""}
+      </h3>
+      <p className="mt-0.5">{message}</p>
       {caution && (
         <p className="mt-1 flex items-start gap-1.5 text-sm text-soil-800">
           <Mark name="caution" className="mt-0.5" />

@@ -195,9 +195,9 @@ export function ZoneChart(p: Props) {
             const bottom = u.valToPos(p.band.low, "y", true);
             ctx.fillStyle = bandFill;
             ctx.fillRect(u.bbox.left, top, u.bbox.width, bottom - top);
-            // Feedings: a dashed line through the plot under the feeding's own shape, an arrowhead
-            // pointing down into the bed (the cursor's point is a round dot, so the two never mix);
-            // the tappable mark sits on the time axis.
+            // Feedings: a dashed line through the plot under a small square (a scrap, as in the
+            // feeding mark) on the plot's top edge; the cursor's point is a round dot, so the two
+            // never mix. The tappable mark sits on the time axis.
             const r = uPlot.pxRatio;
             ctx.strokeStyle = withAlpha(ink, 0.55);
             ctx.fillStyle = ink;
@@ -210,12 +210,7 @@ export function ZoneChart(p: Props) {
               ctx.lineTo(x, u.bbox.top + u.bbox.height);
               ctx.stroke();
               ctx.setLineDash([]);
-              ctx.beginPath();
-              ctx.moveTo(x - 5 * r, u.bbox.top);
-              ctx.lineTo(x + 5 * r, u.bbox.top);
-              ctx.lineTo(x, u.bbox.top + 7 * r);
-              ctx.closePath();
-              ctx.fill();
+              ctx.fillRect(x - 3.5 * r, u.bbox.top, 7 * r, 7 * r);
             }
             ctx.restore();
           },

@@ -61,14 +61,18 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
           title="Temperature"
           value={t ? formatTemperature(t.value, units) : "—"}
           band={tBand}
-          spark={species && { points: zone.spark.temperature, band: [species.temperatureC.comfortLow, species.temperatureC.comfortHigh], color: "--color-clay-500" }}
+          spark={
+            species && { points: zone.spark.temperature, band: [species.temperatureC.comfortLow, species.temperatureC.comfortHigh], color: "--color-clay-500" }
+          }
           label={`${bin.name}, ${zoneLabel}: temperature over the last 24 hours`}
         />
         <Reading
           title="Moisture"
           value={m ? formatPercent(m.value) : "—"}
           band={mBand}
-          spark={species && { points: zone.spark.moisture, band: [species.moisturePct.comfortLow, species.moisturePct.comfortHigh], color: "--color-slate-500" }}
+          spark={
+            species && { points: zone.spark.moisture, band: [species.moisturePct.comfortLow, species.moisturePct.comfortHigh], color: "--color-slate-500" }
+          }
           label={`${bin.name}, ${zoneLabel}: moisture over the last 24 hours`}
         />
       </div>
@@ -110,19 +114,22 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
           <p className="mt-1 text-soil-700">None. Every bin is quiet.</p>
         ) : (
           <ul className="mt-2 space-y-2">
-            {data.alerts.map((a) => (
-              <li key={a.id} id={`alert-${a.id}`}>
-                <AlertCard
-                  level={a.level}
-                  kind={a.kind}
-                  where={a.binName}
-                  message={a.message}
-                  when={a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(a.raisedAt)}`}
-                >
-                  {canLog && a.state === "raised" && <ClaimButton alertId={a.id} farmId={farmId} />}
-                </AlertCard>
-              </li>
-            ))}
+            {/* act now first, then heads-up; each level keeps the server's order */}
+            {[...data.alerts]
+              .sort((x, y) => Number(y.level === "act_now") - Number(x.level === "act_now"))
+              .map((a) => (
+                <li key={a.id} id={`alert-${a.id}`}>
+                  <AlertCard
+                    level={a.level}
+                    kind={a.kind}
+                    where={a.binName}
+                    message={a.message}
+                    when={a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(a.raisedAt)}`}
+                  >
+                    {canLog && a.state === "raised" && <ClaimButton alertId={a.id} farmId={farmId} />}
+                  </AlertCard>
+                </li>
+              ))}
           </ul>
         )}
       </Panel>

@@ -38,11 +38,14 @@ export const MARKS = {
   /** The beam tipped to the right under a square block: too much carbon (browns). */
   mixCarbon: { d: "M.2 3.7.8 2.3l10.4 4.6-.6 1.4ZM8.4 1.8h3v3h-3ZM6 6.6 9 11H3Z", means: "a mix too rich in carbon" },
 
-  // --- the logbook: what was done to a bed (the bed is the line at the foot) ---
-  /** An arrow down onto the bed. */
-  feeding: { d: "M5 .5h2v4h2.5L6 8 2.5 4.5H5ZM1 9.5h10V11H1Z", means: "a feeding" },
-  /** A drop onto the bed. */
-  watering: { d: "M6 .5c1.4 2.3 3 3.6 3 5a3 3 0 0 1-6 0c0-1.4 1.6-2.7 3-5ZM1 9.5h10V11H1Z", means: "a watering" },
+  // --- the logbook: what was done to a bed (the bed is the mound at the foot) ---
+  /** Scraps falling onto the bed. */
+  feeding: { d: "M.5 11.5a5.5 3.5 0 0 1 11 0ZM2.5 1.5h2.2v2.2H2.5ZM7 .5h2.2v2.2H7ZM4.7 4.6h2.2v2.2H4.7Z", means: "a feeding" },
+  /** Three drops falling onto the bed. */
+  watering: {
+    d: "M.5 11.5a5.5 3.5 0 0 1 11 0ZM2.6 0.8c.7 1.1 1.2 1.8 1.2 2.5a1.2 1.2 0 0 1-2.4 0c0-.7.5-1.4 1.2-2.5ZM6 3c.7 1.1 1.2 1.8 1.2 2.5a1.2 1.2 0 0 1-2.4 0c0-.7.5-1.4 1.2-2.5ZM9.4 0.8c.7 1.1 1.2 1.8 1.2 2.5a1.2 1.2 0 0 1-2.4 0c0-.7.5-1.4 1.2-2.5Z",
+    means: "a watering",
+  },
   /** A bucket with its handle. */
   harvest: { d: "M1.5 4h9l-1.4 7.5H2.9ZM3 3.5a3 3 0 0 1 6 0H7.7a1.7 1.7 0 0 0-3.4 0Z", means: "a harvest of castings" },
   /** Lines of writing. */
@@ -52,7 +55,7 @@ export const MARKS = {
 
   // --- alerts: level, state and the caution ---
   /** A worm curled tight. */
-  actNow: { d: "M5.25 6a.75.75 0 0 1 1.5 0a1.5 1.5 0 0 1-3 0a2.25 2.25 0 0 1 4.5 0a3 3 0 0 1-6 0a3.75 3.75 0 0 1 7.5 0", stroke: 1.6, means: "act now" },
+  actNow: { d: "M7.875 6.75a1.5 1.5 0 0 0-3 0a3 3 0 0 0 6 0a4.5 4.5 0 0 0-9 0v2.5", stroke: 1.5, means: "act now" },
   /** A ring filling from below. */
   headsUp: {
     d: "M6 1a5 5 0 1 1 0 10A5 5 0 0 1 6 1Zm0 1.6a3.4 3.4 0 1 0 0 6.8 3.4 3.4 0 0 0 0-6.8ZM2.6 6h6.8a3.4 3.4 0 0 1-6.8 0Z",
