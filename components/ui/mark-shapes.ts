@@ -38,12 +38,15 @@ export const MARKS = {
   /** The beam tipped to the right under a square block: too much carbon (browns). */
   mixCarbon: { d: "M.2 3.7.8 2.3l10.4 4.6-.6 1.4ZM8.4 1.8h3v3h-3ZM6 6.6 9 11H3Z", means: "a mix too rich in carbon" },
 
-  // --- the logbook: what was done to a bed (the bed is the mound at the foot) ---
-  /** Scraps falling onto the bed. */
-  feeding: { d: "M.5 11.5a5.5 3.5 0 0 1 11 0ZM2.5 1.5h2.2v2.2H2.5ZM7 .5h2.2v2.2H7ZM4.7 4.6h2.2v2.2H4.7Z", means: "a feeding" },
+  // --- the logbook: what was done to a bed ---
+  /** A heap of chopped scraps. */
+  feeding: {
+    d: "M.5 8.8h3.4v2.7H.5ZM4.3 8.8h3.4v2.7H4.3ZM8.1 8.8h3.4v2.7H8.1ZM2.4 5.7h3.4v2.7H2.4ZM6.2 5.7h3.4v2.7H6.2ZM4.3 2.6h3.4v2.7H4.3Z",
+    means: "a feeding",
+  },
   /** Three drops falling onto the bed. */
   watering: {
-    d: "M.5 11.5a5.5 3.5 0 0 1 11 0ZM2.6 0.8c.7 1.1 1.2 1.8 1.2 2.5a1.2 1.2 0 0 1-2.4 0c0-.7.5-1.4 1.2-2.5ZM6 3c.7 1.1 1.2 1.8 1.2 2.5a1.2 1.2 0 0 1-2.4 0c0-.7.5-1.4 1.2-2.5ZM9.4 0.8c.7 1.1 1.2 1.8 1.2 2.5a1.2 1.2 0 0 1-2.4 0c0-.7.5-1.4 1.2-2.5Z",
+    d: "M1 9.5h10V11H1ZM2.6 0.8c.7 1.1 1.2 1.8 1.2 2.5a1.2 1.2 0 0 1-2.4 0c0-.7.5-1.4 1.2-2.5ZM6 3c.7 1.1 1.2 1.8 1.2 2.5a1.2 1.2 0 0 1-2.4 0c0-.7.5-1.4 1.2-2.5ZM9.4 0.8c.7 1.1 1.2 1.8 1.2 2.5a1.2 1.2 0 0 1-2.4 0c0-.7.5-1.4 1.2-2.5Z",
     means: "a watering",
   },
   /** A bucket with its handle. */
