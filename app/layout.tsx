@@ -20,7 +20,15 @@ export const metadata: Metadata = {
   icons: { icon: "/icon.svg" },
 };
 
-export const viewport: Viewport = { themeColor: "#3f2e22", width: "device-width", initialScale: 1 };
+// The browser's bar takes the header's colour, light theme and dark (app/globals.css).
+export const viewport: Viewport = {
+  themeColor: [
+    { media: "(prefers-color-scheme: light)", color: "#3f2e22" },
+    { media: "(prefers-color-scheme: dark)", color: "#32261d" },
+  ],
+  width: "device-width",
+  initialScale: 1,
+};
 
 // Every page renders per request: Next puts the request's CSP nonce (proxy.ts) on its scripts only
 // then; a page built ahead would carry scripts the policy refuses.

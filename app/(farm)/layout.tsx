@@ -8,7 +8,7 @@ export default async function FarmShell({ children }: { children: React.ReactNod
   if (!(await currentUserId())) redirect("/sign-in");
   return (
     <div className="mx-auto min-h-dvh max-w-3xl">
-      <header className="sticky top-0 z-10 flex items-center justify-between bg-soil-800 px-4 py-2 text-soil-100">
+      <header className="sticky top-0 z-10 flex items-center justify-between bg-soil-800 px-4 py-2 text-soil-100 dark:bg-soil-100 dark:text-soil-900 dark:ring-1 dark:ring-soil-300">
         <Link href="/" className="flex min-h-11 items-center gap-2 font-bold">
           <img src="/icon.svg" alt="" width={28} height={28} /> Wormward
         </Link>

@@ -7,7 +7,7 @@ export function SignOutButton() {
     <button
       type="button"
       onClick={() => signOut({ callbackUrl: "/sign-in" })}
-      className="min-h-11 rounded-lg px-3 text-soil-100 underline-offset-4 hover:underline"
+      className="min-h-11 rounded-lg px-3 underline-offset-4 hover:underline"
     >
       Sign out
     </button>

@@ -11,8 +11,9 @@ export type AmmoniaLines = { headsUpAtPpm: number; actNowAtPpm: number };
 export type MetricStatus = { band: string | null; label: string };
 
 export function ammoniaStatus(ppm: number, lines: AmmoniaLines): MetricStatus {
-  if (ppm >= lines.actNowAtPpm) return { band: "too hot", label: "at the act-now line" };
-  if (ppm >= lines.headsUpAtPpm) return { band: "hot", label: "over the heads-up line" };
+  // Ammonia has its own mark (fumes), not the heat mark; "too …" draws it heavier.
+  if (ppm >= lines.actNowAtPpm) return { band: "too much ammonia", label: "at the act-now line" };
+  if (ppm >= lines.headsUpAtPpm) return { band: "ammonia", label: "over the heads-up line" };
   return { band: "comfortable", label: "low" };
 }
 
@@ -57,6 +58,7 @@ export function metricBand(metric: ChartMetric, profile: SpeciesProfile, lines: 
 }
 
 export const METRIC_TITLES: Record<ChartMetric, string> = { temperature: "Temperature", moisture: "Moisture", ammonia: "Ammonia" };
-export const METRIC_COLORS: Record<ChartMetric, string> = { temperature: "#b5523b", moisture: "#4a6b85", ammonia: "#6e5615" };
+/** Each metric's line colour: a palette variable of app/globals.css, so charts follow the light or dark theme. */
+export const METRIC_COLORS: Record<ChartMetric, string> = { temperature: "--color-clay-500", moisture: "--color-slate-500", ammonia: "--color-straw-800" };
 export const displayUnit = (metric: ChartMetric, system: UnitSystem) =>
   metric === "temperature" ? UNIT_LABELS[system].temperature : metric === "moisture" ? "%" : "ppm";

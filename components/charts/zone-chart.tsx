@@ -7,6 +7,8 @@ import type { Series } from "@/lib/client/wire";
 import { clockFormat } from "@/components/logbook/format";
 import { useSeries } from "@/lib/client/hooks/use-series";
 import { formatNumber, temperatureForDisplay, type UnitSystem } from "@/lib/domain/units";
+import { Mark } from "@/components/ui/marks";
+import { paletteColor, useColorScheme, withAlpha } from "./theme-colors";
 
 export type ChartMetric = "temperature" | "moisture" | "ammonia";
 /** A feeding drawn on the time axis; t in Unix seconds. */
@@ -24,6 +26,7 @@ type Props = {
   unit: string;
   system: UnitSystem;
   timezone: string;
+  /** The line's colour: a palette variable ("--color-clay-500"), so the chart follows the theme. */
   color: string;
   marks: readonly ChartMark[];
   /** A stored value in words ("23.4 °C, comfortable"). */
@@ -33,7 +36,6 @@ type Props = {
 type Geom = { left: number; top: number; width: number; height: number; xMin: number; xMax: number; bandTop: number; bandBottom: number };
 
 const HEIGHT = 210;
-const BAND_FILL = "rgba(79, 125, 58, 0.18)";
 
 function medianStep(t: readonly number[]): number {
   if (t.length < 2) return 60;
@@ -90,11 +92,6 @@ function timeLabels(timeZone: string) {
     });
 }
 
-function alpha(hex: string, a: number) {
-  const n = parseInt(hex.slice(1), 16);
-  return `rgba(${(n >> 16) & 255}, ${(n >> 8) & 255}, ${n & 255}, ${a})`;
-}
-
 // One metric of a zone over a window: mean line, min–max band when points are aggregates, the
 // species' band shaded behind, and feedings as marks on the time axis (tap or hover for details).
 export function ZoneChart(p: Props) {
@@ -103,6 +100,7 @@ export function ZoneChart(p: Props) {
   const [geom, setGeom] = useState<Geom | null>(null);
   const [readout, setReadout] = useState<string | null>(null);
   const [picked, setPicked] = useState<string | null>(null);
+  const scheme = useColorScheme();
 
   const clock = useMemo(() => clockFormat(p.timezone), [p.timezone]);
   const conv = useMemo(() => (p.metric === "temperature" ? (v: number) => temperatureForDisplay(v, p.system) : (v: number) => v), [p.metric, p.system]);
@@ -131,20 +129,30 @@ export function ZoneChart(p: Props) {
     if (!el || !data || tables.length === 0 || !summary) return;
     const aligned = tables.length === 1 ? tables[0]! : uPlot.join(tables);
     const per = aggregated ? 3 : 1;
+    // Colours from the palette as it is now (light or dark).
+    const dark = scheme === "dark";
+    const line = paletteColor(p.color);
+    const bandFill = withAlpha(paletteColor("--color-leaf-500"), dark ? 0.24 : 0.18);
+    const ink = paletteColor("--color-soil-800");
     const series: uPlot.Series[] = [{}];
     const bands: uPlot.Band[] = [];
     tables.forEach((_, k) => {
-      series.push({ label: data.series[k]?.label ?? `probe ${k + 1}`, stroke: p.color, width: 2, dash: k ? [6, 4] : undefined, points: { show: false } });
+      series.push({ label: data.series[k]?.label ?? `probe ${k + 1}`, stroke: line, width: 2, dash: k ? [6, 4] : undefined, points: { show: false } });
       if (aggregated) {
         series.push({ stroke: "transparent", width: 0, points: { show: false } }, { stroke: "transparent", width: 0, points: { show: false } });
-        bands.push({ series: [3 + k * per, 2 + k * per], fill: alpha(p.color, 0.18) });
+        bands.push({ series: [3 + k * per, 2 + k * per], fill: withAlpha(line, dark ? 0.26 : 0.18) });
       }
     });
     const lo = Math.min(p.band.low, conv(summary.lo));
     const hi = Math.max(p.band.high, conv(summary.hi));
     const pad = (hi - lo) * 0.08 || 1;
     const font = `13px ${getComputedStyle(el).fontFamily}`;
-    const axis = { stroke: "#57402f", font, grid: { stroke: "#efe6da", width: 1 }, ticks: { stroke: "#c4ab92", width: 1 } };
+    const axis = {
+      stroke: paletteColor("--color-soil-700"),
+      font,
+      grid: { stroke: paletteColor("--color-soil-100"), width: 1 },
+      ticks: { stroke: paletteColor("--color-soil-300"), width: 1 },
+    };
     const measure = (u: uPlot) => {
       const r = uPlot.pxRatio;
       setGeom({
@@ -185,18 +193,24 @@ export function ZoneChart(p: Props) {
             ctx.save();
             const top = u.valToPos(p.band.high, "y", true);
             const bottom = u.valToPos(p.band.low, "y", true);
-            ctx.fillStyle = BAND_FILL;
+            ctx.fillStyle = bandFill;
             ctx.fillRect(u.bbox.left, top, u.bbox.width, bottom - top);
-            // Feedings: a dashed line through the plot; the tappable mark sits on the time axis.
-            ctx.strokeStyle = "rgba(63, 46, 34, 0.55)";
-            ctx.lineWidth = uPlot.pxRatio;
-            ctx.setLineDash([4 * uPlot.pxRatio, 4 * uPlot.pxRatio]);
+            // Feedings: a dashed line through the plot under a small square (a scrap, as in the
+            // feeding mark) on the plot's top edge; the cursor's point is a round dot, so the two
+            // never mix. The tappable mark sits on the time axis.
+            const r = uPlot.pxRatio;
+            ctx.strokeStyle = withAlpha(ink, 0.55);
+            ctx.fillStyle = ink;
+            ctx.lineWidth = r;
             for (const m of marks) {
               const x = Math.round(u.valToPos(m.t, "x", true)) + 0.5;
+              ctx.setLineDash([4 * r, 4 * r]);
               ctx.beginPath();
-              ctx.moveTo(x, u.bbox.top);
+              ctx.moveTo(x, u.bbox.top + 7 * r);
               ctx.lineTo(x, u.bbox.top + u.bbox.height);
               ctx.stroke();
+              ctx.setLineDash([]);
+              ctx.fillRect(x - 3.5 * r, u.bbox.top, 7 * r, 7 * r);
             }
             ctx.restore();
           },
@@ -224,7 +238,7 @@ export function ZoneChart(p: Props) {
       ro.disconnect();
       plot.destroy();
     };
-  }, [data, tables, summary, aggregated, conv, clock, marks, xMin, xMax, p.band.low, p.band.high, p.color, p.metric, p.timezone, p.unit]);
+  }, [data, tables, summary, aggregated, conv, clock, marks, xMin, xMax, p.band.low, p.band.high, p.color, p.metric, p.timezone, p.unit, scheme]);
 
   const pickedMark = marks.find((m) => m.id === picked) ?? null;
   const label = summary
@@ -279,9 +293,9 @@ export function ZoneChart(p: Props) {
                       onFocus={() => setPicked(m.id)}
                       className="pointer-events-auto flex h-11 w-11 items-end justify-center pb-1"
                     >
-                      <svg viewBox="0 0 16 14" width="18" height="16" aria-hidden="true">
-                        <path d="M8 1 15 13H1Z" fill={on ? "#3f2e22" : "#faf6ee"} stroke="#3f2e22" strokeWidth="2" strokeLinejoin="round" />
-                      </svg>
+                      <span className={`rounded-md p-0.5 ring-1 ring-soil-800 ${on ? "bg-soil-800 text-white" : "bg-white text-soil-800"}`}>
+                        <Mark name="feeding" size={16} />
+                      </span>
                     </button>
                   </li>
                 );
@@ -296,13 +310,11 @@ export function ZoneChart(p: Props) {
       <p className="mt-1 flex items-center gap-3 text-xs text-soil-700">
         <span className="inline-flex items-center gap-1">
           {/* Classes, not style=: the content security policy refuses style attributes in HTML. */}
-          <span aria-hidden="true" className="inline-block h-3 w-4 rounded-sm bg-[rgba(79,125,58,0.18)] outline outline-1 outline-[rgba(79,125,58,0.5)]" />
+          <span aria-hidden="true" className="inline-block h-3 w-4 rounded-sm bg-leaf-500/20 outline outline-1 outline-leaf-500/50" />
           {p.band.words}
         </span>
         <span className="inline-flex items-center gap-1">
-          <svg viewBox="0 0 16 14" width="12" height="11" aria-hidden="true">
-            <path d="M8 1 15 13H1Z" fill="#faf6ee" stroke="#3f2e22" strokeWidth="2" />
-          </svg>
+          <Mark name="feeding" className="text-soil-800" />
           feeding
         </span>
       </p>

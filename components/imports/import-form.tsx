@@ -2,6 +2,7 @@
 
 import { useRouter } from "next/navigation";
 import { useEffect, useId, useRef, useState } from "react";
+import { Mark } from "@/components/ui/marks";
 import { failureOf, send } from "@/lib/client/fetcher";
 import type { ImportResult } from "@/lib/client/wire";
 import { guessMapping, IMPORT_METRICS, readCsv, readHeader } from "@/lib/domain/csv-import";
@@ -32,8 +33,9 @@ function Field({ id, label, hint, error, children }: { id: string; label: string
       {children}
       {hint && <p className="mt-1 text-sm text-soil-500">{hint}</p>}
       {error && (
-        <p id={`${id}-error`} className="mt-1 font-bold text-clay-700">
-          ⚠ {error}
+        <p id={`${id}-error`} className="mt-1 flex items-center gap-1 font-bold text-clay-700">
+          <Mark name="error" />
+          {error}
         </p>
       )}
     </div>
@@ -231,8 +233,14 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
       )}
 
       <div aria-live="polite" className="space-y-2">
-        {failure && !failure.field && <p className="rounded-xl bg-clay-100 p-3 font-bold text-clay-700">⚠ {failure.message}</p>}
-        {failure?.field && <p className="font-bold text-clay-700">⚠ Fix the field marked above.</p>}
+        {failure && !failure.field && <p className="flex items-center gap-1 rounded-xl bg-clay-100 p-3 font-bold text-clay-700">
+            <Mark name="error" />
+            {failure.message}
+          </p>}
+        {failure?.field && <p className="flex items-center gap-1 font-bold text-clay-700">
+            <Mark name="error" />
+            Fix the field marked above.
+          </p>}
         {outcome && <Result outcome={outcome} />}
       </div>
 
@@ -259,12 +267,18 @@ function Result({ outcome }: { outcome: ImportResult }) {
   return (
     <div className="rounded-xl bg-leaf-100 p-3 text-leaf-700">
       <p className="tabular">
-        <strong>✓ {rows(i.rowsStored, "readings")} stored</strong>
+        <strong className="inline-flex items-center gap-1">
+          <Mark name="done" />
+          {rows(i.rowsStored, "readings")} stored
+        </strong>
         {outcome.alreadyStored > 0 && <> · {outcome.alreadyStored} already there</>}
         {i.rowsRejected > 0 && (
           <>
             {" "}
-            · <span className="text-clay-700">⚠ {rows(i.rowsRejected, "rows")} refused</span>
+            · <span className="inline-flex items-center gap-1 text-clay-700">
+              <Mark name="error" />
+              {rows(i.rowsRejected, "rows")} refused
+            </span>
           </>
         )}
       </p>

@@ -2,23 +2,20 @@
 
 import { useMemo, useState } from "react";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
+import { Mark, type MarkName } from "@/components/ui/marks";
 import { useLogbook } from "@/lib/client/hooks/use-logbook";
 import type { LogbookItem, ZoneChoice } from "@/lib/client/wire";
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
 import { formatMass, formatNumber, formatPercent, formatVolume, type UnitSystem } from "@/lib/domain/units";
 
-// Each kind has its own word and its own shape, so the list never leans on colour alone.
-const KINDS: Record<LogbookItem["kind"], { word: string; shape: React.ReactNode; cls: string }> = {
-  feeding: { word: "Feeding", cls: "bg-leaf-100 text-leaf-700", shape: <path d="M1 11 6 1l5 10Z" /> },
-  watering: { word: "Water", cls: "bg-slate-100 text-slate-700", shape: <path d="M6 0.5C8 4 10.5 6 10.5 8a4.5 4.5 0 0 1-9 0C1.5 6 4 4 6 0.5Z" /> },
-  harvest: { word: "Harvest", cls: "bg-soil-100 text-soil-800", shape: <rect x="1" y="1" width="10" height="10" rx="1" /> },
-  note: { word: "Note", cls: "bg-straw-100 text-straw-800", shape: <path d="M1 2h10v2H1zM1 5h10v2H1zM1 8h7v2H1z" /> },
-  sample: {
-    word: "Oven-dry sample",
-    cls: "bg-clay-100 text-clay-700",
-    shape: <circle cx="6" cy="6" r="4.5" fill="none" stroke="currentColor" strokeWidth="2" />,
-  },
+// Each kind has its own word and its own mark (components/ui/marks.tsx), so the list never leans on colour alone.
+const KINDS: Record<LogbookItem["kind"], { word: string; mark: MarkName; cls: string }> = {
+  feeding: { word: "Feeding", cls: "bg-leaf-100 text-leaf-700", mark: "feeding" },
+  watering: { word: "Water", cls: "bg-slate-100 text-slate-700", mark: "watering" },
+  harvest: { word: "Harvest", cls: "bg-soil-100 text-soil-800", mark: "harvest" },
+  note: { word: "Note", cls: "bg-straw-100 text-straw-800", mark: "note" },
+  sample: { word: "Oven-dry sample", cls: "bg-paper text-soil-800 ring-1 ring-soil-300", mark: "ovenSample" },
 };
 
 const UNDO_MS = 24 * 3600_000;
@@ -89,9 +86,7 @@ export function LogbookList({
               <li key={`${e.kind}-${e.id}`} className="py-2" data-kind={e.kind} data-entry-id={e.id}>
                 <div className="flex flex-wrap items-baseline justify-between gap-x-2">
                   <span className={`inline-flex items-center gap-1 rounded-full px-2 py-0.5 text-sm font-bold ${k.cls}`}>
-                    <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true" fill="currentColor">
-                      {k.shape}
-                    </svg>
+                    <Mark name={k.mark} />
                     {k.word}
                   </span>
                   <span className="tabular text-sm text-soil-700">{clock(e.at)}</span>

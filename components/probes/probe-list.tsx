@@ -8,39 +8,18 @@ import { useSend } from "@/lib/client/use-send";
 import { probesKey } from "@/lib/client/swr-keys";
 import type { ProbeRow, RegisteredProbe, RotatedToken } from "@/lib/client/wire";
 import { presenceWords } from "@/lib/domain/probe-presence";
+import { Mark, type MarkName } from "@/components/ui/marks";
 import { probeTopics, type ProbePresenceState } from "@/lib/domain/vocabulary";
 
 type ZoneOption = { id: string; label: string };
 
-// Presence by word and shape, never by colour alone: a filled dot in a ring sends, a ring crossed
-// through has gone quiet (the silent-probe alert's word), a dashed ring has not sent yet.
-const PRESENCE_LOOK: Record<ProbePresenceState | "archived", { cls: string; shape: React.ReactNode }> = {
-  reporting: {
-    cls: "bg-leaf-100 text-leaf-700 ring-leaf-500",
-    shape: (
-      <>
-        <circle cx="7" cy="7" r="5.5" fill="none" stroke="currentColor" strokeWidth="1.5" />
-        <circle cx="7" cy="7" r="2.5" fill="currentColor" />
-      </>
-    ),
-  },
-  silent: {
-    cls: "bg-straw-100 text-straw-800 ring-straw-600 font-bold ring-2",
-    shape: (
-      <>
-        <circle cx="7" cy="7" r="5.5" fill="none" stroke="currentColor" strokeWidth="1.5" />
-        <path d="M3 11 11 3" stroke="currentColor" strokeWidth="1.75" strokeLinecap="round" />
-      </>
-    ),
-  },
-  "no-reading-yet": {
-    cls: "bg-soil-100 text-soil-700 ring-soil-300",
-    shape: <circle cx="7" cy="7" r="5.5" fill="none" stroke="currentColor" strokeWidth="1.5" strokeDasharray="2.2 2" />,
-  },
-  archived: {
-    cls: "bg-soil-100 text-soil-700 ring-soil-300",
-    shape: <path d="M2 6h10v2H2z" fill="currentColor" />,
-  },
+// Presence by word and shape, never by colour alone, with the marks of the registry: a wriggle
+// reports, a wriggle run flat has gone quiet (the silent-probe alert's word), dashes have not sent yet.
+const PRESENCE_LOOK: Record<ProbePresenceState | "archived", { cls: string; mark: MarkName }> = {
+  reporting: { cls: "bg-leaf-100 text-leaf-700 ring-leaf-500", mark: "reporting" },
+  silent: { cls: "bg-straw-100 text-straw-800 ring-straw-600 font-bold ring-2", mark: "silent" },
+  "no-reading-yet": { cls: "bg-soil-100 text-soil-700 ring-soil-300", mark: "waiting" },
+  archived: { cls: "bg-soil-100 text-soil-700 ring-soil-300", mark: "archived" },
 };
 
 function Presence({ probe, headline }: { probe: ProbeRow; headline: string }) {
@@ -50,9 +29,7 @@ function Presence({ probe, headline }: { probe: ProbeRow; headline: string }) {
       data-presence={probe.archivedAt ? "archived" : probe.presence.state}
       className={`inline-flex shrink-0 items-center gap-1 rounded-full px-2 py-0.5 text-sm ring-1 ${look.cls}`}
     >
-      <svg viewBox="0 0 14 14" width="14" height="14" aria-hidden="true">
-        {look.shape}
-      </svg>
+      <Mark name={look.mark} size={14} />
       {probe.archivedAt ? "archived" : headline}
     </span>
   );

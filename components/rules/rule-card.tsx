@@ -5,6 +5,7 @@ import type { RuleKindRow, RuleParam } from "@/lib/client/wire";
 import { formatNumber, type UnitSystem } from "@/lib/domain/units";
 import { ruleInWords, sourceInWords } from "@/lib/domain/rules/summary";
 import type { RuleKind } from "@/lib/domain/rules/params";
+import { Mark } from "@/components/ui/marks";
 import { fromShown, toShown, unitLabel } from "./rule-units";
 
 export type KindState = { enabled: boolean; thresholds: Record<string, number> };
@@ -124,7 +125,7 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
                     </div>
                     {err && (
                       <p id={`${inputId}-err`} className="mt-1 flex items-center gap-1 text-sm font-bold text-clay-700">
-                        <span aria-hidden="true">▲</span>
+                        <Mark name="error" />
                         {err}
                       </p>
                     )}

@@ -6,7 +6,7 @@ import type { TodayBin, TodayZone } from "@/lib/client/wire";
 import { Sparkline } from "@/components/charts/sparkline";
 import { StatusMark } from "@/components/ui/status-mark";
 import { Panel } from "@/components/ui/panel";
-import { KIND_WORDS } from "@/lib/domain/alert-words";
+import { AlertCard } from "@/components/alerts/alert-card";
 import { useToday } from "@/lib/client/hooks/use-today";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
 import { failureOf, send } from "@/lib/client/fetcher";
@@ -61,14 +61,18 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
           title="Temperature"
           value={t ? formatTemperature(t.value, units) : "—"}
           band={tBand}
-          spark={species && { points: zone.spark.temperature, band: [species.temperatureC.comfortLow, species.temperatureC.comfortHigh], color: "#b5523b" }}
+          spark={
+            species && { points: zone.spark.temperature, band: [species.temperatureC.comfortLow, species.temperatureC.comfortHigh], color: "--color-clay-500" }
+          }
           label={`${bin.name}, ${zoneLabel}: temperature over the last 24 hours`}
         />
         <Reading
           title="Moisture"
           value={m ? formatPercent(m.value) : "—"}
           band={mBand}
-          spark={species && { points: zone.spark.moisture, band: [species.moisturePct.comfortLow, species.moisturePct.comfortHigh], color: "#4a6b85" }}
+          spark={
+            species && { points: zone.spark.moisture, band: [species.moisturePct.comfortLow, species.moisturePct.comfortHigh], color: "--color-slate-500" }
+          }
           label={`${bin.name}, ${zoneLabel}: moisture over the last 24 hours`}
         />
       </div>
@@ -110,32 +114,22 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
           <p className="mt-1 text-soil-700">None. Every bin is quiet.</p>
         ) : (
           <ul className="mt-2 space-y-2">
-            {data.alerts.map((a) => (
-              <li
-                key={a.id}
-                id={`alert-${a.id}`}
-                className={`rounded-xl p-3 ring-1 ${a.level === "act_now" ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}
-              >
-                <div className="flex justify-between gap-2 font-bold">
-                  <span className="flex items-center gap-1">
-                    <svg viewBox="0 0 16 16" width="16" height="16" aria-hidden="true">
-                      {a.level === "act_now" ? (
-                        <path d="M8 1 15 14H1Z M7.2 5h1.6v5H7.2Z M7.2 11h1.6v1.6H7.2Z" fill="currentColor" fillRule="evenodd" />
-                      ) : (
-                        <path d="M8 1a7 7 0 1 0 0 14A7 7 0 0 0 8 1Zm-.8 3h1.6v1.6H7.2Zm0 3h1.6v5H7.2Z" fill="currentColor" fillRule="evenodd" />
-                      )}
-                    </svg>
-                    {a.level === "act_now" ? "Act now" : "Heads-up"} · {KIND_WORDS[a.kind] ?? a.kind}
-                    {a.binName ? ` · ${a.binName}` : ""}
-                  </span>
-                  <span className="text-sm font-normal">
-                    {a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(a.raisedAt)}`}
-                  </span>
-                </div>
-                <p className="text-sm">{a.message}</p>
-                {canLog && a.state === "raised" && <ClaimButton alertId={a.id} farmId={farmId} />}
-              </li>
-            ))}
+            {/* act now first, then heads-up; each level keeps the server's order */}
+            {[...data.alerts]
+              .sort((x, y) => Number(y.level === "act_now") - Number(x.level === "act_now"))
+              .map((a) => (
+                <li key={a.id} id={`alert-${a.id}`}>
+                  <AlertCard
+                    level={a.level}
+                    kind={a.kind}
+                    where={a.binName}
+                    message={a.message}
+                    when={a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(a.raisedAt)}`}
+                  >
+                    {canLog && a.state === "raised" && <ClaimButton alertId={a.id} farmId={farmId} />}
+                  </AlertCard>
+                </li>
+              ))}
           </ul>
         )}
       </Panel>

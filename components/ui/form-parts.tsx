@@ -1,5 +1,6 @@
 import { useId, type InputHTMLAttributes, type ReactNode } from "react";
 import type { ActionState } from "@/lib/web/validated-action";
+import { Mark } from "./marks";
 
 // The pieces every form is built from, so a field, its error and the form's answer look and read
 // the same everywhere: the label names the input, an error is tied to it (aria-describedby), and
@@ -29,7 +30,8 @@ export function TextField({ label, hint, error, children, className, ...input }:
 /** A field's error in words, or nothing. */
 export function FieldError({ id, error }: { id?: string; error?: string }) {
   return error ? (
-    <span id={id} className="text-sm text-clay-700">
+    <span id={id} className="flex items-center gap-1 text-sm text-clay-700">
+      <Mark name="error" />
       {error}
     </span>
   ) : null;
@@ -60,13 +62,7 @@ export function LogStatus({ status }: { status: { ok: boolean; text: string } | 
     <p role="status" aria-live="polite" className={`min-h-6 text-sm font-bold ${status?.ok ? "text-leaf-700" : "text-clay-700"}`}>
       {status && (
         <span className="inline-flex items-center gap-1">
-          <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
-            {status.ok ? (
-              <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" />
-            ) : (
-              <path d="M2 2 10 10M10 2 2 10" stroke="currentColor" strokeWidth="2" />
-            )}
-          </svg>
+          <Mark name={status.ok ? "done" : "error"} />
           {status.text}
         </span>
       )}

@@ -1,8 +1,10 @@
 "use client";
 
+import { Mark } from "./marks";
+
 type Option<T extends string> = { value: T; label: string };
 
-// A row of toggle buttons, one thumb-sized target each; the chosen one is bold, raised and ticked,
+// A row of toggle buttons, one thumb-sized target each; the chosen one is bold, raised and dotted,
 // so the choice never rests on colour alone.
 export function SegmentedControl<T extends string>({
   label,
@@ -27,11 +29,7 @@ export function SegmentedControl<T extends string>({
             onClick={() => onChange(o.value)}
             className={`tabular flex min-h-12 items-center justify-center gap-1 rounded-lg px-2 text-base ${on ? "bg-white font-bold text-soil-900 shadow ring-1 ring-soil-500" : "text-soil-700"}`}
           >
-            {on && (
-              <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
-                <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" />
-              </svg>
-            )}
+            {on && <Mark name="chosen" />}
             {o.label}
           </button>
         );

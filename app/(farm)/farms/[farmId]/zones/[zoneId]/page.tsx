@@ -6,10 +6,10 @@ import { formatMetric, metricStatus, METRIC_TITLES } from "@/components/charts/m
 import { ZoneCharts } from "@/components/charts/zone-charts";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
 import { StatusMark } from "@/components/ui/status-mark";
+import { AlertCard, type AlertState } from "@/components/alerts/alert-card";
 import { oncePerRequest, requirePageMember } from "@/lib/web/session";
 import { zonePageView } from "@/lib/server/zones/zone-page-view";
 import { feedingsKey, zoneSeriesKey } from "@/lib/client/swr-keys";
-import { KIND_WORDS } from "@/lib/domain/alert-words";
 import { toWire } from "@/lib/domain/wire";
 
 export async function generateMetadata({ params }: { params: Promise<{ farmId: string; zoneId: string }> }): Promise<Metadata> {
@@ -24,43 +24,15 @@ const pageView = oncePerRequest(zonePageView);
 type ZoneAlert = NonNullable<Awaited<ReturnType<typeof zonePageView>>>["alerts"][number];
 
 function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => string }) {
-  const actNow = a.level === "act_now";
-  const state =
+  const state: AlertState =
     a.state === "settled"
-      ? `settled ${a.settledAt ? clock(a.settledAt.toISOString()) : ""}`
+      ? { mark: "done", words: `settled ${a.settledAt ? clock(a.settledAt.toISOString()) : ""}` }
       : a.state === "claimed"
-        ? `claimed by ${a.claimedByName ?? "someone"}`
-        : "raised, not claimed yet";
+        ? { mark: "claimed", words: `claimed by ${a.claimedByName ?? "someone"}` }
+        : { mark: "raised", words: "raised, not claimed yet" };
   return (
-    <li
-      className={`rounded-xl p-3 ring-1 ${a.state === "settled" ? "bg-paper ring-soil-300" : actNow ? "bg-clay-100 ring-clay-500" : "bg-straw-100 ring-straw-600"}`}
-    >
-      <div className="flex flex-wrap items-center justify-between gap-x-2 font-bold">
-        <span className="flex items-center gap-1">
-          <svg viewBox="0 0 16 16" width="16" height="16" aria-hidden="true">
-            {actNow ? (
-              <path d="M8 1 15 14H1Z M7.2 5h1.6v5H7.2Z M7.2 11h1.6v1.6H7.2Z" fill="currentColor" fillRule="evenodd" />
-            ) : (
-              <path d="M8 1a7 7 0 1 0 0 14A7 7 0 0 0 8 1Zm-.8 3h1.6v1.6H7.2Zm0 3h1.6v5H7.2Z" fill="currentColor" fillRule="evenodd" />
-            )}
-          </svg>
-          {actNow ? "Act now" : "Heads-up"} · {KIND_WORDS[a.kind] ?? a.kind}
-        </span>
-        <span className="tabular text-sm font-normal">{clock(a.raisedAt.toISOString())}</span>
-      </div>
-      <p className="text-sm">{a.message}</p>
-      <p className="mt-1 flex items-center gap-1 text-sm">
-        <svg viewBox="0 0 12 12" width="12" height="12" aria-hidden="true">
-          {a.state === "settled" ? (
-            <path d="M1.5 6.5 4.5 9.5 10.5 2.5" fill="none" stroke="currentColor" strokeWidth="2" />
-          ) : a.state === "claimed" ? (
-            <circle cx="6" cy="6" r="5" fill="currentColor" />
-          ) : (
-            <circle cx="6" cy="6" r="4.5" fill="none" stroke="currentColor" strokeWidth="1.5" />
-          )}
-        </svg>
-        {state}
-      </p>
+    <li>
+      <AlertCard level={a.level} kind={a.kind} message={a.message} when={clock(a.raisedAt.toISOString())} state={state} settled={a.state === "settled"} />
     </li>
   );
 }
