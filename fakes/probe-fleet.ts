@@ -268,7 +268,7 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
 
   function announce(s: Sim, client: MqttClient) {
     s.sentFirmware = false;
-    client.publishAsync(s.topics.presence, PRESENCE_HERE, { qos: 1 }).catch((err: Error) => log("%s: \"here\" not sent (%s)", s.probe.code, err.message));
+    client.publishAsync(s.topics.presence, PRESENCE_HERE, { qos: 1 }).catch((err: Error) => log('%s: "here" not sent (%s)', s.probe.code, err.message));
   }
 
   function step(s: Sim, dtH: number) {
@@ -318,7 +318,9 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
     s.ticks += 1;
     // QoS 1: MQTT.js keeps the message in its store until the PUBACK and resends it after a
     // reconnect; the promise is only for logging.
-    s.client.publishAsync(s.topics.readings, JSON.stringify(pack), { qos: 1 }).catch((err: Error) => log("%s: publish pending (%s)", s.probe.code, err.message));
+    s.client
+      .publishAsync(s.topics.readings, JSON.stringify(pack), { qos: 1 })
+      .catch((err: Error) => log("%s: publish pending (%s)", s.probe.code, err.message));
   }
 
   function tick() {

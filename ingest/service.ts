@@ -16,7 +16,6 @@ import { createWriter, type BatchOptions, type RetryOptions } from "./writer";
 
 const log = createDebug("wormward:ingest");
 
-
 export type IngestOptions = {
   port: number;
   host?: string;

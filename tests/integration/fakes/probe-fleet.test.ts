@@ -145,7 +145,10 @@ describe("the simulated probe fleet", () => {
       async () => (await c.query(`select bool_and(online) as on from probes where id = any($1)`, [[gone.id, stays.id]])).rows[0].on === true,
     );
     fleet.trigger(gone.code, "dropout");
-    await until("the dropped probe marked as not connected", async () => (await c.query(`select online from probes where id = $1`, [gone.id])).rows[0].online === false);
+    await until(
+      "the dropped probe marked as not connected",
+      async () => (await c.query(`select online from probes where id = $1`, [gone.id])).rows[0].online === false,
+    );
     const n = async (id: number) => count(`select count(*) from readings where probe_id = $1`, [id]);
     const silentFrom = await n(gone.id);
     const othersFrom = await n(stays.id);

@@ -79,7 +79,7 @@ describe("probe connection state", () => {
     await becomes(p, false);
   });
 
-  it("is gone when the connection drops without DISCONNECT and its will says \"gone\"", async () => {
+  it('is gone when the connection drops without DISCONNECT and its will says "gone"', async () => {
     const p = fleet[1]!;
     const c = await connect(p, { will: { topic: probeTopics(p.code).presence, payload: Buffer.from(PRESENCE_GONE), qos: 1, retain: false } });
     await becomes(p, true);
@@ -94,7 +94,13 @@ describe("probe connection state", () => {
     sockets.push(s);
     await once(s, "connect");
     s.write(
-      connectPacket({ clientId: p.code, username: p.code, password: p.token, keepalive: 1, will: { topic: probeTopics(p.code).presence, message: PRESENCE_GONE } }),
+      connectPacket({
+        clientId: p.code,
+        username: p.code,
+        password: p.token,
+        keepalive: 1,
+        will: { topic: probeTopics(p.code).presence, message: PRESENCE_GONE },
+      }),
     );
     const [connack] = (await once(s, "data")) as [Buffer];
     expect([...connack]).toEqual([0x20, 0x02, 0x00, 0x00]); // §3.2: accepted
@@ -133,7 +139,7 @@ describe("probe connection state", () => {
     expect(await connected(p)).toBe(true);
   });
 
-  it("records a presence message or will that is neither \"here\" nor \"gone\", and the old words too", async () => {
+  it('records a presence message or will that is neither "here" nor "gone", and the old words too', async () => {
     const p = fleet[0]!;
     const presence = probeTopics(p.code).presence;
     const c = await connect(p, { will: { topic: presence, payload: Buffer.from("gone fishing"), qos: 1, retain: false } });
