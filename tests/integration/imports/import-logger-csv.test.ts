@@ -83,7 +83,7 @@ describe("importing a logger CSV", () => {
     expect(out.import.report[1]!.reason).toBe('value (column "Reading"): "warm" is not a number');
     expect(out.import.report[2]!.reason).toMatch(/^time \(column "Timestamp"\)/);
     expect(out.import.report[3]!.reason).toMatch(/^value \(column "Reading"\): 104 % is outside/);
-    expect(out.import.report[4]!.reason).toMatch(/^metric \(column "Quantity"\): "pressure"/);
+    expect(out.import.report[4]!.reason).toMatch(/^measure \(column "Quantity"\): "pressure"/);
 
     // 1 March is winter time in Dublin (UTC+0): 08:00 local is 08:00Z.
     const rows = await c.query(
