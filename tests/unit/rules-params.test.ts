@@ -29,11 +29,12 @@ describe("the default rule table", () => {
       expect(r.heat.t.headsUpAboveC).toBe(s.temperatureC.comfortHigh);
       expect(r.heat.t.actNowAtC).toBe(s.temperatureC.warmStress);
       expect(r.chill.t.headsUpBelowC).toBe(s.temperatureC.comfortLow);
-      expect(r.chill.t.actNowBelowC).toBe(s.temperatureC.coldStress);
+      // issue 11: act now only near the cold that kills (NC State Extension: E. fetida survives 0 °C), 2 °C margin common practice
+      expect(r.chill.t.actNowBelowC).toBe(s.temperatureC.lethalCold + 2);
       expect(r.drying.t.headsUpBelowPct).toBe(s.moisturePct.comfortLow);
       expect(r.soggy.t.headsUpAbovePct).toBe(s.moisturePct.comfortHigh);
       expect(r.drying.t.actNowBelowPct).toBe((s.moisturePct.lethalDry + s.moisturePct.comfortLow) / 2);
-      expect(r.soggy.t.actNowAbovePct).toBe((s.moisturePct.comfortHigh + s.moisturePct.lethalWet) / 2);
+      expect(r.soggy.t.actNowAbovePct).toBe(s.moisturePct.lethalWet);
     }
     // E. fetida, the usual case: NC State Extension 15–25 °C, Loehr et al. 1985 growth reduced at 30 °C
     expect(resolveRules(fetida).heat.t).toMatchObject({ headsUpAboveC: 25, actNowAtC: 30, raiseMinutes: 10, settleMinutes: 15, deadbandC: 0.5 });
@@ -98,12 +99,12 @@ describe("owner overrides", () => {
 });
 
 describe("plumbing for the runner", () => {
-  it("asks for a day's readings plus the holds, and the feedings of the 72 h watch", () => {
+  it("asks for the rhythm's days plus a slow probe's window and the holds, and the feedings of the longest watch", () => {
     const lb = lookback(resolveRules(fetida));
-    // 24 h trend window + 15 min longest hold + 1 h spare
-    expect(lb.readingsMs).toBe(24 * HOUR + 15 * 60_000 + HOUR);
-    expect(lb.feedingsMs).toBe(72 * HOUR + lb.readingsMs);
-    expect(lookback(resolveRules(fetida, { drying: { thresholds: { trendWindowHours: 48 } } })).readingsMs).toBe(48 * HOUR + 15 * 60_000 + HOUR);
+    // 3 days of daily rhythm + a 3 h rate window (three hourly reports) + 60 min silent-probe settle + 1 h spare
+    expect(lb.readingsMs).toBe(72 * HOUR + 3 * HOUR + 60 * 60_000 + HOUR);
+    expect(lb.feedingsMs).toBe(96 * HOUR + lb.readingsMs);
+    expect(lookback(resolveRules(fetida, { heat: { thresholds: { rhythmDays: 5 } } })).readingsMs).toBe(120 * HOUR + 3 * HOUR + 60 * 60_000 + HOUR);
   });
 
   it("names subjects by zone or probe", () => {

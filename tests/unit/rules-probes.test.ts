@@ -30,11 +30,11 @@ function run(readings: ProbeSeries[], p: ProbeContext, minutes: number, kinds: (
 }
 
 describe("silent probe", () => {
-  it("raises after three missed reports, at least 10 min, and settles on the first reading back", () => {
-    // readings 0..30, nothing 31..54, again from 55
-    const temp = [...minuteSeries(hold(22, 31)), ...minuteSeries(hold(22, 10), 55)];
-    const { brief, events } = run([{ probeId: 4, metric: "temperature", points: temp }], probe(), 65, ["silent_probe"]);
-    expect(brief).toEqual(["40 raise silent_probe", "55 settle silent_probe"]);
+  it("raises after three missed reports, at least 10 min, and settles after an hour of on-time reports", () => {
+    // readings 0..30, nothing 31..54, again from 55; issue 11: settling on the first reading back made a flaky probe flap
+    const temp = [...minuteSeries(hold(22, 31)), ...minuteSeries(hold(22, 80), 55)];
+    const { brief, events } = run([{ probeId: 4, metric: "temperature", points: temp }], probe(), 135, ["silent_probe"]);
+    expect(brief).toEqual(["40 raise silent_probe", "115 settle silent_probe"]);
     expect(events[0]).toMatchObject({ subject: "probe:4:silent_probe", probeId: 4, level: "heads_up", value: 10 });
     expect(events[0]!.message).toBe("Flow-through A, working zone: probe p-4 has sent nothing since 06:30 (it reports every 1 min).");
     expect(events[1]!.message).toBe("Flow-through A, working zone: probe p-4 is reporting again.");
