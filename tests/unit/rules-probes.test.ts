@@ -155,6 +155,20 @@ describe("probe fault", () => {
     );
   });
 
+  it("a probe's own step sets 'no change': a whole-percent probe is stuck only after 48 h, a 0.1 % probe after 6 h (issue 11)", () => {
+    const base = { zone, species: fetida, recentFeedings: [], openAlerts: [], kinds: ["probe_fault"] as const };
+    const moisture = (values: number[]): ProbeSeries[] => [{ probeId: 4, metric: "moisture", points: values.map((v, k) => ({ t: at(5 * k), v })) }];
+    const five = probe({ reportIntervalS: 300, metrics: ["moisture"] });
+    // a day of a living bed at 0.1 % steps, then 7 h at one value: stuck
+    const fine = [...Array.from({ length: 288 }, (_, k) => 78 + (k % 3) * 0.1), ...hold(78.4, 84)];
+    expect(evaluateZone({ ...base, now: at(5 * (fine.length - 1)), readings: moisture(fine), probes: [five] })).toEqual([
+      expect.objectContaining({ type: "raise", details: expect.objectContaining({ cause: "stuck", metric: "moisture" }) }),
+    ]);
+    // whole percent: 78 for 30 h after a day of 78/79 is a steady bed, not a stuck sensor
+    const whole = [...Array.from({ length: 288 }, (_, k) => (k % 7 === 0 ? 79 : 78)), ...hold(78, 360)];
+    expect(evaluateZone({ ...base, now: at(5 * (whole.length - 1)), readings: moisture(whole), probes: [five] })).toEqual([]);
+  });
+
   it("a living bed is never stuck, and an ammonia reading of 0 ppm for hours is no fault", () => {
     const temp = minuteSeries(Array.from({ length: 500 }, (_, m) => 21 + 0.3 * Math.sin(m / 30)));
     const nh3 = minuteSeries(hold(0, 500));

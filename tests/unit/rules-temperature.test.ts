@@ -224,6 +224,47 @@ describe("heat by rate of rise after a feeding", () => {
     expect(out[0]!.message).toMatch(/°F and rising 3\.6 °F\/h since the 26\.5 lb feeding/);
   });
 
+  it("an open alert keeps the words it was raised with; updates carry the latest value and time (issue 11)", () => {
+    const { steps, events } = run(rising.slice(0, 200), { feedings: [feedingHere(0)] });
+    const raised = events[0]!;
+    const updates = steps.flatMap((s) => s.transitions).filter((t) => t.type === "update");
+    expect(updates.length).toBeGreaterThan(100);
+    for (const u of updates) expect(u.message).toBe(raised.message);
+    const last = updates[updates.length - 1]!;
+    expect(last.details).toMatchObject({ latestValue: last.value, latestAt: at(199) });
+    expect(last.value).toBeCloseTo(20 + (2 * 199) / 60, 9);
+    // the words never claim "near the top" of the band while the bed sits mid-band
+    expect(steps.flatMap((s) => s.transitions).some((t) => /near the top/.test(t.message))).toBe(false);
+  });
+
+  it("a rise is judged against the same hour on the previous days: the usual morning warm-up is no alarm after a heavy feed", () => {
+    // three days warming 1.2 °C/h from 06:00 to 11:00 and cooling back; on day 4 the same warm-up after a heavy feed
+    const day = (m: number) => {
+      const h = (m % 1440) / 60;
+      return 18 + (h >= 6 && h < 11 ? 1.2 * (h - 6) : h >= 11 && h < 23 ? 6 - 0.5 * (h - 11) : 0);
+    };
+    const start = -3 * 1440;
+    const values = Array.from({ length: 3 * 1440 + 11 * 60 }, (_, k) => day(k));
+    const readings: ProbeSeries[] = [{ probeId: 7, metric: "temperature", points: minuteSeries(values, start) }];
+    const feed = { at: at(5 * 60), zoneId: "zone-1", totalKg: 12 };
+    const morning = Array.from({ length: 6 * 60 }, (_, m) => at(5 * 60 + m));
+    const rhythm = replay({ zone, species: fetida, readings, recentFeedings: [feed], probes: [probe(7)], kinds: ["heat"] }, morning);
+    expect(rhythm.flatMap((s) => s.transitions)).toEqual([]);
+    // the same morning with no days behind it is judged against 0 °C/h, and 1.2 °C/h raises
+    const alone = replay(
+      {
+        zone,
+        species: fetida,
+        readings: [{ probeId: 7, metric: "temperature", points: minuteSeries(values.slice(3 * 1440 - 60), -60) }],
+        recentFeedings: [feed],
+        probes: [probe(7)],
+        kinds: ["heat"],
+      },
+      morning,
+    );
+    expect(alone.flatMap((s) => s.transitions).map((t) => `${t.type} ${t.kind}`)[0]).toBe("raise heat");
+  });
+
   it("watches a feeding at the heavy line for 48 h and no longer (issue 11: the watch follows the feeding)", () => {
     // a feeding of unknown mass counts as exactly heavy: fed 47 h before minute 0, 48 h old at minute 60
     expect(run(rising, { feedings: [{ at: at(-47 * 60), zoneId: "zone-1" }] }).brief[0]).toBe("60 raise heat heads_up");

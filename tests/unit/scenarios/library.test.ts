@@ -94,7 +94,8 @@ function heavyFeedOutdoors(): Scenario {
   const to = T0 + 12 * DAY;
   const fedAt = T0 + 10 * DAY + 8 * HOUR;
   const heatFrom = fedAt + HOUR;
-  const extra = (t: number) => (t < heatFrom ? 0 : t < heatFrom + 6 * HOUR ? (1.5 * (t - heatFrom)) / HOUR : 9 * Math.exp(-(t - heatFrom - 6 * HOUR) / (8 * HOUR)));
+  const extra = (t: number) =>
+    t < heatFrom ? 0 : t < heatFrom + 6 * HOUR ? (1.5 * (t - heatFrom)) / HOUR : 9 * Math.exp(-(t - heatFrom - 6 * HOUR) / (8 * HOUR));
   const temps = sample((t) => swing(t) + extra(t) + r.noise(0.05), { to, everyMs: 5 * MIN, step: TEMP_STEP });
   return {
     ...bed("heavy feed in the outdoor bin", "fresh food self-heats and can kill the worms (Wikipedia, Vermicompost, Climate and temperature)", {
@@ -178,7 +179,7 @@ function probeWithGaps(): Scenario {
   const to = T0 + 9 * HOUR;
   const arrivals: number[] = [];
   let nextGap = T0 + HOUR;
-  for (let t = T0; t < to; ) {
+  for (let t = T0; t < to;) {
     arrivals.push(t);
     if (t >= nextGap && t < T0 + 7 * HOUR) {
       t += 16 * MIN;
