@@ -12,6 +12,8 @@ import {
   zoneSubject,
 } from "@/lib/domain/rules";
 import { alertKindEnum } from "@/db/schema";
+import { feedingLoad } from "@/lib/domain/rules/context";
+import { BAND_SOURCES } from "@/lib/domain/rules/summary";
 import { SPECIES_IDS, speciesProfiles } from "@/lib/domain/species";
 
 const fetida = speciesProfiles["eisenia-fetida"];
@@ -73,6 +75,10 @@ describe("owner overrides", () => {
     expect(checkThresholds("heat", { actNowAtC: "29" })).toMatchObject({ ok: false, error: { field: "thresholds.actNowAtC" } });
     expect(checkThresholds("heat", { settleMinutes: -1 })).toMatchObject({ ok: false });
     expect(checkThresholds("heat", { deadbandC: -0.5 })).toMatchObject({ ok: false });
+    // the heavy-feed line and the rhythm's days are the owner's too, never below zero
+    expect(checkThresholds("heat", { heavyFeedKgPerM2: 6 })).toEqual({ ok: true, value: { heavyFeedKgPerM2: 6 } });
+    expect(checkThresholds("heat", { heavyFeedKgPerM2: -1 })).toMatchObject({ ok: false, error: { field: "thresholds.heavyFeedKgPerM2" } });
+    expect(checkThresholds("heat", { rhythmDays: -2 })).toMatchObject({ ok: false });
     // a line may be below zero: a chill line of −2 °C is a temperature, not a duration
     expect(checkThresholds("chill", { actNowBelowC: -2 })).toMatchObject({ ok: true });
     const r = resolveRules(fetida, { heat: { thresholds: { actNowAtC: 29, settleMinutes: -5, nonsense: 1, deadbandC: Number.NaN } } });
@@ -120,5 +126,29 @@ describe("plumbing for the runner", () => {
     expect(open).toEqual([expect.objectContaining({ level: "act_now", raisedAt: 1000, message: "b" })]);
     open = applyTransitions(open, [{ ...base, type: "settle", subject: "zone:z:heat", level: "act_now", message: "c" }], 3000);
     expect(open).toEqual([]);
+  });
+});
+
+describe("where the lines come from", () => {
+  it("every species says in plain words which source each band follows, and names the disagreements it settled", () => {
+    for (const id of SPECIES_IDS) {
+      const lines = BAND_SOURCES[id];
+      expect(lines.length, id).toBeGreaterThan(1);
+      // each line names a source (an author, an institution) or says it is a keepers' value
+      for (const l of lines) expect(l, id).toMatch(/\(|Extension|and others|Reinecke|Edwards|keepers' value|study/);
+    }
+    // issue 11: E. fetida's wet side follows the three sources above 85 %; P. excavatus follows Edwards et al. 1998
+    expect(BAND_SOURCES["eisenia-fetida"].join(" ")).toMatch(/Loehr.*84–91 %.*van Gestel/s);
+    expect(BAND_SOURCES["perionyx-excavatus"].join(" ")).toContain("Edwards, Domínguez and Neuhauser (1998)");
+  });
+
+  it("a feeding is weighed per square metre of the bed it went on: a zone's share when fed to one zone", () => {
+    const t = resolveRules(fetida).heat.t;
+    const bed = { lengthCm: 300, widthCm: 100, zoneCount: 3 }; // 3 m², 1 m² a zone
+    expect(feedingLoad({ at: 0, zoneId: null, totalKg: 6 }, { bed }, t)).toEqual({ kgPerM2: 2, times: 0.5 });
+    expect(feedingLoad({ at: 0, zoneId: "z-1", totalKg: 6 }, { bed }, t)).toEqual({ kgPerM2: 6, times: 1.5 });
+    // no size: against 2 kg (common practice); no mass: exactly heavy
+    expect(feedingLoad({ at: 0, zoneId: null, totalKg: 3 }, {}, t)).toEqual({ kgPerM2: null, times: 1.5 });
+    expect(feedingLoad({ at: 0, zoneId: null }, { bed }, t)).toEqual({ kgPerM2: null, times: 1 });
   });
 });

@@ -181,7 +181,7 @@ export function defaultRuleTable(species: SpeciesProfile) {
 }
 
 // Durations, steps and deadbands below zero would turn the hysteresis inside out.
-const mustNotBeNegative = (p: ParamSpec) => ["min", "h", "reports", "count"].includes(p.unit) || /Step|[dD]eadband/.test(p.key);
+const mustNotBeNegative = (p: ParamSpec) => ["min", "h", "reports", "count", "days", "kg", "kg/m²"].includes(p.unit) || /Step|[dD]eadband/.test(p.key);
 
 /** An override checked against the table: known keys, finite numbers, no negative durations or steps. */
 export function checkThresholds(kind: RuleKind, thresholds: Record<string, unknown>): Result<Record<string, number>> {
