@@ -296,8 +296,10 @@ export const alerts = pgTable(
     lastSentAt: ts("last_sent_at"),
     // When it became act now (raised so, or escalated from a heads-up): the 15-minute clock.
     actNowAt: ts("act_now_at"),
-    // When the unclaimed act-now reminder went to every keeper and the owners' mail.
+    // When the last unclaimed act-now reminder went to every keeper and the owners' mail.
     remindedAt: ts("reminded_at"),
+    // Reminders sent so far: each waits twice as long as the one before, and they stop at a bound.
+    reminderCount: smallint("reminder_count").notNull().default(0),
   },
   (t) => [
     // Two ingest nodes racing to raise the same alert: the second insert conflicts here.

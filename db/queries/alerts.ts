@@ -156,14 +156,23 @@ export async function markAlertSent(id: string, at: Date) {
   await db().update(alerts).set({ lastSentAt: at }).where(eq(alerts.id, id));
 }
 
-// Act-now alerts nobody has claimed for `olderThanMs`, not yet reminded: each is taken with a
-// compare-and-set on reminded_at, so two ingest nodes never both send the reminder.
-export async function takeDueReminders(olderThanMs: number, now = new Date()) {
-  const cutoff = new Date(now.getTime() - olderThanMs);
+// Act-now alerts nobody has claimed, due a reminder: the first `afterMs` after the alert went act
+// now, each next one twice as long after the last (15, 30, 60 min), at most `maxReminders` in all
+// (common practice: a crew that has not answered three reminders is not helped by a fourth).
+// Each is taken with a compare-and-set on reminder_count, so two ingest nodes never both send one.
+export async function takeDueReminders(afterMs: number, now = new Date(), maxReminders = 3) {
+  const at = now.toISOString();
   return db()
     .update(alerts)
-    .set({ remindedAt: now })
-    .where(and(eq(alerts.state, "raised"), eq(alerts.level, "act_now"), sql`${alerts.remindedAt} is null`, sql`${alerts.actNowAt} <= ${cutoff.toISOString()}`))
+    .set({ remindedAt: now, reminderCount: sql`${alerts.reminderCount} + 1` })
+    .where(
+      and(
+        eq(alerts.state, "raised"),
+        eq(alerts.level, "act_now"),
+        sql`${alerts.reminderCount} < ${maxReminders}`,
+        sql`coalesce(${alerts.remindedAt}, ${alerts.actNowAt}) <= ${at}::timestamptz - make_interval(secs => ${afterMs / 1000}::float8 * power(2, ${alerts.reminderCount}))`,
+      ),
+    )
     .returning();
 }
 

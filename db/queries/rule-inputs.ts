@@ -27,7 +27,7 @@ export async function loadZoneRuleContext(
   const since = (ms: number) => new Date(now.getTime() - ms);
   const ruleRows = await d.select().from(rules).where(eq(rules.farmId, z.bin.farmId));
   const windows = opts.windows(z.bin.species, ruleRows, z.bin.id);
-  const [readingRows, feedingRows, refusalRows, openRows] = await Promise.all([
+  const [readingRows, feedingRows, refusalRows, openRows, zoneCountRows] = await Promise.all([
     probeIds.length && opts.readings !== false
       ? d.execute(sql`
           select probe_id as "probeId", metric::text as metric, ts, value from readings
@@ -50,6 +50,11 @@ export async function loadZoneRuleContext(
       .where(
         and(inArray(alerts.state, ["raised", "claimed"]), or(eq(alerts.zoneId, zoneId), probeIds.length ? inArray(alerts.probeId, probeIds) : sql`false`)),
       ),
+    // A feeding to one zone goes on that zone's share of the bed.
+    d
+      .select({ n: sql<number>`count(*)::int` })
+      .from(zones)
+      .where(and(eq(zones.binId, z.bin.id), isNull(zones.archivedAt))),
   ]);
   return {
     ...z,
@@ -59,6 +64,7 @@ export async function loadZoneRuleContext(
     feedings: feedingRows,
     refusals: refusalRows,
     openAlerts: openRows,
+    zoneCount: zoneCountRows[0]?.n ?? 1,
   };
 }
 

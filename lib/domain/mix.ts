@@ -28,15 +28,20 @@ export const WATER: Amendment = { name: "water", moisturePct: 100 };
 export type Range = { low: number; high: number };
 export type MixTarget = { moisturePct: Range; cn: Range };
 
+// The one line below which a feeding is "rich in nitrogen", shared by the mix check and the ammonia
+// estimate (lib/domain/rules/params.ts): Rynk et al., On-Farm Composting Handbook NRAES-54 Table 2.1,
+// low end of the preferred C:N 25–30 (V-2nd); Cornell "Compost Chemistry": below ~30:1 the extra
+// nitrogen leaves as ammonia (V). Taken over the table's "reasonable" 20, where ammonia already goes.
+export const NITROGEN_RICH_CN = 25;
+
 // Worm beds (70–91 %: Kaplan et al. 1980, Loehr et al. 1985, V) are far wetter than hot compost
 // (50–60 %, Rynk et al. NRAES-54 Table 2.1, V-2nd); keep the two apart.
 export const WORM_BED_TARGET: MixTarget = {
   // Kaplan et al. 1980: E. fetida max weight gain at 70–85 % moisture (V)
   moisturePct: { low: 70, high: 85 },
-  // Rynk et al. NRAES-54 Table 2.1 "reasonable" C:N 20–40 for composting (V-2nd), used for worm
-  // beds as common practice: no worm-specific verified value. Cornell: below ~30:1 excess N goes
-  // off as ammonia (V), so the low end is where ammonia risk begins.
-  cn: { low: 20, high: 40 },
+  // Low end: the shared nitrogen-rich line above. High end: Rynk et al. NRAES-54 Table 2.1
+  // "reasonable" C:N up to 40 for composting (V-2nd), used for worm beds as common practice.
+  cn: { low: NITROGEN_RICH_CN, high: 40 },
 };
 
 export const MIX_VERDICTS = ["balanced", "too rich in nitrogen", "too wet", "too dry", "too rich in carbon"] as const;

@@ -11,14 +11,15 @@ describe("a rule in a keeper's words", () => {
   it("heat, with the red wiggler's defaults, in °C and in °F", () => {
     expect(ruleInWords("heat", rules.heat.t, "metric")).toBe(
       "Tells the crew when the bed stays above 25 °C for 10 min (heads-up), or at 30 °C or more (act now). " +
-        "In the 72 h after a feeding it also gives a heads-up when the bed warms faster than 1 °C an hour. " +
+        "After a heavy feeding (4 kg or more per square metre of bed) it watches for 48 h, longer for heavier ones up to 96 h, " +
+        "and gives a heads-up when the bed warms 1 °C an hour faster than it usually does at that hour over the last 3 days. " +
         "It settles once the bed has been back at or below 24.5 °C for 15 min.",
     );
     const imperial = ruleInWords("heat", rules.heat.t, "imperial");
     expect(imperial).toContain("above 77 °F for 10 min");
     expect(imperial).toContain("at 86 °F or more");
     // a rate has no 32° offset: 1 °C an hour is 1.8 °F an hour
-    expect(imperial).toContain("faster than 1.8 °F an hour");
+    expect(imperial).toContain("warms 1.8 °F an hour faster");
     expect(imperial).not.toMatch(/°C/);
   });
 

@@ -84,11 +84,40 @@ describe("ammonia risk where no probe measures it", () => {
     expect(events.map((e) => e.level)).toEqual(["heads_up"]);
   });
 
-  it("settles 15 min after the feeding passes 72 h", () => {
-    // fed 72 h − 20 min before minute 0: risky through minute 20, calm from minute 21
-    const feeding = { at: at(0) - 72 * HOUR + 20 * MIN, zoneId: null, mixCn: 15, mixMoisturePct: 90 };
+  it("a wet mix alone counts for 24 h, then the estimate settles 15 min later (issue 11: it held open the whole watch)", () => {
+    // fed 24 h − 20 min before minute 0: risky through minute 20, calm from minute 21 (riskWetHours, common practice)
+    const feeding = { at: at(0) - 24 * HOUR + 20 * MIN, zoneId: null, mixCn: 15, mixMoisturePct: 90 };
     const { brief, events } = run([flat(60)], [tempProbe], [feeding], 60);
     expect(brief).toEqual(["10 raise heads_up", "36 settle heads_up"]);
+    expect(events[1]!.message).toBe("Long Bed North, fresh zone: ammonia risk has passed; the zone is not warming and the wet feeding has settled.");
+  });
+
+  it("a wet mix stops counting once the zone cools, and the estimate settles", () => {
+    // 22 °C for an hour, then falling 0.6 °C/h: the hour's rate passes −0.1 °C/h within minutes
+    const temps = Array.from({ length: 150 }, (_, m) => (m < 60 ? 22 : 22 - (0.6 * (m - 60)) / 60));
+    const cooling: ProbeSeries = { probeId: 7, metric: "temperature", points: minuteSeries(temps) };
+    const { events } = run([cooling], [tempProbe], [{ at: at(0), zoneId: "zone-1", mixCn: 15, mixMoisturePct: 90 }], 150);
+    expect(events.map((e) => e.type)).toEqual(["raise", "settle"]);
+    expect(events[1]!.minute).toBeLessThan(150);
+  });
+
+  it("settles 15 min after the feeding passes 72 h", () => {
+    // an owner who counts a wet mix for the whole watch: fed 72 h − 20 min before minute 0
+    const feeding = { at: at(0) - 72 * HOUR + 20 * MIN, zoneId: null, mixCn: 15, mixMoisturePct: 90 };
+    const steps = replay(
+      {
+        zone,
+        species: fetida,
+        overrides: { ammonia: { thresholds: { riskWetHours: 100 } } },
+        readings: [flat(60)],
+        recentFeedings: [feeding],
+        probes: [tempProbe],
+        kinds: ["ammonia"],
+      },
+      Array.from({ length: 60 }, (_, m) => at(m)),
+    );
+    const events = steps.flatMap((s) => s.transitions.filter((t) => t.type !== "update").map((t) => ({ minute: (s.at - t0) / MIN, ...t })));
+    expect(events.map((e) => `${e.minute} ${e.type} ${e.level}`)).toEqual(["10 raise heads_up", "36 settle heads_up"]);
     expect(events[1]!.message).toBe("Long Bed North, fresh zone: ammonia risk has passed; the nitrogen-rich feeding is more than 72 h old.");
   });
 

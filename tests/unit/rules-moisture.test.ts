@@ -41,8 +41,8 @@ describe("drying (E. fetida: comfortable from 70 %, Kaplan et al. 1980)", () => 
     const values = [...hold(72, 20), ...hold(69, 20), ...hold(59, 20), ...hold(71.9, 20), ...hold(72, 20)];
     const { brief, events } = run(values);
     expect(brief).toEqual(["30 raise drying heads_up", "50 escalate drying act_now", "95 settle drying act_now"]);
-    expect(events[0]!.message).toBe("Tote 2, curing zone: moisture 69.0 %, below the comfortable 70.0–85.0 % for red wigglers.");
-    expect(events[1]!.message).toBe("Tote 2, curing zone: moisture 59.0 %, far below the comfortable 70.0–85.0 %. Water the bed now.");
+    expect(events[0]!.message).toBe("Tote 2, curing zone: moisture 69.0 %, below the comfortable 70.0–90.0 % for red wigglers.");
+    expect(events[1]!.message).toBe("Tote 2, curing zone: moisture 59.0 %, far below the comfortable 70.0–90.0 %. Water the bed now.");
     expect(events[2]!.message).toBe("Tote 2, curing zone: moisture back to 72.0 %, inside the band for 15 min.");
   });
 
@@ -97,13 +97,18 @@ describe("drying (E. fetida: comfortable from 70 %, Kaplan et al. 1980)", () => 
   });
 });
 
-describe("soggy (E. fetida: comfortable to 85 %)", () => {
-  it("raises after 10 min above 85 %, escalates above 87.5 %, settles after 15 min at or below 83 %", () => {
-    const values = [...hold(84, 10), ...hold(86, 20), ...hold(88, 20), ...hold(83.1, 20), ...hold(83, 20)];
+// Issue 11: the old band (to 85 %, act now above 87.5 %) fired inside the published optimum.
+describe("soggy (E. fetida: comfortable to 90 %, Domínguez & Edwards 2011; Loehr et al. 1985 best at 84–91 %)", () => {
+  it("raises after 10 min above 90 %, escalates above 93 %, settles after 15 min at or below 88 %", () => {
+    const values = [...hold(89, 10), ...hold(91, 20), ...hold(93.5, 20), ...hold(88.1, 20), ...hold(88, 20)];
     const { brief, events } = run(values);
     expect(brief).toEqual(["20 raise soggy heads_up", "40 escalate soggy act_now", "85 settle soggy act_now"]);
     expect(events[0]!.subject).toBe("zone:zone-3:soggy");
-    expect(events[1]!.message).toBe("Tote 2, curing zone: moisture 88.0 %, far above the comfortable 70.0–85.0 %. Mix in dry bedding now.");
+    expect(events[1]!.message).toBe("Tote 2, curing zone: moisture 93.5 %, far above the comfortable 70.0–90.0 %. Mix in dry bedding now.");
+  });
+
+  it("never calls a bed inside the published optimum soggy: 85–90 % raises nothing (van Gestel et al. 1992: most cocoons at 85 %)", () => {
+    expect(run([...hold(85, 60), ...hold(88, 60), ...hold(90, 60)]).brief).toEqual([]);
   });
 
   it("uses the species band: 83 % is soggy for E. eugeniae (comfortable to 82 %, Viljoen & Reinecke)", () => {

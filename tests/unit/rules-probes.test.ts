@@ -30,11 +30,11 @@ function run(readings: ProbeSeries[], p: ProbeContext, minutes: number, kinds: (
 }
 
 describe("silent probe", () => {
-  it("raises after three missed reports, at least 10 min, and settles on the first reading back", () => {
-    // readings 0..30, nothing 31..54, again from 55
-    const temp = [...minuteSeries(hold(22, 31)), ...minuteSeries(hold(22, 10), 55)];
-    const { brief, events } = run([{ probeId: 4, metric: "temperature", points: temp }], probe(), 65, ["silent_probe"]);
-    expect(brief).toEqual(["40 raise silent_probe", "55 settle silent_probe"]);
+  it("raises after three missed reports, at least 10 min, and settles after an hour of on-time reports", () => {
+    // readings 0..30, nothing 31..54, again from 55; issue 11: settling on the first reading back made a flaky probe flap
+    const temp = [...minuteSeries(hold(22, 31)), ...minuteSeries(hold(22, 80), 55)];
+    const { brief, events } = run([{ probeId: 4, metric: "temperature", points: temp }], probe(), 135, ["silent_probe"]);
+    expect(brief).toEqual(["40 raise silent_probe", "115 settle silent_probe"]);
     expect(events[0]).toMatchObject({ subject: "probe:4:silent_probe", probeId: 4, level: "heads_up", value: 10 });
     expect(events[0]!.message).toBe("Flow-through A, working zone: probe p-4 has sent nothing since 06:30 (it reports every 1 min).");
     expect(events[1]!.message).toBe("Flow-through A, working zone: probe p-4 is reporting again.");
@@ -153,6 +153,20 @@ describe("probe fault", () => {
     expect(events[0]!.message).toBe(
       "Flow-through A, working zone: probe p-4 has read temperature 21.56 °C without change since 06:00 (6 h); the sensor may be stuck.",
     );
+  });
+
+  it("a probe's own step sets 'no change': a whole-percent probe is stuck only after 48 h, a 0.1 % probe after 6 h (issue 11)", () => {
+    const base = { zone, species: fetida, recentFeedings: [], openAlerts: [], kinds: ["probe_fault"] as const };
+    const moisture = (values: number[]): ProbeSeries[] => [{ probeId: 4, metric: "moisture", points: values.map((v, k) => ({ t: at(5 * k), v })) }];
+    const five = probe({ reportIntervalS: 300, metrics: ["moisture"] });
+    // a day of a living bed at 0.1 % steps, then 7 h at one value: stuck
+    const fine = [...Array.from({ length: 288 }, (_, k) => 78 + (k % 3) * 0.1), ...hold(78.4, 84)];
+    expect(evaluateZone({ ...base, now: at(5 * (fine.length - 1)), readings: moisture(fine), probes: [five] })).toEqual([
+      expect.objectContaining({ type: "raise", details: expect.objectContaining({ cause: "stuck", metric: "moisture" }) }),
+    ]);
+    // whole percent: 78 for 30 h after a day of 78/79 is a steady bed, not a stuck sensor
+    const whole = [...Array.from({ length: 288 }, (_, k) => (k % 7 === 0 ? 79 : 78)), ...hold(78, 360)];
+    expect(evaluateZone({ ...base, now: at(5 * (whole.length - 1)), readings: moisture(whole), probes: [five] })).toEqual([]);
   });
 
   it("a living bed is never stuck, and an ammonia reading of 0 ppm for hours is no fault", () => {

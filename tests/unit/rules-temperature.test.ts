@@ -224,12 +224,89 @@ describe("heat by rate of rise after a feeding", () => {
     expect(out[0]!.message).toMatch(/°F and rising 3\.6 °F\/h since the 26\.5 lb feeding/);
   });
 
-  it("watches for 72 h after the feeding and no longer", () => {
-    // fed 71 h before minute 0: at minute 60 the feeding is exactly 72 h old
-    expect(run(rising, { feedings: [{ at: at(-71 * 60), zoneId: "zone-1" }] }).brief[0]).toBe("60 raise heat heads_up");
+  it("an open alert keeps the words it was raised with; updates carry the latest value and time (issue 11)", () => {
+    const { steps, events } = run(rising.slice(0, 200), { feedings: [feedingHere(0)] });
+    const raised = events[0]!;
+    const updates = steps.flatMap((s) => s.transitions).filter((t) => t.type === "update");
+    expect(updates.length).toBeGreaterThan(100);
+    for (const u of updates) expect(u.message).toBe(raised.message);
+    const last = updates[updates.length - 1]!;
+    expect(last.details).toMatchObject({ latestValue: last.value, latestAt: at(199) });
+    expect(last.value).toBeCloseTo(20 + (2 * 199) / 60, 9);
+    // the words never claim "near the top" of the band while the bed sits mid-band
+    expect(steps.flatMap((s) => s.transitions).some((t) => /near the top/.test(t.message))).toBe(false);
+  });
+
+  it("a rise is judged against the same hour on the previous days: the usual morning warm-up is no alarm after a heavy feed", () => {
+    // three days warming 1.2 °C/h from 06:00 to 11:00 and cooling back; on day 4 the same warm-up after a heavy feed
+    const day = (m: number) => {
+      const h = (m % 1440) / 60;
+      return 18 + (h >= 6 && h < 11 ? 1.2 * (h - 6) : h >= 11 && h < 23 ? 6 - 0.5 * (h - 11) : 0);
+    };
+    const start = -3 * 1440;
+    const values = Array.from({ length: 3 * 1440 + 11 * 60 }, (_, k) => day(k));
+    const readings: ProbeSeries[] = [{ probeId: 7, metric: "temperature", points: minuteSeries(values, start) }];
+    const feed = { at: at(5 * 60), zoneId: "zone-1", totalKg: 12 };
+    const morning = Array.from({ length: 6 * 60 }, (_, m) => at(5 * 60 + m));
+    const rhythm = replay({ zone, species: fetida, readings, recentFeedings: [feed], probes: [probe(7)], kinds: ["heat"] }, morning);
+    expect(rhythm.flatMap((s) => s.transitions)).toEqual([]);
+    // the same morning with no days behind it is judged against 0 °C/h, and 1.2 °C/h raises
+    const alone = replay(
+      {
+        zone,
+        species: fetida,
+        readings: [{ probeId: 7, metric: "temperature", points: minuteSeries(values.slice(3 * 1440 - 60), -60) }],
+        recentFeedings: [feed],
+        probes: [probe(7)],
+        kinds: ["heat"],
+      },
+      morning,
+    );
+    expect(alone.flatMap((s) => s.transitions).map((t) => `${t.type} ${t.kind}`)[0]).toBe("raise heat");
+  });
+
+  it("watches a feeding at the heavy line for 48 h and no longer (issue 11: the watch follows the feeding)", () => {
+    // a feeding of unknown mass counts as exactly heavy: fed 47 h before minute 0, 48 h old at minute 60
+    expect(run(rising, { feedings: [{ at: at(-47 * 60), zoneId: "zone-1" }] }).brief[0]).toBe("60 raise heat heads_up");
     // one minute older: no rise alert; the band alert comes at 25 °C + 10 min (first reading above 25 °C is minute 151)
-    expect(run(rising, { feedings: [{ at: at(-71 * 60 - 1), zoneId: "zone-1" }] }).brief[0]).toBe("161 raise heat heads_up");
+    expect(run(rising, { feedings: [{ at: at(-47 * 60 - 1), zoneId: "zone-1" }] }).brief[0]).toBe("161 raise heat heads_up");
     expect(run(rising).brief[0]).toBe("161 raise heat heads_up");
+    // twice the heavy line (4 kg in a bin with no size, heavy from 2 kg, common practice): watched 96 h
+    expect(run(rising, { feedings: [{ at: at(-95 * 60), zoneId: "zone-1", totalKg: 4 }] }).brief[0]).toBe("60 raise heat heads_up");
+    expect(run(rising, { feedings: [{ at: at(-95 * 60 - 1), zoneId: "zone-1", totalKg: 4 }] }).brief[0]).toBe("161 raise heat heads_up");
+  });
+
+  it("a light feeding arms nothing: 0.2 kg on a 1 m² bed is under 4 kg/m² (common practice)", () => {
+    const light = { at: at(0), zoneId: null, totalKg: 0.2 };
+    const steps = replay(
+      {
+        zone,
+        species: fetida,
+        bed: { lengthCm: 100, widthCm: 100, zoneCount: 1 },
+        readings: [{ probeId: 7, metric: "temperature", points: minuteSeries(rising.slice(0, 140)) }],
+        recentFeedings: [light],
+        probes: [probe(7)],
+        kinds: ["heat"],
+      },
+      Array.from({ length: 140 }, (_, m) => at(m)),
+    );
+    expect(steps.flatMap((s) => s.transitions)).toEqual([]);
+    // the same 0.2 kg fed to one zone of a 0.2 m × 0.2 m tote is 5 kg/m²: heavy
+    const heavy = replay(
+      {
+        zone,
+        species: fetida,
+        bed: { lengthCm: 20, widthCm: 20, zoneCount: 1 },
+        readings: [{ probeId: 7, metric: "temperature", points: minuteSeries(rising.slice(0, 70)) }],
+        recentFeedings: [light],
+        probes: [probe(7)],
+        kinds: ["heat"],
+      },
+      [at(60)],
+    );
+    expect(heavy[0]!.transitions).toEqual([
+      expect.objectContaining({ type: "raise", details: expect.objectContaining({ trigger: "fast-rise", feedingKgPerM2: 5 }) }),
+    ]);
   });
 
   it("counts a feeding of the whole bin, not one of another zone", () => {
@@ -260,14 +337,17 @@ describe("heat by rate of rise after a feeding", () => {
   });
 });
 
-describe("chill (E. fetida: comfortable from 15 °C, cold stress below 10 °C)", () => {
+describe("chill (E. fetida: comfortable from 15 °C, survives 0 °C)", () => {
   it("raises after 10 min below 15 °C, escalates below 10 °C, settles after 15 min at or above 15.5 °C", () => {
-    const values = [...hold(16, 20), ...hold(14, 20), ...hold(9.5, 20), ...hold(15.4, 20), ...hold(15.5, 20)];
+    // issue 11: act now only near the lethal line; NC State Extension: red wigglers survive 0 °C (2 °C margin, common practice)
+    const values = [...hold(16, 20), ...hold(14, 20), ...hold(1.5, 20), ...hold(15.4, 20), ...hold(15.5, 20)];
     const { brief, events } = run(values);
     expect(brief).toEqual(["30 raise chill heads_up", "50 escalate chill act_now", "95 settle chill act_now"]);
     expect(events[0]!.message).toBe("Long Bed North, fresh zone: 14.0 °C, below the comfortable 15.0–25.0 °C for red wigglers.");
-    expect(events[1]!.message).toContain("9.5 °C");
-    expect(events[1]!.message).toContain("below 10.0 °C where red wigglers stop feeding. Warm the bed now.");
+    expect(events[1]!.message).toContain("1.5 °C");
+    expect(events[1]!.message).toContain("below 2.0 °C, close to the cold that kills red wigglers. Warm the bed now.");
+    // a cold room at 5 °C stays a heads-up
+    expect(run([...hold(16, 20), ...hold(5, 60)]).brief).toEqual(["30 raise chill heads_up"]);
   });
 
   it("uses the species: 14 °C is a heads-up for E. fetida and 19 °C for E. eugeniae", () => {
@@ -285,7 +365,8 @@ describe("chill (E. fetida: comfortable from 15 °C, cold stress below 10 °C)",
       });
     expect(out(fetida, 19)).toEqual([]);
     expect(out(eugeniae, 19)).toEqual([expect.objectContaining({ type: "raise", level: "heads_up" })]);
-    // E. eugeniae: cold stress below 15 °C
-    expect(out(eugeniae, 14)).toEqual([expect.objectContaining({ type: "raise", level: "act_now" })]);
+    // E. eugeniae: dies below 9 °C (Domínguez & Edwards 2011, citing Viljoen & Reinecke): act now below 11 °C
+    expect(out(eugeniae, 14)).toEqual([expect.objectContaining({ type: "raise", level: "heads_up" })]);
+    expect(out(eugeniae, 10.5)).toEqual([expect.objectContaining({ type: "raise", level: "act_now" })]);
   });
 });

@@ -3,7 +3,7 @@
 // below about 30:1 C:N the excess nitrogen is lost as ammonia gas. Kaplan et al. 1980 (V): ammonia
 // kills worms, so even a guess is worth a heads-up; a guess is never "act now".
 import { formatNumber } from "../units";
-import { HOUR, MINUTE, judge, worstOf, type Judged, type RuleContext, type Trigger, type Verdict } from "./context";
+import { HOUR, MINUTE, judge, windowMs, worstOf, type Judged, type RuleContext, type Trigger, type Verdict } from "./context";
 import { rateAt } from "./series";
 import type { FeedingContext } from "./types";
 
@@ -57,7 +57,11 @@ function measuredVerdict(ctx: RuleContext): Verdict | null {
   };
 }
 
-type Risk = { feeding: FeedingContext; lowCn: boolean; wet: boolean };
+/** `wet`: the mix was wet and is still young enough (riskWetHours) to count. */
+type Risk = { feeding: FeedingContext; lowCn: boolean; wet: boolean; wetMix: boolean };
+
+// Below this the zone counts as cooling ("falling" in the alert's words): the feed has passed its hottest.
+const COOLING_C_PER_HOUR = -0.1;
 
 function estimatedVerdict(ctx: RuleContext): Verdict | null {
   const r = ctx.rules.ammonia.t;
@@ -67,21 +71,25 @@ function estimatedVerdict(ctx: RuleContext): Verdict | null {
     const feeding = ctx.feedingAt(t, watchMs, true);
     if (!feeding) return null;
     const lowCn = (feeding.mixCn ?? Number.POSITIVE_INFINITY) < r.riskCnBelow;
-    const wet = (feeding.mixMoisturePct ?? Number.NEGATIVE_INFINITY) > r.riskWetAbovePct;
-    return { feeding, lowCn, wet };
+    const wetMix = (feeding.mixMoisturePct ?? Number.NEGATIVE_INFINITY) > r.riskWetAbovePct;
+    return { feeding, lowCn, wetMix, wet: wetMix && t - feeding.at <= r.riskWetHours * HOUR };
   };
 
   const rates = new Map<Judged, number | null>();
   const judged = ctx.fresh("temperature").map((view) => {
     const s = view.s;
-    const rate = (i: number) => rateAt(s, i, r.riskWindowMinutes * MINUTE, view.gapMs);
+    const win = windowMs(view, r.riskWindowMinutes);
+    const rate = (i: number) => rateAt(s, i, win, view.gapMs);
+    // A wet mix is a cause only while it is young and the zone is not cooling; warming is one always.
+    const wetNow = (k: Risk, i: number) => k.wet && (rate(i) ?? 0) > COOLING_C_PER_HOUR;
     const risky = (i: number) => {
       const k = riskAt(s[i]!.t);
-      return !!k?.lowCn && (k.wet || (rate(i) ?? Number.NEGATIVE_INFINITY) >= r.riskWarmingCPerHour);
+      return !!k?.lowCn && (wetNow(k, i) || (rate(i) ?? Number.NEGATIVE_INFINITY) >= r.riskWarmingCPerHour);
     };
+    // The deadband sits below the trigger, so the estimate settles once warming eases off.
     const calm = (i: number) => {
       const k = riskAt(s[i]!.t);
-      return !k?.lowCn || (!k.wet && (rate(i) ?? Number.NEGATIVE_INFINITY) < r.riskWarmingCPerHour - r.riskWarmingDeadbandCPerHour);
+      return !k?.lowCn || (!wetNow(k, i) && (rate(i) ?? Number.NEGATIVE_INFINITY) < r.riskWarmingCPerHour - r.riskWarmingDeadbandCPerHour);
     };
     const trigger: Trigger = { id: "mix-risk", level: "heads_up", holdMs: r.raiseMinutes * MINUTE, holds: risky };
     const j = judge(view, [trigger], calm, r.settleMinutes * MINUTE);
@@ -109,7 +117,7 @@ function estimatedVerdict(ctx: RuleContext): Verdict | null {
             "below about 30:1 the extra nitrogen leaves as ammonia)"
         : `the feeding at ${when} was balanced (C:N ${formatNumber(cn, 0)})`,
     );
-    if (risk.wet) reasons.push(`its mix was wet (${w.pct(risk.feeding.mixMoisturePct!)})`);
+    if (risk.wetMix) reasons.push(`its mix was wet (${w.pct(risk.feeding.mixMoisturePct!)})`);
   }
   if (rate !== null && rate >= r.riskWarmingCPerHour) {
     reasons.push(`the zone is warming ${w.rate(rate)}, so the feed is breaking down fast`);
@@ -134,7 +142,8 @@ function estimatedVerdict(ctx: RuleContext): Verdict | null {
       mixCn: risk?.feeding.mixCn ?? null,
       mixMoisturePct: risk?.feeding.mixMoisturePct ?? null,
       lowCn: risk?.lowCn ?? false,
-      wet: risk?.wet ?? false,
+      wet: risk?.wetMix ?? false,
+      riskWetHours: r.riskWetHours,
       warmingCPerHour: rate,
       riskCnBelow: r.riskCnBelow,
       riskWetAbovePct: r.riskWetAbovePct,
@@ -148,6 +157,7 @@ function settleWords(ctx: RuleContext, risk: Risk | null): string {
   const watch = formatNumber(ctx.rules.ammonia.t.riskWatchHours, 0);
   if (!risk) return `${w.place}: ammonia risk has passed; the nitrogen-rich feeding is more than ${watch} h old.`;
   if (!risk.lowCn) return `${w.place}: ammonia risk has passed; the last feeding was balanced.`;
+  if (risk.wetMix) return `${w.place}: ammonia risk has passed; the zone is not warming and the wet feeding has settled.`;
   return `${w.place}: ammonia risk has passed; the zone has stopped warming.`;
 }
 

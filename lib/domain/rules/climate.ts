@@ -2,8 +2,8 @@
 // with a heads-up line, an act-now line, a duration before raising, and a deadband plus a duration
 // before settling. Heat also watches the rate of rise after a feeding; drying also the day's trend.
 import { formatNumber } from "../units";
-import { HOUR, MINUTE, judge, worstOf, type Judged, type ProbeView, type RuleContext, type Trigger, type Verdict } from "./context";
-import { rateAt, trendAt, type Sample, type Trend } from "./series";
+import { HOUR, MINUTE, judge, windowMs, worstOf, type Judged, type ProbeView, type RuleContext, type Trigger, type Verdict } from "./context";
+import { rateAt, rhythmExcessAt, trendAt, type Sample, type Trend } from "./series";
 import { withTrend } from "./words";
 
 const memo = <T>(f: (i: number) => T) => {
@@ -96,14 +96,15 @@ function bandTriggers(
 export function heatVerdict(ctx: RuleContext): Verdict | null {
   const r = ctx.rules.heat.t;
   const { w } = ctx;
-  const watchMs = r.feedingWatchHours * HOUR;
   const band = w.tempRange(ctx.input.species.temperatureC.comfortLow, r.headsUpAboveC);
   return bandVerdict(ctx, "heat", {
     judgeSeries: (view) => {
       const s = view.s;
-      const rate = memo((i) => rateAt(s, i, r.riseWindowMinutes * MINUTE, view.gapMs));
-      const watched = (i: number) => ctx.feedingAt(s[i]!.t, watchMs);
-      const fastRise = (i: number, limit: number) => watched(i) !== null && (rate(i) ?? Number.NEGATIVE_INFINITY) >= limit;
+      // The rise is judged against the zone's own day: the same hour on the previous days.
+      const rhythm = memo((i) => rhythmExcessAt(s, i, windowMs(view, r.riseWindowMinutes), view.gapMs, r.rhythmDays));
+      const rate = (i: number) => rhythm(i).rate;
+      const watched = (i: number) => ctx.heavyFeedingAt(s[i]!.t);
+      const fastRise = (i: number, limit: number) => watched(i) !== null && (rhythm(i).excess ?? Number.NEGATIVE_INFINITY) >= limit;
       return {
         triggers: [
           ...bandTriggers(s, r.raiseMinutes, { id: "warm-stress", past: (v) => v >= r.actNowAtC }, { id: "above-band", past: (v) => v > r.headsUpAboveC }),
@@ -112,28 +113,45 @@ export function heatVerdict(ctx: RuleContext): Verdict | null {
         ],
         clear: (i) => s[i]!.v <= r.headsUpAboveC - r.deadbandC && !fastRise(i, r.riseRateCPerHour - r.riseDeadbandCPerHour),
         extra: (i) => {
-          const f = watched(i);
-          return { rate: rate(i), feedingAt: f?.at ?? null, feedingKg: f?.totalKg ?? null };
+          const h = watched(i);
+          return {
+            rate: rate(i),
+            usualRate: rhythm(i).usual,
+            feedingAt: h?.feeding.at ?? null,
+            feedingKg: h?.feeding.totalKg ?? null,
+            feedingKgPerM2: h?.kgPerM2 ?? null,
+            watchUntil: h ? h.feeding.at + h.watchMs : null,
+          };
         },
       };
     },
     extremity: (j) => j.last.v,
-    words: (worst, { rate, feedingAt, feedingKg }) => {
+    words: (worst, { rate, usualRate, feedingAt, feedingKg, feedingKgPerM2, watchUntil }) => {
+      const usual = usualRate !== null && Math.abs(usualRate) >= 0.1 && rate !== null ? ` (at this hour it usually ${w.tempTrend(usualRate)})` : "";
       const now = withTrend(w.temp(worst.last.v), w.tempTrend(rate));
       // The feeding's clock time, not "n h ago": a message that changes every minute is churn.
       const feed = feedingAt === null ? "" : ` since the ${feedingKg ? `${w.mass(feedingKg)} ` : ""}feeding at ${w.clock(feedingAt)}`;
-      const message = said(worst, `${w.place}: ${now}, near the top of the comfortable ${band}.`, {
+      const message = said(worst, `${w.place}: ${now}, inside the comfortable ${band}.`, {
         "warm-stress": () => `${w.place}: ${now}, at or above ${w.temp(r.actNowAtC)} where ${w.worms} suffer. Cool the bed now.`,
         "above-band": () => `${w.place}: ${now}, above the comfortable ${band} for ${w.worms}.`,
         "fast-rise": () =>
           worst.last.v <= r.headsUpAboveC
-            ? `${w.place}: ${now}${feed}. Still inside ${band}, but heating fast.`
-            : `${w.place}: ${now}${feed}, leaving the comfortable ${band}.`,
+            ? `${w.place}: ${now}${usual}${feed}. Still inside ${band}, but heating fast.`
+            : `${w.place}: ${now}${usual}${feed}, leaving the comfortable ${band}.`,
       });
       return {
         message,
         settleMessage: `${w.place}: cooled to ${w.temp(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
-        details: { ratePerHour: rate, feedingAt, headsUpAboveC: r.headsUpAboveC, actNowAtC: r.actNowAtC, riseRateCPerHour: r.riseRateCPerHour },
+        details: {
+          ratePerHour: rate,
+          usualRatePerHour: usualRate,
+          feedingAt,
+          feedingKgPerM2,
+          watchUntil,
+          headsUpAboveC: r.headsUpAboveC,
+          actNowAtC: r.actNowAtC,
+          riseRateCPerHour: r.riseRateCPerHour,
+        },
       };
     },
   });
@@ -153,17 +171,17 @@ export function chillVerdict(ctx: RuleContext): Verdict | null {
         { id: "below-band", past: (v) => v < r.headsUpBelowC },
       ),
       clear: (i) => view.s[i]!.v >= r.headsUpBelowC + r.deadbandC,
-      extra: (i) => rateAt(view.s, i, heat.riseWindowMinutes * MINUTE, view.gapMs),
+      extra: (i) => rateAt(view.s, i, windowMs(view, heat.riseWindowMinutes), view.gapMs),
     }),
     extremity: (j) => -j.last.v,
     words: (worst, rate) => {
       const now = withTrend(w.temp(worst.last.v), w.tempTrend(rate));
       const message =
         worst.held?.id === "cold-stress"
-          ? `${w.place}: ${now}, below ${w.temp(r.actNowBelowC)} where ${w.worms} stop feeding. Warm the bed now.`
+          ? `${w.place}: ${now}, below ${w.temp(r.actNowBelowC)}, close to the cold that kills ${w.worms}. Warm the bed now.`
           : worst.held
             ? `${w.place}: ${now}, below the comfortable ${band} for ${w.worms}.`
-            : `${w.place}: ${now}, near the bottom of the comfortable ${band}.`;
+            : `${w.place}: ${now}, inside the comfortable ${band}.`;
       return {
         message,
         settleMessage: `${w.place}: warmed to ${w.temp(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,
@@ -208,7 +226,7 @@ export function dryingVerdict(ctx: RuleContext): Verdict | null {
     words: (worst, trend) => {
       const now = withTrend(`moisture ${w.pct(worst.last.v)}`, moistureTrend(trend));
       const at = trend?.crossingAt ?? null;
-      const message = said(worst, `${w.place}: ${now}, near the bottom of the comfortable ${band}.`, {
+      const message = said(worst, `${w.place}: ${now}, inside the comfortable ${band}.`, {
         "far-below-band": () => `${w.place}: ${now}, far below the comfortable ${band}. Water the bed now.`,
         "below-band": () => `${w.place}: ${now}, below the comfortable ${band} for ${w.worms}.`,
         "drying-trend": () =>
@@ -253,7 +271,7 @@ export function soggyVerdict(ctx: RuleContext): Verdict | null {
           ? `${w.place}: ${now}, far above the comfortable ${band}. Mix in dry bedding now.`
           : worst.held
             ? `${w.place}: ${now}, above the comfortable ${band} for ${w.worms}.`
-            : `${w.place}: ${now}, near the top of the comfortable ${band}.`;
+            : `${w.place}: ${now}, inside the comfortable ${band}.`;
       return {
         message,
         settleMessage: `${w.place}: moisture down to ${w.pct(worst.last.v)}, inside the band for ${w.span(r.settleMinutes * MINUTE)}.`,

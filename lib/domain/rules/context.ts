@@ -25,7 +25,17 @@ export type ProbeView = {
   raw: Sample[];
   /** The silent-probe line: a gap this long breaks a run, a series this old is stale. */
   gapMs: number;
+  /** The probe's report interval: what one reading stands for. */
+  stepMs: number;
 };
+
+// Common practice: a least-squares rate needs three points, and a settle three readings in a row,
+// whatever the report interval (a slow probe's window and settle stretch to cover them).
+export const WINDOW_REPORTS = 3;
+export const SETTLE_REPORTS = 3;
+
+/** A rule's window in minutes, stretched to hold WINDOW_REPORTS reports of this probe. */
+export const windowMs = (view: Pick<ProbeView, "stepMs">, minutes: number) => Math.max(minutes * MINUTE, (WINDOW_REPORTS - 1) * view.stepMs + view.stepMs / 2);
 
 export type RuleContext = {
   input: ZoneRuleInput;
@@ -39,7 +49,28 @@ export type RuleContext = {
   silentAfterMs: (probe: ProbeContext | undefined) => number;
   /** The zone's latest feeding at or before t, if no older than watchMs. */
   feedingAt: (t: number, watchMs: number, withMix?: boolean) => FeedingContext | null;
+  /** The zone's latest heavy feeding still watched at t (heat's post-feed watch). */
+  heavyFeedingAt: (t: number) => HeavyFeeding | null;
 };
+
+/** A feeding that armed the heat watch: how heavy against the bed, and how long it is watched. */
+export type HeavyFeeding = { feeding: FeedingContext; kgPerM2: number | null; times: number; watchMs: number };
+
+/**
+ * How many times the heavy line a feeding is: kg per m² of the bed it went on (the whole floor, or
+ * the zone's share of it when fed to one zone), or kg alone for a bin with no size. A feeding of
+ * unknown mass counts as exactly heavy: better a watch too many than a cooked bed.
+ */
+export function feedingLoad(f: FeedingContext, input: Pick<ZoneRuleInput, "bed">, t: Pick<Thresholds<"heat">, "heavyFeedKgPerM2" | "heavyFeedKg">) {
+  const kg = f.totalKg;
+  if (kg == null || !Number.isFinite(kg)) return { kgPerM2: null, times: 1 };
+  const { lengthCm, widthCm, zoneCount } = input.bed ?? {};
+  const floorM2 = lengthCm && widthCm && lengthCm > 0 && widthCm > 0 ? (lengthCm * widthCm) / 10_000 : null;
+  if (floorM2 === null) return { kgPerM2: null, times: t.heavyFeedKg > 0 ? kg / t.heavyFeedKg : Number.POSITIVE_INFINITY };
+  const share = f.zoneId != null && zoneCount && zoneCount > 1 ? floorM2 / zoneCount : floorM2;
+  const kgPerM2 = kg / share;
+  return { kgPerM2, times: t.heavyFeedKgPerM2 > 0 ? kgPerM2 / t.heavyFeedKgPerM2 : Number.POSITIVE_INFINITY };
+}
 
 export function makeContext(input: ZoneRuleInput, rules: ResolvedRules, w: Words): RuleContext {
   const { now } = input;
@@ -58,12 +89,20 @@ export function makeContext(input: ZoneRuleInput, rules: ResolvedRules, w: Words
       const probe = probes.get(g.probeId);
       const raw = cleanSeries(g.points);
       const s = raw.filter((p) => valueFault(g.metric, p.v) === null);
-      return { probeId: g.probeId, probe, metric: g.metric, s, raw, gapMs: silentAfterMs(probe) };
+      return { probeId: g.probeId, probe, metric: g.metric, s, raw, gapMs: silentAfterMs(probe), stepMs: (probe?.reportIntervalS ?? 60) * 1000 };
     })
     .filter((v) => v.raw.length > 0)
     .sort((a, b) => a.probeId - b.probeId);
 
   const mine = input.recentFeedings.filter((f) => Number.isFinite(f.at) && (f.zoneId == null || f.zoneId === input.zone.id)).sort((a, b) => b.at - a.at);
+  // A light feeding arms nothing; a heavy one is watched feedingWatchHours, longer as it is heavier.
+  const heat = rules.heat.t;
+  const heavy: HeavyFeeding[] = mine.flatMap((feeding) => {
+    const { kgPerM2, times } = feedingLoad(feeding, input, heat);
+    if (!(times >= 1)) return [];
+    const hours = Math.min(Math.max(heat.feedingWatchHours, heat.feedingWatchMaxHours), heat.feedingWatchHours * times);
+    return [{ feeding, kgPerM2, times, watchMs: hours * HOUR }];
+  });
 
   return {
     input,
@@ -78,6 +117,10 @@ export function makeContext(input: ZoneRuleInput, rules: ResolvedRules, w: Words
       const f = mine.find((x) => x.at <= t && (!withMix || Number.isFinite(x.mixCn ?? Number.NaN)));
       return f && t - f.at <= watchMs ? f : null;
     },
+    heavyFeedingAt: (t) => {
+      for (const h of heavy) if (h.feeding.at <= t && t - h.feeding.at <= h.watchMs) return h;
+      return null;
+    },
   };
 }
 
@@ -85,11 +128,17 @@ export type Trigger = { id: string; level: AlertLevel; holdMs: number; holds: (i
 
 export type Judged = { view: ProbeView; held: Trigger | null; clear: boolean; i: number; last: Sample };
 
-/** Which trigger (listed worst first) has held for its duration, and whether the settle condition has. */
+/**
+ * Which trigger (listed worst first) has held for its duration, and whether the settle condition
+ * has. A raise's hold is rounded down to whole report intervals, so a probe reporting every 40 min
+ * or hourly raises on its first reading past a 10-min line, not an interval later; a settle needs
+ * its minutes and SETTLE_REPORTS readings in a row, so one good reading of a slow probe never settles.
+ */
 export function judge(view: ProbeView, triggers: readonly Trigger[], clear: (i: number) => boolean, settleMs: number): Judged {
-  const held = triggers.find((tr) => holdsFor(view.s, tr.holds, view.gapMs, tr.holdMs)) ?? null;
+  const holdOf = (ms: number) => (view.stepMs > 0 ? ms - (ms % view.stepMs) : ms);
+  const held = triggers.find((tr) => holdsFor(view.s, tr.holds, view.gapMs, holdOf(tr.holdMs))) ?? null;
   const i = view.s.length - 1;
-  return { view, held, clear: holdsFor(view.s, clear, view.gapMs, settleMs), i, last: view.s[i]! };
+  return { view, held, clear: holdsFor(view.s, clear, view.gapMs, settleMs, SETTLE_REPORTS), i, last: view.s[i]! };
 }
 
 const RANK: Record<AlertLevel, number> = { heads_up: 1, act_now: 2 };
@@ -129,8 +178,14 @@ export function decide(key: Key, open: OpenAlert | undefined, v: Verdict | null)
   if (!open) return v.level ? { type: "raise", level: v.level, message: v.message, ...base } : null;
   if (v.clear) return { type: "settle", level: open.level, message: v.settleMessage, ...base };
   if (v.level === "act_now" && open.level === "heads_up") return { type: "escalate", level: "act_now", message: v.message, ...base };
-  if (open.message === v.message) return null;
-  return { type: "update", level: open.level, message: v.message, ...base };
+  // An open alert keeps the words it was raised (or escalated) with, so a keeper reads what woke
+  // them; the latest reading goes beside them in details. New words only when the farm changed units.
+  const latestAt = (v.details.readingAt ?? v.details.lastSeenAt ?? null) as number | null;
+  const sameUnits = (open.details?.unitSystem ?? null) === (v.details.unitSystem ?? null);
+  const message = open.message !== undefined && sameUnits ? open.message : v.message;
+  if (message === open.message && open.details?.latestAt === latestAt && open.value === v.value) return null;
+  const details = { ...v.details, latestValue: v.value, latestAt };
+  return { type: "update", level: open.level, message, ...base, details };
 }
 
 /** Why a stored value cannot be a reading of `metric` (lib/domain/metrics.ts); null when it can. */

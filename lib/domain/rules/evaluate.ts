@@ -56,6 +56,9 @@ export function evaluateZone(input: ZoneRuleInput): Transition[] {
     const message = `${w.place}: the ${KIND_WORDS[kind]} rule was turned off, so this alert is settled.`;
     return { type: "settle", subject, kind, level: o.level, zoneId: input.zone.id, probeId, value: null, message, details: { reason: "rule-off" } };
   };
+  // The units a message was worded in: an open alert is worded anew only when they change.
+  const unitSystem = input.unitSystem ?? "metric";
+  const withUnits = (v: Verdict | null): Verdict | null => v && { ...v, details: { ...v.details, unitSystem } };
   const push = (t: Transition | null) => {
     if (t) out.push(t);
   };
@@ -66,12 +69,12 @@ export function evaluateZone(input: ZoneRuleInput): Transition[] {
       for (const probe of [...input.probes].sort((a, b) => a.id - b.id)) {
         const subject = probeSubject(probe.id, kind);
         if (!rules[kind].enabled) push(turnedOff(subject, kind, probe.id));
-        else push(decide({ subject, kind, zoneId: input.zone.id, probeId: probe.id }, open.get(subject), PROBE_VERDICTS[kind](ctx, probe)));
+        else push(decide({ subject, kind, zoneId: input.zone.id, probeId: probe.id }, open.get(subject), withUnits(PROBE_VERDICTS[kind](ctx, probe))));
       }
     } else {
       const subject = zoneSubject(input.zone.id, kind);
       if (!rules[kind].enabled) push(turnedOff(subject, kind, null));
-      else push(decide({ subject, kind, zoneId: input.zone.id, probeId: null }, open.get(subject), ZONE_VERDICTS[kind](ctx)));
+      else push(decide({ subject, kind, zoneId: input.zone.id, probeId: null }, open.get(subject), withUnits(ZONE_VERDICTS[kind](ctx))));
     }
   }
   return out;

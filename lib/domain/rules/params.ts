@@ -5,11 +5,12 @@
 import { fail, ok, type Result } from "../result";
 import { ALERT_KINDS, ALERT_LEVELS, type AlertKind, type AlertLevel } from "../vocabulary";
 import type { SpeciesProfile } from "../species";
+import { NITROGEN_RICH_CN, WORM_BED_TARGET } from "../mix";
 
 export { ALERT_KINDS, ALERT_LEVELS, type AlertLevel };
 export type RuleKind = AlertKind;
 
-export type ParamUnit = "°C" | "°C/h" | "%" | "% points" | "ppm" | "C:N" | "min" | "h" | "reports" | "count";
+export type ParamUnit = "°C" | "°C/h" | "%" | "% points" | "ppm" | "C:N" | "min" | "h" | "reports" | "count" | "days" | "kg" | "kg/m²";
 
 export type ParamSpec = {
   key: string;
@@ -56,17 +57,28 @@ export const RULE_PARAMETERS = {
       param("actNowAtC", "Act now at or above", "°C", "species: warm stress (growth falls off)", (s) => s.temperatureC.warmStress),
       common("deadbandC", "Must fall this far below the heads-up line to settle", "°C", 0.5),
     ),
-    common("riseRateCPerHour", "After a feeding, heads-up on a rise faster than", "°C/h", 1),
+    common("riseRateCPerHour", "After a heavy feeding, heads-up on a rise faster than the zone's usual by", "°C/h", 1),
     common("riseWindowMinutes", "Rise measured (least squares) over the last", "min", 60),
     common("riseDeadbandCPerHour", "Rise must slow this far below the limit to settle", "°C/h", 0.5),
+    // The zone's own daily rhythm: an outdoor bed warms every morning; that is not a feeding heating.
+    common("rhythmDays", "Rise compared with the same hour on the previous", "days", 3),
     // Fresh feed can self-heat and kill the worms (Wikipedia "Vermicompost", "Climate and temperature", V);
-    // how long to watch has no published figure.
-    common("feedingWatchHours", "Watch a zone for a fast rise this long after a feeding", "h", 72),
+    // how much food makes a feeding heavy, and how long to watch, have no published figure.
+    common("heavyFeedKgPerM2", "A feeding is heavy from this much food per square metre of bed", "kg/m²", 4),
+    common("heavyFeedKg", "… or, for a bin with no size, from this much food", "kg", 2),
+    common("feedingWatchHours", "Watch a zone for a fast rise this long after a heavy feeding", "h", 48),
+    common("feedingWatchMaxHours", "… longer for heavier feedings, up to", "h", 96),
   ],
   chill: [
     ...bandLines(
       param("headsUpBelowC", "Heads-up below", "°C", "species: bottom of the comfortable band", (s) => s.temperatureC.comfortLow),
-      param("actNowBelowC", "Act now below", "°C", "species: cold stress", (s) => s.temperatureC.coldStress),
+      param(
+        "actNowBelowC",
+        "Act now below",
+        "°C",
+        "species: 2 °C above the cold survival line (the margin is common practice)",
+        (s) => s.temperatureC.lethalCold + 2,
+      ),
       common("deadbandC", "Must rise this far above the heads-up line to settle", "°C", 0.5),
     ),
   ],
@@ -81,7 +93,7 @@ export const RULE_PARAMETERS = {
   soggy: [
     ...bandLines(
       param("headsUpAbovePct", "Heads-up above", "%", "species: top of the comfortable moisture band", (s) => s.moisturePct.comfortHigh),
-      halfwayToLimit("actNowAbovePct", "Act now above", (m) => [m.comfortHigh, m.lethalWet]),
+      param("actNowAbovePct", "Act now above", "%", "species: the wet survival line", (s) => s.moisturePct.lethalWet),
       common("deadbandPct", "Must fall this far below the heads-up line to settle", "% points", 2),
     ),
   ],
@@ -99,23 +111,43 @@ export const RULE_PARAMETERS = {
       ),
       common("deadbandPpm", "Must fall this far below the heads-up line to settle", "ppm", 2),
     ),
-    // Cornell "Compost Chemistry" (V): below ~30:1 excess nitrogen is lost as ammonia gas.
-    param("riskCnBelow", "No ammonia probe: risk when the last feeding's C:N is below", "C:N", `${COMMON}, under Cornell's ~30:1`, fixed(25)),
-    param("riskWetAbovePct", "… and its mix moisture is above", "%", "species: top of the comfortable band", (s) => s.moisturePct.comfortHigh),
+    // One line with the mix check (lib/domain/mix.ts NITROGEN_RICH_CN): Rynk et al. NRAES-54 Table 2.1,
+    // preferred C:N 25–30 (V-2nd); Cornell "Compost Chemistry" (V): below ~30:1 nitrogen leaves as ammonia.
+    param(
+      "riskCnBelow",
+      "No ammonia probe: risk when the last feeding's C:N is below",
+      "C:N",
+      "Rynk et al., On-Farm Composting Handbook, Table 2.1: low end of the preferred 25–30; Cornell: below ~30:1 nitrogen leaves as ammonia",
+      fixed(NITROGEN_RICH_CN),
+    ),
+    // The mix check's own wet line, so the two never disagree about one feeding.
+    param(
+      "riskWetAbovePct",
+      "… and its mix moisture is above",
+      "%",
+      "Kaplan et al. 1980: most weight gain at 70–85 % moisture (the mix check's wet line)",
+      fixed(WORM_BED_TARGET.moisturePct.high),
+    ),
+    common("riskWetHours", "A wet mix counts this long after the feeding, while the zone is not cooling", "h", 24),
     common("riskWarmingCPerHour", "… or the zone warms faster than", "°C/h", 0.5),
-    common("riskWarmingDeadbandCPerHour", "Warming must slow this far below that to settle", "°C/h", 0.5),
+    common("riskWarmingDeadbandCPerHour", "Warming must slow this far below that to settle", "°C/h", 0.25),
     common("riskWindowMinutes", "Warming measured over the last", "min", 60),
     common("riskWatchHours", "A feeding counts for this long", "h", 72),
   ],
   silent_probe: [
     common("missedReports", "Silent after this many missed reports", "reports", 3),
     common("minSilentMinutes", "… and never sooner than", "min", 10),
-    common("settleMinutes", "Reporting again this long before settling", "min", 0),
+    // Settling needs an hour of on-time reports (none later than the silent line), so a probe that
+    // keeps dropping a few reports raises once for the whole spell, not at every gap.
+    common("settleMinutes", "Reporting on time this long before settling", "min", 60),
   ],
   probe_fault: [
     raise(5),
     settle(15),
     common("stuckHours", "Stuck when a value does not change for", "h", 6),
+    // A probe coarser than the steps below (whole percent, say) reads a steady bed unchanged for
+    // hours: its stuck line stretches with its own step, up to this.
+    common("stuckMaxHours", "… longer for a coarse probe, up to", "h", 48),
     // A 12-bit digital probe (DS18B20 style) reads in 1/16 °C steps: from memory.
     param("temperatureStepC", "Temperature sensor step", "°C", "from memory: 12-bit digital probe", fixed(0.0625)),
     common("moistureStepPct", "Moisture step", "%", 0.1),
@@ -149,7 +181,7 @@ export function defaultRuleTable(species: SpeciesProfile) {
 }
 
 // Durations, steps and deadbands below zero would turn the hysteresis inside out.
-const mustNotBeNegative = (p: ParamSpec) => ["min", "h", "reports", "count"].includes(p.unit) || /Step|[dD]eadband/.test(p.key);
+const mustNotBeNegative = (p: ParamSpec) => ["min", "h", "reports", "count", "days", "kg", "kg/m²"].includes(p.unit) || /Step|[dD]eadband/.test(p.key);
 
 /** An override checked against the table: known keys, finite numbers, no negative durations or steps. */
 export function checkThresholds(kind: RuleKind, thresholds: Record<string, unknown>): Result<Record<string, number>> {
@@ -207,12 +239,14 @@ const HOUR = 3_600_000;
 
 /** How much history the runner must load for `evaluateZone` to see every duration it needs. */
 export function lookback(rules: ResolvedRules): { readingsMs: number; feedingsMs: number; refusalsMs: number } {
-  const { heat, chill, drying, soggy, ammonia, probe_fault: fault } = rules;
+  const { heat, chill, drying, soggy, ammonia, silent_probe: silent, probe_fault: fault } = rules;
+  // Rate windows stretch to three reports of an hourly probe (context.ts windowMs).
+  const rateWindowMs = Math.max(heat.t.riseWindowMinutes * MINUTE, ammonia.t.riskWindowMinutes * MINUTE, 3 * HOUR);
   const windowMs = Math.max(
     drying.t.trendWindowHours * HOUR,
-    fault.t.stuckHours * HOUR,
-    heat.t.riseWindowMinutes * MINUTE,
-    ammonia.t.riskWindowMinutes * MINUTE,
+    Math.max(fault.t.stuckHours, fault.t.stuckMaxHours) * HOUR,
+    heat.t.rhythmDays * 24 * HOUR + rateWindowMs,
+    rateWindowMs,
   );
   const holdMs =
     Math.max(
@@ -228,12 +262,13 @@ export function lookback(rules: ResolvedRules): { readingsMs: number; feedingsMs
       ammonia.t.settleMinutes,
       fault.t.raiseMinutes,
       fault.t.settleMinutes,
+      silent.t.settleMinutes,
     ) * MINUTE;
   // An hour spare for probes whose clocks run late and for gaps at the start of a window.
   const readingsMs = windowMs + holdMs + HOUR;
   return {
     readingsMs,
-    feedingsMs: Math.max(heat.t.feedingWatchHours, ammonia.t.riskWatchHours) * HOUR + readingsMs,
+    feedingsMs: Math.max(heat.t.feedingWatchHours, heat.t.feedingWatchMaxHours, ammonia.t.riskWatchHours) * HOUR + readingsMs,
     refusalsMs: Math.max(fault.t.raiseMinutes, fault.t.settleMinutes) * MINUTE + HOUR,
   };
 }

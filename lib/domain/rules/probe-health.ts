@@ -3,8 +3,8 @@
 import type { Metric } from "@/lib/domain/vocabulary";
 import { METRICS, type MetricKey } from "../metrics";
 import { formatNumber } from "../units";
-import { HOUR, MINUTE, judge, valueFault, type RuleContext, type Trigger, type Verdict } from "./context";
-import { firstAtOrAfter, holdsFor, unchangedFor } from "./series";
+import { HOUR, MINUTE, SETTLE_REPORTS, judge, valueFault, type RuleContext, type Trigger, type Verdict } from "./context";
+import { firstAtOrAfter, holdsFor, resolutionOf, unchangedFor } from "./series";
 import type { ProbeContext } from "./types";
 
 export function silentVerdict(ctx: RuleContext, probe: ProbeContext): Verdict | null {
@@ -23,9 +23,12 @@ export function silentVerdict(ctx: RuleContext, probe: ProbeContext): Verdict | 
   const seen = [...new Set(times.filter((t) => Number.isFinite(t) && t >= from))].sort((a, b) => a - b).map((t) => ({ t }));
   const silent = now - last >= afterMs;
   const name = w.probe(probe, probe.id);
+  // Settles only after SETTLE_REPORTS reports in a row and settleMinutes, none later than the
+  // silent line: a probe that keeps dropping reports stays one open alert, not one per gap.
+  const onTime = (seenAt: readonly { t: number }[]) => holdsFor(seenAt, () => true, afterMs - 1, r.settleMinutes * MINUTE, SETTLE_REPORTS);
   return {
     level: silent ? "heads_up" : null,
-    clear: !silent && holdsFor(seen, () => true, afterMs, r.settleMinutes * MINUTE),
+    clear: !silent && onTime(seen),
     probeId: probe.id,
     value: Math.floor((now - last) / MINUTE),
     message: `${w.place}: ${name} has sent nothing since ${w.clock(last)} (it reports every ${every(probe.reportIntervalS)}).`,
@@ -115,11 +118,17 @@ export function faultVerdict(ctx: RuleContext, probe: ProbeContext): Verdict | n
       settleMs: r.settleMinutes * MINUTE,
     });
   }
+  const steps = new Map<Metric, number>();
   for (const view of series) {
     const stepKey = STUCK_STEP[view.metric];
     if (!stepKey) continue;
     const s = view.raw;
-    const stuck = (i: number) => unchangedFor(s, i, r[stepKey]) >= r.stuckHours * HOUR;
+    // The probe's own step sets "no change": a whole-percent probe is judged in 1 % steps, and as a
+    // steady bed reads the same for longer on it, its stuck line stretches by as much (up to stuckMaxHours).
+    const step = resolutionOf(s, r[stepKey]);
+    steps.set(view.metric, step);
+    const stuckMs = Math.min(Math.max(r.stuckHours, r.stuckMaxHours), r.stuckHours * (r[stepKey] > 0 ? step / r[stepKey] : 1)) * HOUR;
+    const stuck = (i: number) => unchangedFor(s, i, step) >= stuckMs;
     checks.push({
       id: `stuck:${view.metric}`,
       suffix: METRICS[view.metric].suffix,
@@ -135,7 +144,7 @@ export function faultVerdict(ctx: RuleContext, probe: ProbeContext): Verdict | n
   if (fresh.length === 0) return null;
   const judged = fresh.map((c) => {
     const marks = c.marks.map((m) => ({ t: m.t, v: m.v ?? Number.NaN }));
-    const view = { probeId: probe.id, probe, metric: (c.metric ?? "temperature") as Metric, s: marks, raw: marks, gapMs };
+    const view = { probeId: probe.id, probe, metric: (c.metric ?? "temperature") as Metric, s: marks, raw: marks, gapMs, stepMs: probe.reportIntervalS * 1000 };
     return { c, j: judge(view, [c.trigger], c.clear, c.settleMs) };
   });
   const bad = judged.find((x) => x.j.held !== null) ?? null;
@@ -154,7 +163,7 @@ export function faultVerdict(ctx: RuleContext, probe: ProbeContext): Verdict | n
     const shown = (v: number | null) => (v === null ? "a value" : inUnits(v));
     if (j.held!.id === "stuck") {
       const s = c.marks.map((m) => ({ t: m.t, v: m.v! }));
-      since = last.t - unchangedFor(s, j.i, r[STUCK_STEP[c.metric as Metric]!]);
+      since = last.t - unchangedFor(s, j.i, steps.get(c.metric as Metric) ?? r[STUCK_STEP[c.metric as Metric]!]);
       value = last.v;
       cause = "stuck";
       message =

@@ -40,8 +40,70 @@ export function heldFor(s: readonly { t: number }[], holds: (i: number) => boole
   return end - s[k]!.t;
 }
 
-export const holdsFor = (s: readonly { t: number }[], holds: (i: number) => boolean, maxGapMs: number, needMs: number): boolean =>
-  heldFor(s, holds, maxGapMs, needMs) >= needMs;
+/** How long a condition has held over the latest run, at least `needMs` and `minCount` readings. */
+export const holdsFor = (s: readonly { t: number }[], holds: (i: number) => boolean, maxGapMs: number, needMs: number, minCount = 1): boolean => {
+  if (minCount <= 1) return heldFor(s, holds, maxGapMs, needMs) >= needMs;
+  const last = s.length - 1;
+  if (last < 0 || !holds(last)) return false;
+  let k = last;
+  const enough = () => last - k + 1 >= minCount && s[last]!.t - s[k]!.t >= needMs;
+  while (!enough() && k > 0 && s[k]!.t - s[k - 1]!.t <= maxGapMs && holds(k - 1)) k--;
+  return enough();
+};
+
+/** The sample at or just before t, if it is no further than maxGapMs from t. */
+export function atOrBefore(s: readonly Sample[], t: number, maxGapMs: number): number | null {
+  const j = firstAtOrAfter(s, t + 1) - 1;
+  return j >= 0 && t - s[j]!.t <= maxGapMs ? j : null;
+}
+
+/**
+ * The rate at sample i less the zone's own rhythm: the median of the rates at the same clock time
+ * on each of the `days` previous days that have readings then (0 when none has). An outdoor bed
+ * warming every morning at 1 °C/h has no excess; a feeding heating it on top of that has.
+ */
+export function rhythmExcessAt(
+  s: readonly Sample[],
+  i: number,
+  windowMs: number,
+  maxGapMs: number,
+  days: number,
+): { rate: number | null; usual: number | null; excess: number | null } {
+  const rate = rateAt(s, i, windowMs, maxGapMs);
+  const past: number[] = [];
+  for (let d = 1; d <= days; d++) {
+    const j = atOrBefore(s, s[i]!.t - d * DAY_MS, maxGapMs);
+    const r = j === null ? null : rateAt(s, j, windowMs, maxGapMs);
+    if (r !== null) past.push(r);
+  }
+  const usual = median(past);
+  return { rate, usual, excess: rate === null ? null : rate - (usual ?? 0) };
+}
+
+const DAY_MS = 24 * HOUR_MS;
+
+function median(xs: number[]): number | null {
+  if (xs.length === 0) return null;
+  const o = [...xs].sort((a, b) => a - b);
+  const m = o.length >> 1;
+  return o.length % 2 ? o[m]! : (o[m - 1]! + o[m]!) / 2;
+}
+
+/**
+ * The probe's own step: the smallest nonzero change between readings, or, when values never
+ * change, the coarsest of 1, 0.5, 0.1 that every value is a multiple of; never finer than `least`.
+ * A probe that reports whole percent moves in 1 % steps, so a steady bed reads the same for hours.
+ */
+export function resolutionOf(s: readonly Sample[], least: number): number {
+  let step = Number.POSITIVE_INFINITY;
+  for (let k = 1; k < s.length; k++) {
+    const d = Math.abs(s[k]!.v - s[k - 1]!.v);
+    if (d > 1e-9 && d < step) step = d;
+  }
+  const multiple = (q: number) => s.length > 0 && s.every((p) => Math.abs(p.v / q - Math.round(p.v / q)) < 1e-6);
+  const grain = [1, 0.5, 0.1].find(multiple) ?? least;
+  return Math.max(least, Math.min(step, grain));
+}
 
 /** Least-squares rate per hour over the window ending at sample i; null unless readings cover it. */
 export function rateAt(s: readonly Sample[], i: number, windowMs: number, maxGapMs: number): number | null {

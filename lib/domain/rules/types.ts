@@ -7,6 +7,9 @@ import type { AlertLevel, ResolvedRules, RuleKind, RuleOverrides } from "./param
 
 export type ZoneContext = { id: string; kind: ZoneKind; binName: string; zoneName?: string | null };
 
+/** The bin's bed, for how heavy a feeding is: its floor (bins.length_cm × width_cm) and how many zones share it. */
+export type BedContext = { lengthCm?: number | null; widthCm?: number | null; zoneCount?: number | null };
+
 /** One probe's readings of one metric (stored units: °C, % wet basis, ppm, ...). */
 export type ProbeSeries = { probeId: number; metric: Metric; points: readonly SeriesPoint[] };
 
@@ -53,6 +56,8 @@ export type ZoneRuleInput = {
   overrides?: RuleOverrides;
   /** resolveRules(species, overrides) when the caller already has it (it sized the lookback). */
   rules?: ResolvedRules;
+  /** The bin's size; without it a feeding is weighed against heat.heavyFeedKg alone. */
+  bed?: BedContext;
   /** Over lookback().readingsMs. */
   readings: readonly ProbeSeries[];
   /** The bin's feedings over lookback().feedingsMs; other zones' are ignored. */

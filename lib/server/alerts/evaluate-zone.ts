@@ -55,6 +55,7 @@ export async function evaluateZoneNow(
     zone: { id: ctx.zone.id, kind: ctx.zone.kind, binName: ctx.bin.name, zoneName: ctx.zone.name },
     species,
     rules,
+    bed: { lengthCm: ctx.bin.lengthCm, widthCm: ctx.bin.widthCm, zoneCount: ctx.zoneCount },
     readings: [...series.values()],
     recentFeedings: ctx.feedings.map((f) => ({ at: f.at.getTime(), zoneId: f.zoneId, mixMoisturePct: f.mixMoisturePct, mixCn: f.mixCn, totalKg: f.totalKg })),
     probes: ctx.probes.map((p) => ({
@@ -109,7 +110,7 @@ async function apply(t: Transition, farmId: string, binId: string, at: Date) {
   }
 }
 
-/** Reminds the crew of act-now alerts unclaimed for `afterMs`, and sends what quiet hours held back. */
+/** Reminds the crew of act-now alerts left unclaimed (after `afterMs`, then twice as long each time, at most three times), and sends what quiet hours held back. */
 export async function remindAndRelease(afterMs: number, at: Date) {
   for (const a of await takeDueReminders(afterMs, at)) await notifyAlert(a, "reminder", at);
   await deliverHeldAlerts(at);

@@ -1,0 +1,1 @@
+ALTER TABLE "alerts" ADD COLUMN "reminder_count" smallint DEFAULT 0 NOT NULL;
