@@ -100,11 +100,14 @@ function PreviewBody({ preview, word, system, timezone }: { preview: Preview; wo
         <span className="font-bold">{countWords(preview.proposed)}</span>
       </p>
       {same && <p className="text-sm">The change would have raised the same number of alerts.</p>}
-      <p className="text-sm text-soil-700">
-        The saved rules and your change, replayed through the same rules code over the stored readings and feedings, checked every {preview.stepMinutes} min
-        (the live rules check at each reading, so a start or an end may be up to {preview.stepMinutes} min off). An alert that grew from heads-up to act now
-        counts once, as act now.
-      </p>
+      <details className="text-sm text-soil-700">
+        <summary className="min-h-11 cursor-pointer py-2 font-bold">How this is worked out</summary>
+        <p>
+          The saved rules and your change are replayed through the same rules code the live alerts use, over this bin&apos;s stored readings and feedings,
+          checked every {preview.stepMinutes} min. The live rules check at each reading, so a start or an end here may be up to {preview.stepMinutes} min off,
+          and a spell that only just lasted long enough may be missed. An alert that grew from heads-up to act now counts once, as act now.
+        </p>
+      </details>
       {preview.zones.map((z) => (
         <ZonePreview key={z.id} zone={z} preview={preview} word={word} system={system} timezone={timezone} />
       ))}

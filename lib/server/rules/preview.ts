@@ -8,11 +8,11 @@
 // step can change, against the runner:
 // - a raise, an escalation or a settle is seen up to one step late (its hold is checked at the
 //   next step, over the readings up to then), so a span can start and end a few minutes later;
-// - a trigger that holds just long enough (its hold plus less than one step) and then stops can be
-//   missed: every reading inside the hold is still there, but no step falls in the short stretch
-//   where the hold is met. The preview can therefore count slightly fewer alerts than the runner
-//   would have raised; both columns (now and with the change) are counted the same way, so the
-//   comparison is fair.
+// - a trigger that holds for less than its hold plus one step can be missed: every reading is still
+//   there, but no step may fall in the short stretch after the hold is met and before it stops (at
+//   a 10-min step and the 10-min hold, a spell past a line is sure to count once it lasts 20 min).
+//   The preview can therefore count slightly fewer alerts than the runner would have raised; both
+//   columns (now and with the change) are counted the same way, so the comparison is fair.
 // A feeding is a step of its own, so the post-feed watch starts where the runner's would.
 import { getPreviewBin, listPreviewHistory } from "@/db/queries/preview-inputs";
 import { AppError } from "@/lib/domain/errors";
@@ -34,6 +34,7 @@ import type { RulePreviewInput } from "@/lib/domain/validation/rules";
 import type { Metric } from "@/lib/domain/vocabulary";
 import { zoneName } from "@/lib/domain/zone-words";
 import type { Who } from "@/lib/server/auth/authorize";
+import { recentMemo } from "./preview-memo";
 import { seriesByProbe, zoneReplayInput, type BinHistory } from "./replay-input";
 
 export const PREVIEW_DAYS = 30;
@@ -139,7 +140,7 @@ export function proposedOverrides(
  * Overrides that size replay()'s lookback for `kind` alone: the kind's own values, and every other
  * kind's durations at 0. replay() loads, at each step, as much history as lookback() says the
  * slowest rule needs (the drying trend's 24 h); the preview evaluates one kind, so the other kinds'
- * windows only cost time (about ten times as much per step for heat). The rules evaluated are the
+ * windows only cost time (three times as much per step for heat, tests/bench/preview.bench.ts). The rules evaluated are the
  * real ones, passed as `rules`; the silent-probe line is left alone, since every kind reads it.
  */
 export function lookbackSizing(kind: RuleKind, overrides: RuleOverrides): RuleOverrides {
@@ -155,6 +156,11 @@ export function lookbackSizing(kind: RuleKind, overrides: RuleOverrides): RuleOv
   return out;
 }
 
+// A month of one bin's readings takes about a second to read; two bins are kept. Replays are kept
+// per zone, kind and rules, so the saved rules' column is replayed once per window.
+const histories = recentMemo<Promise<Awaited<ReturnType<typeof listPreviewHistory>> & { series: ReturnType<typeof seriesByProbe> }>>(2);
+const replays = recentMemo<PreviewSpan[]>(64);
+
 /** The preview of one kind's unsaved change for a bin of the caller's farm. */
 export async function previewBinRule(who: Pick<Who, "farmId">, binId: string, input: RulePreviewInput, at = new Date()) {
   const checked = checkThresholds(input.kind, input.thresholds);
@@ -163,20 +169,23 @@ export async function previewBinRule(who: Pick<Who, "farmId">, binId: string, in
   const species = place && getSpecies(place.bin.species);
   if (!place || !species) throw new AppError("not_found", "Not found.");
 
-  const to = at.getTime();
+  // The window ends on a step boundary, so a few edits in a row share their history and the saved
+  // rules' replay (preview-memo.ts); readings of the last few minutes join at the next step.
+  const stepMs = PREVIEW_STEP_MINUTES * MINUTE;
+  const to = Math.floor(at.getTime() / stepMs) * stepMs;
   const from = to - PREVIEW_DAYS * DAY;
   const rows = place.rules as RuleRow[];
   const current = overridesFromRuleRows(rows, binId);
   const proposed = proposedOverrides(rows, binId, { kind: input.kind, enabled: input.enabled, thresholds: checked.value });
   // Enough history before the window that its first step sees every duration it needs.
   const reach = [current, proposed].map((o) => lookback(resolveRules(species, o)));
-  const history = await listPreviewHistory(
-    binId,
-    place.probes.map((p) => p.id),
-    new Date(from - Math.max(...reach.map((r) => r.readingsMs))),
-    at,
-    new Date(from - Math.max(...reach.map((r) => r.feedingsMs))),
-  );
+  const probeIds = place.probes.map((p) => p.id);
+  const readingsFrom = from - Math.max(...reach.map((r) => r.readingsMs));
+  const feedingsFrom = from - Math.max(...reach.map((r) => r.feedingsMs));
+  const history = await histories(`${binId}|${probeIds.join(",")}|${readingsFrom}|${feedingsFrom}|${to}`, async () => {
+    const rows = await listPreviewHistory(binId, probeIds, new Date(readingsFrom), new Date(to), new Date(feedingsFrom));
+    return { ...rows, series: seriesByProbe(rows.readings) };
+  });
   const h: BinHistory = {
     binName: place.bin.name,
     species,
@@ -187,22 +196,26 @@ export async function previewBinRule(who: Pick<Who, "farmId">, binId: string, in
     feedings: history.feedings,
     refusals: history.refusals,
   };
-  const series = seriesByProbe(history.readings);
+  const series = history.series;
   const times = previewTimes(
     from,
     to,
-    PREVIEW_STEP_MINUTES * MINUTE,
+    stepMs,
     history.feedings.map((f) => f.at.getTime()),
   );
   const lines = LINE_KEYS[input.kind];
   const t = resolveRules(species, proposed)[input.kind].t as Record<string, number>;
 
   const zones = place.zones.map((zone) => {
+    const zoneProbes = place.probes.filter((p) => p.zoneId === zone.id);
     const run = (o: RuleOverrides) =>
-      alertSpans(replay({ ...zoneReplayInput(zone, h, series, lookbackSizing(input.kind, o), [input.kind]), rules: resolveRules(species, o) }, times));
+      replays(
+        `${zone.id}|${zoneProbes.map((p) => `${p.id}:${p.reportIntervalS}`).join(",")}|${species.id}|${place.farm.timezone}|${input.kind}|${to}|${JSON.stringify(o)}`,
+        () => alertSpans(replay({ ...zoneReplayInput(zone, h, series, lookbackSizing(input.kind, o), [input.kind]), rules: resolveRules(species, o) }, times)),
+      );
     const nowSpans = run(current);
-    const spans = JSON.stringify(current) === JSON.stringify(proposed) ? nowSpans : run(proposed);
-    const zoneSeries = place.probes.filter((p) => p.zoneId === zone.id).flatMap((p) => series.get(p.id) ?? []);
+    const spans = run(proposed);
+    const zoneSeries = zoneProbes.flatMap((p) => series.get(p.id) ?? []);
     const hasAmmonia = zoneSeries.some((s) => s.metric === "ammonia" && s.points.some((p) => p.t >= from));
     const metric = input.kind === "ammonia" && !hasAmmonia ? "temperature" : PREVIEW_METRIC[input.kind];
     const line = hourlyLine(zoneSeries, metric, from, to);
