@@ -85,7 +85,7 @@ export function PreviewChart(p: Props) {
             ctx.save();
             for (const s of p.spans) {
               const a = x(s.from);
-              const b = Math.max(x(s.to ?? p.to), a + 2 * uPlot.pxRatio);
+              const b = Math.max(x(s.to ?? p.to), a + 3 * uPlot.pxRatio);
               ctx.fillStyle = withAlpha(alertFill, s.strong ? (dark ? 0.5 : 0.42) : dark ? 0.3 : 0.22);
               ctx.fillRect(a, top, b - a, height);
               // A firm edge where each would-be alert begins.
@@ -96,7 +96,7 @@ export function PreviewChart(p: Props) {
             ctx.fillStyle = soil;
             for (const s of p.nowSpans) {
               const a = x(s.from);
-              const b = Math.max(x(s.to ?? p.to), a + 2 * uPlot.pxRatio);
+              const b = Math.max(x(s.to ?? p.to), a + 3 * uPlot.pxRatio);
               ctx.fillRect(a, top + height - strip, b - a, strip);
             }
             ctx.restore();

@@ -160,8 +160,8 @@ function ZonePreview({
       {t.length > 0 ? (
         <>
           <p className="text-sm text-soil-700">
-            {metricWord} ({unit}), hourly means. Shaded: where your change would have raised an alert (darker: act now); the strip along the bottom: the saved
-            rules&apos; alerts; dashed: the heads-up and act-now lines.
+            {metricWord} ({unit}), hourly. Shaded from where each of your change&apos;s alerts begins to where it ends (darker: act now); the strip below: the
+            saved rules&apos; alerts; dashed: the heads-up and act-now lines.
           </p>
           <PreviewChart
             t={t}
