@@ -3,7 +3,7 @@
 // same readings and feedings; nothing is stored; keepers and viewers are refused; another farm's
 // bin is not found.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { replay, type ReplayInput } from "@/lib/domain/rules";
+import { ALERT_KINDS, replay, type ReplayInput } from "@/lib/domain/rules";
 import { speciesProfiles } from "@/lib/domain/species";
 import { PREVIEW_STEP_MINUTES, previewTimes } from "@/lib/server/rules/preview";
 import { crewFarm, json, newBin, type Crew } from "../logbook/helpers";
@@ -94,6 +94,17 @@ describe("POST /api/bins/[binId]/rules/preview", () => {
 
     // A preview stores nothing.
     expect((await crew.db.query(`select count(*)::int as n from rules where farm_id = $1`, [crew.farmId])).rows[0].n).toBe(before);
+  });
+
+  it("every kind previews, each drawn on its own metric, an unchanged rule giving the same counts twice", async () => {
+    for (const kind of ALERT_KINDS) {
+      const res = await crew.owner.fetch(`/api/bins/${bin.id}/rules/preview`, { method: "POST", json: { kind } });
+      expect(res.status, kind).toBe(200);
+      const answer = await json<Answer & { kind: string; zones: { metric: string }[] }>(res);
+      expect(answer.kind).toBe(kind);
+      expect(answer.proposed, kind).toEqual(answer.now);
+      expect(answer.zones[0]!.metric, kind).toBe(kind === "drying" || kind === "soggy" ? "moisture" : "temperature");
+    }
   });
 
   it("a keeper and a viewer are refused in words", async () => {
