@@ -72,7 +72,7 @@ export function RulePreview({
       <div aria-live="polite" className="space-y-2">
         {state.status === "loading" && (
           <p className="text-soil-700" role="status">
-            Replaying this bin&apos;s last 30 days…
+            Replaying this bin&apos;s last 30 days; this can take a few seconds…
           </p>
         )}
         {state.status === "error" && (
