@@ -5,7 +5,7 @@ import { PreviewChart, type ChartSpan } from "@/components/charts/preview-chart"
 import { Mark, type MarkName } from "@/components/ui/marks";
 import { failureOf, send } from "@/lib/client/fetcher";
 import type { RulePreview as Preview } from "@/lib/client/wire";
-import { LEVEL_WORDS } from "@/lib/domain/alert-words";
+import { cautionFor, LEVEL_WORDS } from "@/lib/domain/alert-words";
 import type { RuleKind } from "@/lib/domain/rules/params";
 import { temperatureForDisplay, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import type { KindState } from "./rule-card";
@@ -93,6 +93,9 @@ function PreviewBody({ preview, word, system, timezone }: { preview: Preview; wo
     return <p>This bin has no readings in the last {preview.days} days, so there is nothing to replay the rule on.</p>;
   }
   const same = preview.now.heads_up === preview.proposed.heads_up && preview.now.act_now === preview.proposed.act_now;
+  const fewer =
+    preview.proposed.heads_up + preview.proposed.act_now < preview.now.heads_up + preview.now.act_now || preview.proposed.act_now < preview.now.act_now;
+  const caution = cautionFor(preview.kind);
   return (
     <>
       <p data-testid="preview-counts" className="tabular text-lg leading-snug">
@@ -100,6 +103,14 @@ function PreviewBody({ preview, word, system, timezone }: { preview: Preview; wo
         <span className="font-bold">{countWords(preview.proposed)}</span>
       </p>
       {same && <p className="text-sm">The change would have raised the same number of alerts.</p>}
+      {fewer && caution && (
+        <p className="flex gap-1 text-sm font-bold">
+          <Mark name="caution" className="mt-1" />
+          <span>
+            Fewer {word.toLowerCase()} alerts means later warning. {caution}
+          </span>
+        </p>
+      )}
       <details className="text-sm text-soil-700">
         <summary className="min-h-11 cursor-pointer py-2 font-bold">How this is worked out</summary>
         <p>
