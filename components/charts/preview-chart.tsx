@@ -3,6 +3,7 @@
 import { useEffect, useRef } from "react";
 import uPlot from "uplot";
 import "uplot/dist/uPlot.min.css";
+import { Mark, type MarkName } from "@/components/ui/marks";
 import { formatNumber } from "@/lib/domain/units";
 import { paletteColor, useColorScheme, withAlpha } from "./theme-colors";
 
@@ -22,6 +23,8 @@ type Props = {
   /** Heads-up and act-now lines in display units, drawn dashed. */
   lines: { headsUp: number | null; actNow: number | null } | null;
   color: string;
+  /** The kind's mark, set above the plot where each would-be alert begins. */
+  mark: MarkName;
   /** What the chart shows, for screen readers (the spans are listed in words beside it). */
   label: string;
 };
@@ -43,6 +46,7 @@ function dayLabels(timeZone: string) {
 // lines dashed. uPlot draws on a canvas; the words beside the chart say the same.
 export function PreviewChart(p: Props) {
   const box = useRef<HTMLDivElement>(null);
+  const starts = useRef<(HTMLSpanElement | null)[]>([]);
   const scheme = useColorScheme();
 
   useEffect(() => {
@@ -127,7 +131,17 @@ export function PreviewChart(p: Props) {
       },
     };
     const plot = new uPlot(opts, [p.t as number[], p.v as number[]], el);
-    const ro = new ResizeObserver(() => plot.setSize({ width: el.clientWidth || 320, height: HEIGHT }));
+    // The marks above the plot, moved to where each span begins (CSSOM: no style attributes).
+    const placeMarks = () =>
+      p.spans.forEach((s, i) => {
+        const m = starts.current[i];
+        if (m) m.style.left = `${plot.bbox.left / uPlot.pxRatio + plot.valToPos(Math.max(s.from, p.from), "x")}px`;
+      });
+    placeMarks();
+    const ro = new ResizeObserver(() => {
+      plot.setSize({ width: el.clientWidth || 320, height: HEIGHT });
+      placeMarks();
+    });
     ro.observe(el);
     return () => {
       ro.disconnect();
@@ -135,5 +149,22 @@ export function PreviewChart(p: Props) {
     };
   }, [p.t, p.v, p.from, p.to, p.timezone, p.spans, p.nowSpans, p.lines, p.color, scheme]);
 
-  return <div ref={box} role="img" aria-label={p.label} className="w-full" />;
+  return (
+    <div>
+      <div aria-hidden="true" className="relative h-4">
+        {p.spans.map((s, i) => (
+          <span
+            key={`${s.from}:${i}`}
+            ref={(m) => {
+              starts.current[i] = m;
+            }}
+            className={`absolute top-0 -translate-x-1/2 ${s.strong ? "text-clay-700" : "text-clay-500"}`}
+          >
+            <Mark name={p.mark} />
+          </span>
+        ))}
+      </div>
+      <div ref={box} role="img" aria-label={p.label} className="w-full" />
+    </div>
+  );
 }

@@ -171,8 +171,8 @@ function ZonePreview({
       {t.length > 0 ? (
         <>
           <p className="text-sm text-soil-700">
-            {metricWord} ({unit}), hourly. Shaded from where each of your change&apos;s alerts begins to where it ends (darker: act now); the strip below: the
-            saved rules&apos; alerts; dashed: the heads-up and act-now lines.
+            {metricWord} ({unit}), hourly. Shaded from where each of your change&apos;s alerts begins (its mark above) to where it ends (darker: act now); the
+            strip below: the saved rules&apos; alerts; dashed: the heads-up and act-now lines.
           </p>
           <PreviewChart
             t={t}
@@ -184,6 +184,7 @@ function ZonePreview({
             nowSpans={nowSpans}
             lines={lines}
             color={zone.metric === "moisture" ? "--color-slate-500" : "--color-clay-700"}
+            mark={KIND_MARK[preview.kind]}
             label={`${metricWord} of ${zone.name} over the last ${preview.days} days with ${zone.spans.length} would-be ${word.toLowerCase()} alerts shaded`}
           />
         </>
