@@ -1,11 +1,12 @@
 "use client";
 
-import { useState } from "react";
+import { useMemo, useState } from "react";
 import type { RuleKindRow, RuleParam } from "@/lib/client/wire";
 import { formatNumber, type UnitSystem } from "@/lib/domain/units";
 import { ruleInWords, sourceInWords } from "@/lib/domain/rules/summary";
 import type { RuleKind } from "@/lib/domain/rules/params";
 import { Mark } from "@/components/ui/marks";
+import { RulePreview } from "./rule-preview";
 import { fromShown, toShown, unitLabel } from "./rule-units";
 
 export type KindState = { enabled: boolean; thresholds: Record<string, number> };
@@ -16,6 +17,8 @@ export type RuleMessage = { ok?: string; error?: string; fieldErrors?: Record<st
 const shown = (n: number) => formatNumber(n, Number.isInteger(n) ? 0 : Math.min(4, String(n).split(".")[1]?.length ?? 1));
 
 type Props = {
+  binId: string;
+  timezone: string;
   row: RuleKindRow;
   word: string;
   own: { enabled?: boolean; thresholds?: Record<string, number> } | undefined;
@@ -31,7 +34,7 @@ type Props = {
 
 // One alert kind: its switch, each number with the species default and where that default comes from,
 // and (for owners) an input holding this bin's own value; blank means "use the default".
-export function RuleCard({ row, word, own, effective, system, canEdit, busy, message, onSave, onReset, onInvalid }: Props) {
+export function RuleCard({ binId, timezone, row, word, own, effective, system, canEdit, busy, message, onSave, onReset, onInvalid }: Props) {
   const ownT = own?.thresholds ?? {};
   const initialText = (p: RuleParam) => (ownT[p.key] === undefined ? "" : String(toShown(p.key, p.unit, ownT[p.key]!, system)));
   const [enabled, setEnabled] = useState(effective.enabled);
@@ -40,8 +43,8 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
   const hasOwn = own !== undefined;
   const errors = message?.fieldErrors ?? {};
 
-  function submit(e: React.FormEvent) {
-    e.preventDefault();
+  /** The card's values as a PUT would send them, or the first field that is not a number. */
+  function parse(): { state: KindState } | { field: string } {
     const thresholds: Record<string, number> = {};
     for (const p of row.params) {
       const text = (texts[p.key] ?? "").trim();
@@ -52,14 +55,27 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
         continue;
       }
       const n = Number(text.replace(",", "."));
-      if (!Number.isFinite(n)) {
-        onInvalid({ error: "Check the marked field.", fieldErrors: { [p.key]: "Give a number, or leave it blank for the default." } });
-        return;
-      }
+      if (!Number.isFinite(n)) return { field: p.key };
       thresholds[p.key] = fromShown(p.key, p.unit, n, system);
     }
-    onSave({ enabled, thresholds });
+    return { state: { enabled, thresholds } };
   }
+
+  function submit(e: React.FormEvent) {
+    e.preventDefault();
+    const parsed = parse();
+    if ("field" in parsed) {
+      onInvalid({ error: "Check the marked field.", fieldErrors: { [parsed.field]: "Give a number, or leave it blank for the default." } });
+      return;
+    }
+    onSave(parsed.state);
+  }
+
+  // Changed from what is stored? Then the preview shows what the change would have raised.
+  const dirty = enabled !== effective.enabled || row.params.some((p) => (texts[p.key] ?? "").trim() !== initialText(p));
+  const parsed = canEdit && dirty ? parse() : null;
+  const changeKey = parsed && "state" in parsed ? JSON.stringify(parsed.state) : null;
+  const change = useMemo(() => (changeKey ? (JSON.parse(changeKey) as KindState) : null), [changeKey]);
 
   return (
     <section id={id} aria-labelledby={`${id}-h`} className="scroll-mt-20 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
@@ -155,6 +171,9 @@ export function RuleCard({ row, word, own, effective, system, canEdit, busy, mes
             ))}
           </dl>
         </details>
+
+        {change && <RulePreview binId={binId} kind={row.kind as RuleKind} word={word} change={change} system={system} timezone={timezone} />}
+        {parsed && "field" in parsed && <p className="text-sm text-soil-700">The preview waits for a number in every box you have filled.</p>}
 
         {canEdit && (
           <div className="grid grid-cols-2 gap-2">

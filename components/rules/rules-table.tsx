@@ -14,9 +14,11 @@ export function RulesTable({
   initial,
   words,
   system,
+  timezone,
   canEdit,
 }: {
   binId: string;
+  timezone: string;
   initial: BinRules;
   words: Record<string, string>;
   system: UnitSystem;
@@ -68,6 +70,8 @@ export function RulesTable({
           <RuleCard
             // a fresh card after each save or reset, so the inputs show what is stored
             key={`${d.kind}:${JSON.stringify(own ?? null)}`}
+            binId={binId}
+            timezone={timezone}
             row={d}
             word={words[d.kind] ?? d.kind}
             own={own}

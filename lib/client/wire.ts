@@ -21,6 +21,7 @@ import type { rotateProbeToken } from "@/lib/server/probes/rotate-token";
 import type { pushPublicKey } from "@/lib/server/push/public-key";
 import type { testPush } from "@/lib/server/push/test-push";
 import type { binRulesView } from "@/lib/server/rules/bin-rules-view";
+import type { previewBinRule } from "@/lib/server/rules/preview";
 
 type Answer<F extends (...args: never[]) => unknown> = Wire<Awaited<ReturnType<F>>>;
 
@@ -58,6 +59,8 @@ export type RotatedToken = Answer<typeof rotateProbeToken>;
 export type BinRules = Answer<typeof binRulesView>;
 export type RuleKindRow = BinRules["defaults"][number];
 export type RuleParam = RuleKindRow["params"][number];
+/** What an unsaved change to one kind would have raised over the bin's last 30 days, beside the saved rules. */
+export type RulePreview = Answer<typeof previewBinRule>;
 /** A new bin with its zones. */
 export type AddedBin = Answer<typeof addBin>;
 /** What importing a logger CSV answers. */

@@ -12,3 +12,12 @@ export type BinRuleInput = z.output<typeof binRuleInput>;
 
 /** DELETE /api/bins/[binId]/rules?kind=heat: back to the species defaults for one kind. */
 export const binRuleReset = z.object({ kind: z.enum(ALERT_KINDS) });
+
+/** POST /api/bins/[binId]/rules/preview: the card's unsaved values, as a PUT would send them (the
+ * thresholds are checked key by key the same way before anything is replayed). */
+export const rulePreviewInput = z.object({
+  kind: z.enum(ALERT_KINDS),
+  enabled: z.boolean().default(true),
+  thresholds: z.record(z.string(), z.unknown()).default({}),
+});
+export type RulePreviewInput = z.output<typeof rulePreviewInput>;

@@ -95,6 +95,14 @@ const rows: Row[] = [
     farmScoped: true,
   },
   { method: "DELETE", route: "bins/[binId]/rules", path: (i) => `/api/bins/${i.bin}/rules?kind=heat`, allowed: OWNER, farmScoped: true },
+  {
+    method: "POST",
+    route: "bins/[binId]/rules/preview",
+    path: (i) => `/api/bins/${i.bin}/rules/preview`,
+    body: () => ({ kind: "heat", thresholds: { headsUpAboveC: 24 } }),
+    allowed: OWNER,
+    farmScoped: true,
+  },
   { method: "GET", route: "farms/[farmId]/probes", path: (i) => `/api/farms/${i.farm}/probes`, allowed: ALL, farmScoped: true },
   {
     method: "POST",

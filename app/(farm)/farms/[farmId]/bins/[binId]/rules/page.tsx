@@ -30,11 +30,12 @@ export default async function BinRulesPage({ params }: { params: Promise<{ farmI
         </Link>
         <h1 className="text-3xl font-bold">Alert rules</h1>
         <p className="text-sm text-soil-700">
-          {bin.name} · <i>{species.name}</i> ({species.commonName}). Defaults come from the species; a blank box keeps the default.
+          {bin.name} · <i>{species.name}</i> ({species.commonName}). Defaults come from the species; a blank box keeps the default. Change a number to see what
+          it would have raised over the last 30 days before you save.
         </p>
         {!owner && <p className="mt-2 rounded-xl bg-soil-100 p-3">Only an owner of {farm.name} can change these rules.</p>}
       </div>
-      <RulesTable binId={binId} initial={initial} words={KIND_WORDS} system={farm.unitSystem} canEdit={owner} />
+      <RulesTable binId={binId} initial={initial} words={KIND_WORDS} system={farm.unitSystem} timezone={farm.timezone} canEdit={owner} />
     </main>
   );
 }
