@@ -1,6 +1,19 @@
+// Building an Intl.DateTimeFormat costs far more than using one, and the rules build words many times
+// a second on a replay: one formatter per zone and options, kept (time zones are few).
+const formatters = new Map<string, Intl.DateTimeFormat>();
+function formatter(locale: string, opts: Intl.DateTimeFormatOptions): Intl.DateTimeFormat {
+  const key = `${locale}|${JSON.stringify(opts)}`;
+  let f = formatters.get(key);
+  if (!f) {
+    f = new Intl.DateTimeFormat(locale, opts);
+    formatters.set(key, f);
+  }
+  return f;
+}
+
 // The wall clock of a time zone at an instant, as numbers (Intl has no direct call for it).
 function wallParts(utcMs: number, timeZone: string) {
-  const parts = new Intl.DateTimeFormat("en-US", {
+  const parts = formatter("en-US", {
     timeZone,
     hourCycle: "h23",
     year: "numeric",
@@ -42,9 +55,9 @@ export function zonedToUtc(wall: number, timeZone: string): number {
 export function zonedFormat(timeZone: string, opts: Intl.DateTimeFormatOptions): (t: string | number | Date) => string {
   let fmt: Intl.DateTimeFormat;
   try {
-    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, hourCycle: "h23", timeZone });
+    fmt = formatter("en-GB", { ...opts, hourCycle: "h23", timeZone });
   } catch {
-    fmt = new Intl.DateTimeFormat("en-GB", { ...opts, hourCycle: "h23", timeZone: "UTC" });
+    fmt = formatter("en-GB", { ...opts, hourCycle: "h23", timeZone: "UTC" });
   }
   return (t) => fmt.format(new Date(t));
 }

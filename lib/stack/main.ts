@@ -149,9 +149,11 @@ async function test(extra: string[]) {
 
 async function bench() {
   ensureOsPackages(["openssl"]);
-  const file = "tests/bench/ingest.bench.ts";
-  if (!exists(file)) throw new Error(`${file} is missing`);
-  run(bin("tsx"), [file]);
+  // Each bench starts its own throwaway cluster; they run one after the other.
+  for (const file of ["tests/bench/ingest.bench.ts", "tests/bench/preview.bench.ts"]) {
+    if (!exists(file)) throw new Error(`${file} is missing`);
+    run(bin("tsx"), [file]);
+  }
 }
 
 const [cmd = "start", ...rest] = process.argv.slice(2);

@@ -138,6 +138,7 @@ async function main() {
       species: speciesProfiles["eisenia-fetida"],
       unitSystem: "metric" as const,
       timeZone: "UTC",
+      bed: { lengthCm: null, widthCm: null, zoneCount: 3 },
       probes: [
         {
           id: probeIds[0]!,

@@ -198,6 +198,7 @@ export async function previewBinRule(who: Pick<Who, "farmId">, binId: string, in
     species,
     unitSystem: place.farm.unitSystem,
     timeZone: place.farm.timezone,
+    bed: { lengthCm: place.bin.lengthCm, widthCm: place.bin.widthCm, zoneCount: place.zones.length },
     probes: place.probes,
     readings: history.readings,
     feedings: history.feedings,
@@ -217,7 +218,7 @@ export async function previewBinRule(who: Pick<Who, "farmId">, binId: string, in
     const zoneProbes = place.probes.filter((p) => p.zoneId === zone.id);
     const run = (o: RuleOverrides) =>
       replays(
-        `${zone.id}|${zoneProbes.map((p) => `${p.id}:${p.reportIntervalS}`).join(",")}|${species.id}|${place.farm.timezone}|${input.kind}|${to}|${JSON.stringify(o)}`,
+        `${zone.id}|${zoneProbes.map((p) => `${p.id}:${p.reportIntervalS}`).join(",")}|${species.id}|${place.farm.timezone}|${place.bin.lengthCm}x${place.bin.widthCm}/${place.zones.length}|${input.kind}|${to}|${JSON.stringify(o)}`,
         () => alertSpans(replay({ ...zoneReplayInput(zone, h, series, lookbackSizing(input.kind, o), [input.kind]), rules: resolveRules(species, o) }, times)),
       );
     const nowSpans = run(current);

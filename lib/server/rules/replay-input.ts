@@ -1,7 +1,7 @@
 // One zone's rule input for replay(), built from database rows the way the live runner builds its
 // ZoneRuleInput (lib/server/alerts/evaluate-zone.ts): each probe's readings grouped per metric, the
 // bin's feedings, the zone's probes with their refusals. The preview replays exactly this.
-import type { ReplayInput, RuleOverrides } from "@/lib/domain/rules";
+import type { BedContext, ReplayInput, RuleOverrides } from "@/lib/domain/rules";
 import type { SpeciesProfile } from "@/lib/domain/species";
 import type { UnitSystem } from "@/lib/domain/units";
 import type { Metric, ZoneKind } from "@/lib/domain/vocabulary";
@@ -18,6 +18,8 @@ export type BinHistory = {
   species: SpeciesProfile;
   unitSystem: UnitSystem;
   timeZone: string;
+  /** The bin's floor and how many zones share it: how heavy a feeding is (as the live runner reads it). */
+  bed: BedContext;
   probes: readonly ProbeRow[];
   readings: readonly SeriesRow[];
   feedings: readonly FeedingRow[];
@@ -47,6 +49,7 @@ export function zoneReplayInput(
   return {
     zone: { id: zone.id, kind: zone.kind, binName: h.binName, zoneName: zone.name },
     species: h.species,
+    bed: h.bed,
     overrides,
     readings: zoneProbes.flatMap((p) => series.get(p.id) ?? []),
     recentFeedings: h.feedings.map((f) => ({ at: f.at.getTime(), zoneId: f.zoneId, mixMoisturePct: f.mixMoisturePct, mixCn: f.mixCn, totalKg: f.totalKg })),
