@@ -17,6 +17,8 @@ export const BEFORE_MS = 6 * 3_600_000;
 /** …and runs this long past its settling, to show that it held. */
 export const AFTER_MS = 1 * 3_600_000;
 
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
 /** "12 min", "2 h 5 min", "3 days 4 h" */
 export function durationWords(ms: number): string {
   const min = Math.max(0, Math.round(ms / 60_000));
@@ -65,6 +67,7 @@ export function eventWords(e: Event): string {
  * in words with how long after the raise it came, and the settle note. Null when the alert is not
  * this farm's: the page then answers not found, as for an alert that does not exist. */
 export async function alertPageView(who: Pick<Who, "farmId">, alertId: string) {
+  if (!UUID.test(alertId)) return null;
   const row = await getAlertWithPlace(alertId);
   if (!row || row.alert.farmId !== who.farmId) return null;
   const { alert } = row;
