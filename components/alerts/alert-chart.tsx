@@ -23,6 +23,8 @@ type Props = {
   raisedAt: string;
   settledAt: string | null;
   feedings: Feeding[];
+  /** While the alert is open, "a heat alert": a value inside the band then never reads "comfortable". */
+  openAlert: string | null;
 };
 
 // The zone's chart around one alert: the same chart as the zone page, over the alert's window, with
@@ -52,7 +54,7 @@ export function AlertChart(p: Props) {
       color={METRIC_COLORS[p.metric]}
       marks={marks}
       moments={moments}
-      describe={(v) => describeMetric(p.metric, v, profile, p.ammonia, p.system)}
+      describe={(v) => describeMetric(p.metric, v, profile, p.ammonia, p.system, p.openAlert)}
     />
   );
 }

@@ -243,6 +243,9 @@ export function ZoneChart(p: Props) {
             ctx.strokeStyle = ink;
             ctx.lineWidth = 2 * r;
             ctx.font = `bold ${12 * r}px ${getComputedStyle(el).fontFamily}`;
+            // Two moments close together put their words on separate rows.
+            let lastRight = -Infinity;
+            let row = 0;
             for (const m of moments) {
               const x = Math.round(u.valToPos(m.t, "x", true));
               ctx.beginPath();
@@ -251,7 +254,10 @@ export function ZoneChart(p: Props) {
               ctx.stroke();
               const w = ctx.measureText(m.label).width;
               const right = x + 4 * r + w <= u.bbox.left + u.bbox.width;
-              ctx.fillText(m.label, right ? x + 4 * r : x - 4 * r - w, u.bbox.top + 22 * r);
+              const left = right ? x + 4 * r : x - 4 * r - w;
+              row = left < lastRight + 4 * r ? row + 1 : 0;
+              lastRight = left + w;
+              ctx.fillText(m.label, left, u.bbox.top + (22 + 16 * row) * r);
             }
             ctx.restore();
           },

@@ -27,6 +27,8 @@ type Props = {
   ammonia: AmmoniaLines;
   system: UnitSystem;
   timezone: string;
+  /** Per metric, the open alert on it in words ("a heat alert"), so its values never read "comfortable". */
+  openAlerts?: Partial<Record<ChartMetric, string>>;
   /** The zone's newest reading of each metric, as the page read it. */
   latest?: Partial<Record<ChartMetric, ChartReading>>;
 };
@@ -74,7 +76,7 @@ export function ZoneCharts(p: Props) {
             timezone={p.timezone}
             color={METRIC_COLORS[m]}
             marks={marks}
-            describe={(v) => describeMetric(m, v, profile, p.ammonia, p.system)}
+            describe={(v) => describeMetric(m, v, profile, p.ammonia, p.system, p.openAlerts?.[m])}
           />
           {/* The ammonia chart carries the same caution as an ammonia alert. */}
           {m === "ammonia" && <p className="text-sm font-bold">{AMMONIA_CHART_CAUTION}</p>}

@@ -118,6 +118,7 @@ export default async function AlertPage({ params }: Params) {
               raisedAt={a.raisedAt.toISOString()}
               settledAt={a.settledAt?.toISOString() ?? null}
               feedings={toWire(view.feedings).feedings}
+              openAlert={open ? `this ${KIND_WORDS[a.kind].toLowerCase()} alert` : null}
             />
           </section>
         </SWRConfig>

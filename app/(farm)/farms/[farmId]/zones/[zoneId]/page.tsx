@@ -177,6 +177,12 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
           system={system}
           timezone={timezone}
           latest={view.latest}
+          openAlerts={Object.fromEntries(
+            [...openAlerts]
+              .reverse()
+              .filter((a) => ALERT_BAND[a.kind] !== "no reading")
+              .map((a) => [a.metric, withArticle(`${KIND_WORDS[a.kind].toLowerCase()} alert`)]),
+          )}
         />
       </SWRConfig>
 
