@@ -233,18 +233,14 @@ export function ImportForm({ farmId, probes, timezone }: { farmId: string; probe
       )}
 
       <div aria-live="polite" className="space-y-2">
-        {failure && !failure.field && (
-          <p className="flex items-center gap-1 rounded-xl bg-clay-100 p-3 font-bold text-clay-700">
+        {failure && !failure.field && <p className="flex items-center gap-1 rounded-xl bg-clay-100 p-3 font-bold text-clay-700">
             <Mark name="error" />
             {failure.message}
-          </p>
-        )}
-        {failure?.field && (
-          <p className="flex items-center gap-1 font-bold text-clay-700">
+          </p>}
+        {failure?.field && <p className="flex items-center gap-1 font-bold text-clay-700">
             <Mark name="error" />
             Fix the field marked above.
-          </p>
-        )}
+          </p>}
         {outcome && <Result outcome={outcome} />}
       </div>
 
@@ -279,8 +275,7 @@ function Result({ outcome }: { outcome: ImportResult }) {
         {i.rowsRejected > 0 && (
           <>
             {" "}
-            ·{" "}
-            <span className="inline-flex items-center gap-1 text-clay-700">
+            · <span className="inline-flex items-center gap-1 text-clay-700">
               <Mark name="error" />
               {rows(i.rowsRejected, "rows")} refused
             </span>
