@@ -192,6 +192,7 @@ describe("an alert leads to the data", () => {
     expect(values).not.toMatch(/Temperature[^M]*comfortable/);
     // Where it is heading, in words: 2 °C/h over the last hour (E. fetida band from the species profile).
     expect(await page.locator('[data-heading="temperature"]').textContent()).toMatch(/Rising 2\.0 °C\/h over the last hour/);
+    await page.screenshot({ path: screenshotPath("zone-open-alert"), fullPage: true });
     await open.getByRole("link", { name: /Open the alert/ }).click();
     await page.waitForURL(new RegExp(`/alerts/${ids.hot}$`));
     expect(pageErrors.get(page)).toEqual([]);
