@@ -70,16 +70,18 @@ function ZoneRow({ zone, bin, units, farmId, alerts }: { zone: Zone; bin: Bin; u
         <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
       </div>
       {/* The zone's open alerts come before its values. */}
-      {alerts.map((a) => (
-        <Link
-          key={a.id}
-          href={`/farms/${farmId}/alerts/${a.id}`}
-          className="mt-1 flex min-h-11 items-center gap-1.5 rounded-lg bg-paper px-2 font-bold underline underline-offset-4 ring-1 ring-soil-300"
-        >
-          <Mark name={a.level === "act_now" ? "actNow" : "headsUp"} />
-          {LEVEL_WORDS[a.level]}: {KIND_WORDS[a.kind]} alert open
-        </Link>
-      ))}
+      {[...alerts]
+        .sort((x, y) => Number(y.level === "act_now") - Number(x.level === "act_now"))
+        .map((a) => (
+          <Link
+            key={a.id}
+            href={`/farms/${farmId}/alerts/${a.id}`}
+            className="mt-1 flex min-h-11 items-center gap-1.5 rounded-lg bg-paper px-2 font-bold underline underline-offset-4 ring-1 ring-soil-300"
+          >
+            <Mark name={a.level === "act_now" ? "actNow" : "headsUp"} />
+            {LEVEL_WORDS[a.level]}: {KIND_WORDS[a.kind]} alert open
+          </Link>
+        ))}
       <div className="mt-2 grid grid-cols-2 gap-3">
         <Reading
           title="Temperature"

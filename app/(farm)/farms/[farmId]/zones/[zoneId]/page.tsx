@@ -197,7 +197,7 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
           </Link>
         </p>
         {earlier.length === 0 ? (
-          <p className="mt-2">None. This zone has been quiet.</p>
+          <p className="mt-2">None settled here in the last 30 days.</p>
         ) : (
           <ul className="mt-2 space-y-2">
             {earlier.map((a) => (
