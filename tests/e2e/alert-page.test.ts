@@ -13,6 +13,8 @@ import { launchBrowser, PHONE, screenshotPath } from "../helpers/browser";
 // The app's own database, not the worker's: the browser must see what this file makes.
 process.env.DATABASE_URL = inject("appDbUrl");
 process.env.APP_URL = appUrl();
+// Mail on too, so the outbox row carries the e-mail a person gets when their pushes fail.
+process.env.SMTP_PORT = String(inject("smtpPort"));
 const { db } = await import("@/db");
 const { getAlertRow, raiseAlert } = await import("@/db/queries/alerts");
 const { insertReadings } = await import("@/db/queries/readings");
@@ -143,9 +145,10 @@ const top = (page: Page, selector: string) =>
 describe("an alert leads to the data", () => {
   it("A: the queued push opens the alert's page; the keeper claims, settles with a note, and finds it under settled", async () => {
     const row = (await db().execute(sql`select payload from deliveries where alert_id = ${ids.heat} and channel = 'push'`)).rows[0] as {
-      payload: { push: { url: string; alertId: string } };
+      payload: { push: { url: string; alertId: string }; mail: { text: string } };
     };
     expect(row.payload.push.url).toBe(`/farms/${farmId}/alerts/${ids.heat}`);
+    expect(row.payload.mail.text).toContain(`${appUrl()}/farms/${farmId}/alerts/${ids.heat}`);
     const page = await signedIn();
     await page.goto(new URL(row.payload.push.url, appUrl()).href);
     await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent(), SLOW).toBe("Heat alert");
@@ -193,6 +196,12 @@ describe("an alert leads to the data", () => {
     // Where it is heading, in words: 2 °C/h over the last hour (E. fetida band from the species profile).
     expect(await page.locator('[data-heading="temperature"]').textContent()).toMatch(/Rising 2\.0 °C\/h over the last hour/);
     await page.screenshot({ path: screenshotPath("zone-open-alert"), fullPage: true });
+    // At 30 days the chart draws hourly means, but its "latest" is still the newest reading, 22.0 °C
+    // (the last hour's mean of a 2 °C/h rise would be about 21 °C).
+    const chart = page.locator('figure[data-metric="temperature"]');
+    await page.getByRole("group", { name: "Chart window" }).getByRole("button", { name: "30 days" }).click();
+    await expect.poll(() => chart.locator("figcaption").textContent(), SLOW).toContain("hourly means");
+    await expect.poll(() => chart.locator("p[aria-live]").textContent(), SLOW).toMatch(/^Latest 22\.0 °C, in the band, but a heat alert is open/);
     await open.getByRole("link", { name: /Open the alert/ }).click();
     await page.waitForURL(new RegExp(`/alerts/${ids.hot}$`));
     expect(pageErrors.get(page)).toEqual([]);

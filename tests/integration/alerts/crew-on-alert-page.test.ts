@@ -138,6 +138,14 @@ describe("claim, release and settle from the alert's page", () => {
     const bad = await people.keeperA.fetch(`/api/farms/${farms.a.farm}/alerts?kind=flood`);
     expect(bad.status).toBe(422);
     expect(((await bad.json()) as { error: { field?: string } }).error.field).toBe("kind");
+    // A viewer reads an alert's page, told plainly that claiming and settling are for the crew.
+    const viewerPage = await people.viewerA.fetch(`/farms/${farms.a.farm}/alerts/${mine}`);
+    expect(viewerPage.status).toBe(200);
+    const text = await viewerPage.text();
+    expect(text).toContain("Claiming and settling it are for the farm");
+    expect(text).not.toContain("Settle this alert");
+    const keeperPage = await (await people.keeperA.fetch(`/farms/${farms.a.farm}/alerts/${mine}`)).text();
+    expect(keeperPage).toContain("Settle this alert");
     // A viewer reads the history page; a farm's page for a non-member is not found.
     expect((await people.viewerA.fetch(`/farms/${farms.a.farm}/alerts?state=open`)).status).toBe(200);
     expect((await people.keeperB.fetch(`/farms/${farms.a.farm}/alerts`)).status).toBe(404);
