@@ -150,4 +150,31 @@ describe("claim, release and settle from the alert's page", () => {
     expect((await people.viewerA.fetch(`/farms/${farms.a.farm}/alerts?state=open`)).status).toBe(200);
     expect((await people.keeperB.fetch(`/farms/${farms.a.farm}/alerts`)).status).toBe(404);
   });
+
+  it("the history shows 30 at a time, newest first, and 'Older alerts' leads to the rest with the filters kept", async () => {
+    const f = await farmWithZone("Zz Crew Test Farm Paged");
+    await db.query(`insert into memberships (user_id, farm_id, role) select user_id, $1, 'viewer' from memberships where farm_id = $2 and role = 'viewer'`, [
+      f.farm,
+      farms.a.farm,
+    ]);
+    // 32 settled drying alerts an hour apart, numbered from the newest, and one heat alert.
+    for (let i = 1; i <= 32; i++) {
+      await db.query(
+        `insert into alerts (farm_id, bin_id, zone_id, kind, level, state, subject, message, raised_at, settled_at) values ($1, $2, $3, 'drying', 'heads_up', 'settled', $4, $5, now() - $6 * interval '1 hour', now())`,
+        [f.farm, f.bin, f.zone, `zone:${f.zone}:drying:${i}`, `Drying number ${i}.`, i],
+      );
+    }
+    await openAlert(f);
+    // Each card is in the HTML twice (the markup and the payload React hydrates from): once each, in order.
+    const numbers = (html: string) => [...new Set([...html.matchAll(/Drying number (\d+)\./g)].map((m) => Number(m[1])))];
+    const first = await (await people.viewerA.fetch(`/farms/${f.farm}/alerts?kind=drying`)).text();
+    expect(numbers(first)).toEqual(Array.from({ length: 30 }, (_, i) => i + 1));
+    expect(first).not.toContain("31.0 °C");
+    const older = /href="([^"]*before=[^"]*)"[^>]*>Older alerts/.exec(first)?.[1]?.replaceAll("&amp;", "&");
+    expect(older).toContain("kind=drying");
+    const second = await (await people.viewerA.fetch(older!)).text();
+    expect(numbers(second)).toEqual([31, 32]);
+    expect(second).not.toContain(">Older alerts<");
+    await db.query(`delete from farms where id = $1`, [f.farm]);
+  });
 });
