@@ -215,6 +215,7 @@ describe("an alert leads to the data", () => {
     const listed = () => page.locator("li[data-alert-id]").evaluateAll((els) => els.map((e) => e.getAttribute("data-alert-id")));
     // Newest first: the working zone's (30 min ago), the fresh zone's (1 h), the tote's (2 h).
     await expect.poll(listed, SLOW).toEqual([ids.hot, ids.heat, ids.drying]);
+    expect(await page.locator("main").innerText()).not.toMatch(/\bundefined\b|\bNaN\b|\bnull\b|\[object Object\]/);
     await page.screenshot({ path: screenshotPath("alert-history"), fullPage: true });
 
     await page.getByLabel("Kind").selectOption("drying");
@@ -233,6 +234,10 @@ describe("an alert leads to the data", () => {
     await page.locator('figure[data-metric="temperature"] canvas').first().waitFor();
     expect(await page.locator('figure[data-metric="temperature"] figcaption').textContent()).toContain("Temperature");
     expect(await page.locator("[data-event]").first().getAttribute("data-event")).toBe("raised");
+    // Open, so it says where the reading is heading: the last hour's 2 °C/h rise.
+    expect(await page.locator('[data-heading="temperature"]').textContent()).toContain("Rising 2.0 °C/h over the last hour.");
+    // No internal words leak onto the page.
+    expect(await page.locator("main").innerText()).not.toMatch(/\bundefined\b|\bNaN\b|\bnull\b|\[object Object\]/);
     await page.screenshot({ path: screenshotPath("alert-page-open"), fullPage: true });
 
     // A filter no alert matches says so in plain words.

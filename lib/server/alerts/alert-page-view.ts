@@ -11,6 +11,7 @@ import { latestValueOf, metricOfAlert } from "@/lib/domain/alert-metric";
 import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 import { feedingListQuery } from "@/lib/domain/validation/logbook";
 import { seriesQuery } from "@/lib/domain/validation/series";
+import { moistureHeading, temperatureHeading } from "@/lib/server/zones/zone-heading-view";
 
 /** The chart starts this long before the alert was raised, to show what led to it (common practice). */
 export const BEFORE_MS = 6 * 3_600_000;
@@ -98,8 +99,20 @@ export async function alertPageView(who: Pick<Who, "farmId">, alertId: string) {
     steps.sort((x, y) => x.at.getTime() - y.at.getTime());
   }
   const note = settledEvent && typeof settledEvent.detail.note === "string" ? settledEvent.detail.note : null;
+  const timezone = timeZoneOrUtc(farm?.timezone ?? "UTC");
+  const unitSystem = farm?.unitSystem ?? "metric";
+  // While it is open: where the reading is heading now, from the same trend code as the rules.
+  const heading =
+    alert.state === "settled" || !series
+      ? null
+      : metric === "temperature"
+        ? temperatureHeading(series, unitSystem).words
+        : metric === "moisture"
+          ? moistureHeading(series, profile, timezone).words
+          : null;
   return {
     alert,
+    heading,
     // The words it was raised with; the row's message may have been reworded by later readings.
     raisedWords: typeof raisedEvent?.detail.message === "string" ? raisedEvent.detail.message : alert.message,
     latestValue: latestValueOf(alert),
@@ -108,8 +121,8 @@ export async function alertPageView(who: Pick<Who, "farmId">, alertId: string) {
     claimedByName: row.claimedByName,
     species: row.species,
     profile,
-    unitSystem: farm?.unitSystem ?? "metric",
-    timezone: timeZoneOrUtc(farm?.timezone ?? "UTC"),
+    unitSystem,
+    timezone,
     ammonia: { headsUpAtPpm: rules?.ammonia.t.headsUpAtPpm ?? 10, actNowAtPpm: rules?.ammonia.t.actNowAtPpm ?? 25 },
     metric,
     window: { from: from.toISOString(), to: to?.toISOString() ?? null },

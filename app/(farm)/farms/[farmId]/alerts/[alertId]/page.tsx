@@ -120,6 +120,12 @@ export default async function AlertPage({ params }: Params) {
               feedings={toWire(view.feedings).feedings}
               openAlert={open ? `this ${KIND_WORDS[a.kind].toLowerCase()} alert` : null}
             />
+            {view.heading && (
+              <p className="rounded-xl bg-white p-3 ring-1 ring-soil-300" data-heading={view.metric}>
+                <span className="font-bold">Where it is heading: </span>
+                {view.heading}
+              </p>
+            )}
           </section>
         </SWRConfig>
       ) : (
