@@ -1,3 +1,4 @@
+import Link from "next/link";
 import type { ReactNode } from "react";
 import { Mark, type MarkName } from "@/components/ui/marks";
 import { cautionFor, KIND_WORDS, LEVEL_WORDS } from "@/lib/domain/alert-words";
@@ -32,6 +33,8 @@ export function AlertCard({
   when,
   state,
   settled,
+  href,
+  latest,
   children,
 }: {
   level: AlertLevel;
@@ -44,6 +47,10 @@ export function AlertCard({
   /** A line with the alert's state under the message. */
   state?: AlertState;
   settled?: boolean;
+  /** The alert's own page: the heading opens it. */
+  href?: string;
+  /** The latest value in words, beside the words the alert was raised with ("now 31.8 °C"). */
+  latest?: string | null;
   /** The claim button, for those who may claim. */
   children?: ReactNode;
 }) {
@@ -59,10 +66,22 @@ export function AlertCard({
         <span className="tabular text-sm">{when}</span>
       </div>
       <h3 className="mt-1.5 text-lg leading-snug font-bold">
-        {KIND_WORDS[kind] ?? kind}
-        {where ? ` · ${where}` : ""}
+        {href ? (
+          <Link href={href} className="inline-flex min-h-11 items-center underline underline-offset-4">
+            {KIND_WORDS[kind] ?? kind}
+            {where ? ` · ${where}` : ""}
+          </Link>
+        ) : (
+          <>
+            {KIND_WORDS[kind] ?? kind}
+            {where ? ` · ${where}` : ""}
+          </>
+        )}
       </h3>
-      <p className="mt-0.5">{message}</p>
+      <p className="mt-0.5">
+        {message}
+        {latest ? <span className="tabular font-bold"> · {latest}</span> : null}
+      </p>
       {caution && (
         <p className="mt-1 flex items-start gap-1.5 text-sm text-soil-800">
           <Mark name="caution" className="mt-0.5" />

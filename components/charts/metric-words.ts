@@ -35,9 +35,18 @@ export function formatMetric(metric: ChartMetric, stored: number, system: UnitSy
   return `${formatNumber(stored, 1)} ppm`;
 }
 
-/** "23.4 °C, comfortable" */
-export function describeMetric(metric: ChartMetric, stored: number, profile: SpeciesProfile, lines: AmmoniaLines, system: UnitSystem) {
-  return `${formatMetric(metric, stored, system)}, ${metricStatus(metric, stored, profile, lines).label}`;
+/** "23.4 °C, comfortable"; with an open alert on the metric a value inside the band never reads
+ * "comfortable": "21.6 °C, in the band, but a heat alert is open". */
+export function describeMetric(
+  metric: ChartMetric,
+  stored: number,
+  profile: SpeciesProfile,
+  lines: AmmoniaLines,
+  system: UnitSystem,
+  openAlert?: string | null,
+) {
+  const label = metricStatus(metric, stored, profile, lines).label;
+  return `${formatMetric(metric, stored, system)}, ${openAlert && label === "comfortable" ? `in the band, but ${openAlert} is open` : label}`;
 }
 
 /** The shaded range in display units, with its words. */

@@ -13,6 +13,10 @@ import { paletteColor, useColorScheme, withAlpha } from "./theme-colors";
 export type ChartMetric = "temperature" | "moisture" | "ammonia";
 /** A feeding drawn on the time axis; t in Unix seconds. */
 export type ChartMark = { id: string; t: number; label: string; detail: string };
+/** A moment of an alert (raised, settled) drawn as a solid line with its word; t in Unix seconds. */
+export type ChartMoment = { t: number; label: string };
+/** A reading as stored: ISO time and value in stored units. */
+export type ChartReading = { ts: string; value: number };
 
 type Props = {
   zoneId: string;
@@ -20,6 +24,12 @@ type Props = {
   title: string;
   /** ISO start of the window; none = the server's default, the last 24 h. */
   from?: string;
+  /** ISO end of a window in the past; none = now, kept fresh. */
+  to?: string;
+  /** The zone's newest reading as the page read it: "latest" is this reading (or a newer one the
+   * chart has since fetched), never a bucket's mean. */
+  latest?: ChartReading | null;
+  moments?: readonly ChartMoment[];
   rangeWords: string;
   /** Shaded range in display units, and how to say it ("comfortable 15–25 °C"). */
   band: { low: number; high: number; words: string };
@@ -36,6 +46,7 @@ type Props = {
 type Geom = { left: number; top: number; width: number; height: number; xMin: number; xMax: number; bandTop: number; bandBottom: number };
 
 const HEIGHT = 210;
+const RECENT_MS = 3 * 3_600_000;
 
 function medianStep(t: readonly number[]): number {
   if (t.length < 2) return 60;
@@ -95,7 +106,7 @@ function timeLabels(timeZone: string) {
 // One metric of a zone over a window: mean line, min–max band when points are aggregates, the
 // species' band shaded behind, and feedings as marks on the time axis (tap or hover for details).
 export function ZoneChart(p: Props) {
-  const { data, error, isLoading } = useSeries({ zoneId: p.zoneId }, { metric: p.metric, from: p.from });
+  const { data, error, isLoading } = useSeries({ zoneId: p.zoneId }, { metric: p.metric, from: p.from, to: p.to });
   const box = useRef<HTMLDivElement>(null);
   const [geom, setGeom] = useState<Geom | null>(null);
   const [readout, setReadout] = useState<string | null>(null);
@@ -123,6 +134,22 @@ export function ZoneChart(p: Props) {
     }
     return last ? { last, lo, hi } : null;
   }, [data, aggregated]);
+
+  // Where the window's points are means (7 and 30 days, or a busy 24 h), the newest single reading
+  // comes from the page's own read and a short raw window fetched beside it, so "latest" is a
+  // reading at every window. The short window's start is fixed once, so its key stays put.
+  const [recentFrom] = useState(() => new Date(Math.floor(Date.now() / 60_000) * 60_000 - RECENT_MS).toISOString());
+  const { data: recent } = useSeries(!p.to && aggregated ? { zoneId: p.zoneId } : null, { metric: p.metric, from: recentFrom });
+  const latest = useMemo(() => {
+    if (p.to) return summary?.last ?? null;
+    const found: { t: number; v: number }[] = [];
+    if (summary && !aggregated) found.push(summary.last);
+    if (p.latest) found.push({ t: Date.parse(p.latest.ts) / 1000, v: p.latest.value });
+    if (recent && recent.bucketSeconds == null)
+      for (const s of recent.series) if (s.t.length) found.push({ t: s.t[s.t.length - 1]!, v: s.mean[s.mean.length - 1]! });
+    return found.reduce<{ t: number; v: number } | null>((a, b) => (!a || b.t > a.t ? b : a), null);
+  }, [p.to, p.latest, summary, aggregated, recent]);
+  const moments = useMemo(() => (p.moments ?? []).filter((m) => m.t >= xMin && m.t <= xMax), [p.moments, xMin, xMax]);
 
   useEffect(() => {
     const el = box.current;
@@ -212,6 +239,26 @@ export function ZoneChart(p: Props) {
               ctx.setLineDash([]);
               ctx.fillRect(x - 3.5 * r, u.bbox.top, 7 * r, 7 * r);
             }
+            // An alert's moments: a solid line, its word beside it at the top.
+            ctx.strokeStyle = ink;
+            ctx.lineWidth = 2 * r;
+            ctx.font = `bold ${12 * r}px ${getComputedStyle(el).fontFamily}`;
+            // Two moments close together put their words on separate rows.
+            let lastRight = -Infinity;
+            let row = 0;
+            for (const m of moments) {
+              const x = Math.round(u.valToPos(m.t, "x", true));
+              ctx.beginPath();
+              ctx.moveTo(x, u.bbox.top);
+              ctx.lineTo(x, u.bbox.top + u.bbox.height);
+              ctx.stroke();
+              const w = ctx.measureText(m.label).width;
+              const right = x + 4 * r + w <= u.bbox.left + u.bbox.width;
+              const left = right ? x + 4 * r : x - 4 * r - w;
+              row = left < lastRight + 4 * r ? row + 1 : 0;
+              lastRight = left + w;
+              ctx.fillText(m.label, left, u.bbox.top + (22 + 16 * row) * r);
+            }
             ctx.restore();
           },
         ],
@@ -238,11 +285,12 @@ export function ZoneChart(p: Props) {
       ro.disconnect();
       plot.destroy();
     };
-  }, [data, tables, summary, aggregated, conv, clock, marks, xMin, xMax, p.band.low, p.band.high, p.color, p.metric, p.timezone, p.unit, scheme]);
+  }, [data, tables, summary, aggregated, conv, clock, marks, moments, xMin, xMax, p.band.low, p.band.high, p.color, p.metric, p.timezone, p.unit, scheme]);
 
   const pickedMark = marks.find((m) => m.id === picked) ?? null;
+  const latestWords = latest ? `${p.to ? "last in this window" : "latest"} ${p.describe(latest.v)} at ${clock(latest.t * 1000)}` : "";
   const label = summary
-    ? `${p.title}, ${p.rangeWords}: latest ${p.describe(summary.last.v)}; lowest ${formatNumber(conv(summary.lo), 1)}, highest ${formatNumber(conv(summary.hi), 1)} ${p.unit}; ${p.band.words} shaded; ${marks.length === 1 ? "1 feeding" : `${marks.length} feedings`} marked.`
+    ? `${p.title}, ${p.rangeWords}: ${latestWords}; lowest ${formatNumber(conv(summary.lo), 1)}, highest ${formatNumber(conv(summary.hi), 1)} ${p.unit}; ${p.band.words} shaded; ${marks.length === 1 ? "1 feeding" : `${marks.length} feedings`} marked${moments.map((m) => `; ${m.label} at ${clock(m.t * 1000)}`).join("")}.`
     : `${p.title}, ${p.rangeWords}: no readings.`;
 
   return (
@@ -305,7 +353,7 @@ export function ZoneChart(p: Props) {
         </div>
       )}
       <p aria-live="polite" className="tabular mt-1 min-h-6 text-sm text-soil-800">
-        {pickedMark ? pickedMark.detail : (readout ?? (summary ? `Latest ${p.describe(summary.last.v)}` : ""))}
+        {pickedMark ? pickedMark.detail : (readout ?? (latestWords ? latestWords.replace(/^./, (c) => c.toUpperCase()) : ""))}
       </p>
       <p className="mt-1 flex items-center gap-3 text-xs text-soil-700">
         <span className="inline-flex items-center gap-1">
@@ -317,6 +365,12 @@ export function ZoneChart(p: Props) {
           <Mark name="feeding" className="text-soil-800" />
           feeding
         </span>
+        {moments.length > 0 && (
+          <span className="inline-flex items-center gap-1">
+            <span aria-hidden="true" className="inline-block h-3 w-0.5 bg-soil-800" />
+            {moments.map((m) => m.label).join(", ")}
+          </span>
+        )}
       </p>
     </figure>
   );

@@ -1,14 +1,15 @@
 "use client";
 
 import { Fragment, useMemo, useState } from "react";
-import { clockFormat, feedingVerdict, zoneWords } from "@/components/logbook/format";
+import { clockFormat } from "@/components/logbook/format";
 import { SegmentedControl } from "@/components/ui/segmented-control";
 import { useFeedings } from "@/lib/client/hooks/use-feedings";
 import { getSpecies } from "@/lib/domain/species";
 import { AMMONIA_CHART_CAUTION } from "@/lib/domain/alert-words";
-import { formatMass, formatNumber, formatPercent, type UnitSystem } from "@/lib/domain/units";
+import type { UnitSystem } from "@/lib/domain/units";
+import { feedingMarks } from "./feeding-marks";
 import { describeMetric, displayUnit, METRIC_COLORS, METRIC_TITLES, metricBand, type AmmoniaLines } from "./metric-words";
-import { ZoneChart, type ChartMark, type ChartMetric } from "./zone-chart";
+import { ZoneChart, type ChartMetric, type ChartReading } from "./zone-chart";
 
 const RANGES = [
   { value: "24h", label: "24 h", days: 1, words: "last 24 hours" },
@@ -26,6 +27,10 @@ type Props = {
   ammonia: AmmoniaLines;
   system: UnitSystem;
   timezone: string;
+  /** Per metric, the open alert on it in words ("a heat alert"), so its values never read "comfortable". */
+  openAlerts?: Partial<Record<ChartMetric, string>>;
+  /** The zone's newest reading of each metric, as the page read it. */
+  latest?: Partial<Record<ChartMetric, ChartReading>>;
 };
 
 // The zone's charts over one shared window, with the bin's feedings (this zone's and whole-bin ones) as marks.
@@ -43,27 +48,7 @@ export function ZoneCharts(p: Props) {
   const { data: fed } = useFeedings(p.binId);
   const clock = useMemo(() => clockFormat(p.timezone), [p.timezone]);
 
-  const marks: ChartMark[] = useMemo(
-    () =>
-      (fed?.feedings ?? [])
-        .filter((f) => f.zoneId === p.zoneId || f.zoneId === null)
-        .map((f) => {
-          const where = zoneWords(p.binZones.find((z) => z.id === f.zoneId));
-          const kg = f.totalKg ?? f.items.reduce((s, i) => s + i.massKg, 0);
-          const verdict = feedingVerdict(f) ?? "no verdict";
-          const mix = [
-            f.mixMoisturePct != null ? `moisture ${formatPercent(f.mixMoisturePct, { digits: 1 })}` : null,
-            f.mixCn != null ? `C:N ${formatNumber(f.mixCn, 1)}` : null,
-          ].filter(Boolean);
-          return {
-            id: f.id,
-            t: Date.parse(f.at) / 1000,
-            label: `Feeding ${clock(f.at)}, ${where}: ${formatMass(kg, p.system, { digits: 2 })}, ${verdict}`,
-            detail: `Fed ${clock(f.at)} · ${where} · ${formatMass(kg, p.system, { digits: 2 })} · ${[...mix, verdict].join(" · ")}${f.byName ? ` · by ${f.byName}` : ""}`,
-          };
-        }),
-    [fed, p.zoneId, p.binZones, p.system, clock],
-  );
+  const marks = useMemo(() => feedingMarks(fed?.feedings ?? [], p.zoneId, p.binZones, p.system, clock), [fed, p.zoneId, p.binZones, p.system, clock]);
 
   if (!profile) return <p className="p-4">This bin&apos;s species ({p.species}) has no profile, so there is no band to chart against.</p>;
   const r = RANGES.find((x) => x.value === range)!;
@@ -83,6 +68,7 @@ export function ZoneCharts(p: Props) {
             metric={m}
             title={METRIC_TITLES[m]}
             from={from}
+            latest={p.latest?.[m] ?? null}
             rangeWords={r.words}
             band={metricBand(m, profile, p.ammonia, p.system)}
             unit={displayUnit(m, p.system)}
@@ -90,7 +76,7 @@ export function ZoneCharts(p: Props) {
             timezone={p.timezone}
             color={METRIC_COLORS[m]}
             marks={marks}
-            describe={(v) => describeMetric(m, v, profile, p.ammonia, p.system)}
+            describe={(v) => describeMetric(m, v, profile, p.ammonia, p.system, p.openAlerts?.[m])}
           />
           {/* The ammonia chart carries the same caution as an ammonia alert. */}
           {m === "ammonia" && <p className="text-sm font-bold">{AMMONIA_CHART_CAUTION}</p>}

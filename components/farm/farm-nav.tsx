@@ -9,6 +9,7 @@ export function FarmNav({ farmId, role }: { farmId: string; role: string }) {
   const base = `/farms/${farmId}`;
   const links = [
     { href: base, label: "Today" },
+    { href: `${base}/alerts`, label: "Alerts" },
     { href: `${base}/probes`, label: "Probes" },
     ...(role === "owner" ? [{ href: `${base}/imports`, label: "Import" }] : []),
     { href: `${base}/team`, label: "Team" },
@@ -17,7 +18,8 @@ export function FarmNav({ farmId, role }: { farmId: string; role: string }) {
   return (
     <nav aria-label="Farm" className="flex gap-1 overflow-x-auto border-b border-soil-300 bg-soil-100 px-2">
       {links.map((l) => {
-        const current = path === l.href;
+        // An alert's own page sits under the history.
+        const current = path === l.href || (l.label === "Alerts" && path.startsWith(`${l.href}/`));
         return (
           <Link
             key={l.href}

@@ -2,11 +2,15 @@
 
 import Link from "next/link";
 import { useState } from "react";
-import type { TodayBin, TodayZone } from "@/lib/client/wire";
+import type { Today, TodayBin, TodayZone } from "@/lib/client/wire";
 import { Sparkline } from "@/components/charts/sparkline";
 import { StatusMark } from "@/components/ui/status-mark";
 import { Panel } from "@/components/ui/panel";
 import { AlertCard } from "@/components/alerts/alert-card";
+import { Mark } from "@/components/ui/marks";
+import { formatMetric } from "@/components/charts/metric-words";
+import { KIND_WORDS, LEVEL_WORDS } from "@/lib/domain/alert-words";
+import { latestValueOf, metricOfAlert } from "@/lib/domain/alert-metric";
 import { useToday } from "@/lib/client/hooks/use-today";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
 import { failureOf, send } from "@/lib/client/fetcher";
@@ -16,6 +20,15 @@ import { zoneName } from "@/lib/domain/zone-words";
 
 type Zone = TodayZone;
 type Bin = TodayBin;
+type OpenAlert = Today["alerts"][number];
+
+// Inside the band but with an open alert on the metric, a value reads as the alert's side, never "comfortable".
+const ALERT_BAND: Partial<Record<OpenAlert["kind"], string>> = { heat: "warm", chill: "cool", drying: "dry", soggy: "wet" };
+function bandBeside(band: string | null, alerts: readonly OpenAlert[], metric: "temperature" | "moisture"): string | null {
+  if (band !== "comfortable") return band;
+  const on = alerts.find((a) => metricOfAlert(a.kind, a.details) === metric && ALERT_BAND[a.kind]);
+  return on ? ALERT_BAND[on.kind]! : band;
+}
 
 function ago(iso: string) {
   const min = Math.round((Date.now() - Date.parse(iso)) / 60_000);
@@ -39,12 +52,12 @@ function Reading({ title, value, band, spark, label }: { title: string; value: s
   );
 }
 
-function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: UnitSystem; farmId: string }) {
+function ZoneRow({ zone, bin, units, farmId, alerts }: { zone: Zone; bin: Bin; units: UnitSystem; farmId: string; alerts: readonly OpenAlert[] }) {
   const species = getSpecies(bin.species);
   const t = zone.latest.temperature;
   const m = zone.latest.moisture;
-  const tBand = species && t ? classifyTemperature(species, t.value) : null;
-  const mBand = species && m ? classifyMoisture(species, m.value) : null;
+  const tBand = bandBeside(species && t ? classifyTemperature(species, t.value) : null, alerts, "temperature");
+  const mBand = bandBeside(species && m ? classifyMoisture(species, m.value) : null, alerts, "moisture");
   const zoneLabel = zoneName(zone);
   return (
     <li className="border-t border-soil-100 py-3 first:border-t-0">
@@ -56,6 +69,19 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
         </h3>
         <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
       </div>
+      {/* The zone's open alerts come before its values. */}
+      {[...alerts]
+        .sort((x, y) => Number(y.level === "act_now") - Number(x.level === "act_now"))
+        .map((a) => (
+          <Link
+            key={a.id}
+            href={`/farms/${farmId}/alerts/${a.id}`}
+            className="mt-1 flex min-h-11 items-center gap-1.5 rounded-lg bg-paper px-2 font-bold underline underline-offset-4 ring-1 ring-soil-300"
+          >
+            <Mark name={a.level === "act_now" ? "actNow" : "headsUp"} />
+            {LEVEL_WORDS[a.level]}: {KIND_WORDS[a.kind]} alert open
+          </Link>
+        ))}
       <div className="mt-2 grid grid-cols-2 gap-3">
         <Reading
           title="Temperature"
@@ -78,6 +104,12 @@ function ZoneRow({ zone, bin, units, farmId }: { zone: Zone; bin: Bin; units: Un
       </div>
     </li>
   );
+}
+
+function latestWords(a: OpenAlert, units: UnitSystem): string | null {
+  if (a.kind === "silent_probe") return null;
+  const v = latestValueOf(a);
+  return v == null ? null : `now ${formatMetric(metricOfAlert(a.kind, a.details), v, units)}`;
 }
 
 function ClaimButton({ alertId, farmId }: { alertId: string; farmId: string }) {
@@ -124,6 +156,8 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
                     kind={a.kind}
                     where={a.binName}
                     message={a.message}
+                    latest={latestWords(a, units)}
+                    href={`/farms/${farmId}/alerts/${a.id}`}
                     when={a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${ago(a.raisedAt)}`}
                   >
                     {canLog && a.state === "raised" && <ClaimButton alertId={a.id} farmId={farmId} />}
@@ -158,7 +192,7 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
             ) : (
               <ul>
                 {bin.zones.map((z) => (
-                  <ZoneRow key={z.id} zone={z} bin={bin} units={units} farmId={farmId} />
+                  <ZoneRow key={z.id} zone={z} bin={bin} units={units} farmId={farmId} alerts={data.alerts.filter((a) => a.zoneId === z.id)} />
                 ))}
               </ul>
             )}

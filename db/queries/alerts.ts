@@ -1,35 +1,88 @@
-import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, lt, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { alertEvents, alerts, bins, users, zones, type Alert } from "@/db/schema";
+import type { AlertKind, AlertLevel, AlertState } from "@/lib/domain/vocabulary";
 
-export async function listAlerts(farmId: string, opts: { open?: boolean; limit?: number } = {}) {
-  const where = opts.open ? and(eq(alerts.farmId, farmId), inArray(alerts.state, ["raised", "claimed"])) : eq(alerts.farmId, farmId);
+export type AlertFilters = {
+  /** "open" = raised or claimed. */
+  state?: AlertState | "open";
+  binId?: string;
+  kind?: AlertKind;
+  level?: AlertLevel;
+  /** Only alerts raised before this instant: the history's "older" page. */
+  before?: Date;
+};
+
+// A farm's alerts, newest first, narrowed by any of bin, kind, level and state.
+export async function listAlerts(farmId: string, opts: AlertFilters & { open?: boolean; limit?: number } = {}) {
+  const state = opts.open ? "open" : opts.state;
+  const where = and(
+    eq(alerts.farmId, farmId),
+    state === "open" ? inArray(alerts.state, ["raised", "claimed"]) : state ? eq(alerts.state, state) : undefined,
+    opts.binId ? eq(alerts.binId, opts.binId) : undefined,
+    opts.kind ? eq(alerts.kind, opts.kind) : undefined,
+    opts.level ? eq(alerts.level, opts.level) : undefined,
+    opts.before ? lt(alerts.raisedAt, opts.before) : undefined,
+  );
   return db()
     .select({
       alert: alerts,
       binName: bins.name,
       zoneKind: zones.kind,
+      zoneName: zones.name,
       claimedByName: users.name,
+      raisedMessage: raisedMessage(),
     })
     .from(alerts)
     .innerJoin(bins, eq(bins.id, alerts.binId))
     .leftJoin(zones, eq(zones.id, alerts.zoneId))
     .leftJoin(users, eq(users.id, alerts.claimedBy))
     .where(where)
-    .orderBy(desc(alerts.raisedAt))
+    .orderBy(desc(alerts.raisedAt), desc(alerts.id))
     .limit(opts.limit ?? 100);
+}
+
+/** One alert with where it is (bin, zone) and who holds it; null when there is none. */
+export async function getAlertWithPlace(id: string) {
+  const [r] = await db()
+    .select({ alert: alerts, binName: bins.name, species: bins.species, zoneKind: zones.kind, zoneName: zones.name, claimedByName: users.name })
+    .from(alerts)
+    .innerJoin(bins, eq(bins.id, alerts.binId))
+    .leftJoin(zones, eq(zones.id, alerts.zoneId))
+    .leftJoin(users, eq(users.id, alerts.claimedBy))
+    .where(eq(alerts.id, id));
+  return r ?? null;
+}
+
+/** An alert's events in order, with the name of the person each concerns. */
+export async function listAlertEvents(alertId: string) {
+  const rows = await db()
+    .select({ event: alertEvents, userName: users.name })
+    .from(alertEvents)
+    .leftJoin(users, eq(users.id, alertEvents.userId))
+    .where(eq(alertEvents.alertId, alertId))
+    .orderBy(asc(alertEvents.at), asc(alertEvents.id));
+  return rows.map((e) => ({ ...e.event, userName: e.userName }));
+}
+
+// The words an alert was raised with, kept on its 'raised' event while the row's message follows the readings.
+const raisedMessage = () =>
+  sql<string | null>`(select e.detail->>'message' from alert_events e where e.alert_id = ${alerts.id} and e.type = 'raised' order by e.at limit 1)`;
+
+/** The open alerts of one zone, act now first, then newest. */
+export async function listOpenZoneAlerts(zoneId: string) {
+  return db()
+    .select({ alert: alerts, claimedByName: users.name, raisedMessage: raisedMessage() })
+    .from(alerts)
+    .leftJoin(users, eq(users.id, alerts.claimedBy))
+    .where(and(eq(alerts.zoneId, zoneId), inArray(alerts.state, ["raised", "claimed"])))
+    .orderBy(sql`${alerts.level} = 'act_now' desc`, desc(alerts.raisedAt));
 }
 
 export async function getAlert(id: string) {
   const [a] = await db().select().from(alerts).where(eq(alerts.id, id));
   if (!a) return null;
-  const events = await db()
-    .select({ event: alertEvents, userName: users.name })
-    .from(alertEvents)
-    .leftJoin(users, eq(users.id, alertEvents.userId))
-    .where(eq(alertEvents.alertId, id))
-    .orderBy(asc(alertEvents.at), asc(alertEvents.id));
-  return { ...a, events: events.map((e) => ({ ...e.event, userName: e.userName })) };
+  return { ...a, events: await listAlertEvents(id) };
 }
 
 // Claim is a compare-and-set on the state so two keepers tapping at once get one winner. When it
@@ -54,6 +107,21 @@ export async function claimAlert(
     }
     await tx.insert(alertEvents).values({ alertId: id, type: "claimed", userId });
     return { claimed: a };
+  });
+}
+
+// "Not me after all": a claimed alert goes back to raised, so the crew sees it unclaimed again.
+// Compare-and-set on the state; null when it was not claimed (raised already, or settled).
+export async function releaseClaim(id: string, userId: string): Promise<Alert | null> {
+  return db().transaction(async (tx) => {
+    const [a] = await tx
+      .update(alerts)
+      .set({ state: "raised", claimedAt: null, claimedBy: null })
+      .where(and(eq(alerts.id, id), eq(alerts.state, "claimed")))
+      .returning();
+    if (!a) return null;
+    await tx.insert(alertEvents).values({ alertId: id, type: "released", userId, detail: { claim: true } });
+    return a;
   });
 }
 

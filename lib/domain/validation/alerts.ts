@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { longText, timeZone } from "./fields";
+import { ALERT_KINDS, ALERT_LEVELS, ALERT_STATES } from "../vocabulary";
 
 const hhmm = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, "Use a time like 22:00.");
 
@@ -39,5 +40,28 @@ const blankTimesAsNull = (raw: unknown) => {
 export const meForm = z.preprocess(blankTimesAsNull, meUpdate);
 
 export const settleBody = z.object({ note: longText("The note", { max: 500 }).optional() }).default({});
-export const alertListQuery = z.object({ state: z.enum(["open", "all"]).default("open") });
+// The alert history's filters, from a URL's search params: a filter is a link. An empty value (a
+// form's "any") means no filter.
+const blankAsUndefined = (v: unknown) => (v === "" ? undefined : v);
+const STATE_CHOICES = ["open", "all", ...ALERT_STATES] as const;
+const filters = {
+  bin: z.preprocess(blankAsUndefined, z.uuid({ message: "Choose a bin from the list." }).optional()),
+  kind: z.preprocess(blankAsUndefined, z.enum(ALERT_KINDS, { message: `Choose a kind: ${ALERT_KINDS.join(", ")}.` }).optional()),
+  level: z.preprocess(blankAsUndefined, z.enum(ALERT_LEVELS, { message: `Choose a level: ${ALERT_LEVELS.join(", ")}.` }).optional()),
+  before: z.preprocess(
+    blankAsUndefined,
+    z.iso
+      .datetime({ offset: true, message: "Give before as an ISO 8601 time with a zone, e.g. 2026-05-01T00:00:00Z." })
+      .transform((s) => new Date(s))
+      .optional(),
+  ),
+};
+const stateField = (fallback: (typeof STATE_CHOICES)[number]) =>
+  z.preprocess(blankAsUndefined, z.enum(STATE_CHOICES, { message: `Choose a state: ${STATE_CHOICES.join(", ")}.` }).default(fallback));
+
+/** GET /api/farms/[farmId]/alerts: the open ones unless a state is named. */
+export const alertListQuery = z.object({ state: stateField("open"), ...filters });
 export type AlertListQuery = z.output<typeof alertListQuery>;
+/** The history page: every state unless one is named. */
+export const alertHistoryQuery = z.object({ state: stateField("all"), ...filters });
+export type AlertHistoryQuery = z.output<typeof alertHistoryQuery>;

@@ -1,6 +1,6 @@
-// What the crew does with an alert: read it with its history, claim it ("I'm on it"), settle it by
-// hand. The caller has been authorized for the alert's farm; these decide what a lost race means.
-import { claimAlert, getAlert, settleAlert } from "@/db/queries/alerts";
+// What the crew does with an alert: read it with its history, claim it ("I'm on it"), release a
+// claim, settle it by hand. The caller has been authorized for the alert's farm; these decide what a lost race means.
+import { claimAlert, getAlert, getAlertRow, releaseClaim, settleAlert } from "@/db/queries/alerts";
 import type { Who } from "@/lib/server/auth/authorize";
 import { AppError } from "@/lib/domain/errors";
 
@@ -23,4 +23,12 @@ export async function settleAlertAs(who: Pick<Who, "userId">, alertId: string, n
   const settled = await settleAlert(alertId, who.userId, note);
   if (!settled) throw new AppError("conflict", ALREADY_SETTLED);
   return settled;
+}
+
+// Any keeper or owner may hand a claim back (the one who claimed went home, say); the event names who did.
+export async function releaseAlertAs(who: Pick<Who, "userId">, alertId: string) {
+  const released = await releaseClaim(alertId, who.userId);
+  if (released) return released;
+  const now = await getAlertRow(alertId);
+  throw new AppError("conflict", now?.state === "settled" ? ALREADY_SETTLED : "Nobody has claimed this alert, so there is no claim to release.");
 }

@@ -28,7 +28,9 @@ async function messageOf(alert: Alert, reason: Reason) {
   const ctx = await alertContext(alert.id);
   const where = !ctx ? "" : ctx.zoneKind ? zoneInBin(ctx.binName, { kind: ctx.zoneKind, name: ctx.zoneName }) : ctx.binName;
   const title = `${reason === "reminder" ? "Still unclaimed · " : ""}${LEVEL_WORDS[alert.level]}: ${KIND_WORDS[alert.kind]}${where ? ` · ${where}` : ""}`;
-  const url = `${env().APP_URL}/farms/${alert.farmId}#alert-${alert.id}`;
+  // The alert's own page: its words, the chart around it, its events, and claim or settle.
+  const path = `/farms/${alert.farmId}/alerts/${alert.id}`;
+  const url = `${env().APP_URL}${path}`;
   const payload = {
     alertId: alert.id,
     kind: alert.kind,
@@ -40,7 +42,7 @@ async function messageOf(alert: Alert, reason: Reason) {
     zone: ctx?.zoneKind ?? null,
     value: alert.value,
     details: alert.details,
-    url: `/farms/${alert.farmId}#alert-${alert.id}`,
+    url: path,
   };
   const text = alertMailText(alert.kind, alert.message, url);
   return { payload, mail: { subject: `[Wormward] ${title}`, text } satisfies MailContent };

@@ -1,14 +1,17 @@
 import { getBin } from "@/db/queries/bins";
+import { listOpenZoneAlerts } from "@/db/queries/alerts";
 import { getZoneView, listZoneAlerts } from "@/db/queries/zone-view";
 import type { Who } from "@/lib/server/auth/authorize";
 import { listBinFeedings } from "@/lib/server/logbook/list-feedings";
 import { binOverrides } from "@/lib/server/rules/bin-overrides";
 import { getZoneSeries } from "@/lib/server/series/zone-series";
 import { resolveRules } from "@/lib/domain/rules";
+import { latestValueOf, metricOfAlert } from "@/lib/domain/alert-metric";
 import { getSpecies } from "@/lib/domain/species";
 import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 import { feedingListQuery } from "@/lib/domain/validation/logbook";
 import { seriesQuery } from "@/lib/domain/validation/series";
+import { moistureHeading, temperatureHeading } from "./zone-heading-view";
 
 const ALERT_DAYS = 30;
 
@@ -26,10 +29,11 @@ export async function zonePageView(who: Pick<Who, "farmId">, zoneId: string) {
   const ammoniaToo = view.metrics.includes("ammonia") || !!view.latest.ammonia;
   const metrics: ("temperature" | "moisture" | "ammonia")[] = ["temperature", "moisture", ...(ammoniaToo ? (["ammonia"] as const) : [])];
   const since = new Date(Date.now() - ALERT_DAYS * 86_400_000);
-  const [binRow, feedings, alerts, ...series] = await Promise.all([
+  const [binRow, feedings, alerts, open, ...series] = await Promise.all([
     getBin(bin.id),
     listBinFeedings(bin.id, feedingListQuery.parse({})),
     listZoneAlerts(zoneId, { since }),
+    listOpenZoneAlerts(zoneId),
     ...metrics.map((metric) => getZoneSeries(zoneId, seriesQuery.parse({ metric }))),
   ]);
   return {
@@ -41,6 +45,18 @@ export async function zonePageView(who: Pick<Who, "farmId">, zoneId: string) {
     binZones: (binRow?.zones ?? []).map((z) => ({ id: z.id, kind: z.kind, name: z.name })),
     feedings,
     alerts,
+    // Shown first on the page, above the values: the open alerts with the words they were raised with.
+    openAlerts: open.map((o) => ({
+      ...o.alert,
+      claimedByName: o.claimedByName,
+      raisedWords: o.raisedMessage ?? o.alert.message,
+      latestValue: latestValueOf(o.alert),
+      metric: metricOfAlert(o.alert.kind, o.alert.details),
+    })),
+    heading: {
+      temperature: temperatureHeading(series[0], view.unitSystem),
+      moisture: moistureHeading(series[1], profile, timeZoneOrUtc(view.timezone)),
+    },
     series: metrics.map((metric, i) => ({ metric, answer: series[i]! })),
   };
 }

@@ -61,6 +61,20 @@ const rows: Row[] = [
   { method: "POST", route: "alerts/[alertId]/claim", path: (i) => `/api/alerts/${i.alert}/claim`, allowed: CREW, farmScoped: true },
   {
     method: "POST",
+    route: "alerts/[alertId]/release",
+    path: (i) => `/api/alerts/${i.alert}/release`,
+    // The scratch alert made just before is the demo farm's newest: claimed, so there is a claim to release.
+    setup: async () => {
+      await db.query(
+        `update alerts set state = 'claimed', claimed_at = now() where id = (select id from alerts where farm_id = $1 order by raised_at desc, id desc limit 1)`,
+        [demoFarm],
+      );
+    },
+    allowed: CREW,
+    farmScoped: true,
+  },
+  {
+    method: "POST",
     route: "alerts/[alertId]/settle",
     path: (i) => `/api/alerts/${i.alert}/settle`,
     body: () => ({ note: "probe was out of the bed" }),

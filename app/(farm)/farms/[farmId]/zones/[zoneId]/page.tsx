@@ -7,6 +7,7 @@ import { ZoneCharts } from "@/components/charts/zone-charts";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
 import { StatusMark } from "@/components/ui/status-mark";
 import { AlertCard, type AlertState } from "@/components/alerts/alert-card";
+import { KIND_WORDS } from "@/lib/domain/alert-words";
 import { oncePerRequest, requirePageMember } from "@/lib/web/session";
 import { zonePageView } from "@/lib/server/zones/zone-page-view";
 import { feedingsKey, zoneSeriesKey } from "@/lib/client/swr-keys";
@@ -23,7 +24,28 @@ const pageView = oncePerRequest(zonePageView);
 
 type ZoneAlert = NonNullable<Awaited<ReturnType<typeof zonePageView>>>["alerts"][number];
 
-function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => string }) {
+type OpenAlert = NonNullable<Awaited<ReturnType<typeof zonePageView>>>["openAlerts"][number];
+
+// An open alert's kind says how a value inside the band should read: never "comfortable" beside it.
+const ALERT_BAND: Record<OpenAlert["kind"], string> = {
+  heat: "warm",
+  chill: "cool",
+  drying: "dry",
+  soggy: "wet",
+  ammonia: "ammonia",
+  silent_probe: "no reading",
+  probe_fault: "no reading",
+};
+
+const withArticle = (w: string) => `${/^[aeiou]/.test(w) ? "an" : "a"} ${w}`;
+
+function openState(a: OpenAlert): AlertState {
+  return a.state === "claimed"
+    ? { mark: "claimed", words: `claimed by ${a.claimedByName ?? "someone"}` }
+    : { mark: "raised", words: "raised, not claimed yet" };
+}
+
+function AlertRow({ a, clock, farmId }: { a: ZoneAlert; clock: (t: string | number) => string; farmId: string }) {
   const state: AlertState =
     a.state === "settled"
       ? { mark: "done", words: `settled ${a.settledAt ? clock(a.settledAt.toISOString()) : ""}` }
@@ -32,7 +54,15 @@ function AlertRow({ a, clock }: { a: ZoneAlert; clock: (t: string | number) => s
         : { mark: "raised", words: "raised, not claimed yet" };
   return (
     <li>
-      <AlertCard level={a.level} kind={a.kind} message={a.message} when={clock(a.raisedAt.toISOString())} state={state} settled={a.state === "settled"} />
+      <AlertCard
+        level={a.level}
+        kind={a.kind}
+        message={a.message}
+        when={clock(a.raisedAt.toISOString())}
+        state={state}
+        settled={a.state === "settled"}
+        href={`/farms/${farmId}/alerts/${a.id}`}
+      />
     </li>
   );
 }
@@ -42,7 +72,8 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
   const who = await requirePageMember({ farmId, zoneId }, "read");
   const view = await pageView(who, zoneId);
   if (!view) notFound();
-  const { zone, bin, unitSystem: system, timezone, profile, ammonia, metrics, binZones, alerts } = view;
+  const { zone, bin, unitSystem: system, timezone, profile, ammonia, metrics, binZones, alerts, openAlerts, heading } = view;
+  const earlier = alerts.filter((a) => a.state === "settled");
   // Prime SWR with the server's answers so the phone paints the charts at once.
   const fallback: Record<string, unknown> = { [feedingsKey(bin.id)!]: toWire(view.feedings) };
   for (const { metric, answer } of view.series) fallback[zoneSeriesKey(zoneId, metric)] = toWire(answer);
@@ -63,6 +94,37 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
         </p>
       </div>
 
+      {/* An open alert comes first, above the values: the bed's trouble before its numbers. */}
+      {openAlerts.length > 0 && (
+        <section aria-labelledby="open-h" data-open-alerts className="space-y-2">
+          <h2 id="open-h" className="text-xl font-bold">
+            {openAlerts.length === 1 ? "Open alert here" : `${openAlerts.length} open alerts here`}
+          </h2>
+          <ul className="space-y-2">
+            {openAlerts.map((a) => (
+              <li key={a.id}>
+                <AlertCard
+                  level={a.level}
+                  kind={a.kind}
+                  message={a.raisedWords}
+                  latest={a.latestValue != null ? `now ${formatMetric(a.metric, a.latestValue, system)}` : null}
+                  when={`raised ${clock(a.raisedAt.toISOString())}`}
+                  state={openState(a)}
+                  href={`/farms/${farmId}/alerts/${a.id}`}
+                >
+                  <Link
+                    href={`/farms/${farmId}/alerts/${a.id}`}
+                    className="mt-2 inline-flex min-h-11 items-center rounded-lg bg-soil-800 px-4 font-bold text-white"
+                  >
+                    {canLog ? "Open the alert to claim or settle it" : "Open the alert"}
+                  </Link>
+                </AlertCard>
+              </li>
+            ))}
+          </ul>
+        </section>
+      )}
+
       <section aria-labelledby="now-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="now-h" className="sr-only">
           Latest readings
@@ -70,7 +132,13 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
         <dl className="grid grid-cols-2 gap-x-3 gap-y-4">
           {metrics.map((m) => {
             const l = view.latest[m];
-            const status = l && profile ? metricStatus(m, l.value, profile, ammonia) : { band: null, label: "no reading" };
+            const plain = l && profile ? metricStatus(m, l.value, profile, ammonia) : { band: null, label: "no reading" };
+            const alertOn = openAlerts.find((a) => a.metric === m && !a.kind.endsWith("probe") && a.kind !== "probe_fault");
+            const status =
+              alertOn && plain.band === "comfortable"
+                ? { band: ALERT_BAND[alertOn.kind], label: `in the band, but ${withArticle(KIND_WORDS[alertOn.kind].toLowerCase())} alert is open` }
+                : plain;
+            const where = m === "temperature" || m === "moisture" ? heading[m] : null;
             return (
               <div key={m} className={m === "ammonia" ? "col-span-2" : ""}>
                 <dt className="text-xs tracking-wide text-soil-500 uppercase">{METRIC_TITLES[m]}</dt>
@@ -78,6 +146,11 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
                   <span className="tabular block text-3xl font-bold">{l ? formatMetric(m, l.value, system) : "—"}</span>
                   <StatusMark band={status.band} label={status.label} />
                   <span className="tabular mt-1 block text-xs text-soil-500">{l ? `at ${clock(l.ts)}` : "no readings yet"}</span>
+                  {where && l && (
+                    <span className="mt-1 block text-sm text-soil-800" data-heading={m}>
+                      {where.words}
+                    </span>
+                  )}
                 </dd>
               </div>
             );
@@ -103,20 +176,32 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
           ammonia={ammonia}
           system={system}
           timezone={timezone}
+          latest={view.latest}
+          openAlerts={Object.fromEntries(
+            [...openAlerts]
+              .reverse()
+              .filter((a) => ALERT_BAND[a.kind] !== "no reading")
+              .map((a) => [a.metric, withArticle(`${KIND_WORDS[a.kind].toLowerCase()} alert`)]),
+          )}
         />
       </SWRConfig>
 
       <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="alerts-h" className="text-xl font-bold">
-          Alerts in this zone
+          Earlier alerts in this zone
         </h2>
-        <p className="text-sm text-soil-700">Open ones, and any raised in the last 30 days.</p>
-        {alerts.length === 0 ? (
-          <p className="mt-2">None. This zone has been quiet.</p>
+        <p className="text-sm text-soil-700">
+          Settled in the last 30 days.{" "}
+          <Link href={`/farms/${farmId}/alerts?bin=${bin.id}`} className="underline underline-offset-4">
+            Every alert of {bin.name}
+          </Link>
+        </p>
+        {earlier.length === 0 ? (
+          <p className="mt-2">None settled here in the last 30 days.</p>
         ) : (
           <ul className="mt-2 space-y-2">
-            {alerts.map((a) => (
-              <AlertRow key={a.id} a={a} clock={clock} />
+            {earlier.map((a) => (
+              <AlertRow key={a.id} a={a} clock={clock} farmId={farmId} />
             ))}
           </ul>
         )}

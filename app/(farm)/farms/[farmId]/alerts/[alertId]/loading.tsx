@@ -1,0 +1,3 @@
+export default function Loading() {
+  return <p className="p-4 text-soil-700">Loading the alert…</p>;
+}
