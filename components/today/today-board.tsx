@@ -10,7 +10,7 @@ import { AlertCard } from "@/components/alerts/alert-card";
 import { Mark } from "@/components/ui/marks";
 import { formatMetric } from "@/components/charts/metric-words";
 import { KIND_WORDS, LEVEL_WORDS } from "@/lib/domain/alert-words";
-import { latestValueOf, metricOfAlert } from "@/lib/domain/alert-metric";
+import { bandBeside, latestValueOf, metricOfAlert } from "@/lib/domain/alert-metric";
 import { useToday } from "@/lib/client/hooks/use-today";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
 import { failureOf, send } from "@/lib/client/fetcher";
@@ -21,14 +21,6 @@ import { zoneName } from "@/lib/domain/zone-words";
 type Zone = TodayZone;
 type Bin = TodayBin;
 type OpenAlert = Today["alerts"][number];
-
-// Inside the band but with an open alert on the metric, a value reads as the alert's side, never "comfortable".
-const ALERT_BAND: Partial<Record<OpenAlert["kind"], string>> = { heat: "warm", chill: "cool", drying: "dry", soggy: "wet" };
-function bandBeside(band: string | null, alerts: readonly OpenAlert[], metric: "temperature" | "moisture"): string | null {
-  if (band !== "comfortable") return band;
-  const on = alerts.find((a) => metricOfAlert(a.kind, a.details) === metric && ALERT_BAND[a.kind]);
-  return on ? ALERT_BAND[on.kind]! : band;
-}
 
 function ago(iso: string) {
   const min = Math.round((Date.now() - Date.parse(iso)) / 60_000);

@@ -17,3 +17,17 @@ export function metricOfAlert(kind: AlertKind, details: Record<string, unknown>)
 export function latestValueOf(a: { value: number | null; details: Record<string, unknown> }): number | null {
   return typeof a.details.latestValue === "number" ? a.details.latestValue : a.value;
 }
+
+// Inside the band but with an open alert on the metric, a value reads as the alert's side, never "comfortable".
+const ALERT_SIDE: Partial<Record<AlertKind, string>> = { heat: "warm", chill: "cool", drying: "dry", soggy: "wet" };
+
+/** A value's band as shown beside a zone's open alerts: "comfortable" gives way to the open alert's side. */
+export function bandBeside(
+  band: string | null,
+  openAlerts: readonly { kind: AlertKind; details: Record<string, unknown> }[],
+  metric: "temperature" | "moisture",
+): string | null {
+  if (band !== "comfortable") return band;
+  const on = openAlerts.find((a) => metricOfAlert(a.kind, a.details) === metric && ALERT_SIDE[a.kind]);
+  return on ? ALERT_SIDE[on.kind]! : band;
+}

@@ -16,7 +16,7 @@ process.env.APP_URL = appUrl();
 // Mail on too, so the outbox row carries the e-mail a person gets when their pushes fail.
 process.env.SMTP_PORT = String(inject("smtpPort"));
 const { db } = await import("@/db");
-const { getAlertRow, raiseAlert } = await import("@/db/queries/alerts");
+const { getAlertRow, listAlerts, raiseAlert } = await import("@/db/queries/alerts");
 const { insertReadings } = await import("@/db/queries/readings");
 const { insertFeeding } = await import("@/db/queries/feedings");
 const { savePushSubscription } = await import("@/db/queries/push");
@@ -204,6 +204,34 @@ describe("an alert leads to the data", () => {
     await expect.poll(() => chart.locator("p[aria-live]").textContent(), SLOW).toMatch(/^Latest 22\.0 °C, in the band, but a heat alert is open/);
     await open.getByRole("link", { name: /Open the alert/ }).click();
     await page.waitForURL(new RegExp(`/alerts/${ids.hot}$`));
+    expect(pageErrors.get(page)).toEqual([]);
+  });
+
+  it("B2: the bin page says its open alerts before its zones, and no zone under a heat alert reads comfortable", async () => {
+    const page = await signedIn();
+    await page.goto(`${appUrl()}/farms/${farmId}/bins/${bed.binId}`);
+    const open = page.locator('section[aria-labelledby="open-h"]');
+    await open.waitFor();
+    expect(await top(page, 'section[aria-labelledby="open-h"]')).toBeLessThan(await top(page, 'section[aria-labelledby="zones-h"]'));
+    // Act now first, then the heads-up; the words they were raised with, and each opens its page.
+    const cards = open.locator("[data-level]");
+    const levels = await cards.evaluateAll((els) => els.map((e) => e.getAttribute("data-level")));
+    // Test A settled the fresh zone's act-now alert; whatever is still open, act now comes first.
+    const stillOpen = (await listAlerts(farmId, { open: true, binId: bed.binId })).map((o) => o.alert.level);
+    expect([...levels].sort()).toEqual([...stillOpen].sort());
+    expect(levels).toContain("heads_up");
+    expect(levels).toEqual([...levels].sort((a, b) => Number(b === "act_now") - Number(a === "act_now")));
+    expect(await open.textContent()).toContain("Long Bed, working zone: rising 2.0 °C/h after a feeding");
+    expect(await open.locator(`a[href$="/alerts/${ids.hot}"]`).count()).toBeGreaterThan(0);
+    // The working zone reads 22 °C, inside E. fetida's 15–25 °C (NC State Extension), under an open heat alert.
+    const zones = await page.locator('section[aria-labelledby="zones-h"] li').allTextContents();
+    const working = zones.find((z) => /working/i.test(z))!;
+    expect(working).toMatch(/22\.0 °C\s*warm/);
+    expect(working).not.toMatch(/°C\s*comfortable/);
+    // The shed tote, with no alert on its temperature, still says comfortable: the rule is per zone.
+    await page.goto(`${appUrl()}/farms/${farmId}/bins/${shed.binId}`);
+    await page.locator('section[aria-labelledby="zones-h"]').waitFor();
+    expect(await page.locator('section[aria-labelledby="zones-h"]').textContent()).toMatch(/19\.0 °C\s*comfortable/);
     expect(pageErrors.get(page)).toEqual([]);
   });
 

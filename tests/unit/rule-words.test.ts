@@ -4,6 +4,7 @@ import { describe, expect, it } from "vitest";
 import { RULE_PARAMETERS, resolveRules } from "@/lib/domain/rules";
 import { ruleInWords, sourceInWords } from "@/lib/domain/rules/summary";
 import { speciesProfiles } from "@/lib/domain/species";
+import { fromShown, toShown, unitLabel } from "@/components/rules/rule-units";
 
 const rules = resolveRules(speciesProfiles["eisenia-fetida"], {});
 
@@ -21,6 +22,9 @@ describe("a rule in a keeper's words", () => {
     // a rate has no 32° offset: 1 °C an hour is 1.8 °F an hour
     expect(imperial).toContain("warms 1.8 °F an hour faster");
     expect(imperial).not.toMatch(/°C/);
+    // 4 kg/m² × 0.3048² m² per ft² ÷ 0.45359237 kg per lb = 0.819 lb/ft² (international yard and pound, 1959)
+    expect(imperial).toContain("(0.82 lb or more per square foot of bed)");
+    expect(imperial).not.toMatch(/\bkg\b|metre/);
   });
 
   it("a bin's own value changes the sentence", () => {
@@ -52,5 +56,20 @@ describe("where a default comes from, for a keeper", () => {
     for (const specs of Object.values(RULE_PARAMETERS)) {
       for (const p of specs) expect(sourceInWords(p.source)).not.toMatch(/^(from memory|common practice|species:)/);
     }
+  });
+});
+
+describe("a heavy-feed line typed on an imperial farm", () => {
+  it("shows kg as lb and kg/m² as lb/ft², and stores what was typed back in metric", () => {
+    expect(unitLabel("kg", "imperial")).toBe("lb");
+    expect(unitLabel("kg/m²", "imperial")).toBe("lb/ft²");
+    expect(unitLabel("kg/m²", "metric")).toBe("kg/m²");
+    // 2 kg = 4.409 lb (1 lb = 0.45359237 kg)
+    expect(toShown("heavyFeedKg", "kg", 2, "imperial")).toBeCloseTo(4.4092, 4);
+    // 4 kg/m² = 0.8193 lb/ft² (1 ft = 0.3048 m)
+    expect(toShown("heavyFeedKgPerM2", "kg/m²", 4, "imperial")).toBeCloseTo(0.8193, 4);
+    expect(fromShown("heavyFeedKgPerM2", "kg/m²", 0.8193, "imperial")).toBeCloseTo(4, 3);
+    expect(fromShown("heavyFeedKg", "kg", 10, "imperial")).toBeCloseTo(4.5359, 4);
+    expect(fromShown("heavyFeedKg", "kg", 10, "metric")).toBe(10);
   });
 });

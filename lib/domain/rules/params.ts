@@ -64,7 +64,7 @@ export const RULE_PARAMETERS = {
     common("rhythmDays", "Rise compared with the same hour on the previous", "days", 3),
     // Fresh feed can self-heat and kill the worms (Wikipedia "Vermicompost", "Climate and temperature", V);
     // how much food makes a feeding heavy, and how long to watch, have no published figure.
-    common("heavyFeedKgPerM2", "A feeding is heavy from this much food per square metre of bed", "kg/m²", 4),
+    common("heavyFeedKgPerM2", "A feeding is heavy from this much food per area of bed floor", "kg/m²", 4),
     common("heavyFeedKg", "… or, for a bin with no size, from this much food", "kg", 2),
     common("feedingWatchHours", "Watch a zone for a fast rise this long after a heavy feeding", "h", 48),
     common("feedingWatchMaxHours", "… longer for heavier feedings, up to", "h", 96),

@@ -1,7 +1,7 @@
 // What each alert rule does, in a keeper's words, from the numbers it runs on (the bin's own or the
 // species defaults): "Tells the crew when the bed stays above 25 °C for 10 min". The rules screen
 // says this first and folds each number's source away.
-import { UNIT_LABELS, celsiusDeltaToFahrenheit, formatNumber, temperatureForDisplay, type UnitSystem } from "../units";
+import { KG_PER_LB, M_PER_FOOT, UNIT_LABELS, celsiusDeltaToFahrenheit, formatNumber, temperatureForDisplay, type UnitSystem } from "../units";
 import type { SpeciesId } from "../vocabulary";
 import type { RuleKind } from "./params";
 
@@ -18,6 +18,9 @@ function sayer(system: UnitSystem) {
     pct: (p: number) => `${trim(p)} %`,
     min: (m: number) => `${trim(m, 0)} min`,
     h: (h: number) => `${trim(h)} h`,
+    // Food per floor area of bed: kg per square metre, or pounds per square foot.
+    perArea: (kgPerM2: number) =>
+      system === "metric" ? `${trim(kgPerM2)} kg or more per square metre` : `${trim((kgPerM2 / KG_PER_LB) * M_PER_FOOT ** 2, 2)} lb or more per square foot`,
   };
 }
 
@@ -30,7 +33,7 @@ export function ruleInWords(kind: RuleKind, t: T, system: UnitSystem): string {
     case "heat":
       return (
         `Tells the crew when the bed stays above ${s.temp(t.headsUpAboveC!)}${held(t.raiseMinutes!)} (heads-up), ` +
-        `or at ${s.temp(t.actNowAtC!)} or more (act now). After a heavy feeding (${trim(t.heavyFeedKgPerM2!)} kg or more per square metre of bed) ` +
+        `or at ${s.temp(t.actNowAtC!)} or more (act now). After a heavy feeding (${s.perArea(t.heavyFeedKgPerM2!)} of bed) ` +
         `it watches for ${s.h(t.feedingWatchHours!)}, longer for heavier ones up to ${s.h(t.feedingWatchMaxHours!)}, and gives a heads-up when ` +
         `the bed warms ${s.rate(t.riseRateCPerHour!)} faster than it usually does at that hour over the last ${trim(t.rhythmDays!, 0)} days. ` +
         settles(`at or below ${s.temp(t.headsUpAboveC! - t.deadbandC!)}`)

@@ -8,6 +8,10 @@ import { FeedingLog } from "@/components/logbook/feeding-log";
 import { LogbookList } from "@/components/logbook/logbook-list";
 import { QuickLogForms } from "@/components/logbook/quick-log-forms";
 import { StatusMark } from "@/components/ui/status-mark";
+import { AlertCard } from "@/components/alerts/alert-card";
+import { formatMetric } from "@/components/charts/metric-words";
+import { bandBeside, latestValueOf, metricOfAlert } from "@/lib/domain/alert-metric";
+import { zonedFormat } from "@/lib/domain/clock";
 import { oncePerRequest, requirePageMember } from "@/lib/web/session";
 import { binPageView } from "@/lib/server/bins/bin-page-view";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
@@ -35,7 +39,8 @@ export default async function BinPage({
   const who = await requirePageMember({ farmId, binId }, "read");
   const view = await pageView(who, binId);
   if (!view) notFound();
-  const { bin, farm, latest, canLog } = view;
+  const { bin, farm, latest, canLog, openAlerts } = view;
+  const clock = zonedFormat(farm.timezone, { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
   const profile = getSpecies(bin.species);
   const zones = bin.zones.map((z) => ({ id: z.id, kind: z.kind, name: z.name }));
   const asked = (await searchParams).zone;
@@ -60,6 +65,31 @@ export default async function BinPage({
         </Link>
       </div>
 
+      {openAlerts.length > 0 && (
+        <section aria-labelledby="open-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+          <h2 id="open-h" className="text-xl font-bold">
+            Open alerts
+          </h2>
+          <ul className="mt-2 space-y-2">
+            {openAlerts.map((a) => {
+              const v = a.kind === "silent_probe" ? null : latestValueOf(a);
+              return (
+                <li key={a.id}>
+                  <AlertCard
+                    level={a.level}
+                    kind={a.kind}
+                    message={a.raisedWords}
+                    latest={v == null ? null : `now ${formatMetric(metricOfAlert(a.kind, a.details), v, farm.unitSystem)}`}
+                    href={`/farms/${farmId}/alerts/${a.id}`}
+                    when={a.state === "claimed" ? `claimed by ${a.claimedByName ?? "someone"}` : `raised ${clock(a.raisedAt.toISOString())}`}
+                  />
+                </li>
+              );
+            })}
+          </ul>
+        </section>
+      )}
+
       <section aria-labelledby="zones-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="zones-h" className="text-xl font-bold">
           Zones
@@ -73,6 +103,7 @@ export default async function BinPage({
               const l = latest.get(z.id) ?? {};
               const t = l.temperature;
               const m = l.moisture;
+              const onZone = openAlerts.filter((a) => a.zoneId === z.id);
               return (
                 <li key={z.id}>
                   <Link href={`/farms/${farmId}/zones/${z.id}`} className="flex min-h-16 items-center justify-between gap-2 py-2">
@@ -81,11 +112,11 @@ export default async function BinPage({
                       <span className="mt-1 grid grid-cols-2 gap-x-3">
                         <span>
                           <span className="tabular block text-lg">{t ? formatTemperature(t.value, farm.unitSystem) : "—"}</span>
-                          <StatusMark band={profile && t ? classifyTemperature(profile, t.value) : null} />
+                          <StatusMark band={bandBeside(profile && t ? classifyTemperature(profile, t.value) : null, onZone, "temperature")} />
                         </span>
                         <span>
                           <span className="tabular block text-lg">{m ? formatPercent(m.value) : "—"}</span>
-                          <StatusMark band={profile && m ? classifyMoisture(profile, m.value) : null} />
+                          <StatusMark band={bandBeside(profile && m ? classifyMoisture(profile, m.value) : null, onZone, "moisture")} />
                         </span>
                       </span>
                     </span>

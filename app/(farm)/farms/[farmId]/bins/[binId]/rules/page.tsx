@@ -8,6 +8,7 @@ import { binWithFarm } from "@/lib/server/bins/bin-with-farm";
 import { binRulesView } from "@/lib/server/rules/bin-rules-view";
 import { getSpecies } from "@/lib/domain/species";
 import { toWire } from "@/lib/domain/wire";
+import { BAND_SOURCES } from "@/lib/domain/rules/summary";
 
 export const metadata: Metadata = { title: "Alert rules" };
 
@@ -36,6 +37,21 @@ export default async function BinRulesPage({ params }: { params: Promise<{ farmI
         {!owner && <p className="mt-2 rounded-xl bg-soil-100 p-3">Only an owner of {farm.name} can change these rules.</p>}
       </div>
       <RulesTable binId={binId} initial={initial} words={KIND_WORDS} system={farm.unitSystem} timezone={farm.timezone} canEdit={owner} />
+      <section className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+        <details>
+          <summary className="min-h-11 cursor-pointer py-2 font-bold">Where the {species.commonName}&apos;s lines come from</summary>
+          {/* Quoted as the sources print them, in °C; the rules above are in the farm's units (data-both-units
+              tells the words test this block is a quotation). */}
+          <div data-both-units className="space-y-2 text-sm text-soil-700">
+            {farm.unitSystem === "imperial" && <p>The studies give their figures in °C (°F = °C × 1.8 + 32).</p>}
+            <ul className="list-disc space-y-2 pl-5">
+              {BAND_SOURCES[species.id].map((line) => (
+                <li key={line}>{line}</li>
+              ))}
+            </ul>
+          </div>
+        </details>
+      </section>
     </main>
   );
 }
