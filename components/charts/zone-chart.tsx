@@ -41,7 +41,15 @@ type Props = {
   marks: readonly ChartMark[];
   /** A stored value in words ("23.4 °C, comfortable"). */
   describe: (stored: number) => string;
+  /** Where the readings are heading (the rules' own rate or trend, per hour in stored units): drawn
+   * as a dashed line on from the latest reading, into a short stretch of the time axis after now. */
+  heading?: ChartHeading | null;
 };
+
+export type ChartHeading = { ratePerHour: number | null; crossingAt: number | null; words: string };
+
+/** How far past now the axis runs when a heading is drawn: an eighth of the window. */
+const AHEAD_SHARE = 0.125;
 
 type Geom = { left: number; top: number; width: number; height: number; xMin: number; xMax: number; bandTop: number; bandBottom: number };
 
@@ -120,6 +128,9 @@ export function ZoneChart(p: Props) {
   const xMin = data ? Date.parse(data.from) / 1000 : 0;
   const xMax = data ? Date.parse(data.to) / 1000 : 1;
   const marks = useMemo(() => p.marks.filter((m) => m.t >= xMin && m.t <= xMax), [p.marks, xMin, xMax]);
+  // A heading is drawn only on a window that ends now, and only with a rate to draw.
+  const rate = !p.to && p.heading?.ratePerHour != null && Number.isFinite(p.heading.ratePerHour) ? p.heading.ratePerHour : null;
+  const xEnd = rate === null ? xMax : xMax + (xMax - xMin) * AHEAD_SHARE;
 
   const summary = useMemo(() => {
     if (!data) return null;
@@ -150,6 +161,15 @@ export function ZoneChart(p: Props) {
     return found.reduce<{ t: number; v: number } | null>((a, b) => (!a || b.t > a.t ? b : a), null);
   }, [p.to, p.latest, summary, aggregated, recent]);
   const moments = useMemo(() => (p.moments ?? []).filter((m) => m.t >= xMin && m.t <= xMax), [p.moments, xMin, xMax]);
+  // The heading's line: from the latest reading along the rate, to the axis' end or, when the trend
+  // crosses the band's edge sooner, to that crossing (stored units; t in Unix seconds).
+  const crossingAt = p.heading?.crossingAt ?? null;
+  const ahead = useMemo(() => {
+    if (rate === null || !latest) return null;
+    const crossing = crossingAt !== null ? crossingAt / 1000 : null;
+    const t1 = crossing !== null && crossing > latest.t && crossing < xEnd ? crossing : xEnd;
+    return { t0: latest.t, v0: latest.v, t1, v1: latest.v + (rate * (t1 - latest.t)) / 3600 };
+  }, [rate, latest, crossingAt, xEnd]);
 
   useEffect(() => {
     const el = box.current;
@@ -170,8 +190,8 @@ export function ZoneChart(p: Props) {
         bands.push({ series: [3 + k * per, 2 + k * per], fill: withAlpha(line, dark ? 0.26 : 0.18) });
       }
     });
-    const lo = Math.min(p.band.low, conv(summary.lo));
-    const hi = Math.max(p.band.high, conv(summary.hi));
+    const lo = Math.min(p.band.low, conv(summary.lo), ahead ? conv(ahead.v1) : Infinity);
+    const hi = Math.max(p.band.high, conv(summary.hi), ahead ? conv(ahead.v1) : -Infinity);
     const pad = (hi - lo) * 0.08 || 1;
     const font = `13px ${getComputedStyle(el).fontFamily}`;
     const axis = {
@@ -188,7 +208,7 @@ export function ZoneChart(p: Props) {
         width: u.bbox.width / r,
         height: u.bbox.height / r,
         xMin,
-        xMax,
+        xMax: xEnd,
         bandTop: u.bbox.top / r + u.valToPos(p.band.high, "y"),
         bandBottom: u.bbox.top / r + u.valToPos(p.band.low, "y"),
       });
@@ -200,7 +220,7 @@ export function ZoneChart(p: Props) {
       cursor: { drag: { x: false, y: false }, points: { size: 8 } },
       select: { show: false, left: 0, top: 0, width: 0, height: 0 },
       tzDate: (ts) => uPlot.tzDate(new Date(ts * 1000), p.timezone),
-      scales: { x: { time: true, range: [xMin, xMax] }, y: { range: [Math.max(p.metric === "temperature" ? -Infinity : 0, lo - pad), hi + pad] } },
+      scales: { x: { time: true, range: [xMin, xEnd] }, y: { range: [Math.max(p.metric === "temperature" ? -Infinity : 0, lo - pad), hi + pad] } },
       axes: [
         { ...axis, space: 64, values: timeLabels(p.timezone) },
         // 1-2-5 steps only, so whole-number ticks never have to print 22.5 as "23"
@@ -259,6 +279,21 @@ export function ZoneChart(p: Props) {
               lastRight = left + w;
               ctx.fillText(m.label, left, u.bbox.top + (22 + 16 * row) * r);
             }
+            // Where it is heading: a dashed line on from the latest reading, kept inside the plot.
+            if (ahead) {
+              ctx.save();
+              ctx.beginPath();
+              ctx.rect(u.bbox.left, u.bbox.top, u.bbox.width, u.bbox.height);
+              ctx.clip();
+              ctx.strokeStyle = line;
+              ctx.lineWidth = 2 * r;
+              ctx.setLineDash([3 * r, 3 * r]);
+              ctx.beginPath();
+              ctx.moveTo(u.valToPos(ahead.t0, "x", true), u.valToPos(conv(ahead.v0), "y", true));
+              ctx.lineTo(u.valToPos(ahead.t1, "x", true), u.valToPos(conv(ahead.v1), "y", true));
+              ctx.stroke();
+              ctx.restore();
+            }
             ctx.restore();
           },
         ],
@@ -285,12 +320,32 @@ export function ZoneChart(p: Props) {
       ro.disconnect();
       plot.destroy();
     };
-  }, [data, tables, summary, aggregated, conv, clock, marks, moments, xMin, xMax, p.band.low, p.band.high, p.color, p.metric, p.timezone, p.unit, scheme]);
+  }, [
+    data,
+    tables,
+    summary,
+    aggregated,
+    conv,
+    clock,
+    marks,
+    moments,
+    ahead,
+    xMin,
+    xMax,
+    xEnd,
+    p.band.low,
+    p.band.high,
+    p.color,
+    p.metric,
+    p.timezone,
+    p.unit,
+    scheme,
+  ]);
 
   const pickedMark = marks.find((m) => m.id === picked) ?? null;
   const latestWords = latest ? `${p.to ? "last in this window" : "latest"} ${p.describe(latest.v)} at ${clock(latest.t * 1000)}` : "";
   const label = summary
-    ? `${p.title}, ${p.rangeWords}: ${latestWords}; lowest ${formatNumber(conv(summary.lo), 1)}, highest ${formatNumber(conv(summary.hi), 1)} ${p.unit}; ${p.band.words} shaded; ${marks.length === 1 ? "1 feeding" : `${marks.length} feedings`} marked${moments.map((m) => `; ${m.label} at ${clock(m.t * 1000)}`).join("")}.`
+    ? `${p.title}, ${p.rangeWords}: ${latestWords}; lowest ${formatNumber(conv(summary.lo), 1)}, highest ${formatNumber(conv(summary.hi), 1)} ${p.unit}; ${p.band.words} shaded; ${marks.length === 1 ? "1 feeding" : `${marks.length} feedings`} marked${moments.map((m) => `; ${m.label} at ${clock(m.t * 1000)}`).join("")}${ahead && p.heading ? `; dashed on from the latest reading: ${p.heading.words}` : ""}.`
     : `${p.title}, ${p.rangeWords}: no readings.`;
 
   return (
@@ -324,6 +379,7 @@ export function ZoneChart(p: Props) {
             data-plot-width={geom?.width}
             data-plot-top={geom?.top}
             data-plot-height={geom?.height}
+            data-heading-to={ahead ? Math.round(ahead.t1) : undefined}
           />
           {geom && marks.length > 0 && (
             <ul aria-label={`Feedings on the ${p.title.toLowerCase()} chart`} className="pointer-events-none absolute inset-0">
@@ -365,6 +421,12 @@ export function ZoneChart(p: Props) {
           <Mark name="feeding" className="text-soil-800" />
           feeding
         </span>
+        {ahead && (
+          <span className="inline-flex items-center gap-1">
+            <span aria-hidden="true" className="inline-block w-4 border-t-2 border-dashed border-soil-800" />
+            heading
+          </span>
+        )}
         {moments.length > 0 && (
           <span className="inline-flex items-center gap-1">
             <span aria-hidden="true" className="inline-block h-3 w-0.5 bg-soil-800" />

@@ -9,7 +9,7 @@ import { AMMONIA_CHART_CAUTION } from "@/lib/domain/alert-words";
 import type { UnitSystem } from "@/lib/domain/units";
 import { feedingMarks } from "./feeding-marks";
 import { describeMetric, displayUnit, METRIC_COLORS, METRIC_TITLES, metricBand, type AmmoniaLines } from "./metric-words";
-import { ZoneChart, type ChartMetric, type ChartReading } from "./zone-chart";
+import { ZoneChart, type ChartHeading, type ChartMetric, type ChartReading } from "./zone-chart";
 
 const RANGES = [
   { value: "24h", label: "24 h", days: 1, words: "last 24 hours" },
@@ -31,6 +31,8 @@ type Props = {
   openAlerts?: Partial<Record<ChartMetric, string>>;
   /** The zone's newest reading of each metric, as the page read it. */
   latest?: Partial<Record<ChartMetric, ChartReading>>;
+  /** Where temperature and moisture are heading (lib/server/zones/zone-heading-view.ts). */
+  heading?: Partial<Record<"temperature" | "moisture", ChartHeading>>;
 };
 
 // The zone's charts over one shared window, with the bin's feedings (this zone's and whole-bin ones) as marks.
@@ -76,6 +78,7 @@ export function ZoneCharts(p: Props) {
             timezone={p.timezone}
             color={METRIC_COLORS[m]}
             marks={marks}
+            heading={m === "ammonia" ? null : (p.heading?.[m] ?? null)}
             describe={(v) => describeMetric(m, v, profile, p.ammonia, p.system, p.openAlerts?.[m])}
           />
           {/* The ammonia chart carries the same caution as an ammonia alert. */}

@@ -196,6 +196,11 @@ describe("an alert leads to the data", () => {
     // Where it is heading, in words: 2 °C/h over the last hour (E. fetida band from the species profile).
     expect(await page.locator('[data-heading="temperature"]').textContent()).toMatch(/Rising 2\.0 °C\/h over the last hour/);
     await page.screenshot({ path: screenshotPath("zone-open-alert"), fullPage: true });
+    // On the chart too: a dashed line on from the latest reading into the next hours, and its words.
+    const plot = page.locator('figure[data-metric="temperature"] [role="img"]');
+    await expect.poll(() => plot.getAttribute("data-heading-to"), SLOW).not.toBeNull();
+    expect(Number(await plot.getAttribute("data-heading-to")) * 1000).toBeGreaterThan(Date.now());
+    expect(await plot.getAttribute("aria-label")).toMatch(/dashed on from the latest reading: Rising 2\.0 °C\/h over the last hour/);
     // At 30 days the chart draws hourly means, but its "latest" is still the newest reading, 22.0 °C
     // (the last hour's mean of a 2 °C/h rise would be about 21 °C).
     const chart = page.locator('figure[data-metric="temperature"]');

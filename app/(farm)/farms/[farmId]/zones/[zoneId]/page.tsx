@@ -177,6 +177,7 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
           system={system}
           timezone={timezone}
           latest={view.latest}
+          heading={heading}
           openAlerts={Object.fromEntries(
             [...openAlerts]
               .reverse()
