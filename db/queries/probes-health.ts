@@ -67,3 +67,22 @@ export async function listProbeRefusals(probeId: number, limit: number): Promise
     limit ${limit}`);
   return r.rows.map((row) => ({ ...row, id: Number(row.id), receivedAt: new Date(row.receivedAt) }));
 }
+
+/**
+ * Records a refusal of a known probe that its message cannot carry itself (a wrong token, a topic
+ * not its own), at most one per probe and code in `everyMs`, so that a stranger who knows a probe's
+ * code cannot fill the table. Whether a row was written.
+ */
+export async function recordProbeRefusalThrottled(
+  row: { farmId: string; probeId: number; source: RejectSource; topic: string | null; code: string; reason: string },
+  everyMs: number,
+): Promise<boolean> {
+  const r = await db().execute(sql`
+    insert into rejected_messages (farm_id, probe_id, source, topic, reason, records)
+    select ${row.farmId}, ${row.probeId}, ${row.source}::reject_source, ${row.topic}, ${`${row.code}: ${row.reason}`}, 1
+    where not exists (
+      select 1 from rejected_messages
+      where probe_id = ${row.probeId} and reason like ${`${row.code}:%`} and received_at > now() - make_interval(secs => ${everyMs / 1000})
+    )`);
+  return (r.rowCount ?? 0) > 0;
+}

@@ -2,8 +2,15 @@
 // one a line (lib/domain/telemetry.ts rejectionText); here each code becomes a plain sentence that
 // says what went wrong and what to change on the probe.
 import type { RejectCode } from "./telemetry";
+import { probeTopics } from "./vocabulary";
 
-export const REFUSAL_SENTENCES: Record<RejectCode, string> = {
+/** Refusals at the door, recorded for a known probe by lib/server/probes/record-door-refusal.ts. */
+export type DoorRefusalCode = "wrong-token" | "wrong-topic";
+
+export const REFUSAL_SENTENCES: Record<RejectCode | DoorRefusalCode, string> = {
+  "wrong-token":
+    "Wrong token: the probe's code is known but its token is not the one given when it was registered. Copy the token again, or give it a new one.",
+  "wrong-topic": `Wrong topic: the probe published to a topic that is not its own. It publishes readings to ${probeTopics("<its code>").readings}.`,
   "too-large": "The message was too large. Send fewer readings in each message.",
   "malformed-json": "The message was not JSON text. Send a SenML list of records, such as the example.",
   "malformed-senml": "A SenML record is malformed: the message is JSON but not a list of records with names and values like the example.",
@@ -25,7 +32,7 @@ export type RefusalWords = {
   details: string[];
 };
 
-const isCode = (s: string): s is RejectCode => Object.hasOwn(REFUSAL_SENTENCES, s);
+const isCode = (s: string): s is RejectCode | DoorRefusalCode => Object.hasOwn(REFUSAL_SENTENCES, s);
 
 /** The plain sentence for a stored reason (its first line's code), and its lines. */
 export function refusalWords(reason: string): RefusalWords {
