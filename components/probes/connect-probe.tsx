@@ -46,7 +46,14 @@ function Snippet({ id, title, text }: { id: string; title: string; text: string 
         <h3 className="text-sm font-bold">{title}</h3>
         <CopyButton label={`Copy ${title}`} text={text} target={pre} />
       </div>
-      <pre ref={pre} className="mt-1 max-h-20 overflow-auto rounded bg-white p-2 text-xs break-all whitespace-pre-wrap ring-1 ring-soil-300">
+      {/* Focusable, so the text that scrolls inside it can be read from the keyboard too. */}
+      <pre
+        ref={pre}
+        tabIndex={0}
+        role="region"
+        aria-label={`${title} text`}
+        className="mt-1 max-h-20 overflow-auto rounded bg-white p-2 text-xs break-all whitespace-pre-wrap ring-1 ring-soil-300"
+      >
         {text}
       </pre>
     </div>
