@@ -45,7 +45,11 @@ export function ProbeHealthPanel({ probeId, system }: { probeId: number; system:
           <Mark name={look.mark} size={16} />
           {waiting ? "Waiting for the first reading" : words.headline}
         </p>
-        <p className="tabular text-sm">{waiting ? "This page turns live by itself when the first reading arrives; no need to reload." : words.detail}</p>
+        <p className="tabular text-sm">
+          {waiting
+            ? `This page turns live by itself when the first reading arrives; no need to reload. The probe signs in with user name ${data.probe.code} and its token; a lost token is replaced with New token on the Probes page.`
+            : words.detail}
+        </p>
         <p className="text-sm text-soil-700">
           Reports every {data.probe.reportIntervalS} s; silent after {data.presence.silentAfterMinutes} min without a report, over MQTT or HTTP alike
           {data.probe.connected ? " · MQTT connection open now" : ""}.
