@@ -9,7 +9,9 @@ import { probesKey } from "@/lib/client/swr-keys";
 import type { ProbeRow, RegisteredProbe, RotatedToken } from "@/lib/client/wire";
 import { presenceWords } from "@/lib/domain/probe-presence";
 import { Mark, type MarkName } from "@/components/ui/marks";
-import { probeTopics, type ProbePresenceState } from "@/lib/domain/vocabulary";
+import type { PublicAddresses } from "@/lib/domain/probe-snippets";
+import type { ProbePresenceState } from "@/lib/domain/vocabulary";
+import { ConnectProbe } from "./connect-probe";
 
 type ZoneOption = { id: string; label: string };
 
@@ -35,25 +37,21 @@ function Presence({ probe, headline }: { probe: ProbeRow; headline: string }) {
   );
 }
 
-function TokenBox({ code, token, onDone }: { code: string; token: string; onDone: () => void }) {
-  return (
-    <div role="status" className="rounded-xl bg-straw-100 p-3 ring-2 ring-straw-600">
-      <p className="font-bold">Token for {code}: copy it now, it is shown only once.</p>
-      <code className="mt-2 block rounded bg-white p-2 text-sm break-all">{token}</code>
-      <p className="mt-2 text-sm">
-        The probe signs in to the broker with user name <b>{code}</b> and this token, and publishes its readings to{" "}
-        <code className="break-all">{probeTopics(code).readings}</code>.
-      </p>
-      <button onClick={onDone} className="mt-2 min-h-11 rounded-lg bg-soil-800 px-4 font-bold text-white">
-        I have copied it
-      </button>
-    </div>
-  );
-}
+type Shown = { probeId: number; code: string; token: string; reportIntervalS: number; from: "register" | "rotate" };
 
-export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones: ZoneOption[]; canManage: boolean }) {
+export function ProbeList({
+  farmId,
+  zones,
+  canManage,
+  addresses,
+}: {
+  farmId: string;
+  zones: ZoneOption[];
+  canManage: boolean;
+  addresses: PublicAddresses | null;
+}) {
   const { data, error, mutate } = useProbes(farmId);
-  const [shown, setShown] = useState<{ code: string; token: string } | null>(null);
+  const [shown, setShown] = useState<Shown | null>(null);
   const { busy, errors, setErrors, run } = useSend();
 
   async function register(e: React.FormEvent<HTMLFormElement>) {
@@ -69,16 +67,17 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
     );
     if (!sent.ok) return;
     const body = sent.value;
-    setShown({ code: body.probe.code, token: body.token });
     (e.target as HTMLFormElement).reset();
+    // The list first, so the box below it does not move once shown.
     await mutate();
+    setShown({ probeId: body.probe.id, code: body.probe.code, token: body.token, reportIntervalS: body.probe.reportIntervalS, from: "register" });
   }
 
   async function newToken(p: ProbeRow) {
     if (!confirm(`Replace the token of ${p.code}? The probe stops reporting until it has the new one.`)) return;
     try {
       const { token } = await send<RotatedToken>("POST", `/api/probes/${p.id}/token`);
-      setShown({ code: p.code, token });
+      setShown({ probeId: p.id, code: p.code, token, reportIntervalS: p.reportIntervalS, from: "rotate" });
     } catch (err) {
       setErrors({ form: failureOf(err).message });
     }
@@ -93,10 +92,22 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
     await mutate();
   }
 
+  // The token and how to connect, where the owner tapped: at the register form, or under the probe given a new token.
+  const connect = (from: Shown["from"], probeId?: number) =>
+    shown && addresses && shown.from === from && (probeId === undefined || shown.probeId === probeId) ? (
+      <ConnectProbe
+        code={shown.code}
+        token={shown.token}
+        reportIntervalS={shown.reportIntervalS}
+        addresses={addresses}
+        probeHref={`/farms/${farmId}/probes/${shown.probeId}`}
+        onDone={() => setShown(null)}
+      />
+    ) : null;
+
   if (!data) return <p className="p-4">{error ? error.message : "Loading…"}</p>;
   return (
     <div className="space-y-4 p-3">
-      {shown && <TokenBox {...shown} onDone={() => setShown(null)} />}
       {data.probes.length === 0 && (
         <p className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">No probes yet.{canManage ? " Register the first one below." : ""}</p>
       )}
@@ -120,7 +131,7 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
                 {p.firmware ? ` · ${p.firmware}` : ""}
               </p>
               <Link href={`/farms/${farmId}/probes/${p.id}`} className="inline-flex min-h-11 items-center text-soil-700 underline underline-offset-4">
-                Oven-dry samples and calibration
+                Health, refused messages and calibration
               </Link>
               {canManage && (
                 <div className="mt-2 flex flex-wrap gap-2">
@@ -134,10 +145,12 @@ export function ProbeList({ farmId, zones, canManage }: { farmId: string; zones:
                   </button>
                 </div>
               )}
+              {connect("rotate", p.id)}
             </li>
           );
         })}
       </ul>
+      {connect("register")}
       {canManage && (
         <form onSubmit={register} className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
           <h2 className="text-lg font-bold">Register a probe</h2>

@@ -5,6 +5,7 @@ export const feedingsKey = (binId: string | null) => (binId ? `/api/bins/${binId
 export const ingredientsKey = (farmId: string | null) => (farmId ? `/api/farms/${farmId}/ingredients` : null);
 export const logbookKey = (binId: string | null) => (binId ? `/api/bins/${binId}/logbook` : null);
 export const probeCalibrationKey = (probeId: number | null) => (probeId != null ? `/api/probes/${probeId}/calibration` : null);
+export const probeHealthKey = (probeId: number | null) => (probeId != null ? `/api/probes/${probeId}/health` : null);
 export const probesKey = (farmId: string | null) => (farmId ? `/api/farms/${farmId}/probes` : null);
 export const binRulesKey = (binId: string | null) => (binId ? `/api/bins/${binId}/rules` : null);
 /** Matches the Today key of any farm. */

@@ -16,6 +16,7 @@ import type { addSample } from "@/lib/server/probes/add-sample";
 import type { calibrationView } from "@/lib/server/probes/calibration-view";
 import type { fitProbeCalibration } from "@/lib/server/probes/fit-calibration";
 import type { listProbes } from "@/lib/server/probes/list-probes";
+import type { probeHealth } from "@/lib/server/probes/probe-health";
 import type { registerProbe } from "@/lib/server/probes/register";
 import type { rotateProbeToken } from "@/lib/server/probes/rotate-token";
 import type { pushPublicKey } from "@/lib/server/push/public-key";
@@ -45,6 +46,8 @@ export type TodayZone = TodayBin["zones"][number];
 /** The farm's probes with presence, battery and place, and the farm's time zone to say times in. */
 export type ProbeList = Answer<typeof listProbes>;
 export type ProbeRow = ProbeList["probes"][number];
+/** One probe's presence, latest values and latest refused messages in plain words. */
+export type ProbeHealth = Answer<typeof probeHealth>;
 /** A probe's oven-dry samples, its fitted line and each sample's residual. */
 export type CalibrationView = Answer<typeof calibrationView>;
 /** What registering a probe answers: the probe and its one-time token. */

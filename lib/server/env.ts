@@ -20,6 +20,13 @@ const envSchema = z.object({
   SMTP_PORT: z.coerce.number().int().optional(),
   MAIL_FROM: z.string().default("Wormward <alerts@wormward.invalid>"),
   APP_URL: z.string().url().default("http://127.0.0.1:3000"),
+  // Where probes reach the broker and the HTTP ingest, as the connect snippets show them (lib/domain/probe-snippets.ts):
+  // mqtt://host:1883 or mqtts://host:8883, and the full URL of POST /api/ingest. Unset: MQTT_HOST:MQTT_PORT and APP_URL's.
+  PUBLIC_MQTT_URL: z
+    .string()
+    .regex(/^mqtts?:\/\/[^/\s]+\/?$/, { message: "PUBLIC_MQTT_URL must be mqtt://host:port or mqtts://host:port" })
+    .optional(),
+  PUBLIC_INGEST_URL: z.string().url({ message: "PUBLIC_INGEST_URL must be the full URL of /api/ingest" }).optional(),
   // How many proxies in front of the app append to X-Forwarded-For (HAProxy `option forwardfor`).
   // 0: the app faces clients itself, and the header is whatever a client wrote (lib/server/auth/client-address).
   TRUSTED_PROXY_HOPS: z.coerce.number().int().min(0).max(5).default(0),

@@ -81,6 +81,9 @@ async function start() {
     VAPID_PRIVATE_KEY: secrets.vapidPrivateKey,
     MQTT_PORT: process.env.MQTT_PORT ?? "18830",
     SMTP_PORT: process.env.SMTP_PORT ?? "2525",
+    // What the connect snippets of the probes page show; set them to this machine's network name for probes elsewhere.
+    PUBLIC_MQTT_URL: process.env.PUBLIC_MQTT_URL ?? `mqtt://127.0.0.1:${process.env.MQTT_PORT ?? "18830"}`,
+    PUBLIC_INGEST_URL: process.env.PUBLIC_INGEST_URL ?? `${appUrl}/api/ingest`,
     PUSH_CA_FILE: path.join(dataDir, "push-ca.pem"),
     // The fake push service below is the only push service on loopback the app may send to.
     PUSH_FAKE_ORIGIN: "https://127.0.0.1:4431",
