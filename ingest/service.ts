@@ -7,6 +7,7 @@ import createDebug from "debug";
 import { db as sharedDb, type Db } from "@/db";
 import { getProbeByCode } from "@/db/queries/probes";
 import { verifyProbeToken } from "@/lib/server/probes/verify-token";
+import { recordDoorRefusal } from "@/lib/server/probes/record-door-refusal";
 import type { Probe } from "@/db/schema";
 import { PRESENCE_GONE, PRESENCE_HERE, probeTopics } from "@/lib/domain/vocabulary";
 import { DEFAULT_LIMITS, excerptOf, rejectionText, summarizeRejections, validateSenmlPayload, type TelemetryLimits } from "@/lib/domain/telemetry";
@@ -176,6 +177,8 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
         (probe) => {
           if (!probe) {
             log("refused connection for %s: bad credentials or archived", code);
+            // For the probe's own page (at most one row a minute); never holds up the answer.
+            recordDoorRefusal("mqtt", code, "wrong-token").catch((err: Error) => log("cannot record the refusal of %s: %s", code, err.message));
             return done(authError(BAD_USERNAME_OR_PASSWORD, "bad user name or password"), false);
           }
           sessions.set(client, { probe, fetchedAt: Date.now(), refreshing: null });
@@ -196,7 +199,12 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
       // Only the probe's own readings and presence topics, matched exactly: anything else, the old
       // wormward/<code>/up among them, is refused like any unknown topic.
       const { readings, presence } = probeTopics(session.probe.code);
-      if (packet.topic !== readings && packet.topic !== presence) return refuse(client, `publish to ${packet.topic}`, cb);
+      if (packet.topic !== readings && packet.topic !== presence) {
+        recordDoorRefusal("mqtt", session.probe.code, "wrong-topic", packet.topic).catch((err: Error) =>
+          log("cannot record the refusal of %s: %s", session.probe.code, err.message),
+        );
+        return refuse(client, `publish to ${packet.topic}`, cb);
+      }
       currentProbe(session)
         .then((probe) => {
           if (!probe) return refuse(client, `publish from archived probe ${session.probe.code}`, cb);

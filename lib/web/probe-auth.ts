@@ -1,6 +1,7 @@
 // Who is posting to /api/ingest: a probe named by its bearer credential, not a person's session.
 import type { Probe } from "@/db/schema";
 import { verifyProbeToken } from "@/lib/server/probes/verify-token";
+import { recordDoorRefusal } from "@/lib/server/probes/record-door-refusal";
 import { AppError, errorResponse } from "@/lib/web/errors";
 
 /**
@@ -21,7 +22,11 @@ export function parseProbeBearer(header: string | null): { code: string; token: 
 /** The probe whose code and token the request carries, or null (unknown code, wrong token, archived, none given). */
 export async function probeFromBearer(req: Request): Promise<Probe | null> {
   const cred = parseProbeBearer(req.headers.get("authorization"));
-  return cred ? verifyProbeToken(cred.code, cred.token) : null;
+  if (!cred) return null;
+  const probe = await verifyProbeToken(cred.code, cred.token);
+  // A known code with the wrong token shows on that probe's page (at most one row a minute).
+  if (!probe) await recordDoorRefusal("http", cred.code, "wrong-token").catch(() => false);
+  return probe;
 }
 
 // RFC 6750 §3: a 401 names the scheme, and error="invalid_token" when credentials were given.

@@ -165,6 +165,9 @@ describe("POST /api/ingest", () => {
       expect(((await res.json()) as ErrorBody).error).toMatchObject({ code: "unauthenticated", message: expect.stringMatching(/code or token is wrong/) });
     }
     expect(await rowsOf(probe.id)).toBe(0);
+    // A known code with a wrong token is noted for that probe's page, once a minute at most.
+    const noted = await c.query<{ source: string }>(`select source from rejected_messages where probe_id = $1 and reason like 'wrong-token%'`, [probe.id]);
+    expect(noted.rows.map((r) => r.source)).toEqual(["http"]);
   });
 
   it("a probe cannot post readings named for another probe", async () => {

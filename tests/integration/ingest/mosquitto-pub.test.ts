@@ -74,6 +74,9 @@ describe("mosquitto_pub against the ingest broker", () => {
     // MQTT 3.1.1 §3.2.2.3: CONNACK return code 4, bad user name or password
     expect(r.stderr).toMatch(/bad user name or password/i);
     expect((await countReadings([b.id])).rows).toBe(0);
+    // The refusal shows on the probe's own page: a wrong-token row, from the MQTT door (recorded
+    // beside the answer, so it may land a moment after the CONNACK).
+    await expect.poll(async () => (await rejectionsOf(b.id)).map((x) => [x.source, x.reason.split(":")[0]])).toContainEqual(["mqtt", "wrong-token"]);
   });
 
   it("refuses a publish to another probe's topic and stores nothing", async () => {

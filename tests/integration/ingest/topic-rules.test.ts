@@ -3,7 +3,7 @@
 // are checked here, each with its clause. The retired names (/up, /status, /down) are unknown topics.
 import type { MqttClient } from "mqtt";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { eq } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { probes } from "@/db/schema";
 import { startIngest, type Ingest } from "@/ingest/service";
@@ -90,7 +90,18 @@ describe("publications", () => {
     const c = await connect(a);
     expect(await publishIsRefused(c, topic(), tempPack(a.code, Math.floor(Date.now() / 1000), 20))).toBe(true);
     expect(await countReadings([a.id, b.id])).toEqual(before);
-    expect(await rejectionsOf(a.id)).toEqual([]);
+    // Nothing about the readings is refused; a topic not its own is noted for the probe's page only
+    // (at most once a minute, so only the first of these cases adds a row).
+    expect((await rejectionsOf(a.id)).filter((x) => !x.reason.startsWith("wrong-topic"))).toEqual([]);
+  });
+
+  it("notes a publish to a topic not its own on the probe's page, with the topic", async () => {
+    await db().execute(sql`delete from rejected_messages where probe_id = ${a.id}`);
+    const c = await connect(a);
+    expect(await publishIsRefused(c, `wormward/${a.code}/up`, tempPack(a.code, Math.floor(Date.now() / 1000), 20))).toBe(true);
+    await expect
+      .poll(async () => (await rejectionsOf(a.id)).map((x) => [x.source, x.reason.split(":")[0], x.topic]))
+      .toEqual([["mqtt", "wrong-topic", `wormward/${a.code}/up`]]);
   });
 
   it("refuses a wildcard in a topic name (§4.7.1-1)", async () => {
