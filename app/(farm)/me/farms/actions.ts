@@ -1,7 +1,6 @@
 "use server";
 
 import { redirect } from "next/navigation";
-import { revalidatePath } from "next/cache";
 import { deleteFarm } from "@/lib/server/farms/delete-farm";
 import { leaveFarm } from "@/lib/server/farms/leave-farm";
 import { deleteFarmForm, leaveFarmForm } from "@/lib/domain/validation/sign-up";
@@ -9,11 +8,17 @@ import { requireMember, requireUser } from "@/lib/web/session";
 import { validatedAction, type ActionState } from "@/lib/web/validated-action";
 
 // Leaving is a person's own membership: any role may, except the last owner (the use case says so).
-export const leaveFarmAction = validatedAction(leaveFarmForm, async ({ farmId }) => {
+const leave = validatedAction(leaveFarmForm, async ({ farmId }) => {
   await leaveFarm(await requireUser(), farmId);
-  revalidatePath("/", "layout");
-  return "You have left the farm.";
+  return "/me/farms?notice=left";
 });
+
+// The farm's own form goes with the farm, so the page says it instead.
+export async function leaveFarmAction(prev: ActionState, form: FormData): Promise<ActionState> {
+  const result = await leave(prev, form);
+  if (result.ok) redirect(result.ok);
+  return result;
+}
 
 const remove = validatedAction(deleteFarmForm, async ({ farmId, confirm }) => {
   await deleteFarm(await requireMember({ farmId }, "manage"), confirm);

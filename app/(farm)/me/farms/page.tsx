@@ -7,11 +7,17 @@ import { deleteFarmAction, leaveFarmAction } from "./actions";
 
 export const metadata: Metadata = { title: "Your farms" };
 
-export default async function MyFarmsPage() {
+export default async function MyFarmsPage({ searchParams }: { searchParams: Promise<{ notice?: string }> }) {
   const farms = await listFarmsOf(await requireUser());
+  const { notice } = await searchParams;
   return (
     <main className="space-y-4 p-5">
       <h1 className="text-2xl font-bold">Your farms</h1>
+      {notice === "left" && (
+        <p role="status" className="rounded-xl bg-leaf-100 p-3 font-bold text-leaf-700">
+          You have left the farm.
+        </p>
+      )}
       {farms.length === 0 && <p className="text-soil-700">You are on no farm.</p>}
       {farms.map((f) => (
         <section key={f.id} aria-label={f.name} className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
