@@ -2,9 +2,9 @@ import { getToken } from "next-auth/jwt";
 import { NextResponse, type NextRequest } from "next/server";
 import { newNonce, pagePolicy, securityHeaders, servedOverHttps } from "@/lib/web/api/security-headers";
 
-// Pages and files that need no session: sign-in, password reset and invitation links are for people
+// Pages and files that need no session: sign-in, sign-up and its mail link, password reset and invitation links are for people
 // who are not signed in (yet); the service worker, manifest and icons are fetched without a page.
-const OPEN = /^\/(?:sign-in|forgot|reset\/|join\/|_next\/|sw\.js|manifest\.webmanifest|icon\.svg|favicon\.ico)/;
+const OPEN = /^\/(?:sign-in|sign-up|check-mail|verify\/|forgot|reset\/|join\/|_next\/|sw\.js|manifest\.webmanifest|icon\.svg|favicon\.ico)/;
 
 // Every page and file gets the security headers; pages get a policy with a fresh nonce, which Next
 // reads from the request's Content-Security-Policy and puts on its scripts. Pages need a session

@@ -71,6 +71,10 @@ export const users = pgTable(
     timezone: text("timezone").notNull().default("UTC"),
     // Raised by a password reset; a session token carrying an older version is refused.
     sessionVersion: integer("session_version").notNull().default(0),
+    // Null until the person opens the link of their sign-up mail. Defaults to now: people who came
+    // in by invitation (the link proved the address), existing accounts and the demo people count
+    // as verified; only a sign-up writes null.
+    emailVerifiedAt: ts("email_verified_at").defaultNow(),
     createdAt: createdAt(),
   },
   // Sign-in looks users up by e-mail, case-insensitively.
@@ -127,6 +131,25 @@ export const passwordResets = pgTable(
   },
   // A reset link finds its row by token hash; the mail rate limit counts a user's recent rows.
   (t) => [uniqueIndex("password_resets_token_uq").on(t.tokenHash), index("password_resets_user_idx").on(t.userId, t.createdAt)],
+);
+
+// Sign-up mails: "verify" rows carry the one-time link (its sha256 only); "notice" rows record a
+// "you already have an account" mail, so both count toward one hourly limit per person.
+export const emailVerifications = pgTable(
+  "email_verifications",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    userId: uuid("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    kind: text("kind", { enum: ["verify", "notice"] }).notNull(),
+    tokenHash: text("token_hash").notNull(),
+    expiresAt: ts("expires_at").notNull(),
+    usedAt: ts("used_at"),
+    createdAt: createdAt(),
+  },
+  // A link finds its row by token hash; the mail limit counts a person's recent rows.
+  (t) => [uniqueIndex("email_verifications_token_uq").on(t.tokenHash), index("email_verifications_user_idx").on(t.userId, t.createdAt)],
 );
 
 export const bins = pgTable(
@@ -530,6 +553,7 @@ export type User = typeof users.$inferSelect;
 export type Membership = typeof memberships.$inferSelect;
 export type Invitation = typeof invitations.$inferSelect;
 export type PasswordReset = typeof passwordResets.$inferSelect;
+export type EmailVerification = typeof emailVerifications.$inferSelect;
 export type Bin = typeof bins.$inferSelect;
 export type Zone = typeof zones.$inferSelect;
 export type Probe = typeof probes.$inferSelect;

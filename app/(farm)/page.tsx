@@ -1,17 +1,21 @@
+import { cookies } from "next/headers";
 import { redirect } from "next/navigation";
+import { StartFarmForm } from "@/components/farm/start-farm-form";
 import { currentUserId } from "@/lib/web/session";
-import { listFarmsOf } from "@/lib/server/farms/list-farms";
+import { LAST_FARM_COOKIE, landingFarm } from "@/lib/server/farms/landing-farm";
+import { startFarmAction } from "./farms/new/actions";
 
-// Home goes to Today of the person's first farm.
+// Home goes to Today of the farm the person had open last (the header's switcher remembers it).
 export default async function Home() {
   const userId = await currentUserId();
   if (!userId) redirect("/sign-in");
-  const [first] = await listFarmsOf(userId);
-  if (first) redirect(`/farms/${first.id}`);
+  const farm = await landingFarm(userId, (await cookies()).get(LAST_FARM_COOKIE)?.value);
+  if (farm) redirect(`/farms/${farm.id}`);
   return (
-    <main className="p-5">
+    <main className="space-y-4 p-5">
       <h1 className="text-2xl font-bold">No farm yet</h1>
-      <p className="mt-2 text-soil-700">You are not on any farm&apos;s team. Ask an owner to invite you, or start a farm of your own.</p>
+      <p className="text-soil-700">Start a farm of your own here. To join someone else&apos;s, open the link in the invitation they sent you.</p>
+      <StartFarmForm action={startFarmAction} />
     </main>
   );
 }

@@ -9,6 +9,7 @@ export const metadata: Metadata = { title: "Sign in" };
 const NOTICES: Record<string, string> = {
   joined: "Your account is ready and you are on the team. Sign in to open the farm.",
   "password-set": "Your new password is set. Sign in with it.",
+  verified: "Your address is confirmed. Sign in to start your farm.",
 };
 
 export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string; notice?: string }> }) {
@@ -32,7 +33,13 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
       <a href="/forgot" className="mt-4 inline-flex min-h-11 items-center text-soil-700 underline">
         Forgot your password?
       </a>
-      <p className="mt-8 text-sm text-soil-500">New to a farm? Ask its owner to invite you.</p>
+      <p className="mt-8 text-soil-700">
+        New here?{" "}
+        <a href="/sign-up" className="inline-flex min-h-11 items-center font-bold underline">
+          Make an account
+        </a>
+      </p>
+      <p className="text-sm text-soil-500">Joining someone&apos;s farm? Use the link in their invitation.</p>
     </>
   );
 }

@@ -121,6 +121,13 @@ const ELSEWHERE: Record<string, string> = {
   "app/(auth)/join/[token]/actions.ts#joinNew": "tests/integration/team/invitations.test.ts (the link is the credential)",
   "app/(auth)/join/[token]/actions.ts#joinMe": "tests/integration/team/invitations.test.ts (signed in plus the link)",
   "app/(farm)/me/actions.ts#saveQuietHours": "below (a person's own record)",
+  "app/(auth)/sign-up/actions.ts#signUpAction": "tests/integration/auth/sign-up.test.ts (one answer for any address)",
+  "app/(auth)/check-mail/actions.ts#resendLink": "tests/integration/auth/sign-up.test.ts (the signed-in person's own link)",
+  "app/(auth)/verify/[token]/actions.ts#confirmAddress": "tests/integration/auth/sign-up.test.ts (the link is the credential)",
+  "app/(farm)/farms/new/actions.ts#startFarmAction": "tests/integration/farms/farm-life.test.ts (any confirmed person; they own what they start)",
+  "app/(farm)/me/farms/actions.ts#leaveFarmAction": "tests/integration/farms/farm-life.test.ts (a person's own membership)",
+  "app/(farm)/me/farms/actions.ts#deleteFarmAction": "tests/integration/farms/farm-life.test.ts (owners only, by role)",
+  "app/(farm)/me/data/actions.ts#deleteAccountAction": "tests/integration/farms/farm-life.test.ts (a person's own record)",
 };
 
 const sessions = {} as Record<Role | "other-owner" | "gone", Session>;

@@ -34,6 +34,7 @@ const newBin = () => ({ name: `Scratch ${Math.random().toString(36).slice(2, 7)}
 const rows: Row[] = [
   { method: "GET", route: "me", path: () => "/api/me", allowed: ALL, farmScoped: false },
   { method: "GET", route: "farms", path: () => "/api/farms", allowed: ALL, farmScoped: false },
+  { method: "GET", route: "me/data", path: () => "/api/me/data", allowed: ALL, farmScoped: false },
   { method: "POST", route: "farms", path: () => "/api/farms", body: () => ({ name: "Zz farm of my own" }), allowed: ALL, farmScoped: false, last: true },
   { method: "GET", route: "farms/[farmId]", path: (i) => `/api/farms/${i.farm}`, allowed: ALL, farmScoped: true },
   {
