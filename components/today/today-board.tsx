@@ -39,7 +39,13 @@ function Reading({ title, value, band, spark, label }: { title: string; value: s
       <div className="text-xs tracking-wide text-soil-500 uppercase">{title}</div>
       <div className="tabular text-2xl font-bold">{value}</div>
       <StatusMark band={band} />
-      {spark && <Sparkline points={spark.points} band={spark.band} color={spark.color} label={label} />}
+      {/* The server ends each series at the latest value, so one point means one reading so far
+          (the chart's own "no readings" words would contradict the value above it). */}
+      {spark && spark.points.length === 1 ? (
+        <p className="flex h-14 items-center text-sm text-soil-500">First reading in; the line starts with the next.</p>
+      ) : (
+        spark && <Sparkline points={spark.points} band={spark.band} color={spark.color} label={label} />
+      )}
     </div>
   );
 }
