@@ -22,7 +22,17 @@ const SPECIES = [
 const FIELDS = ["name", "style", "species", "zoneCount"] as const;
 
 /** A labelled select or input with its error tied to it, so a refusal reads under its own field. */
-function Field({ label, error, hint, children }: { label: string; error?: string; hint?: ReactNode; children: (a11y: { "aria-invalid": boolean; "aria-describedby"?: string }) => ReactNode }) {
+function Field({
+  label,
+  error,
+  hint,
+  children,
+}: {
+  label: string;
+  error?: string;
+  hint?: ReactNode;
+  children: (a11y: { "aria-invalid": boolean; "aria-describedby"?: string }) => ReactNode;
+}) {
   const errorId = useId();
   return (
     <label className="block">

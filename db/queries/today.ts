@@ -56,7 +56,12 @@ export function sparkEndingAt(buckets: SparkSeries, latest: { ts: string; value:
 
 export async function getToday(farmId: string, hours = 24) {
   const since = new Date(Date.now() - hours * 3_600_000);
-  const [binList, latest, spark, open] = await Promise.all([listBins(farmId), latestByZone(farmId), sparklines(farmId, since), listAlerts(farmId, { open: true })]);
+  const [binList, latest, spark, open] = await Promise.all([
+    listBins(farmId),
+    latestByZone(farmId),
+    sparklines(farmId, since),
+    listAlerts(farmId, { open: true }),
+  ]);
   const series = (zoneId: string, metric: string) => spark.filter((s) => s.zoneId === zoneId && s.metric === metric).map((s) => [s.t, s.v] as const);
   return {
     bins: binList.map((b) => ({
