@@ -46,11 +46,14 @@ async function sparklines(farmId: string, since: Date): Promise<SparkPoint[]> {
 
 type SparkSeries = (readonly [string, number])[];
 
-/** A zone's 24 h series ending at its latest value: the last 15-minute mean is not the value shown
- * above the chart, and a first reading alone must still draw (or say) something. */
+const BUCKET_MS = 15 * 60_000;
+
+/** A zone's 24 h series ending at its latest value: the latest reading stands in for the mean of
+ * its own quarter hour, so the line ends at the value shown above it, and a first reading is one
+ * point (the board says so) rather than an empty chart. */
 export function sparkEndingAt(buckets: SparkSeries, latest: { ts: string; value: number } | undefined, since: Date): SparkSeries {
   if (!latest || Date.parse(latest.ts) <= since.getTime()) return buckets;
-  const before = buckets.filter(([t]) => Date.parse(t) < Date.parse(latest.ts));
+  const before = buckets.filter(([t]) => Date.parse(t) + BUCKET_MS <= Date.parse(latest.ts));
   return [...before, [latest.ts, latest.value] as const];
 }
 

@@ -33,15 +33,15 @@ async function farmWithProbe() {
 const zoneOf = async (who: { farmId: string }, zoneId: string) => (await readToday(who)).bins.flatMap((b) => b.zones).find((z) => z.id === zoneId)!;
 
 describe("Today's latest value and its sparkline", () => {
-  it("a probe's first reading gives a series ending at that very value", async () => {
+  it("a probe's first reading gives a series of that one reading", async () => {
     const { who, zoneId, probeId } = await farmWithProbe();
     const ts = new Date(Date.now() - 2 * MIN);
     await insertReadings([{ probeId, metric: "temperature", ts, value: 23.4 }]);
     const z = await zoneOf(who, zoneId);
     expect(z.latest.temperature).toEqual({ ts: ts.toISOString(), value: 23.4 });
     // Before the fix this series held one 15-minute mean and the chart said "No readings in the last 24 h".
-    expect(z.spark.temperature.length).toBeGreaterThanOrEqual(1);
-    expect(z.spark.temperature.at(-1)).toEqual([ts.toISOString(), 23.4]);
+    // The board says "First reading in" for a one-point series; the chart's empty words need none.
+    expect(z.spark.temperature).toEqual([[ts.toISOString(), 23.4]]);
     expect(z.spark.moisture).toEqual([]);
   });
 
@@ -55,7 +55,9 @@ describe("Today's latest value and its sparkline", () => {
     const z = await zoneOf(who, zoneId);
     expect(z.latest.temperature?.value).toBe(29);
     expect(z.spark.temperature.at(-1)).toEqual([new Date(now).toISOString(), 29]);
+    // The reading an hour before is its own quarter hour's point, ahead of the latest.
     expect(z.spark.temperature.length).toBeGreaterThanOrEqual(2);
+    expect(z.spark.temperature[0]![1]).toBe(18);
     // Times only go forward along the line.
     const times = z.spark.temperature.map(([t]) => Date.parse(t));
     expect([...times].sort((a, b) => a - b)).toEqual(times);
