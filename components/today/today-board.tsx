@@ -57,6 +57,11 @@ function ZoneRow({ zone, bin, units, farmId, alerts }: { zone: Zone; bin: Bin; u
   const tBand = bandBeside(species && t ? classifyTemperature(species, t.value) : null, alerts, "temperature");
   const mBand = bandBeside(species && m ? classifyMoisture(species, m.value) : null, alerts, "moisture");
   const zoneLabel = zoneName(zone);
+  // The zone's last word from any of its metrics: a moisture-only probe is not "no readings yet".
+  const newest = [t?.ts, m?.ts]
+    .filter((x): x is string => !!x)
+    .sort()
+    .at(-1);
   return (
     <li className="border-t border-soil-100 py-3 first:border-t-0">
       <div className="flex items-baseline justify-between gap-2">
@@ -65,7 +70,7 @@ function ZoneRow({ zone, bin, units, farmId, alerts }: { zone: Zone; bin: Bin; u
             {zoneLabel}
           </Link>
         </h3>
-        <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
+        <span className="text-xs text-soil-500">{newest ? ago(newest) : "no readings yet"}</span>
       </div>
       {/* The zone's open alerts come before its values. */}
       {[...alerts]

@@ -92,20 +92,33 @@ describe("a new farm's Today on a phone", () => {
       `porch-${randomBytes(3).toString("hex")}`,
     ]);
     await c.query(`insert into readings (probe_id, metric, ts, value) values ($1, 'temperature', now() - interval '1 minute', 23.4)`, [probe.rows[0].id]);
+    // A moisture-only probe in the curing zone: its zone says when it last heard, not "no readings yet".
+    const curing = await c.query(`select z.id from zones z join bins b on b.id = z.bin_id where b.farm_id = $1 and z.position = 4`, [farmId]);
+    const wet = await c.query(`insert into probes (farm_id, zone_id, code, token_hash, metrics) values ($1, $2, $3, 'x', '{moisture}') returning id`, [
+      farmId,
+      curing.rows[0].id,
+      `porch-${randomBytes(3).toString("hex")}`,
+    ]);
+    await c.query(`insert into readings (probe_id, metric, ts, value) values ($1, 'moisture', now() - interval '2 minutes', 74)`, [wet.rows[0].id]);
     await page.reload();
     await expect.poll(() => stepDone(page, "reading")).toBe("true");
     expect(await stepDone(page, "probe")).toBe("true");
-    expect(await page.locator("[data-step=reading] a").getAttribute("href")).toBe(`/farms/${farmId}/probes/${probe.rows[0].id}`);
+    expect(await page.locator("[data-step=reading] a").getAttribute("href")).toBe(`/farms/${farmId}/probes/${wet.rows[0].id}`); // the newest probe
     const fresh = bin.getByRole("listitem").filter({ has: page.getByRole("heading", { name: "Fresh zone" }) });
     expect(await fresh.textContent()).toContain("23.4");
-    expect(await page.getByText("No readings in the last 24 h").count()).toBe(3 * 2 + 1); // three zones with no reading yet, and fresh moisture
+    // Two working zones with no reading, fresh moisture and curing temperature.
+    expect(await page.getByText("No readings in the last 24 h").count()).toBe(2 * 2 + 2);
+    const curingRow = bin.getByRole("listitem").filter({ has: page.getByRole("heading", { name: "Curing zone" }) });
+    expect(await curingRow.textContent()).toContain("74");
+    expect(await curingRow.textContent()).toContain("2 min ago");
+    expect(await curingRow.textContent()).not.toContain("no readings yet");
     expect(await fresh.getByText("No readings in the last 24 h").count()).toBe(1); // moisture only: the probe measures temperature
     expect(await fresh.getByText("First reading in; the line starts with the next.").count()).toBe(1);
     await page.screenshot({ path: screenshotPath("setup-first-reading"), fullPage: true });
     await page.context().close();
   });
 
-  it("a keeper sees only alerts on this phone and a note that the owner is setting up", async () => {
+  it("a keeper sees only alerts on this phone and a note that the owner is setting up; a viewer only the note", async () => {
     const owner = await makePerson(c, "Owner two");
     const keeper = await makePerson(c, "Keeper two");
     const farmId = await makeFarm(c);
@@ -126,5 +139,17 @@ describe("a new farm's Today on a phone", () => {
     await expect.poll(() => page.locator('meta[name="robots"][content="noindex"]').count()).toBeGreaterThan(0);
     expect(await page.getByLabel("Name").count()).toBe(0);
     await page.context().close();
+
+    // A viewer gets no alerts (only owners and keepers do), so only the note.
+    const viewer = await makePerson(c, "Viewer two");
+    await addToFarm(c, farmId, viewer.id, "viewer");
+    const v = await signedIn(viewer);
+    await v.goto(`${appUrl()}/farms/${farmId}`);
+    const vl = v.getByRole("region", { name: "Setting up this farm" });
+    await expect.poll(() => vl.count()).toBe(1);
+    expect(await steps(v).count()).toBe(0);
+    expect(await vl.getByRole("link").count()).toBe(0);
+    expect(await vl.textContent()).toContain("still setting it up");
+    await v.context().close();
   });
 });
