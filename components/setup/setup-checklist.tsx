@@ -1,5 +1,6 @@
 import Link from "next/link";
 import { Mark } from "@/components/ui/marks";
+import { SetupWatch } from "./setup-watch";
 
 type Step = "bin" | "probe" | "reading" | "alerts" | "crew";
 /** What the server's readSetupChecklist answers (plain values only). */
@@ -34,13 +35,15 @@ const STEP_WORDS: Record<Step, { title: string; how: string; href: (farmId: stri
   },
 };
 
-/** The setup checklist on Today: each step ticked from the farm's own data, each a link to where it
+/** The setup checklist on Today (inside Today's SWRConfig, for its watcher): each step ticked from the farm's own data, each a link to where it
  * is done. Owners see every step; keepers their own; anyone else a note while the farm is set up. */
 export function SetupChecklist({ farmId, checklist }: { farmId: string; checklist: SetupChecklistView }) {
   const { steps, farmReady, newestProbeId } = checklist;
   const left = steps.filter((s) => !s.done).length;
+  const done = (step: Step) => steps.find((s) => s.step === step)?.done ?? farmReady;
   return (
     <section aria-labelledby="setup-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+      <SetupWatch farmId={farmId} binDone={done("bin")} readingDone={done("reading")} />
       <h2 id="setup-h" className="text-xl font-bold">
         Setting up this farm
       </h2>

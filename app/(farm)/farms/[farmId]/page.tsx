@@ -22,13 +22,13 @@ export default async function TodayPage({ params }: { params: Promise<{ farmId: 
         <p className="text-sm text-soil-500">{farm.name}</p>
         <h1 className="text-3xl font-bold">Today</h1>
       </div>
-      {setup && (
-        <div className="px-3 pt-3">
-          <SetupChecklist farmId={farmId} checklist={setup} />
-        </div>
-      )}
       {/* Primed with the API's answer, dates as ISO strings, so the phone paints values at once. */}
       <SWRConfig value={{ fallback: { [todayKey(farmId)!]: toWire(today) } }}>
+        {setup && (
+          <div className="px-3 pt-3">
+            <SetupChecklist farmId={farmId} checklist={setup} />
+          </div>
+        )}
         <TodayBoard farmId={farmId} units={farm.unitSystem} canLog={role !== "viewer"} />
         {role === "owner" && (
           <div className="px-3 pb-6">
