@@ -108,7 +108,7 @@ describe("a new farm's Today on a phone", () => {
           await page.evaluate(() => window.dispatchEvent(new Event("focus")));
           return stepDone(page, "reading");
         },
-        { timeout: 20_000, intervals: [1000] },
+        { timeout: 20_000, interval: 1000 },
       )
       .toBe("true");
     expect(await stepDone(page, "probe")).toBe("true");
