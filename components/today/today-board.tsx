@@ -39,7 +39,13 @@ function Reading({ title, value, band, spark, label }: { title: string; value: s
       <div className="text-xs tracking-wide text-soil-500 uppercase">{title}</div>
       <div className="tabular text-2xl font-bold">{value}</div>
       <StatusMark band={band} />
-      {spark && <Sparkline points={spark.points} band={spark.band} color={spark.color} label={label} />}
+      {/* The server ends each series at the latest value, so one point means one reading so far
+          (the chart's own "no readings" words would contradict the value above it). */}
+      {spark && spark.points.length === 1 ? (
+        <p className="flex h-14 items-center text-sm text-soil-500">First reading in; the line starts with the next.</p>
+      ) : (
+        spark && <Sparkline points={spark.points} band={spark.band} color={spark.color} label={label} />
+      )}
     </div>
   );
 }
@@ -51,6 +57,11 @@ function ZoneRow({ zone, bin, units, farmId, alerts }: { zone: Zone; bin: Bin; u
   const tBand = bandBeside(species && t ? classifyTemperature(species, t.value) : null, alerts, "temperature");
   const mBand = bandBeside(species && m ? classifyMoisture(species, m.value) : null, alerts, "moisture");
   const zoneLabel = zoneName(zone);
+  // The zone's last word from any of its metrics: a moisture-only probe is not "no readings yet".
+  const newest = [t?.ts, m?.ts]
+    .filter((x): x is string => !!x)
+    .sort()
+    .at(-1);
   return (
     <li className="border-t border-soil-100 py-3 first:border-t-0">
       <div className="flex items-baseline justify-between gap-2">
@@ -59,7 +70,7 @@ function ZoneRow({ zone, bin, units, farmId, alerts }: { zone: Zone; bin: Bin; u
             {zoneLabel}
           </Link>
         </h3>
-        <span className="text-xs text-soil-500">{t ? ago(t.ts) : "no readings yet"}</span>
+        <span className="text-xs text-soil-500">{newest ? ago(newest) : "no readings yet"}</span>
       </div>
       {/* The zone's open alerts come before its values. */}
       {[...alerts]

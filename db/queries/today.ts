@@ -27,15 +27,16 @@ async function latestByZone(farmId: string): Promise<ZoneLatest[]> {
 }
 
 // 24 h of temperature and moisture per zone in 15-minute means (date_bin has no Drizzle word):
-// 96 points a series is plenty for a phone-sized chart.
-async function sparklines(farmId: string, hours = 24): Promise<SparkPoint[]> {
+// 96 points a series is plenty for a phone-sized chart. The same probes as latestByZone (archived
+// ones left out) and the caller's clock, so the chart and the latest value speak of one zone.
+async function sparklines(farmId: string, since: Date): Promise<SparkPoint[]> {
   const r = await db().execute(sql`
     select p.zone_id as "zoneId", r.metric::text as metric,
            date_bin('15 minutes', r.ts, timestamptz '2000-01-01') as t, avg(r.value)::float8 as v
     from readings r join probes p on p.id = r.probe_id
-    where p.farm_id = ${farmId} and p.zone_id is not null
+    where p.farm_id = ${farmId} and p.zone_id is not null and p.archived_at is null
       and r.metric in ('temperature', 'moisture')
-      and r.ts > now() - make_interval(hours => ${hours})
+      and r.ts > ${since.toISOString()}::timestamptz
     group by 1, 2, 3 order by 1, 2, 3`);
   return (r.rows as { zoneId: string; metric: string; t: Date; v: number }[]).map((x) => ({
     ...x,
@@ -43,19 +44,44 @@ async function sparklines(farmId: string, hours = 24): Promise<SparkPoint[]> {
   }));
 }
 
-export async function getToday(farmId: string) {
-  const [binList, latest, spark, open] = await Promise.all([listBins(farmId), latestByZone(farmId), sparklines(farmId), listAlerts(farmId, { open: true })]);
+type SparkSeries = (readonly [string, number])[];
+
+const BUCKET_MS = 15 * 60_000;
+
+/** A zone's 24 h series ending at its latest value: the latest reading stands in for the mean of
+ * its own quarter hour, so the line ends at the value shown above it, and a first reading is one
+ * point (the board says so) rather than an empty chart. */
+export function sparkEndingAt(buckets: SparkSeries, latest: { ts: string; value: number } | undefined, since: Date): SparkSeries {
+  if (!latest || Date.parse(latest.ts) <= since.getTime()) return buckets;
+  const before = buckets.filter(([t]) => Date.parse(t) + BUCKET_MS <= Date.parse(latest.ts));
+  return [...before, [latest.ts, latest.value] as const];
+}
+
+export async function getToday(farmId: string, hours = 24) {
+  const since = new Date(Date.now() - hours * 3_600_000);
+  const [binList, latest, spark, open] = await Promise.all([
+    listBins(farmId),
+    latestByZone(farmId),
+    sparklines(farmId, since),
+    listAlerts(farmId, { open: true }),
+  ]);
+  const series = (zoneId: string, metric: string) => spark.filter((s) => s.zoneId === zoneId && s.metric === metric).map((s) => [s.t, s.v] as const);
   return {
     bins: binList.map((b) => ({
       ...b,
-      zones: b.zones.map((z) => ({
-        ...z,
-        latest: Object.fromEntries(latest.filter((l) => l.zoneId === z.id).map((l) => [l.metric, { ts: l.ts, value: l.value }])),
-        spark: {
-          temperature: spark.filter((s) => s.zoneId === z.id && s.metric === "temperature").map((s) => [s.t, s.v] as const),
-          moisture: spark.filter((s) => s.zoneId === z.id && s.metric === "moisture").map((s) => [s.t, s.v] as const),
-        },
-      })),
+      zones: b.zones.map((z) => {
+        const mine: Record<string, { ts: string; value: number }> = Object.fromEntries(
+          latest.filter((l) => l.zoneId === z.id).map((l) => [l.metric, { ts: l.ts, value: l.value }]),
+        );
+        return {
+          ...z,
+          latest: mine,
+          spark: {
+            temperature: sparkEndingAt(series(z.id, "temperature"), mine.temperature, since),
+            moisture: sparkEndingAt(series(z.id, "moisture"), mine.moisture, since),
+          },
+        };
+      }),
     })),
     alerts: open.map((a) => ({ ...a.alert, binName: a.binName, zoneKind: a.zoneKind, claimedByName: a.claimedByName })),
   };

@@ -1,10 +1,12 @@
 import type { Metadata } from "next";
 import { SWRConfig } from "swr";
 import { AddBinForm } from "@/components/bins/add-bin-form";
+import { SetupChecklist } from "@/components/setup/setup-checklist";
 import { TodayBoard } from "@/components/today/today-board";
 import { requirePageMember } from "@/lib/web/session";
 import { readFarm } from "@/lib/server/farms/read-farm";
 import { readToday } from "@/lib/server/farms/read-today";
+import { readSetupChecklist } from "@/lib/server/farms/setup-checklist";
 import { toWire } from "@/lib/domain/wire";
 import { todayKey } from "@/lib/client/swr-keys";
 
@@ -13,7 +15,7 @@ export const metadata: Metadata = { title: "Today" };
 export default async function TodayPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
   const who = await requirePageMember({ farmId }, "read");
-  const [{ farm, role }, today] = await Promise.all([readFarm(who), readToday(who)]);
+  const [{ farm, role }, today, setup] = await Promise.all([readFarm(who), readToday(who), readSetupChecklist(who)]);
   return (
     <main>
       <div className="px-4 pt-4">
@@ -22,6 +24,11 @@ export default async function TodayPage({ params }: { params: Promise<{ farmId: 
       </div>
       {/* Primed with the API's answer, dates as ISO strings, so the phone paints values at once. */}
       <SWRConfig value={{ fallback: { [todayKey(farmId)!]: toWire(today) } }}>
+        {setup && (
+          <div className="px-3 pt-3">
+            <SetupChecklist farmId={farmId} checklist={setup} />
+          </div>
+        )}
         <TodayBoard farmId={farmId} units={farm.unitSystem} canLog={role !== "viewer"} />
         {role === "owner" && (
           <div className="px-3 pb-6">
