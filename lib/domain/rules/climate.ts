@@ -81,7 +81,7 @@ const said = (worst: Judged, near: string, byTrigger: Record<string, () => strin
  * far line, heads-up past the band's edge. `past` says which side is out (below for chill and
  * drying, above for soggy; heat's act-now line counts from the line itself). */
 function bandTriggers(
-  s: Sample[],
+  s: readonly Sample[],
   raiseMinutes: number,
   actNow: { id: string; past: (v: number) => boolean },
   headsUp: { id: string; past: (v: number) => boolean },

@@ -21,8 +21,8 @@ export type ProbeView = {
   probe: ProbeContext | undefined;
   metric: Metric;
   /** Error codes and out-of-range values are left out here: they are probe_fault's business. */
-  s: Sample[];
-  raw: Sample[];
+  s: readonly Sample[];
+  raw: readonly Sample[];
   /** The silent-probe line: a gap this long breaks a run, a series this old is stale. */
   gapMs: number;
   /** The probe's report interval: what one reading stands for. */
@@ -77,19 +77,32 @@ export function makeContext(input: ZoneRuleInput, rules: ResolvedRules, w: Words
   const probes = new Map(input.probes.map((p) => [p.id, p]));
   const silentAfterMs = (p: ProbeContext | undefined) => silentLineMs(rules.silent_probe.t, p?.reportIntervalS ?? 60);
 
-  const grouped = new Map<string, { probeId: number; metric: Metric; points: { t: number; v: number }[] }>();
+  // Each probe's series of one metric, cleaned once. A series that is the only one of its probe and
+  // metric and comes clean (replay() cleans once for all its steps) is taken as it is: copying a
+  // day's readings at every step was most of a replay's time.
+  const grouped = new Map<string, { probeId: number; metric: Metric; parts: ZoneRuleInput["readings"][number][] }>();
   for (const r of input.readings) {
     const key = `${r.probeId}\u0000${r.metric}`;
-    const g = grouped.get(key) ?? { probeId: r.probeId, metric: r.metric, points: [] };
-    g.points.push(...r.points);
+    const g = grouped.get(key) ?? { probeId: r.probeId, metric: r.metric, parts: [] };
+    g.parts.push(r);
     grouped.set(key, g);
   }
   const views: ProbeView[] = [...grouped.values()]
     .map((g) => {
       const probe = probes.get(g.probeId);
-      const raw = cleanSeries(g.points);
-      const s = raw.filter((p) => valueFault(g.metric, p.v) === null);
-      return { probeId: g.probeId, probe, metric: g.metric, s, raw, gapMs: silentAfterMs(probe), stepMs: (probe?.reportIntervalS ?? 60) * 1000 };
+      const only = g.parts.length === 1 ? g.parts[0]! : null;
+      const raw: readonly Sample[] = only?.clean ? only.points : cleanSeries(g.parts.flatMap((r) => r.points));
+      const allGood = raw.every((p) => valueFault(g.metric, p.v) === null);
+      const s = allGood ? raw : raw.filter((p) => valueFault(g.metric, p.v) === null);
+      return {
+        probeId: g.probeId,
+        probe,
+        metric: g.metric,
+        s,
+        raw,
+        gapMs: silentAfterMs(probe),
+        stepMs: (probe?.reportIntervalS ?? 60) * 1000,
+      };
     })
     .filter((v) => v.raw.length > 0)
     .sort((a, b) => a.probeId - b.probeId);

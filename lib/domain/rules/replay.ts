@@ -18,6 +18,7 @@ export function replay(input: ReplayInput, times: readonly number[]): ReplayStep
     const readings = series.map((r) => ({
       ...r,
       points: r.points.slice(firstAtOrAfter(r.points, at - readingsMs), firstAtOrAfter(r.points, at + 1)),
+      clean: true,
     }));
     const probes = input.probes.map((p) => ({
       ...p,

@@ -11,7 +11,14 @@ export type ZoneContext = { id: string; kind: ZoneKind; binName: string; zoneNam
 export type BedContext = { lengthCm?: number | null; widthCm?: number | null; zoneCount?: number | null };
 
 /** One probe's readings of one metric (stored units: °C, % wet basis, ppm, ...). */
-export type ProbeSeries = { probeId: number; metric: Metric; points: readonly SeriesPoint[] };
+export type ProbeSeries = {
+  probeId: number;
+  metric: Metric;
+  points: readonly SeriesPoint[];
+  /** The points are already clean (cleanSeries: time order, finite, one per instant), as replay()
+   * hands them over, so an evaluation takes them as they are instead of copying them each step. */
+  clean?: boolean;
+};
 
 export type FeedingContext = {
   at: number;
