@@ -17,8 +17,16 @@ export function FarmSwitcher({ farms, cookie }: { farms: FarmChoice[]; cookie: s
   const others = farms.filter((f) => f !== current);
   return (
     <details className="relative">
-      <summary aria-label="Farms" className="flex min-h-11 max-w-40 cursor-pointer items-center truncate rounded-lg px-3">
-        {current?.name ?? "Farms"}
+      {/* Its name is its text (WCAG 2.5.3, label in name): "Farm: Alder Row", the first word for screen readers. */}
+      <summary className="flex min-h-11 max-w-40 cursor-pointer items-center truncate rounded-lg px-3">
+        {current ? (
+          <>
+            <span className="sr-only">Farm: </span>
+            {current.name}
+          </>
+        ) : (
+          "Farms"
+        )}
       </summary>
       <div className="absolute left-0 z-20 mt-1 w-64 space-y-1 rounded-xl bg-white p-2 text-soil-900 shadow-lg ring-1 ring-soil-300">
         {others.length > 0 && <p className="px-2 text-sm text-soil-700">Go to another farm</p>}

@@ -87,7 +87,7 @@ describe("a person on two farms", () => {
     await p.locator("summary", { hasText: "Aaa Alder" }).click();
     await p.getByRole("link", { name: secondName }).click();
     await p.waitForURL(`**/farms/${second}`, SLOW);
-    await expect.poll(() => p.locator("summary").first().textContent()).toBe(secondName);
+    await expect.poll(() => p.locator("summary").first().textContent()).toBe(`Farm: ${secondName}`);
     await p.screenshot({ path: screenshotPath("farm-switcher"), fullPage: false });
     await p.goto(`${appUrl()}/`);
     await p.waitForURL(`**/farms/${second}`, SLOW);
