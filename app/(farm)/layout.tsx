@@ -23,11 +23,11 @@ export default async function FarmShell({ children }: { children: React.ReactNod
           </Link>
           {farms.length > 0 && <FarmSwitcher farms={farms.map(({ id, name, role }) => ({ id, name, role }))} cookie={LAST_FARM_COOKIE} />}
         </div>
-        <nav aria-label="Main" className="flex items-center gap-1 text-sm">
-          <Link href="/" className="flex min-h-11 items-center rounded-lg px-3 hover:underline">
+        <nav aria-label="Main" className="flex shrink-0 items-center text-sm whitespace-nowrap">
+          <Link href="/" className="flex min-h-11 items-center rounded-lg px-2 hover:underline">
             Today
           </Link>
-          <Link href="/me" className="flex min-h-11 items-center rounded-lg px-3 hover:underline">
+          <Link href="/me" className="flex min-h-11 items-center rounded-lg px-2 hover:underline">
             You
           </Link>
           <SignOutButton />

@@ -16,13 +16,13 @@ export function FarmSwitcher({ farms, cookie }: { farms: FarmChoice[]; cookie: s
   }, [current, cookie]);
   const others = farms.filter((f) => f !== current);
   return (
-    <details className="relative">
+    <details className="relative min-w-0">
       {/* Its name is its text (WCAG 2.5.3, label in name): "Farm: Alder Row", the first word for screen readers. */}
-      <summary className="flex min-h-11 max-w-40 cursor-pointer items-center truncate rounded-lg px-3">
+      <summary className="flex min-h-11 max-w-32 min-w-0 cursor-pointer items-center rounded-lg px-2">
         {current ? (
           <>
             <span className="sr-only">Farm: </span>
-            {current.name}
+            <span className="truncate">{current.name}</span>
           </>
         ) : (
           "Farms"

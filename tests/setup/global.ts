@@ -29,6 +29,8 @@ declare module "vitest" {
     mailboxUrl: string;
     smtpPort: number;
     vapidPublicKey: string;
+    /** The port the app tells probes to publish to (PUBLIC_MQTT_URL); a test starts the broker there. */
+    probeBrokerPort: number;
   }
 }
 
@@ -87,6 +89,8 @@ export default async function setup(project: TestProject) {
   process.env.PUSH_FAKE_ORIGIN = push.url;
   const vapid = makeVapidKeys();
   let appUrl: string | null = null;
+  // The broker address the app's connect snippets name; a test that runs them starts ingest there.
+  const probeBrokerPort = await freePort();
   if (fs.existsSync(path.join(root, ".next", "BUILD_ID"))) {
     const port = await freePort();
     appUrl = `http://127.0.0.1:${port}`;
@@ -106,6 +110,7 @@ export default async function setup(project: TestProject) {
         PUSH_CA_FILE: caFile,
         PUSH_FAKE_ORIGIN: push.url,
         SMTP_PORT: String(mailbox.smtpPort),
+        PUBLIC_MQTT_URL: `mqtt://127.0.0.1:${probeBrokerPort}`,
         // As behind one proxy (HAProxy `option forwardfor`): a test names a client address in
         // X-Forwarded-For; requests without one count as 127.0.0.1, filled in by `next start`.
         TRUSTED_PROXY_HOPS: "1",
@@ -138,6 +143,7 @@ export default async function setup(project: TestProject) {
   project.provide("pushServiceUrl", push.url);
   project.provide("mailboxUrl", mailbox.httpUrl);
   project.provide("smtpPort", mailbox.smtpPort);
+  project.provide("probeBrokerPort", probeBrokerPort);
   project.provide("vapidPublicKey", vapid.publicKey);
 
   return async () => {
