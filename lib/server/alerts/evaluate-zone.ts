@@ -17,6 +17,7 @@ import {
 } from "@/lib/domain/rules";
 import { getSpecies, speciesProfiles } from "@/lib/domain/species";
 import type { Metric } from "@/lib/domain/vocabulary";
+import { feedingContexts, probeContexts } from "@/lib/server/rules/replay-input";
 import { deliverHeldAlerts, notifyAlert } from "./notify";
 
 const log = createDebug("wormward:rules");
@@ -57,16 +58,8 @@ export async function evaluateZoneNow(
     rules,
     bed: { lengthCm: ctx.bin.lengthCm, widthCm: ctx.bin.widthCm, zoneCount: ctx.zoneCount },
     readings: [...series.values()],
-    recentFeedings: ctx.feedings.map((f) => ({ at: f.at.getTime(), zoneId: f.zoneId, mixMoisturePct: f.mixMoisturePct, mixCn: f.mixCn, totalKg: f.totalKg })),
-    probes: ctx.probes.map((p) => ({
-      id: p.id,
-      code: p.code,
-      label: p.label,
-      reportIntervalS: p.reportIntervalS,
-      lastSeenAt: p.lastSeenAt?.getTime() ?? null,
-      metrics: p.metrics,
-      refusals: ctx.refusals.filter((r) => r.probeId === p.id).map((r) => ({ at: r.at.getTime(), reason: r.reason })),
-    })),
+    recentFeedings: feedingContexts(ctx.feedings),
+    probes: probeContexts(ctx.probes, ctx.refusals),
     openAlerts: ctx.openAlerts.map((a) => ({
       subject: a.subject,
       kind: a.kind,

@@ -26,6 +26,22 @@ export type BinHistory = {
   refusals: readonly RefusalRow[];
 };
 
+/** Database feedings as the rules read them; the live runner and the preview share this. */
+export const feedingContexts = (feedings: readonly FeedingRow[]) =>
+  feedings.map((f) => ({ at: f.at.getTime(), zoneId: f.zoneId, mixMoisturePct: f.mixMoisturePct, mixCn: f.mixCn, totalKg: f.totalKg }));
+
+/** Database probes with their refusals as the rules read them; the live runner and the preview share this. */
+export const probeContexts = (probes: readonly Omit<ProbeRow, "zoneId">[], refusals: readonly RefusalRow[]) =>
+  probes.map((p) => ({
+    id: p.id,
+    code: p.code,
+    label: p.label,
+    reportIntervalS: p.reportIntervalS,
+    lastSeenAt: p.lastSeenAt?.getTime() ?? null,
+    metrics: p.metrics,
+    refusals: refusals.filter((r) => r.probeId === p.id).map((r) => ({ at: r.at.getTime(), reason: r.reason })),
+  }));
+
 /** Each probe's series per metric, keyed by probe id. */
 export function seriesByProbe(readings: readonly SeriesRow[]) {
   const out = new Map<number, { probeId: number; metric: Metric; points: { t: number; v: number }[] }[]>();
@@ -52,16 +68,8 @@ export function zoneReplayInput(
     bed: h.bed,
     overrides,
     readings: zoneProbes.flatMap((p) => series.get(p.id) ?? []),
-    recentFeedings: h.feedings.map((f) => ({ at: f.at.getTime(), zoneId: f.zoneId, mixMoisturePct: f.mixMoisturePct, mixCn: f.mixCn, totalKg: f.totalKg })),
-    probes: zoneProbes.map((p) => ({
-      id: p.id,
-      code: p.code,
-      label: p.label,
-      reportIntervalS: p.reportIntervalS,
-      lastSeenAt: p.lastSeenAt?.getTime() ?? null,
-      metrics: p.metrics,
-      refusals: h.refusals.filter((r) => r.probeId === p.id).map((r) => ({ at: r.at.getTime(), reason: r.reason })),
-    })),
+    recentFeedings: feedingContexts(h.feedings),
+    probes: probeContexts(zoneProbes, h.refusals),
     kinds,
     unitSystem: h.unitSystem,
     timeZone: h.timeZone,
