@@ -55,6 +55,8 @@ export const farms = pgTable("farms", {
   timezone: text("timezone").notNull().default("UTC"),
   // The farm-local day whose digest went out; a compare-and-set on it sends each day's digest once.
   digestSentOn: date("digest_sent_on", { mode: "string" }),
+  // Days between feedings of a bin unless the bin says otherwise ("every few weeks": common practice).
+  feedingIntervalDays: smallint("feeding_interval_days").notNull().default(21),
   createdAt: createdAt(),
 });
 
@@ -166,6 +168,10 @@ export const bins = pgTable(
     widthCm: real("width_cm"),
     depthCm: real("depth_cm"),
     notes: text("notes"),
+    // null = the farm's feeding interval.
+    feedingIntervalDays: smallint("feeding_interval_days"),
+    // The day the keeper means to harvest the harvest side; null = not planned.
+    plannedHarvestOn: date("planned_harvest_on", { mode: "string" }),
     archivedAt: ts("archived_at"),
     createdAt: createdAt(),
   },
@@ -456,6 +462,8 @@ const logColumns = () => ({
   at: ts("at").notNull().defaultNow(),
   byUserId: uuid("by_user_id").references(() => users.id, { onDelete: "set null" }),
   notes: text("notes"),
+  // The phone's idempotency key: an entry sent again (offline queue, lost answer) is stored once.
+  clientKey: text("client_key"),
   createdAt: createdAt(),
 });
 
@@ -468,7 +476,7 @@ export const feedings = pgTable(
     totalKg: real("total_kg"),
   },
   // The logbook and the heat rule read a bin's recent feedings.
-  (t) => [index("feedings_bin_at_idx").on(t.binId, t.at)],
+  (t) => [index("feedings_bin_at_idx").on(t.binId, t.at), uniqueIndex("feedings_client_key_uq").on(t.farmId, t.clientKey)],
 );
 
 export const feedingItems = pgTable(
@@ -493,21 +501,36 @@ export const waterings = pgTable(
   "waterings",
   { ...logColumns(), litres: real("litres").notNull() },
   // The logbook reads a bin's entries by time.
-  (t) => [index("waterings_bin_at_idx").on(t.binId, t.at)],
+  (t) => [index("waterings_bin_at_idx").on(t.binId, t.at), uniqueIndex("waterings_client_key_uq").on(t.farmId, t.clientKey)],
 );
 
 export const harvests = pgTable(
   "harvests",
-  { ...logColumns(), massKg: real("mass_kg").notNull() },
+  // volume_l: castings as measured by the bucket, beside their mass (optional).
+  { ...logColumns(), massKg: real("mass_kg").notNull(), volumeL: real("volume_l") },
   // The logbook reads a bin's entries by time.
-  (t) => [index("harvests_bin_at_idx").on(t.binId, t.at)],
+  (t) => [index("harvests_bin_at_idx").on(t.binId, t.at), uniqueIndex("harvests_client_key_uq").on(t.farmId, t.clientKey)],
 );
 
 export const logNotes = pgTable(
   "log_notes",
   { ...logColumns(), text: text("text").notNull() },
   // The logbook reads a bin's entries by time.
-  (t) => [index("log_notes_bin_at_idx").on(t.binId, t.at)],
+  (t) => [index("log_notes_bin_at_idx").on(t.binId, t.at), uniqueIndex("log_notes_client_key_uq").on(t.farmId, t.clientKey)],
+);
+
+// Material moved from the feeding side toward the harvest side (flow-through, wedge and windrow bins):
+// zone_id is where it came from, to_zone_id where it went.
+export const shifts = pgTable(
+  "shifts",
+  {
+    ...logColumns(),
+    toZoneId: uuid("to_zone_id").references(() => zones.id, { onDelete: "set null" }),
+    // How much was moved, if the keeper estimated it.
+    volumeL: real("volume_l"),
+  },
+  // The logbook reads a bin's entries by time.
+  (t) => [index("shifts_bin_at_idx").on(t.binId, t.at), uniqueIndex("shifts_client_key_uq").on(t.farmId, t.clientKey)],
 );
 
 export const ovenDrySamples = pgTable(
@@ -523,7 +546,7 @@ export const ovenDrySamples = pgTable(
     moistureWbPct: real("moisture_wb_pct").notNull(),
   },
   // Calibration fits a probe's samples.
-  (t) => [index("samples_probe_idx").on(t.probeId, t.at)],
+  (t) => [index("samples_probe_idx").on(t.probeId, t.at), uniqueIndex("samples_client_key_uq").on(t.farmId, t.clientKey)],
 );
 
 export const imports = pgTable(

@@ -13,6 +13,7 @@ import { formatMass, formatNumber, formatPercent, formatVolume, type UnitSystem 
 const KINDS: Record<LogbookItem["kind"], { word: string; mark: MarkName; cls: string }> = {
   feeding: { word: "Feeding", cls: "bg-leaf-100 text-leaf-700", mark: "feeding" },
   watering: { word: "Water", cls: "bg-slate-100 text-slate-700", mark: "watering" },
+  shift: { word: "Shift", cls: "bg-paper text-leaf-700 ring-1 ring-leaf-500", mark: "shift" },
   harvest: { word: "Harvest", cls: "bg-soil-100 text-soil-800", mark: "harvest" },
   note: { word: "Note", cls: "bg-straw-100 text-straw-800", mark: "note" },
   sample: { word: "Oven-dry sample", cls: "bg-paper text-soil-800 ring-1 ring-soil-300", mark: "ovenSample" },
@@ -38,6 +39,8 @@ function what(e: LogbookItem, system: UnitSystem): string {
       return `${e.moistureWbPct == null ? "—" : formatPercent(e.moistureWbPct, { digits: 1 })} moisture (wet basis)${e.rawReading != null ? ` · probe raw ${formatNumber(e.rawReading, 0)}` : ""}`;
     case "note":
       return e.text ?? "";
+    case "shift":
+      return e.volumeL == null ? "toward the harvest side" : `${formatVolume(e.volumeL, system, { digits: 0 })} toward the harvest side`;
   }
 }
 

@@ -51,6 +51,8 @@ export const MARKS = {
   },
   /** A bucket with its handle. */
   harvest: { d: "M1.5 4h9l-1.4 7.5H2.9ZM3 3.5a3 3 0 0 1 6 0H7.7a1.7 1.7 0 0 0-3.4 0Z", means: "a harvest of castings" },
+  /** An arrow over the bed: material pushed toward the harvest side. */
+  shift: { d: "M1 9.5h10V11H1ZM1 4h6.5V2l3.5 3-3.5 3V6H1Z", means: "a shift toward the harvest side" },
   /** Lines of writing. */
   note: { d: "M1 2h10v2H1zM1 5h10v2H1zM1 8h7v2H1z", means: "a note" },
   /** A drying dish under its lid. */

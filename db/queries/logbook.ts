@@ -1,9 +1,9 @@
 import { and, asc, desc, eq, gte, lte, sql } from "drizzle-orm";
 import { db } from "@/db";
 import type { LogKind } from "@/lib/domain/vocabulary";
-import { feedings, harvests, logNotes, ovenDrySamples, probes, readings, users, waterings as wateringsTable, zones } from "@/db/schema";
+import { feedings, harvests, logNotes, ovenDrySamples, probes, readings, shifts, users, waterings as wateringsTable, zones } from "@/db/schema";
 
-const tables = { feeding: feedings, watering: wateringsTable, harvest: harvests, note: logNotes, sample: ovenDrySamples } as const;
+const tables = { feeding: feedings, watering: wateringsTable, shift: shifts, harvest: harvests, note: logNotes, sample: ovenDrySamples } as const;
 
 type Common = { farmId: string; binId: string; zoneId: string | null; at: Date; byUserId: string; notes: string | null };
 
@@ -70,6 +70,7 @@ export type LogbookEntry = {
   litres?: number;
   massKg?: number;
   text?: string;
+  volumeL?: number | null;
   moistureWbPct?: number;
   rawReading?: number | null;
   mixMoisturePct?: number | null;

@@ -40,7 +40,7 @@ export const SPECIES_IDS = ["eisenia-fetida", "eisenia-hortensis", "eudrilus-eug
 export type SpeciesId = (typeof SPECIES_IDS)[number];
 
 /** The kinds of logbook entry, as the logbook lists them and the undo names them. */
-export const LOG_KINDS = ["feeding", "watering", "harvest", "note", "sample"] as const;
+export const LOG_KINDS = ["feeding", "watering", "shift", "harvest", "note", "sample"] as const;
 export type LogKind = (typeof LOG_KINDS)[number];
 
 // The broker's topics: one family per probe under one root. The probe sends readings (SenML) to
