@@ -4,6 +4,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { startCluster, stopCluster } from "@/db/local-pg";
 import { runMigrations } from "@/db/migrate";
+import { buildUnlessCurrent } from "./build-cache";
 import { ensureOsPackages } from "./os-packages";
 import { loadSecrets } from "./secrets";
 
@@ -54,6 +55,7 @@ async function waitForHttp(url: string, timeoutMs = 60_000) {
 const exists = (rel: string) => fs.existsSync(path.join(root, rel));
 
 async function start() {
+  const startedAt = Date.now();
   ensureOsPackages(["openssl"]);
   fs.mkdirSync(dataDir, { recursive: true });
   let databaseUrl = process.env.DATABASE_URL;
@@ -110,8 +112,11 @@ async function start() {
     lines.push(`  curl -X POST http://127.0.0.1:8099/scenario -H 'content-type: application/json' -d '{"code":"alder-01","scenario":"heavy-feed"}'`);
   }
 
-  console.log("Building the web app (next build)…");
-  run(bin("next"), ["build"], { ...env, NEXT_TELEMETRY_DISABLED: "1" });
+  const built = buildUnlessCurrent(root, () => {
+    console.log("Building the web app (next build)…");
+    run(bin("next"), ["build"], { ...env, NEXT_TELEMETRY_DISABLED: "1" });
+  });
+  if (built === "reused") console.log("Web app: sources unchanged since the last build, reusing it.");
   service("web", bin("next"), ["start", "-H", "127.0.0.1", "-p", String(port)], { ...env, NEXT_TELEMETRY_DISABLED: "1" });
   await waitForHttp(`${appUrl}/sign-in`);
 
@@ -126,6 +131,7 @@ ${seeded ? "  (demo farm seeded just now)" : "  (existing data kept; demo sign-i
 Wormward is running.  Sign in at ${appUrl}/sign-in
 ${signIns}
 ${lines.map((l) => `  ${l}`).join("\n")}
+Up in ${((Date.now() - startedAt) / 1000).toFixed(1)} s (web build ${built}).
 Logs are in .data/*.log. Press Ctrl-C to stop.`);
   process.on("SIGINT", () => shutdown(true));
   process.on("SIGTERM", () => shutdown(true));
@@ -139,8 +145,12 @@ async function test(extra: string[]) {
   run(bin("prettier"), ["--check", "--log-level", "warn", "."]);
   console.log("Type-checking the whole repository (tsc --noEmit)…");
   run(bin("tsc"), ["--noEmit", "-p", "tsconfig.json"]);
-  console.log("Building the web app for the browser and API tests (next build)…");
-  run(bin("next"), ["build"], { ...process.env, NEXT_TELEMETRY_DISABLED: "1", WORMWARD_TYPECHECKED: "1" });
+  // The type check above is the build's own, so the build skips it; its output is the same as npm start's.
+  const built = buildUnlessCurrent(root, () => {
+    console.log("Building the web app for the browser and API tests (next build)…");
+    run(bin("next"), ["build"], { ...process.env, NEXT_TELEMETRY_DISABLED: "1", WORMWARD_TYPECHECKED: "1" });
+  });
+  if (built === "reused") console.log("Web app: sources unchanged since the last build, reusing it.");
   const results = path.join(dataDir, "test-results.json");
   const r = spawnSync(bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${results}`, ...extra], {
     cwd: root,
