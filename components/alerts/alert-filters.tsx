@@ -3,7 +3,7 @@ import { INPUT_CLASS } from "@/components/ui/form-parts";
 import { KIND_WORDS, LEVEL_WORDS } from "@/lib/domain/alert-words";
 import { ALERT_KINDS, ALERT_LEVELS } from "@/lib/domain/vocabulary";
 
-export const FILTER_FIELDS = ["state", "bin", "kind", "level", "before"] as const;
+export const FILTER_FIELDS = ["state", "bin", "kind", "level", "before", "beforeId"] as const;
 export type FilterValues = Partial<Record<(typeof FILTER_FIELDS)[number], string | undefined>>;
 
 /** The history's URL for these filters: a filter is a link anyone can share or bookmark. */

@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, inArray, lt, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { alertEvents, alerts, bins, users, zones, type Alert } from "@/db/schema";
 import type { AlertKind, AlertLevel, AlertState } from "@/lib/domain/vocabulary";
@@ -9,8 +9,10 @@ export type AlertFilters = {
   binId?: string;
   kind?: AlertKind;
   level?: AlertLevel;
-  /** Only alerts raised before this instant: the history's "older" page. */
-  before?: Date;
+  /** Only alerts raised before this instant (ISO text, microseconds kept): the history's "older" page.
+   * With beforeId, alerts raised at that very instant with a smaller id come too. */
+  before?: string;
+  beforeId?: string;
 };
 
 // A farm's alerts, newest first, narrowed by any of bin, kind, level and state.
@@ -22,7 +24,11 @@ export async function listAlerts(farmId: string, opts: AlertFilters & { open?: b
     opts.binId ? eq(alerts.binId, opts.binId) : undefined,
     opts.kind ? eq(alerts.kind, opts.kind) : undefined,
     opts.level ? eq(alerts.level, opts.level) : undefined,
-    opts.before ? lt(alerts.raisedAt, opts.before) : undefined,
+    opts.before
+      ? opts.beforeId
+        ? sql`(${alerts.raisedAt}, ${alerts.id}) < (${opts.before}::timestamptz, ${opts.beforeId}::uuid)`
+        : sql`${alerts.raisedAt} < ${opts.before}::timestamptz`
+      : undefined,
   );
   return db()
     .select({
@@ -32,6 +38,8 @@ export async function listAlerts(farmId: string, opts: AlertFilters & { open?: b
       zoneName: zones.name,
       claimedByName: users.name,
       raisedMessage: raisedMessage(),
+      // The raise time to the microsecond, for the next page's cursor (a Date keeps milliseconds).
+      raisedAtExact: sql<string>`to_char(${alerts.raisedAt} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"')`,
     })
     .from(alerts)
     .innerJoin(bins, eq(bins.id, alerts.binId))

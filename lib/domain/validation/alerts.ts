@@ -48,13 +48,13 @@ const filters = {
   bin: z.preprocess(blankAsUndefined, z.uuid({ message: "Choose a bin from the list." }).optional()),
   kind: z.preprocess(blankAsUndefined, z.enum(ALERT_KINDS, { message: `Choose a kind: ${ALERT_KINDS.join(", ")}.` }).optional()),
   level: z.preprocess(blankAsUndefined, z.enum(ALERT_LEVELS, { message: `Choose a level: ${ALERT_LEVELS.join(", ")}.` }).optional()),
+  // Kept as text: the database keeps microseconds, which a Date would round away.
   before: z.preprocess(
     blankAsUndefined,
-    z.iso
-      .datetime({ offset: true, message: "Give before as an ISO 8601 time with a zone, e.g. 2026-05-01T00:00:00Z." })
-      .transform((s) => new Date(s))
-      .optional(),
+    z.iso.datetime({ offset: true, message: "Give before as an ISO 8601 time with a zone, e.g. 2026-05-01T00:00:00Z." }).optional(),
   ),
+  // With before: the last alert of the page before, so alerts raised at the same instant are neither skipped nor repeated.
+  beforeId: z.preprocess(blankAsUndefined, z.uuid({ message: "beforeId must be an alert's id." }).optional()),
 };
 const stateField = (fallback: (typeof STATE_CHOICES)[number]) =>
   z.preprocess(blankAsUndefined, z.enum(STATE_CHOICES, { message: `Choose a state: ${STATE_CHOICES.join(", ")}.` }).default(fallback));

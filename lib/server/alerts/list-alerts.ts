@@ -17,11 +17,13 @@ export async function alertHistoryPage(who: Pick<Who, "farmId">, query: AlertLis
     kind: query.kind,
     level: query.level,
     before: query.before,
+    beforeId: query.beforeId,
     limit: limit + 1,
   });
   const alerts = rows.slice(0, limit);
-  // Microsecond timestamps: two alerts sharing the boundary instant is not a case worth a cursor pair.
-  return { alerts, older: rows.length > limit ? alerts.at(-1)!.alert.raisedAt : null };
+  const last = alerts.at(-1);
+  // The next page starts after the last one shown, by (raise time, id): ties at one instant are kept.
+  return { alerts, older: rows.length > limit && last ? { before: last.raisedAtExact, beforeId: last.alert.id } : null };
 }
 
 /** The API's list: the same filters, up to 100 at a time. */

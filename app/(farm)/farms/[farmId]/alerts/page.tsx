@@ -94,7 +94,7 @@ export default async function AlertsPage({ params, searchParams }: { params: Pro
       )}
       {view.older && (
         <Link
-          href={historyHref(farmId, { ...current, state: query.state === "all" ? undefined : query.state, before: view.older.toISOString() })}
+          href={historyHref(farmId, { ...current, state: query.state === "all" ? undefined : query.state, ...view.older })}
           className="flex min-h-12 items-center justify-center rounded-xl bg-white font-bold underline underline-offset-4 ring-1 ring-soil-300"
         >
           Older alerts
