@@ -315,7 +315,7 @@ function feedingDays(rng: Rng, startMs: number, endMs: number, anchor: number) {
   const days = [anchor];
   for (let t = anchor - rng.between(21, 28) * DAY; t > startMs + DAY; t -= rng.between(21, 28) * DAY) days.unshift(t);
   for (let t = anchor + rng.between(21, 28) * DAY; t < endMs - 3 * DAY; t += rng.between(21, 28) * DAY) days.push(t);
-  return days;
+  return days.filter((t) => t > startMs && t < endMs - 2 * DAY);
 }
 
 export function buildDemoHistory(input: HistoryInput): DemoHistory {
@@ -344,8 +344,8 @@ export function buildDemoHistory(input: HistoryInput): DemoHistory {
     const feedZone = zones[0]!;
     const harvestZone = zones[zones.length - 1]!;
     const bumps: Bump[] = [];
-    const isHeatBin = bin.name === HEAT_BIN;
     const heavyAt = clock.at(endMs - HEAT_DAYS_BEFORE_END * DAY, 8, 40);
+    const isHeatBin = bin.name === HEAT_BIN && episodeFits(input, heavyAt);
 
     // Feedings: every 3–4 weeks, mid-morning, to the fed zone.
     const anchor = isHeatBin ? heavyAt : startMs + rng.between(5, 25) * DAY;
@@ -449,7 +449,7 @@ export function buildDemoHistory(input: HistoryInput): DemoHistory {
     }
 
     for (const p of bin.probes) {
-      const silent = p.code === SILENT_CODE;
+      const silent = p.code === SILENT_CODE && episodeFits(input, gap.from);
       const missing = (t: number) => silent && t >= gap.from && t < gap.to;
       const pick = (src: Float64Array, metric: Metric) => {
         const values = new Float64Array(n);
@@ -597,11 +597,16 @@ function alertFrom(
   };
 }
 
+/** A short history (a test's, a quick start's) leaves out an episode it has no room for: the rules
+ * look back days before it. */
+const episodeFits = (input: HistoryInput, at: number) => at - 6 * DAY > input.endMs - input.days * DAY;
+
 function heatAlert(input: HistoryInput, h: DemoHistory, clock: Clock): AlertRow[] {
   const bin = input.bins.find((b) => b.name === HEAT_BIN);
   const zone = bin?.zones.find((z) => z.kind === "fresh");
   if (!bin || !zone) return [];
   const heavyAt = clock.at(input.endMs - HEAT_DAYS_BEFORE_END * DAY, 8, 40);
+  if (!episodeFits(input, heavyAt)) return [];
   const from = Math.ceil(heavyAt / STEP_MS) * STEP_MS;
   const note = "Forked a bucket of shredded cardboard through the fresh end and left the lid off; cooling now.";
   const a = alertFrom(input, clock, bin, replayZone(input, h, bin, zone, "heat", from, from + 3 * DAY), { claimAfterMs: 20 * MIN, settledBy: "keeper", note });
@@ -622,7 +627,7 @@ function silentAlert(input: HistoryInput, h: DemoHistory, gap: { from: number; t
   const bin = input.bins.find((b) => b.probes.some((p) => p.code === SILENT_CODE));
   const probe = bin?.probes.find((p) => p.code === SILENT_CODE);
   const zone = bin?.zones.find((z) => z.id === probe?.zoneId);
-  if (!bin || !probe || !zone) return [];
+  if (!bin || !probe || !zone || !episodeFits(input, gap.from)) return [];
   // The keeper sees it at breakfast and goes out with a battery.
   const claimAt = clock.at(gap.from, 7, 50);
   const steps = replayZone(input, h, bin, zone, "silent_probe", gap.from - HOUR, gap.to + 3 * HOUR);

@@ -5,10 +5,10 @@ import fs from "node:fs";
 import path from "node:path";
 import { Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
-import { eq, inArray, isNull, sql } from "drizzle-orm";
+import { asc, eq, inArray, isNull, sql } from "drizzle-orm";
 import type pg from "pg";
 import { from as copyFrom } from "pg-copy-streams";
-import { buildDemoHistory, countReadings, readingLines, rollupLines, STEP_MS, type DemoHistory, type HistoryBin } from "./demo-history";
+import { buildDemoHistory, countReadings, readingLines, rollupLines, STEP_MS, type DemoHistory, type HistoryInput } from "./demo-history";
 import type { Db } from "./index";
 import {
   alertEvents,
@@ -124,6 +124,7 @@ export type SeedOptions = {
 };
 
 export const DEMO_HISTORY_DAYS = 180;
+export const DEMO_SEED = 13;
 
 /** The seed's database: Drizzle over a pool it can also take a client from for COPY. */
 export type SeedDb = Db & { $client: pg.Pool };
@@ -135,8 +136,6 @@ export async function seedDemo(d: SeedDb, opts: SeedOptions = {}): Promise<{ pro
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const demoProbes: DemoProbe[] = [];
   const endMs = Math.floor((opts.now ?? Date.now()) / STEP_MS) * STEP_MS;
-  const people = new Map<string, string>();
-  const historyBins: HistoryBin[] = [];
   let farmId = "";
   await d.transaction(async (tx) => {
     const [farm] = await tx.insert(farms).values({ name: "Alder Row Worm Farm", timezone: "Europe/Dublin" }).returning();
@@ -144,7 +143,6 @@ export async function seedDemo(d: SeedDb, opts: SeedOptions = {}): Promise<{ pro
     for (const p of DEMO_PEOPLE) {
       const [u] = await tx.insert(users).values({ email: p.email, name: p.name, passwordHash, timezone: "Europe/Dublin" }).returning();
       await tx.insert(memberships).values({ userId: u!.id, farmId: farm!.id, role: p.role });
-      people.set(p.role, u!.id);
     }
     let n = 0;
     for (const b of DEMO_BINS) {
@@ -161,57 +159,41 @@ export async function seedDemo(d: SeedDb, opts: SeedOptions = {}): Promise<{ pro
           notes: b.notes,
         })
         .returning();
-      const hb: HistoryBin = { id: bin!.id, name: b.name, style: b.style, species: b.species, lengthCm: b.size[0], widthCm: b.size[1], zones: [], probes: [] };
-      historyBins.push(hb);
       for (const [i, kind] of b.zones.entries()) {
         const [zone] = await tx
           .insert(zones)
           .values({ binId: bin!.id, position: i + 1, kind })
           .returning();
-        hb.zones.push({ id: zone!.id, kind, position: i + 1 });
         n += 1;
         const code = `alder-${String(n).padStart(2, "0")}`;
         const token = randomBytes(18).toString("base64url");
         const metrics = ["temperature", "moisture", "battery-voltage", "signal", ...(b.style === "flow-through" && kind === "fresh" ? ["ammonia"] : [])];
-        const [probe] = await tx
-          .insert(probes)
-          .values({
-            farmId: farm!.id,
-            zoneId: zone!.id,
-            code,
-            label: `${b.name} · ${kind}`,
-            tokenHash: hashToken(token),
-            metrics,
-            lastSeenAt: new Date(endMs),
-            batteryV: 3.9,
-            signalDbm: -67,
-            firmware: "ww-0.4.2",
-          })
-          .returning({ id: probes.id });
-        hb.probes.push({ id: probe!.id, code, zoneId: zone!.id, metrics });
+        await tx.insert(probes).values({
+          farmId: farm!.id,
+          zoneId: zone!.id,
+          code,
+          label: `${b.name} · ${kind}`,
+          tokenHash: hashToken(token),
+          metrics,
+          lastSeenAt: new Date(endMs),
+          batteryV: 3.9,
+          signalDbm: -67,
+          firmware: "ww-0.4.2",
+        });
         demoProbes.push({ code, token, bin: b.name, zone: kind, metrics });
       }
     }
   });
   // A seed that fails half-way takes the demo farm back out, so the next start seeds it again.
+  let historyInput: HistoryInput | null = null;
   let history: DemoHistory;
   let counts: SeedCounts;
   try {
-    const libraryRows = await d.select({ id: ingredients.id, key: ingredients.key }).from(ingredients).where(isNull(ingredients.farmId));
-    history = buildDemoHistory({
-      endMs,
-      days: opts.historyDays ?? DEMO_HISTORY_DAYS,
-      seed: opts.seed ?? 13,
-      timeZone: "Europe/Dublin",
-      farmId,
-      keeperId: people.get("keeper")!,
-      ownerId: people.get("owner")!,
-      bins: historyBins,
-      ingredientIds: new Map(libraryRows.map((r) => [r.key, r.id])),
-    });
+    historyInput = await loadHistoryInput(d, farmId, endMs, { days: opts.historyDays, seed: opts.seed });
+    history = buildDemoHistory(historyInput);
     counts = await writeHistory(d, history);
   } catch (err) {
-    const ids = historyBins.flatMap((hb) => hb.probes.map((p) => p.id));
+    const ids = (await d.select({ id: probes.id }).from(probes).where(eq(probes.farmId, farmId))).map((p) => p.id);
     await d.delete(readings).where(inArray(readings.probeId, ids));
     await d.delete(readingRollups).where(inArray(readingRollups.probeId, ids));
     await d.delete(farms).where(eq(farms.id, farmId));
@@ -224,13 +206,13 @@ export async function seedDemo(d: SeedDb, opts: SeedOptions = {}): Promise<{ pro
     throw err;
   }
   // Each probe's row says what it last sent; the probes file gives the fleet where each zone stands.
-  for (const hb of historyBins)
+  for (const hb of historyInput.bins)
     for (const p of hb.probes) {
       const last = history.last.get(p.id);
       if (last) await d.update(probes).set({ batteryV: last.batteryV, signalDbm: last.signalDbm }).where(eq(probes.id, p.id));
     }
   if (opts.probesFile) {
-    const lastOf = new Map(historyBins.flatMap((hb) => hb.probes.map((p) => [p.code, history.last.get(p.id)] as const)));
+    const lastOf = new Map(historyInput.bins.flatMap((hb) => hb.probes.map((p) => [p.code, history.last.get(p.id)] as const)));
     const withLast = demoProbes.map((p) => {
       const l = lastOf.get(p.code);
       return l ? { ...p, last: { temperature: l.temperature, moisture: l.moisture } } : p;
@@ -239,6 +221,50 @@ export async function seedDemo(d: SeedDb, opts: SeedOptions = {}): Promise<{ pro
     fs.writeFileSync(opts.probesFile, JSON.stringify(withLast, null, 2), { mode: 0o600 });
   }
   return { probes: demoProbes, counts };
+}
+
+/** What the demo scenario needs of the seeded farm, read back from its rows: the seed and a test
+ * rebuilding the same history both start from here. */
+export async function loadHistoryInput(d: Db, farmId: string, endMs: number, opts: { days?: number; seed?: number } = {}): Promise<HistoryInput> {
+  const binRows = await d.select().from(bins).where(eq(bins.farmId, farmId));
+  const zoneRows = await d
+    .select()
+    .from(zones)
+    .where(
+      inArray(
+        zones.binId,
+        binRows.map((b) => b.id),
+      ),
+    )
+    .orderBy(asc(zones.position));
+  const probeRows = await d.select().from(probes).where(eq(probes.farmId, farmId)).orderBy(asc(probes.id));
+  const team = await d.select().from(memberships).where(eq(memberships.farmId, farmId));
+  const library = await d.select({ id: ingredients.id, key: ingredients.key }).from(ingredients).where(isNull(ingredients.farmId));
+  const order = (name: string) => DEMO_BINS.findIndex((b) => b.name === name);
+  return {
+    endMs,
+    days: opts.days ?? DEMO_HISTORY_DAYS,
+    seed: opts.seed ?? DEMO_SEED,
+    timeZone: "Europe/Dublin",
+    farmId,
+    keeperId: team.find((m) => m.role === "keeper")!.userId,
+    ownerId: team.find((m) => m.role === "owner")!.userId,
+    ingredientIds: new Map(library.map((r) => [r.key, r.id])),
+    bins: binRows
+      .sort((a, b) => order(a.name) - order(b.name))
+      .map((b) => ({
+        id: b.id,
+        name: b.name,
+        style: b.style,
+        species: b.species,
+        lengthCm: b.lengthCm ?? 0,
+        widthCm: b.widthCm ?? 0,
+        zones: zoneRows.filter((z) => z.binId === b.id).map((z) => ({ id: z.id, kind: z.kind, position: z.position })),
+        probes: probeRows
+          .filter((p) => zoneRows.some((z) => z.id === p.zoneId && z.binId === b.id))
+          .map((p) => ({ id: p.id, code: p.code, zoneId: p.zoneId!, metrics: p.metrics })),
+      })),
+  };
 }
 
 /** Passes COPY chunks through, counting their lines. */
