@@ -3,9 +3,34 @@
 import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
-import { sql } from "drizzle-orm";
+import { Readable } from "node:stream";
+import { pipeline } from "node:stream/promises";
+import { asc, eq, inArray, isNull, sql } from "drizzle-orm";
+import type pg from "pg";
+import { from as copyFrom } from "pg-copy-streams";
+import { buildDemoHistory, countReadings, readingLines, rollupLines, STEP_MS, type DemoHistory, type HistoryInput } from "./demo-history";
 import type { Db } from "./index";
-import { bins, farms, ingredients, memberships, probes, readings, users, zones, type BinStyle, type ZoneKind } from "./schema";
+import {
+  alertEvents,
+  alerts,
+  bins,
+  farms,
+  feedingItems,
+  feedings,
+  harvests,
+  ingredients,
+  logNotes,
+  memberships,
+  probes,
+  readingRollups,
+  readings,
+  shifts,
+  users,
+  waterings,
+  zones,
+  type BinStyle,
+  type ZoneKind,
+} from "./schema";
 import { ingredients as library } from "@/lib/domain/ingredients";
 import { hashPassword } from "@/lib/server/auth/password";
 import { hashToken } from "@/lib/server/auth/tokens";
@@ -78,13 +103,43 @@ export async function isEmpty(d: Db) {
   return (r.rows[0] as { n: number }).n === 0;
 }
 
-// Seeds the demo farm with a day of history so charts are not empty before the probes report.
-export async function seedDemo(d: Db, opts: { probesFile?: string; historyHours?: number } = {}) {
+export type SeedCounts = {
+  readings: number;
+  rollups: number;
+  feedings: number;
+  waterings: number;
+  shifts: number;
+  harvests: number;
+  notes: number;
+  alerts: number;
+};
+export type SeedOptions = {
+  probesFile?: string;
+  /** Days of invented history before now (default 180). */
+  historyDays?: number;
+  /** The end of the history (default now); rounded down to 5 minutes. */
+  now?: number;
+  /** The scenario's random seed: the same seed and end give the same rows. */
+  seed?: number;
+};
+
+export const DEMO_HISTORY_DAYS = 180;
+export const DEMO_SEED = 13;
+
+/** The seed's database: Drizzle over a pool it can also take a client from for COPY. */
+export type SeedDb = Db & { $client: pg.Pool };
+
+// Seeds the demo farm with half a year of invented history (db/demo-history.ts), so charts, the
+// logbook and the alert history have something to show before the probes report.
+export async function seedDemo(d: SeedDb, opts: SeedOptions = {}): Promise<{ probes: DemoProbe[]; counts: SeedCounts }> {
   await seedIngredients(d);
   const passwordHash = await hashPassword(DEMO_PASSWORD);
   const demoProbes: DemoProbe[] = [];
+  const endMs = Math.floor((opts.now ?? Date.now()) / STEP_MS) * STEP_MS;
+  let farmId = "";
   await d.transaction(async (tx) => {
     const [farm] = await tx.insert(farms).values({ name: "Alder Row Worm Farm", timezone: "Europe/Dublin" }).returning();
+    farmId = farm!.id;
     for (const p of DEMO_PEOPLE) {
       const [u] = await tx.insert(users).values({ email: p.email, name: p.name, passwordHash, timezone: "Europe/Dublin" }).returning();
       await tx.insert(memberships).values({ userId: u!.id, farmId: farm!.id, role: p.role });
@@ -120,7 +175,7 @@ export async function seedDemo(d: Db, opts: { probesFile?: string; historyHours?
           label: `${b.name} · ${kind}`,
           tokenHash: hashToken(token),
           metrics,
-          lastSeenAt: new Date(),
+          lastSeenAt: new Date(endMs),
           batteryV: 3.9,
           signalDbm: -67,
           firmware: "ww-0.4.2",
@@ -129,41 +184,147 @@ export async function seedDemo(d: Db, opts: { probesFile?: string; historyHours?
       }
     }
   });
-  await seedHistory(d, demoProbes, opts.historyHours ?? 24);
-  if (opts.probesFile) {
-    fs.mkdirSync(path.dirname(opts.probesFile), { recursive: true });
-    fs.writeFileSync(opts.probesFile, JSON.stringify(demoProbes, null, 2), { mode: 0o600 });
+  // A seed that fails half-way takes the demo farm back out, so the next start seeds it again.
+  let historyInput: HistoryInput | null = null;
+  let history: DemoHistory;
+  let counts: SeedCounts;
+  try {
+    historyInput = await loadHistoryInput(d, farmId, endMs, { days: opts.historyDays, seed: opts.seed });
+    history = buildDemoHistory(historyInput);
+    counts = await writeHistory(d, history);
+  } catch (err) {
+    const ids = (await d.select({ id: probes.id }).from(probes).where(eq(probes.farmId, farmId))).map((p) => p.id);
+    await d.delete(readings).where(inArray(readings.probeId, ids));
+    await d.delete(readingRollups).where(inArray(readingRollups.probeId, ids));
+    await d.delete(farms).where(eq(farms.id, farmId));
+    await d.delete(users).where(
+      inArray(
+        users.email,
+        DEMO_PEOPLE.map((p) => p.email),
+      ),
+    );
+    throw err;
   }
-  return demoProbes;
+  // Each probe's row says what it last sent; the probes file gives the fleet where each zone stands.
+  for (const hb of historyInput.bins)
+    for (const p of hb.probes) {
+      const last = history.last.get(p.id);
+      if (last) await d.update(probes).set({ batteryV: last.batteryV, signalDbm: last.signalDbm }).where(eq(probes.id, p.id));
+    }
+  if (opts.probesFile) {
+    const lastOf = new Map(historyInput.bins.flatMap((hb) => hb.probes.map((p) => [p.code, history.last.get(p.id)] as const)));
+    const withLast = demoProbes.map((p) => {
+      const l = lastOf.get(p.code);
+      return l ? { ...p, last: { temperature: l.temperature, moisture: l.moisture } } : p;
+    });
+    fs.mkdirSync(path.dirname(opts.probesFile), { recursive: true });
+    fs.writeFileSync(opts.probesFile, JSON.stringify(withLast, null, 2), { mode: 0o600 });
+  }
+  return { probes: demoProbes, counts };
 }
 
-// A plausible day: a daily swing, the fresh zone a little warmer, slow drying toward the curing end.
-async function seedHistory(d: Db, demoProbes: DemoProbe[], hours: number) {
-  const ids = await d.select({ id: probes.id, code: probes.code }).from(probes);
-  const idOf = new Map(ids.map((r) => [r.code, r.id]));
-  const now = Math.floor(Date.now() / 300_000) * 300_000;
-  const rows: (typeof readings.$inferInsert)[] = [];
-  for (const [i, p] of demoProbes.entries()) {
-    const probeId = idOf.get(p.code)!;
-    const base = p.zone === "fresh" ? 23 : p.zone === "working" ? 21.5 : 20;
-    const wet = p.zone === "fresh" ? 82 : p.zone === "working" ? 78 : 72;
-    for (let t = now - hours * 3600_000; t <= now; t += 300_000) {
-      const dayPhase = (2 * Math.PI * ((t / 3600_000) % 24)) / 24;
-      const wobble = Math.sin(t / 900_000 + i) * 0.15;
-      rows.push({ probeId, metric: "temperature", ts: new Date(t), value: +(base + 1.2 * Math.sin(dayPhase - 2) + wobble).toFixed(2) });
-      rows.push({ probeId, metric: "moisture", ts: new Date(t), value: +(wet - ((now - t) / 3600_000) * -0.02 + wobble).toFixed(2) });
-      if (p.metrics.includes("ammonia")) rows.push({ probeId, metric: "ammonia", ts: new Date(t), value: +(2 + Math.abs(wobble) * 4).toFixed(2) });
-    }
+/** What the demo scenario needs of the seeded farm, read back from its rows: the seed and a test
+ * rebuilding the same history both start from here. */
+export async function loadHistoryInput(d: Db, farmId: string, endMs: number, opts: { days?: number; seed?: number } = {}): Promise<HistoryInput> {
+  const binRows = await d.select().from(bins).where(eq(bins.farmId, farmId));
+  const zoneRows = await d
+    .select()
+    .from(zones)
+    .where(
+      inArray(
+        zones.binId,
+        binRows.map((b) => b.id),
+      ),
+    )
+    .orderBy(asc(zones.position));
+  const probeRows = await d.select().from(probes).where(eq(probes.farmId, farmId)).orderBy(asc(probes.id));
+  const team = await d.select().from(memberships).where(eq(memberships.farmId, farmId));
+  const library = await d.select({ id: ingredients.id, key: ingredients.key }).from(ingredients).where(isNull(ingredients.farmId));
+  const order = (name: string) => DEMO_BINS.findIndex((b) => b.name === name);
+  return {
+    endMs,
+    days: opts.days ?? DEMO_HISTORY_DAYS,
+    seed: opts.seed ?? DEMO_SEED,
+    timeZone: "Europe/Dublin",
+    farmId,
+    keeperId: team.find((m) => m.role === "keeper")!.userId,
+    ownerId: team.find((m) => m.role === "owner")!.userId,
+    ingredientIds: new Map(library.map((r) => [r.key, r.id])),
+    bins: binRows
+      .sort((a, b) => order(a.name) - order(b.name))
+      .map((b) => ({
+        id: b.id,
+        name: b.name,
+        style: b.style,
+        species: b.species,
+        lengthCm: b.lengthCm ?? 0,
+        widthCm: b.widthCm ?? 0,
+        zones: zoneRows.filter((z) => z.binId === b.id).map((z) => ({ id: z.id, kind: z.kind, position: z.position })),
+        probes: probeRows
+          .filter((p) => zoneRows.some((z) => z.id === p.zoneId && z.binId === b.id))
+          .map((p) => ({ id: p.id, code: p.code, zoneId: p.zoneId!, metrics: p.metrics })),
+      })),
+  };
+}
+
+/** Passes COPY chunks through, counting their lines. */
+function* counted(chunks: Iterable<string>, box: { n: number }) {
+  for (const c of chunks) {
+    for (let i = c.indexOf("\n"); i !== -1; i = c.indexOf("\n", i + 1)) box.n += 1;
+    yield c;
   }
-  for (let i = 0; i < rows.length; i += 2000)
-    await d
-      .insert(readings)
-      .values(rows.slice(i, i + 2000))
-      .onConflictDoNothing();
-  // Hourly rollups for the seeded history, cut in UTC like the ingest writer's.
-  await d.execute(sql`
-    insert into reading_rollups (probe_id, metric, hour, min, max, sum, count)
-    select probe_id, metric, date_trunc('hour', ts, 'UTC'), min(value), max(value), sum(value), count(*)
-    from readings group by 1, 2, 3
-    on conflict do nothing`);
+}
+
+// COPY FROM STDIN through pg-copy-streams (Drizzle has no words for COPY), on a client of its own.
+async function copyInto(pool: pg.Pool, statement: string, chunks: Iterable<string>) {
+  const client = await pool.connect();
+  try {
+    await pipeline(Readable.from(chunks), client.query(copyFrom(statement)));
+  } finally {
+    client.release();
+  }
+}
+
+// COPY for the readings and their rollups (about a million rows: row-by-row inserts would take
+// minutes), in two halves and the rollups at once, so both cores work; the logbook and alerts are a
+// few hundred rows and go in as ordinary inserts.
+async function writeHistory(d: SeedDb, h: DemoHistory): Promise<SeedCounts> {
+  const rollups = { n: 0 };
+  const total = h.series.reduce((n, s) => n + s.values.length, 0);
+  let acc = 0;
+  const cut = h.series.findIndex((s) => (acc += s.values.length) >= total / 2) + 1;
+  const readingsCopy = "copy readings (probe_id, metric, ts, value) from stdin";
+  await Promise.all([
+    copyInto(d.$client, readingsCopy, readingLines(h.series.slice(0, cut))),
+    copyInto(d.$client, readingsCopy, readingLines(h.series.slice(cut))),
+    copyInto(d.$client, "copy reading_rollups (probe_id, metric, hour, min, max, sum, count) from stdin", counted(rollupLines(h.series), rollups)),
+  ]);
+  await d.transaction(async (tx) => {
+    for (const f of h.feedings) {
+      const { items, ...feeding } = f;
+      const [row] = await tx.insert(feedings).values(feeding).returning({ id: feedings.id });
+      await tx.insert(feedingItems).values(items.map((i) => ({ ...i, feedingId: row!.id })));
+    }
+    if (h.waterings.length) await tx.insert(waterings).values(h.waterings);
+    if (h.shifts.length) await tx.insert(shifts).values(h.shifts);
+    if (h.harvests.length) await tx.insert(harvests).values(h.harvests);
+    if (h.notes.length) await tx.insert(logNotes).values(h.notes);
+    for (const a of h.alerts) {
+      const { events, ...alert } = a;
+      const [row] = await tx.insert(alerts).values(alert).returning({ id: alerts.id });
+      await tx.insert(alertEvents).values(events.map((e) => ({ ...e, alertId: row!.id })));
+    }
+  });
+  // Fresh statistics, so the first chart's query plans over the new rows at once.
+  await d.execute(sql`analyze readings, reading_rollups`);
+  return {
+    readings: countReadings(h.series),
+    rollups: rollups.n,
+    feedings: h.feedings.length,
+    waterings: h.waterings.length,
+    shifts: h.shifts.length,
+    harvests: h.harvests.length,
+    notes: h.notes.length,
+    alerts: h.alerts.length,
+  };
 }

@@ -66,8 +66,11 @@ async function start() {
     console.log(`PostgreSQL: 127.0.0.1:${c.port}${c.note ? ` (${c.note})` : ""}`);
   }
   await runMigrations(databaseUrl);
-  const { seedForStart } = await import("./seed-demo");
-  const { demo, seeded } = await seedForStart(databaseUrl, path.join(dataDir, "demo-probes.json"), { ownCluster, flag: process.env.WORMWARD_DEMO });
+  const { seedForStart, seedSummary } = await import("./seed-demo");
+  const seedStarted = performance.now();
+  const seed = await seedForStart(databaseUrl, path.join(dataDir, "demo-probes.json"), { ownCluster, flag: process.env.WORMWARD_DEMO });
+  const { demo, seeded } = seed;
+  console.log(`${seedSummary(seed)}${seeded ? "" : ` (checked in ${((performance.now() - seedStarted) / 1000).toFixed(1)} s)`}`);
 
   const secrets = loadSecrets(dataDir);
   const port = Number(process.env.PORT ?? 3000);
@@ -112,6 +115,8 @@ async function start() {
     lines.push(`  curl -X POST http://127.0.0.1:8099/scenario -H 'content-type: application/json' -d '{"code":"alder-01","scenario":"heavy-feed"}'`);
   }
 
+  // process.uptime(): since the launcher's own start, so a restart's cost before the build shows.
+  console.log(`Ready for the web app ${process.uptime().toFixed(1)} s after start.`);
   const built = buildUnlessCurrent(root, () => {
     console.log("Building the web app (next build)…");
     run(bin("next"), ["build"], { ...env, NEXT_TELEMETRY_DISABLED: "1" });

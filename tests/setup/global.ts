@@ -76,7 +76,9 @@ export default async function setup(project: TestProject) {
   // Seed the app database in a child (the seed uses the app's module graph and its own pool).
   // The harness's own cluster asks for the demo farm and its people, as `npm start` does on its own.
   const { seedForStart } = await import("../../lib/stack/seed-demo");
-  await seedForStart(appDbUrl, path.join(root, ".data", `${clusterName}-demo-probes.json`), { ownCluster: true, flag: "1" });
+  // The demo's 180 days of history (about 10 s to seed); WORMWARD_TEST_DEMO_DAYS shortens it for a quick local run.
+  const historyDays = process.env.WORMWARD_TEST_DEMO_DAYS ? Number(process.env.WORMWARD_TEST_DEMO_DAYS) : undefined;
+  await seedForStart(appDbUrl, path.join(root, ".data", `${clusterName}-demo-probes.json`), { ownCluster: true, flag: "1", historyDays });
 
   const nextauthSecret = "test-secret-0123456789abcdef";
   // Local stand-ins for the hosted push service and SMTP, shared by the app and the tests.

@@ -76,14 +76,18 @@ describe("demo accounts only in the demo", () => {
   it("WORMWARD_DEMO=1 seeds the demo into a DATABASE_URL database", async () => {
     const url = await freshDatabase();
     const probesFile = path.join(dir, "flag.json");
-    expect(await seedForStart(url, probesFile, { ownCluster: false, flag: "1" })).toEqual({ demo: true, seeded: true });
+    // Two days of history: these tests are about the people (demo-history.test.ts covers the history).
+    expect(await seedForStart(url, probesFile, { ownCluster: false, flag: "1", historyDays: 2 })).toMatchObject({ demo: true, seeded: true });
     expect(await demoPeople(url)).toBe(3);
     expect(JSON.parse(fs.readFileSync(probesFile, "utf8")).length).toBeGreaterThan(0);
   });
 
   it("npm start's own cluster gets the demo, unless WORMWARD_DEMO=0", async () => {
     const own = await freshDatabase();
-    expect(await seedForStart(own, path.join(dir, "own.json"), { ownCluster: true, flag: undefined })).toEqual({ demo: true, seeded: true });
+    expect(await seedForStart(own, path.join(dir, "own.json"), { ownCluster: true, flag: undefined, historyDays: 2 })).toMatchObject({
+      demo: true,
+      seeded: true,
+    });
     expect(await demoPeople(own)).toBe(3);
     const optedOut = await freshDatabase();
     expect(await seedForStart(optedOut, path.join(dir, "out.json"), { ownCluster: true, flag: "0" })).toEqual({ demo: false, seeded: false });
