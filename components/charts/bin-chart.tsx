@@ -22,7 +22,7 @@ import {
   timeLabels,
   type ChartRange,
 } from "./chart-kit";
-import { CursorLegend, MarkButtons, type CursorWords } from "./cursor-legend";
+import { CursorLegend, MarkButtons, NO_READING, type CursorWords } from "./cursor-legend";
 import { displayUnit, metricBand } from "./metric-words";
 import { paletteColor, useColorScheme, withAlpha } from "./theme-colors";
 
@@ -185,7 +185,7 @@ export function BinChart(p: Props) {
             }
             const rows = drawn.lines.map((z, k) => {
               const v = u.data[1 + k]?.[i!];
-              return { name: z.words, swatch: <Swatch k={z.k} />, value: v == null ? "no reading" : `${formatNumber(v, 1)} ${unit}`, range: null };
+              return { name: z.words, swatch: <Swatch k={z.k} />, value: v == null ? NO_READING : `${formatNumber(v, 1)} ${unit}`, range: null };
             });
             setCursor({ when: when(drawn.starts.get(t) ?? t, data.bucketSeconds), rows, near: marksNear(u, marks, u.cursor.left ?? -1) });
             setPicked(null);
@@ -212,7 +212,7 @@ export function BinChart(p: Props) {
   const newest = zoneLines.map((z) => ({
     name: z.words,
     swatch: <Swatch k={z.k} />,
-    value: z.t.length ? `${formatNumber(conv(z.mean[z.mean.length - 1]!), 1)} ${unit}` : "no reading",
+    value: z.t.length ? `${formatNumber(conv(z.mean[z.mean.length - 1]!), 1)} ${unit}` : NO_READING,
   }));
   const label = data
     ? `${title} of every zone, ${rangeWords}: ${zoneLines
@@ -229,9 +229,9 @@ export function BinChart(p: Props) {
         <h3 className="text-lg font-bold">{title} of every zone</h3>
         <span className="tabular text-sm text-soil-700">{data ? levelWords(data.bucketSeconds) : ""}</span>
       </figcaption>
-      <SegmentedControl label="Bin chart metric" options={METRIC_CHOICES} value={metric} onChange={setMetric} />
+      <SegmentedControl label="Metric for all zones" options={METRIC_CHOICES} value={metric} onChange={setMetric} />
       <SegmentedControl
-        label="Bin chart window"
+        label="Window for all zones"
         options={CHART_RANGES}
         value={range}
         onChange={(r) => {

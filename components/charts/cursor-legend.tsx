@@ -2,6 +2,9 @@ import type { ReactNode } from "react";
 import { Mark } from "@/components/ui/marks";
 import { KIND_WORDS, type ChartMark } from "./chart-kit";
 
+/** A line's words where it has no point at the cursor. */
+export const NO_READING = "no reading";
+
 /** What the cursor points at, in words: when, each line's value, and the logbook marks there. */
 export type CursorWords = {
   when: string;
@@ -25,7 +28,7 @@ export function CursorLegend({ cursor, idle, minHeight }: { cursor: CursorWords 
               <span key={k} className="flex flex-wrap items-baseline gap-x-2" data-cursor-row>
                 {r.swatch}
                 {r.name && <span className="text-base">{r.name}</span>}
-                <span className="text-2xl font-bold">{r.value}</span>
+                <span className={r.value === NO_READING ? "text-base text-soil-700" : "text-2xl font-bold"}>{r.value}</span>
                 {r.range && <span className="text-sm text-soil-700">{r.range}</span>}
               </span>
             ))}

@@ -22,7 +22,7 @@ import {
   timeLabels,
   type ChartMark,
 } from "./chart-kit";
-import { CursorLegend, MarkButtons, type CursorWords } from "./cursor-legend";
+import { CursorLegend, MarkButtons, NO_READING, type CursorWords } from "./cursor-legend";
 import { paletteColor, useColorScheme, withAlpha } from "./theme-colors";
 
 export type { ChartMark } from "./chart-kit";
@@ -97,7 +97,14 @@ export function ZoneChart(p: Props) {
   const xMax = data ? Date.parse(data.to) / 1000 : 1;
   const drawn = useMemo(() => (data ? tablesOf(data.series, data.bucketSeconds, conv, aggregated, xMin, xMax) : null), [data, conv, aggregated, xMin, xMax]);
   const serverMarks = useMemo(() => eventMarks(data?.events ?? [], p.binZones ?? [], p.system, clock), [data, p.binZones, p.system, clock]);
-  const marks = useMemo(() => mergeMarks(p.marks, serverMarks, xMin, xMax), [p.marks, serverMarks, xMin, xMax]);
+  // A live window also marks what was logged after its series was read, up to when the chart
+  // opened (a feeding just logged on the bin page shows at once, before the series is read again),
+  // drawn at the window's end.
+  const [openedAt] = useState(() => Math.floor(Date.now() / 1000));
+  const marks = useMemo(
+    () => mergeMarks(p.marks, serverMarks, xMin, p.to ? xMax : Math.max(xMax, openedAt)).map((m) => (m.t > xMax ? { ...m, t: xMax } : m)),
+    [p.marks, p.to, serverMarks, xMin, xMax, openedAt],
+  );
   // A heading is drawn only on a window that ends now, up to a month long, and only with a rate to draw.
   const rate =
     !p.to && xMax - xMin <= AHEAD_MAX_WINDOW_S && p.heading?.ratePerHour != null && Number.isFinite(p.heading.ratePerHour) ? p.heading.ratePerHour : null;
@@ -278,7 +285,7 @@ export function ZoneChart(p: Props) {
               const mean = u.data[1 + k * per]?.[i!];
               return {
                 name: drawn.lines.length > 1 ? s.code : null,
-                value: mean == null ? "no reading" : `${num(mean)} ${p.unit}`,
+                value: mean == null ? NO_READING : `${num(mean)} ${p.unit}`,
                 range: aggregated && mean != null ? `low ${num(u.data[2 + k * per]?.[i!])} · high ${num(u.data[3 + k * per]?.[i!])}` : null,
               };
             });
