@@ -3,16 +3,30 @@
 import { useEffect, useMemo, useRef, useState } from "react";
 import uPlot from "uplot";
 import "uplot/dist/uPlot.min.css";
-import type { Series } from "@/lib/client/wire";
 import { clockFormat } from "@/components/logbook/format";
 import { useSeries } from "@/lib/client/hooks/use-series";
 import { formatNumber, temperatureForDisplay, type UnitSystem } from "@/lib/domain/units";
 import { Mark } from "@/components/ui/marks";
+import {
+  bindTouch,
+  cursorWhen,
+  drawMarks,
+  eventMarks,
+  KIND_WORDS,
+  KINDS,
+  levelWords,
+  marksNear,
+  marksWords,
+  mergeMarks,
+  tablesOf,
+  timeLabels,
+  type ChartMark,
+} from "./chart-kit";
+import { CursorLegend, MarkButtons, NO_READING, type CursorWords } from "./cursor-legend";
 import { paletteColor, useColorScheme, withAlpha } from "./theme-colors";
 
+export type { ChartMark } from "./chart-kit";
 export type ChartMetric = "temperature" | "moisture" | "ammonia";
-/** A feeding drawn on the time axis; t in Unix seconds. */
-export type ChartMark = { id: string; t: number; label: string; detail: string };
 /** A moment of an alert (raised, settled) drawn as a solid line with its word; t in Unix seconds. */
 export type ChartMoment = { t: number; label: string };
 /** A reading as stored: ISO time and value in stored units. */
@@ -38,7 +52,11 @@ type Props = {
   timezone: string;
   /** The line's colour: a palette variable ("--color-clay-500"), so the chart follows the theme. */
   color: string;
+  /** Marks the caller words itself (a feeding with its mix check); the series' own logbook entries
+   * (feedings, waterings, shifts, harvests) are drawn beside them, a caller's mark winning by id. */
   marks: readonly ChartMark[];
+  /** The bin's zones, to say where a logbook entry was done. */
+  binZones?: readonly { id: string; kind: string; name: string | null }[];
   /** A stored value in words ("23.4 °C, comfortable"). */
   describe: (stored: number) => string;
   /** Where the readings are heading (the rules' own rate or trend, per hour in stored units): drawn
@@ -50,88 +68,47 @@ export type ChartHeading = { ratePerHour: number | null; crossingAt: number | nu
 
 /** How far past now the axis runs when a heading is drawn: an eighth of the window. */
 const AHEAD_SHARE = 0.125;
+/** A heading is drawn on windows up to a month; over a year an hour's rate says nothing. */
+const AHEAD_MAX_WINDOW_S = 31 * 86_400;
+/** Above this many marks the chart draws them without buttons; the cursor names them instead. */
+const MAX_MARK_BUTTONS = 24;
 
 type Geom = { left: number; top: number; width: number; height: number; xMin: number; xMax: number; bandTop: number; bandBottom: number };
 
 const HEIGHT = 210;
 const RECENT_MS = 3 * 3_600_000;
 
-function medianStep(t: readonly number[]): number {
-  if (t.length < 2) return 60;
-  const d = t
-    .slice(1)
-    .map((x, i) => x - t[i]!)
-    .sort((a, b) => a - b);
-  return d[Math.floor(d.length / 2)]!;
-}
-
-// One table per probe: mean (and min/max when points are aggregates), with an explicit null where
-// readings stop for more than three steps, so a silent probe shows as a gap rather than a ramp.
-function tablesOf(ans: Series, conv: (v: number) => number, aggregated: boolean): uPlot.AlignedData[] {
-  return ans.series
-    .filter((s) => s.t.length > 0)
-    .map((s) => {
-      const step = ans.bucketSeconds ?? medianStep(s.t);
-      const t: number[] = [];
-      const cols: (number | null)[][] = aggregated ? [[], [], []] : [[]];
-      s.t.forEach((x, i) => {
-        if (i > 0 && x - s.t[i - 1]! > 3 * step) {
-          t.push(s.t[i - 1]! + step);
-          cols.forEach((c) => c.push(null));
-        }
-        t.push(x);
-        cols[0]!.push(conv(s.mean[i]!));
-        if (aggregated) {
-          cols[1]!.push(conv(s.min[i]!));
-          cols[2]!.push(conv(s.max[i]!));
-        }
-      });
-      return [t, ...cols] as uPlot.AlignedData;
-    });
-}
-
-function safeFormat(timeZone: string, opts: Intl.DateTimeFormatOptions) {
-  try {
-    return new Intl.DateTimeFormat("en-GB", { ...opts, timeZone });
-  } catch {
-    return new Intl.DateTimeFormat("en-GB", { ...opts, timeZone: "UTC" });
-  }
-}
-
-// Time-axis labels in the farm's zone: 24-hour clock, and the day ("2 Dec") at midnight or when
-// ticks are a day or more apart.
-function timeLabels(timeZone: string) {
-  const hm = safeFormat(timeZone, { hour: "2-digit", minute: "2-digit", hourCycle: "h23" });
-  const dm = safeFormat(timeZone, { day: "numeric", month: "short" });
-  return (_u: uPlot, splits: number[], _i: number, _s: number, incr: number) =>
-    splits.map((t) => {
-      const d = new Date(t * 1000);
-      const time = hm.format(d);
-      return incr >= 86_400 || time === "00:00" ? dm.format(d) : time;
-    });
-}
-
 // One metric of a zone over a window: mean line, min–max band when points are aggregates, the
-// species' band shaded behind, and feedings as marks on the time axis (tap or hover for details).
+// species' band shaded behind, and the logbook's entries as marks on the time axis. A finger or a
+// mouse on the plot shows, in a large legend above it, the time and each line's value there.
 export function ZoneChart(p: Props) {
   const { data, error, isLoading } = useSeries({ zoneId: p.zoneId }, { metric: p.metric, from: p.from, to: p.to });
   const box = useRef<HTMLDivElement>(null);
   const [geom, setGeom] = useState<Geom | null>(null);
-  const [readout, setReadout] = useState<string | null>(null);
+  const [cursor, setCursor] = useState<CursorWords | null>(null);
   const [picked, setPicked] = useState<string | null>(null);
   const scheme = useColorScheme();
 
   const clock = useMemo(() => clockFormat(p.timezone), [p.timezone]);
+  const when = useMemo(() => cursorWhen(p.timezone), [p.timezone]);
   const conv = useMemo(() => (p.metric === "temperature" ? (v: number) => temperatureForDisplay(v, p.system) : (v: number) => v), [p.metric, p.system]);
   const aggregated = data?.bucketSeconds != null;
-  const tables = useMemo(() => (data ? tablesOf(data, conv, aggregated) : []), [data, conv, aggregated]);
   const xMin = data ? Date.parse(data.from) / 1000 : 0;
   const xMax = data ? Date.parse(data.to) / 1000 : 1;
-  const marks = useMemo(() => p.marks.filter((m) => m.t >= xMin && m.t <= xMax), [p.marks, xMin, xMax]);
-  // A heading is drawn only on a window that ends now, and only with a rate to draw.
-  const rate = !p.to && p.heading?.ratePerHour != null && Number.isFinite(p.heading.ratePerHour) ? p.heading.ratePerHour : null;
+  const drawn = useMemo(() => (data ? tablesOf(data.series, data.bucketSeconds, conv, aggregated, xMin, xMax) : null), [data, conv, aggregated, xMin, xMax]);
+  const serverMarks = useMemo(() => eventMarks(data?.events ?? [], p.binZones ?? [], p.system, clock), [data, p.binZones, p.system, clock]);
+  // A live window also marks what was logged after its series was read, up to when the chart
+  // opened (a feeding just logged on the bin page shows at once, before the series is read again),
+  // drawn at the window's end.
+  const [openedAt] = useState(() => Math.floor(Date.now() / 1000));
+  const marks = useMemo(
+    () => mergeMarks(p.marks, serverMarks, xMin, p.to ? xMax : Math.max(xMax, openedAt)).map((m) => (m.t > xMax ? { ...m, t: xMax } : m)),
+    [p.marks, p.to, serverMarks, xMin, xMax, openedAt],
+  );
+  // A heading is drawn only on a window that ends now, up to a month long, and only with a rate to draw.
+  const rate =
+    !p.to && xMax - xMin <= AHEAD_MAX_WINDOW_S && p.heading?.ratePerHour != null && Number.isFinite(p.heading.ratePerHour) ? p.heading.ratePerHour : null;
   const xEnd = rate === null ? xMax : xMax + (xMax - xMin) * AHEAD_SHARE;
-
   const summary = useMemo(() => {
     if (!data) return null;
     let last: { t: number; v: number } | null = null;
@@ -173,7 +150,8 @@ export function ZoneChart(p: Props) {
 
   useEffect(() => {
     const el = box.current;
-    if (!el || !data || tables.length === 0 || !summary) return;
+    if (!el || !data || !drawn || drawn.tables.length === 0 || !summary) return;
+    const tables = drawn.tables;
     const aligned = tables.length === 1 ? tables[0]! : uPlot.join(tables);
     const per = aggregated ? 3 : 1;
     // Colours from the palette as it is now (light or dark).
@@ -184,7 +162,13 @@ export function ZoneChart(p: Props) {
     const series: uPlot.Series[] = [{}];
     const bands: uPlot.Band[] = [];
     tables.forEach((_, k) => {
-      series.push({ label: data.series[k]?.label ?? `probe ${k + 1}`, stroke: line, width: 2, dash: k ? [6, 4] : undefined, points: { show: false } });
+      series.push({
+        label: drawn.lines[k]?.label ?? drawn.lines[k]?.code ?? `probe ${k + 1}`,
+        stroke: line,
+        width: 2,
+        dash: k ? [6, 4] : undefined,
+        points: { show: false },
+      });
       if (aggregated) {
         series.push({ stroke: "transparent", width: 0, points: { show: false } }, { stroke: "transparent", width: 0, points: { show: false } });
         bands.push({ series: [3 + k * per, 2 + k * per], fill: withAlpha(line, dark ? 0.26 : 0.18) });
@@ -242,23 +226,11 @@ export function ZoneChart(p: Props) {
             const bottom = u.valToPos(p.band.low, "y", true);
             ctx.fillStyle = bandFill;
             ctx.fillRect(u.bbox.left, top, u.bbox.width, bottom - top);
-            // Feedings: a dashed line through the plot under a small square (a scrap, as in the
-            // feeding mark) on the plot's top edge; the cursor's point is a round dot, so the two
-            // never mix. The tappable mark sits on the time axis.
+            // The logbook's entries: each kind's shape on the plot's top edge (a dashed line down while
+            // they are few); the cursor's point is a round dot, so the two never mix. The tappable
+            // marks sit on the time axis.
             const r = uPlot.pxRatio;
-            ctx.strokeStyle = withAlpha(ink, 0.55);
-            ctx.fillStyle = ink;
-            ctx.lineWidth = r;
-            for (const m of marks) {
-              const x = Math.round(u.valToPos(m.t, "x", true)) + 0.5;
-              ctx.setLineDash([4 * r, 4 * r]);
-              ctx.beginPath();
-              ctx.moveTo(x, u.bbox.top + 7 * r);
-              ctx.lineTo(x, u.bbox.top + u.bbox.height);
-              ctx.stroke();
-              ctx.setLineDash([]);
-              ctx.fillRect(x - 3.5 * r, u.bbox.top, 7 * r, 7 * r);
-            }
+            drawMarks(u, marks, ink);
             // An alert's moments: a solid line, its word beside it at the top.
             ctx.strokeStyle = ink;
             ctx.lineWidth = 2 * r;
@@ -304,29 +276,44 @@ export function ZoneChart(p: Props) {
             const i = u.cursor.idx;
             const t = i == null ? undefined : u.data[0][i];
             const v = i == null ? undefined : u.data[1]?.[i];
-            setReadout(t == null || v == null ? null : `${clock(t * 1000)} · ${formatNumber(v, 1)} ${p.unit}`);
-            // Moving along the line hands the readout back from a picked feeding to the cursor.
-            if (t != null) setPicked(null);
+            if (t == null || v === undefined) {
+              setCursor(null);
+              return;
+            }
+            const num = (x: number | null | undefined) => (x == null ? "—" : formatNumber(x, 1));
+            const rows = drawn.lines.map((s, k) => {
+              const mean = u.data[1 + k * per]?.[i!];
+              return {
+                name: drawn.lines.length > 1 ? s.code : null,
+                value: mean == null ? NO_READING : `${num(mean)} ${p.unit}`,
+                range: aggregated && mean != null ? `low ${num(u.data[2 + k * per]?.[i!])} · high ${num(u.data[3 + k * per]?.[i!])}` : null,
+              };
+            });
+            setCursor({ when: when(drawn.starts.get(t) ?? t, data.bucketSeconds), rows, near: marksNear(u, marks, u.cursor.left ?? -1) });
+            // Moving along the line hands the legend back from a picked mark to the cursor.
+            setPicked(null);
           },
         ],
       },
     };
     const plot = new uPlot(opts, aligned, el);
+    const unbind = bindTouch(plot);
     const ro = new ResizeObserver(() => {
       if (el.clientWidth && el.clientWidth !== plot.width) plot.setSize({ width: el.clientWidth, height: HEIGHT });
     });
     ro.observe(el);
     return () => {
       ro.disconnect();
+      unbind();
       plot.destroy();
     };
   }, [
     data,
-    tables,
+    drawn,
     summary,
     aggregated,
     conv,
-    clock,
+    when,
     marks,
     moments,
     ahead,
@@ -345,21 +332,35 @@ export function ZoneChart(p: Props) {
   const pickedMark = marks.find((m) => m.id === picked) ?? null;
   const latestWords = latest ? `${p.to ? "last in this window" : "latest"} ${p.describe(latest.v)} at ${clock(latest.t * 1000)}` : "";
   const label = summary
-    ? `${p.title}, ${p.rangeWords}: ${latestWords}; lowest ${formatNumber(conv(summary.lo), 1)}, highest ${formatNumber(conv(summary.hi), 1)} ${p.unit}; ${p.band.words} shaded; ${marks.length === 1 ? "1 feeding" : `${marks.length} feedings`} marked${moments.map((m) => `; ${m.label} at ${clock(m.t * 1000)}`).join("")}${ahead && p.heading ? `; dashed on from the latest reading: ${p.heading.words}` : ""}.`
+    ? `${p.title}, ${p.rangeWords}: ${latestWords}; lowest ${formatNumber(conv(summary.lo), 1)}, highest ${formatNumber(conv(summary.hi), 1)} ${p.unit}; ${p.band.words} shaded; ${marksWords(marks)}${moments.map((m) => `; ${m.label} at ${clock(m.t * 1000)}`).join("")}${ahead && p.heading ? `; dashed on from the latest reading: ${p.heading.words}` : ""}.`
     : `${p.title}, ${p.rangeWords}: no readings.`;
+  const kindsShown = KINDS.filter((k) => k === "feeding" || marks.some((m) => m.kind === k));
+  const points = data?.series.reduce((n, s) => n + s.t.length, 0) ?? 0;
+  const firstT = data?.series.reduce((a, s) => (s.t.length ? Math.min(a, s.t[0]!) : a), Infinity);
+  const lastT = data?.series.reduce((a, s) => (s.t.length ? Math.max(a, s.t[s.t.length - 1]!) : a), -Infinity);
 
   return (
     <figure className="rounded-2xl bg-white p-3 ring-1 ring-soil-300" data-metric={p.metric}>
       <figcaption className="flex items-baseline justify-between gap-2">
         <h3 className="text-lg font-bold">{p.title}</h3>
         <span className="tabular text-sm text-soil-700">
-          {data?.source === "rollup"
-            ? "hourly means, low–high shaded"
-            : aggregated
-              ? `${Math.round(data!.bucketSeconds! / 60)}-min means, low–high shaded`
-              : "every reading"}
+          {data ? (aggregated ? `${levelWords(data.bucketSeconds)}, low–high shaded` : levelWords(null)) : ""}
         </span>
       </figcaption>
+      <CursorLegend
+        cursor={cursor}
+        minHeight="min-h-[6.75rem]"
+        idle={
+          pickedMark ? (
+            <span className="flex items-start gap-1.5 text-lg">
+              <Mark name={pickedMark.kind ?? "feeding"} size={18} className="mt-1" />
+              <span>{pickedMark.detail}</span>
+            </span>
+          ) : (
+            <span className="block text-lg">{latestWords ? latestWords.replace(/^./, (c) => c.toUpperCase()) : ""}</span>
+          )
+        }
+      />
       {!data ? (
         <p className="flex h-52 items-center text-soil-700">{error ? error.message : isLoading ? "Loading readings…" : "No readings."}</p>
       ) : !summary ? (
@@ -380,47 +381,37 @@ export function ZoneChart(p: Props) {
             data-plot-top={geom?.top}
             data-plot-height={geom?.height}
             data-heading-to={ahead ? Math.round(ahead.t1) : undefined}
+            data-source={data.source}
+            data-bucket-seconds={data.bucketSeconds ?? undefined}
+            data-points={points}
+            data-first-t={firstT}
+            data-last-t={lastT}
+            data-marks={marks.length}
           />
-          {geom && marks.length > 0 && (
-            <ul aria-label={`Feedings on the ${p.title.toLowerCase()} chart`} className="pointer-events-none absolute inset-0">
-              {marks.map((m) => {
-                const x = geom.left + ((m.t - geom.xMin) / (geom.xMax - geom.xMin)) * geom.width;
-                const on = m.id === picked;
-                return (
-                  <li key={m.id} className="absolute" style={{ left: x - 22, top: geom.top + geom.height - 30 }}>
-                    <button
-                      type="button"
-                      aria-label={m.label}
-                      aria-pressed={on}
-                      onClick={() => setPicked(m.id)}
-                      onMouseEnter={() => setPicked(m.id)}
-                      onFocus={() => setPicked(m.id)}
-                      className="pointer-events-auto flex h-11 w-11 items-end justify-center pb-1"
-                    >
-                      <span className={`rounded-md p-0.5 ring-1 ring-soil-800 ${on ? "bg-soil-800 text-white" : "bg-white text-soil-800"}`}>
-                        <Mark name="feeding" size={16} />
-                      </span>
-                    </button>
-                  </li>
-                );
-              })}
-            </ul>
+          {geom && marks.length > 0 && marks.length <= MAX_MARK_BUTTONS && (
+            <MarkButtons
+              marks={marks}
+              title={p.title}
+              picked={picked}
+              onPick={setPicked}
+              x={(t) => geom.left + ((t - geom.xMin) / (geom.xMax - geom.xMin)) * geom.width}
+              top={geom.top + geom.height - 30}
+            />
           )}
         </div>
       )}
-      <p aria-live="polite" className="tabular mt-1 min-h-6 text-sm text-soil-800">
-        {pickedMark ? pickedMark.detail : (readout ?? (latestWords ? latestWords.replace(/^./, (c) => c.toUpperCase()) : ""))}
-      </p>
-      <p className="mt-1 flex items-center gap-3 text-xs text-soil-700">
+      <p className="mt-2 flex flex-wrap items-center gap-x-3 gap-y-1 text-xs text-soil-700">
         <span className="inline-flex items-center gap-1">
           {/* Classes, not style=: the content security policy refuses style attributes in HTML. */}
           <span aria-hidden="true" className="inline-block h-3 w-4 rounded-sm bg-leaf-500/20 outline outline-1 outline-leaf-500/50" />
           {p.band.words}
         </span>
-        <span className="inline-flex items-center gap-1">
-          <Mark name="feeding" className="text-soil-800" />
-          feeding
-        </span>
+        {kindsShown.map((k) => (
+          <span key={k} className="inline-flex items-center gap-1">
+            <Mark name={k} className="text-soil-800" />
+            {KIND_WORDS[k].one}
+          </span>
+        ))}
         {ahead && (
           <span className="inline-flex items-center gap-1">
             <span aria-hidden="true" className="inline-block w-4 border-t-2 border-dashed border-soil-800" />

@@ -7,16 +7,10 @@ import { useFeedings } from "@/lib/client/hooks/use-feedings";
 import { getSpecies } from "@/lib/domain/species";
 import { AMMONIA_CHART_CAUTION } from "@/lib/domain/alert-words";
 import type { UnitSystem } from "@/lib/domain/units";
+import { CHART_RANGES, rangeStart, type ChartRange } from "./chart-kit";
 import { feedingMarks } from "./feeding-marks";
 import { describeMetric, displayUnit, METRIC_COLORS, METRIC_TITLES, metricBand, type AmmoniaLines } from "./metric-words";
 import { ZoneChart, type ChartHeading, type ChartMetric, type ChartReading } from "./zone-chart";
-
-const RANGES = [
-  { value: "24h", label: "24 h", days: 1, words: "last 24 hours" },
-  { value: "7d", label: "7 days", days: 7, words: "last 7 days" },
-  { value: "30d", label: "30 days", days: 30, words: "last 30 days" },
-] as const;
-type RangeKey = (typeof RANGES)[number]["value"];
 
 type Props = {
   zoneId: string;
@@ -37,14 +31,13 @@ type Props = {
 
 // The zone's charts over one shared window, with the bin's feedings (this zone's and whole-bin ones) as marks.
 export function ZoneCharts(p: Props) {
-  const [range, setRange] = useState<RangeKey>("24h");
+  const [range, setRange] = useState<ChartRange>("24h");
   // The start is fixed when the window is chosen (to the minute), so the SWR key stays put; 24 h asks
   // the server's default, which the page primed.
   const [from, setFrom] = useState<string | undefined>(undefined);
-  const choose = (r: RangeKey) => {
-    const days = RANGES.find((x) => x.value === r)!.days;
+  const choose = (r: ChartRange) => {
     setRange(r);
-    setFrom(r === "24h" ? undefined : new Date(Math.floor(Date.now() / 60_000) * 60_000 - days * 86_400_000).toISOString());
+    setFrom(rangeStart(r));
   };
   const profile = getSpecies(p.species);
   const { data: fed } = useFeedings(p.binId);
@@ -53,7 +46,7 @@ export function ZoneCharts(p: Props) {
   const marks = useMemo(() => feedingMarks(fed?.feedings ?? [], p.zoneId, p.binZones, p.system, clock), [fed, p.zoneId, p.binZones, p.system, clock]);
 
   if (!profile) return <p className="p-4">This bin&apos;s species ({p.species}) has no profile, so there is no band to chart against.</p>;
-  const r = RANGES.find((x) => x.value === range)!;
+  const r = CHART_RANGES.find((x) => x.value === range)!;
   return (
     <section aria-labelledby="charts-h" className="space-y-3">
       <div className="flex items-baseline justify-between">
@@ -62,7 +55,7 @@ export function ZoneCharts(p: Props) {
         </h2>
         <span className="text-sm text-soil-700">{r.words}</span>
       </div>
-      <SegmentedControl label="Chart window" options={RANGES} value={range} onChange={choose} />
+      <SegmentedControl label="Chart window" options={CHART_RANGES} value={range} onChange={choose} />
       {p.metrics.map((m) => (
         <Fragment key={m}>
           <ZoneChart
@@ -78,6 +71,7 @@ export function ZoneCharts(p: Props) {
             timezone={p.timezone}
             color={METRIC_COLORS[m]}
             marks={marks}
+            binZones={p.binZones}
             heading={m === "ammonia" ? null : (p.heading?.[m] ?? null)}
             describe={(v) => describeMetric(m, v, profile, p.ammonia, p.system, p.openAlerts?.[m])}
           />

@@ -1,6 +1,6 @@
-import { and, asc, eq, gt, isNull, or, sql } from "drizzle-orm";
+import { and, asc, eq, gt, gte, isNull, lt, or, sql, type SQL } from "drizzle-orm";
 import { db } from "@/db";
-import { probes, type Metric } from "@/db/schema";
+import { bins, farms, feedingItems, feedings, harvests, probes, shifts, users, waterings, zones, type Metric } from "@/db/schema";
 
 // The reads behind a chart's series; lib/server/series chooses among them and shapes the answer.
 
@@ -15,23 +15,61 @@ export type SeriesLine = {
   max: number[];
 };
 
-export type SeriesAnswer = {
+export type ChartEventKind = "feeding" | "watering" | "shift" | "harvest";
+
+/** A logbook entry drawn as a mark on a chart: what was done, when and where, with its amount. */
+export type ChartEvent = {
+  kind: ChartEventKind;
+  id: string;
+  at: Date;
+  /** The zone it concerned (a shift's from-zone); null = the whole bin. */
+  zoneId: string | null;
+  /** A shift's to-zone. */
+  toZoneId: string | null;
+  /** A feeding's or a harvest's mass. */
+  massKg: number | null;
+  /** A watering's litres. */
+  litres: number | null;
+  /** A harvest's or a shift's volume, when measured. */
+  volumeL: number | null;
+  byName: string | null;
+};
+
+/** The range's level: raw readings (bucketed when too many), or hourly rollups merged into buckets. */
+export type SeriesLevel = { source: "raw" | "rollup"; bucketSeconds: number | null };
+
+export type SeriesAnswer = SeriesLevel & {
   metric: Metric;
   unit: string | null;
   displayUnit: string;
   from: string;
   to: string;
-  /** raw: readings (bucketed when there are too many); rollup: hourly rollups. */
-  source: "raw" | "rollup";
-  /** Width of each point; null when points are single raw readings. */
-  bucketSeconds: number | null;
   series: SeriesLine[];
+  /** A zone's series: the logbook's feedings, waterings, shifts and harvests in the range that
+   * concern the zone. A probe's series has none (a probe may move between zones). */
+  events?: ChartEvent[];
+};
+
+/** One line per zone of a bin: the zone's probes merged. */
+export type BinSeriesLine = { zoneId: string; kind: string; name: string | null; t: number[]; mean: number[]; min: number[]; max: number[] };
+
+export type BinSeriesAnswer = SeriesLevel & {
+  metric: Metric;
+  unit: string | null;
+  displayUnit: string;
+  from: string;
+  to: string;
+  species: string;
+  zones: BinSeriesLine[];
+  events: ChartEvent[];
 };
 
 export type SeriesProbe = { id: number; code: string; label: string | null };
 export type SeriesRange = { metric: Metric; from: Date; to: Date };
-/** One point of one probe: a reading (mean = min = max) or a bucket of them. */
-export type SeriesPoint = { probe_id: number; t: Date; mean: number; min: number; max: number };
+/** One point of one line (a probe's id, or a zone's): a reading (mean = min = max) or a bucket of them. */
+export type SeriesPoint = { key: string; t: Date; mean: number; min: number; max: number };
+/** Lines by probe (a zone's chart) or by zone (a bin's chart). */
+export type LineKey = "probe" | "zone";
 
 const ref = { id: probes.id, code: probes.code, label: probes.label };
 
@@ -44,28 +82,68 @@ export async function listZoneSeriesProbes(zoneId: string, since: Date): Promise
     .orderBy(asc(probes.code));
 }
 
+/** Every probe placed in one of the bin's zones, archived ones only if they were still in use after `since`. */
+export async function listBinSeriesProbeIds(binId: string, since: Date): Promise<number[]> {
+  const rows = await db()
+    .select({ id: probes.id })
+    .from(probes)
+    .innerJoin(zones, eq(zones.id, probes.zoneId))
+    .where(and(eq(zones.binId, binId), or(isNull(probes.archivedAt), gt(probes.archivedAt, since))));
+  return rows.map((r) => r.id);
+}
+
+/** The bin a zone belongs to and its farm's time zone (buckets of a day are cut at its midnight). */
+export async function getZoneSeriesPlace(zoneId: string): Promise<{ binId: string; timezone: string } | null> {
+  const [r] = await db()
+    .select({ binId: zones.binId, timezone: farms.timezone })
+    .from(zones)
+    .innerJoin(bins, eq(bins.id, zones.binId))
+    .innerJoin(farms, eq(farms.id, bins.farmId))
+    .where(eq(zones.id, zoneId));
+  return r ?? null;
+}
+
+/** A bin's species, its farm's time zone and its zones (not archived) from the feeding side. */
+export async function getBinSeriesPlace(binId: string) {
+  const [bin] = await db()
+    .select({ species: bins.species, timezone: farms.timezone })
+    .from(bins)
+    .innerJoin(farms, eq(farms.id, bins.farmId))
+    .where(eq(bins.id, binId));
+  if (!bin) return null;
+  const list = await db()
+    .select({ id: zones.id, kind: zones.kind, name: zones.name })
+    .from(zones)
+    .where(and(eq(zones.binId, binId), isNull(zones.archivedAt)))
+    .orderBy(asc(zones.position));
+  return { ...bin, zones: list };
+}
+
 export async function getSeriesProbe(probeId: number): Promise<SeriesProbe | null> {
   const [p] = await db().select(ref).from(probes).where(eq(probes.id, probeId));
   return p ?? null;
 }
 
 const inRange = (ids: number[], r: SeriesRange) =>
-  sql`probe_id = any(${sql.param(ids)}::int[]) and metric = ${r.metric} and ts >= ${r.from.toISOString()} and ts < ${r.to.toISOString()}`;
+  sql`r.probe_id = any(${sql.param(ids)}::int[]) and r.metric = ${r.metric} and r.ts >= ${r.from.toISOString()} and r.ts < ${r.to.toISOString()}`;
+
+// A zone's line merges its probes; the zone is where the probe is placed now.
+const keyOf = (by: LineKey) => (by === "zone" ? sql`p.zone_id::text` : sql`r.probe_id::text`);
 
 /** The most readings any one of these probes has in the range. */
 export async function maxReadingCount(ids: number[], r: SeriesRange): Promise<number> {
   const counted = await db().execute<{ n: number }>(sql`
-    select count(*)::int as n from readings where ${inRange(ids, r)}
-    group by probe_id order by n desc limit 1`);
+    select count(*)::int as n from readings r where ${inRange(ids, r)}
+    group by r.probe_id order by n desc limit 1`);
   return counted.rows[0]?.n ?? 0;
 }
 
-/** Each reading in the range as a point of its own. */
+/** Each reading in the range as a point of its own, one line per probe. */
 export async function listReadingPoints(ids: number[], r: SeriesRange): Promise<SeriesPoint[]> {
   const got = await db().execute<SeriesPoint>(sql`
-    select probe_id, ts as t, value as mean, value as min, value as max from readings
+    select r.probe_id::text as key, r.ts as t, r.value as mean, r.value as min, r.value as max from readings r
     where ${inRange(ids, r)}
-    order by probe_id, ts`);
+    order by r.probe_id, r.ts`);
   return got.rows;
 }
 
@@ -74,25 +152,94 @@ export async function listReadingPoints(ids: number[], r: SeriesRange): Promise<
 const ORIGIN = sql`timestamptz '2000-01-01 00:00:00+00'`;
 
 /** The readings in the range merged into buckets of `bucketS` seconds. */
-export async function listBucketedReadingPoints(ids: number[], r: SeriesRange, bucketS: number): Promise<SeriesPoint[]> {
+export async function listBucketedReadingPoints(ids: number[], r: SeriesRange, bucketS: number, by: LineKey = "probe"): Promise<SeriesPoint[]> {
   const got = await db().execute<SeriesPoint>(sql`
-    select probe_id, date_bin(make_interval(secs => ${bucketS}), ts, ${ORIGIN}) as t,
-           avg(value) as mean, min(value) as min, max(value) as max
-    from readings
+    select ${keyOf(by)} as key, date_bin(make_interval(secs => ${bucketS}), r.ts, ${ORIGIN}) as t,
+           avg(r.value) as mean, min(r.value) as min, max(r.value) as max
+    from readings r join probes p on p.id = r.probe_id
     where ${inRange(ids, r)}
     group by 1, 2 order by 1, 2`);
   return got.rows;
 }
 
-/** The hourly rollups that overlap the range merged into buckets of `bucketS` seconds (a whole number of hours). */
-export async function listRollupPoints(ids: number[], r: SeriesRange, bucketS: number): Promise<SeriesPoint[]> {
+/** The hourly rollups that overlap the range merged into buckets of `bucketS` seconds (a whole
+ * number of hours). With a `timezone`, buckets are cut on that zone's wall clock (6-hour buckets
+ * at 00, 06, 12 and 18, days at midnight, a day of a clock change 23 or 25 hours long); a rollup
+ * hour goes to the bucket its start falls in, so in a zone off UTC by half an hour a bucket edge
+ * is half an hour out. */
+export async function listRollupPoints(ids: number[], r: SeriesRange, bucketS: number, opts: { by?: LineKey; timezone?: string } = {}): Promise<SeriesPoint[]> {
+  const tz = opts.timezone ?? "UTC";
   // The mean of merged hours weighs each hour by its reading count.
   const got = await db().execute<SeriesPoint>(sql`
-    select probe_id, date_bin(make_interval(secs => ${bucketS}), hour, ${ORIGIN}) as t,
-           sum(sum) / sum(count) as mean, min(min) as min, max(max) as max
-    from reading_rollups
-    where probe_id = any(${sql.param(ids)}::int[]) and metric = ${r.metric}
-      and hour >= date_trunc('hour', ${r.from.toISOString()}::timestamptz, 'UTC') and hour < ${r.to.toISOString()}
+    select ${keyOf(opts.by ?? "probe")} as key,
+           date_bin(make_interval(secs => ${bucketS}), r.hour at time zone ${tz}, timestamp '2000-01-01') at time zone ${tz} as t,
+           sum(r.sum) / sum(r.count) as mean, min(r.min) as min, max(r.max) as max
+    from reading_rollups r join probes p on p.id = r.probe_id
+    where r.probe_id = any(${sql.param(ids)}::int[]) and r.metric = ${r.metric}
+      and r.hour >= date_trunc('hour', ${r.from.toISOString()}::timestamptz, 'UTC') and r.hour < ${r.to.toISOString()}
     group by 1, 2 order by 1, 2`);
   return got.rows;
+}
+
+/** Which logbook entries of a bin a chart marks: all of them, or those of one zone and the whole-bin ones. */
+export type EventScope = { binId: string; zoneId?: string; from: Date; to: Date };
+
+// A year of a busy bin stays well under this; the newest are kept if ever it is reached.
+const EVENTS_PER_KIND = 1000;
+
+/** The bin's feedings, waterings, shifts and harvests in the range, oldest first. A zone's chart
+ * gets its own entries, the whole-bin ones and the shifts that moved material into it. */
+export async function listChartEvents(s: EventScope): Promise<ChartEvent[]> {
+  const d = db();
+  const where = (t: typeof feedings | typeof waterings | typeof harvests | typeof shifts, extra?: SQL) =>
+    and(eq(t.binId, s.binId), gte(t.at, s.from), lt(t.at, s.to), s.zoneId ? or(eq(t.zoneId, s.zoneId), isNull(t.zoneId), extra) : undefined);
+  const base = <T extends typeof feedings | typeof waterings | typeof harvests | typeof shifts>(t: T) => ({
+    id: t.id,
+    at: t.at,
+    zoneId: t.zoneId,
+    byName: users.name,
+  });
+  const [fed, watered, harvested, shifted] = await Promise.all([
+    d
+      .select({
+        ...base(feedings),
+        massKg: sql<
+          number | null
+        >`coalesce(${feedings.totalKg}, (select sum(${feedingItems.massKg}) from ${feedingItems} where ${feedingItems.feedingId} = ${feedings.id}))`,
+      })
+      .from(feedings)
+      .leftJoin(users, eq(users.id, feedings.byUserId))
+      .where(where(feedings))
+      .orderBy(sql`${feedings.at} desc`)
+      .limit(EVENTS_PER_KIND),
+    d
+      .select({ ...base(waterings), litres: waterings.litres })
+      .from(waterings)
+      .leftJoin(users, eq(users.id, waterings.byUserId))
+      .where(where(waterings))
+      .orderBy(sql`${waterings.at} desc`)
+      .limit(EVENTS_PER_KIND),
+    d
+      .select({ ...base(harvests), massKg: harvests.massKg, volumeL: harvests.volumeL })
+      .from(harvests)
+      .leftJoin(users, eq(users.id, harvests.byUserId))
+      .where(where(harvests))
+      .orderBy(sql`${harvests.at} desc`)
+      .limit(EVENTS_PER_KIND),
+    d
+      .select({ ...base(shifts), toZoneId: shifts.toZoneId, volumeL: shifts.volumeL })
+      .from(shifts)
+      .leftJoin(users, eq(users.id, shifts.byUserId))
+      .where(where(shifts, s.zoneId ? eq(shifts.toZoneId, s.zoneId) : undefined))
+      .orderBy(sql`${shifts.at} desc`)
+      .limit(EVENTS_PER_KIND),
+  ]);
+  const none = { toZoneId: null, massKg: null, litres: null, volumeL: null };
+  const all: ChartEvent[] = [
+    ...fed.map((e) => ({ ...none, ...e, kind: "feeding" as const, massKg: e.massKg == null ? null : Number(e.massKg) })),
+    ...watered.map((e) => ({ ...none, ...e, kind: "watering" as const })),
+    ...harvested.map((e) => ({ ...none, ...e, kind: "harvest" as const })),
+    ...shifted.map((e) => ({ ...none, ...e, kind: "shift" as const })),
+  ];
+  return all.sort((a, b) => a.at.getTime() - b.at.getTime());
 }

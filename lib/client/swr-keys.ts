@@ -28,3 +28,12 @@ export function seriesKey(target: SeriesTarget | null | undefined, window: Serie
 
 /** The key useSeries asks for with ({ zoneId }, { metric, from }), for server pages that prime it. */
 export const zoneSeriesKey = (zoneId: string, metric: string, from?: string) => seriesKey({ zoneId }, { metric, from })!;
+
+/** A bin's series (one line per zone) for one metric and window, or null until the bin is known. */
+export function binSeriesKey(binId: string | null | undefined, window: SeriesWindow): string | null {
+  if (!binId || !window.metric) return null;
+  const q = new URLSearchParams({ metric: window.metric });
+  if (window.from) q.set("from", iso(window.from));
+  if (window.to) q.set("to", iso(window.to));
+  return `/api/bins/${encodeURIComponent(binId)}/series?${q}`;
+}

@@ -5,7 +5,7 @@
 import type { FeedingEntry } from "@/db/queries/feedings";
 import type { listIngredients } from "@/db/queries/ingredients";
 import type { LogbookEntry } from "@/db/queries/logbook";
-import type { SeriesAnswer } from "@/db/queries/series";
+import type { BinSeriesAnswer, SeriesAnswer } from "@/db/queries/series";
 import type { Today as TodayRow } from "@/db/queries/today";
 import type { Zone } from "@/db/schema";
 import type { Wire } from "@/lib/domain/wire";
@@ -39,6 +39,8 @@ export type IngredientRow = Answer<typeof listIngredients>[number];
 export type LogbookItem = Wire<LogbookEntry>;
 /** A zone's or probe's series for one metric and window. */
 export type Series = Wire<SeriesAnswer>;
+/** A bin's series for one metric and window: one line per zone, with the bin's logbook marks. */
+export type BinSeries = Wire<BinSeriesAnswer>;
 /** The farm's Today board: bins, zones, latest readings, open alerts. */
 export type Today = Wire<TodayRow>;
 export type TodayBin = Today["bins"][number];

@@ -3,64 +3,67 @@ import {
   listReadingPoints,
   listRollupPoints,
   maxReadingCount,
-  type SeriesAnswer,
-  type SeriesLine,
+  type LineKey,
+  type SeriesLevel,
   type SeriesPoint,
-  type SeriesProbe,
+  type SeriesRange,
 } from "@/db/queries/series";
-import { METRICS } from "@/lib/domain/metrics";
-import type { SeriesQuery } from "@/lib/domain/validation/series";
 
-/** About this many points per series at most, whatever the range. */
+/** About this many points per series at most from raw readings. */
 export const MAX_POINTS = 1000;
-/** Ranges longer than this are answered from hourly rollups instead of raw readings. */
-export const RAW_MAX_MS = 7 * 86_400_000;
 const HOUR_S = 3600;
-// Bucket widths a chart reads easily; the smallest that keeps a series within MAX_POINTS is used.
-const STEPS_S = [60, 120, 300, 600, 900, 1800, 3600, 7200, 10800, 21600, 43200, 86400, 172800, 604800];
+const DAY_MS = 86_400_000;
+// Bucket widths a chart reads easily; the smallest that keeps raw readings within MAX_POINTS is used.
+const STEPS_S = [60, 120, 300, 600, 900, 1800, 3600];
+
+/** How a range is read, by its length: raw readings for a few days (a phone's 24 h shows every
+ * reading), then the hourly rollups merged into wider buckets, so a series has a few hundred points
+ * at most (7 d: 168 hours; 30 d: 120 quarters of a day; 1 y: 365 days) whatever the table holds. */
+export const LEVELS: readonly { upToMs: number; source: "raw" | "rollup"; bucketSeconds: number | null }[] = [
+  { upToMs: 3 * DAY_MS, source: "raw", bucketSeconds: null },
+  { upToMs: 14 * DAY_MS, source: "rollup", bucketSeconds: HOUR_S },
+  { upToMs: 90 * DAY_MS, source: "rollup", bucketSeconds: 6 * HOUR_S },
+  { upToMs: Infinity, source: "rollup", bucketSeconds: 24 * HOUR_S },
+];
+
+export function levelFor(rangeMs: number) {
+  return LEVELS.find((l) => rangeMs <= l.upToMs)!;
+}
 
 export function bucketFor(rangeMs: number, minS = 60): number {
   const need = rangeMs / 1000 / MAX_POINTS;
   return STEPS_S.find((s) => s >= need && s >= minS) ?? STEPS_S.at(-1)!;
 }
 
-type Points = { rows: SeriesPoint[]; bucketSeconds: number | null };
+type Points = SeriesLevel & { rows: SeriesPoint[] };
 
-async function pointsOf(ids: number[], q: SeriesQuery, long: boolean): Promise<Points> {
-  if (ids.length === 0) return { rows: [], bucketSeconds: null };
+/** The points of these probes over the range, one line per probe or per zone (`by`), at the
+ * range's level. Raw lines by probe are single readings while they fit in MAX_POINTS; lines by
+ * zone are always bucketed (at least 5 minutes), so two probes of a zone make one line. Buckets
+ * wider than an hour are cut on the farm's wall clock (`timezone`). */
+export async function pointsOf(ids: number[], q: SeriesRange, opts: { by: LineKey; timezone: string; minRawBucketS?: number }): Promise<Points> {
   const rangeMs = q.to.getTime() - q.from.getTime();
-  if (long) {
-    const bucket = bucketFor(rangeMs, HOUR_S);
-    return { rows: await listRollupPoints(ids, q, bucket), bucketSeconds: bucket };
+  const level = levelFor(rangeMs);
+  if (ids.length === 0) return { source: level.source, bucketSeconds: level.bucketSeconds, rows: [] };
+  if (level.source === "rollup") {
+    const b = level.bucketSeconds!;
+    return { ...level, rows: await listRollupPoints(ids, q, b, { by: opts.by, timezone: b > HOUR_S ? opts.timezone : "UTC" }) };
   }
-  if ((await maxReadingCount(ids, q)) <= MAX_POINTS) return { rows: await listReadingPoints(ids, q), bucketSeconds: null };
-  const bucket = bucketFor(rangeMs);
-  return { rows: await listBucketedReadingPoints(ids, q, bucket), bucketSeconds: bucket };
+  if (opts.by === "probe" && (await maxReadingCount(ids, q)) <= MAX_POINTS) return { ...level, rows: await listReadingPoints(ids, q) };
+  const bucket = bucketFor(rangeMs, opts.minRawBucketS);
+  return { source: "raw", bucketSeconds: bucket, rows: await listBucketedReadingPoints(ids, q, bucket, opts.by) };
 }
 
-/** One metric of these probes for a chart: raw readings for a short range (bucketed past
- * MAX_POINTS), hourly rollups for a long one, one line per probe even when it has no points. */
-export async function seriesOf(refs: readonly SeriesProbe[], q: SeriesQuery): Promise<SeriesAnswer> {
-  const long = q.to.getTime() - q.from.getTime() > RAW_MAX_MS;
-  const ids = refs.map((p) => p.id);
-  const got = await pointsOf(ids, q, long);
-  const lines = new Map<number, SeriesLine>(refs.map((p) => [p.id, { probeId: p.id, code: p.code, label: p.label, t: [], mean: [], min: [], max: [] }]));
-  for (const row of got.rows) {
-    const line = lines.get(Number(row.probe_id))!;
-    line.t.push(new Date(row.t).getTime() / 1000);
-    line.mean.push(Number(row.mean));
-    line.min.push(Number(row.min));
-    line.max.push(Number(row.max));
+/** Rows into columns per line key: t in Unix seconds, mean, min and max. */
+export function columnsOf(rows: SeriesPoint[]) {
+  const out = new Map<string, { t: number[]; mean: number[]; min: number[]; max: number[] }>();
+  for (const row of rows) {
+    let c = out.get(row.key);
+    if (!c) out.set(row.key, (c = { t: [], mean: [], min: [], max: [] }));
+    c.t.push(new Date(row.t).getTime() / 1000);
+    c.mean.push(Number(row.mean));
+    c.min.push(Number(row.min));
+    c.max.push(Number(row.max));
   }
-  const spec = METRICS[q.metric];
-  return {
-    metric: q.metric,
-    unit: spec.unit,
-    displayUnit: spec.displayUnit,
-    from: q.from.toISOString(),
-    to: q.to.toISOString(),
-    source: long ? "rollup" : "raw",
-    bucketSeconds: got.bucketSeconds,
-    series: [...lines.values()],
-  };
+  return out;
 }

@@ -1,5 +1,6 @@
 // The series queries against the worker's PostgreSQL: raw readings for short ranges, date_bin
-// buckets when raw would exceed ~1,000 points, hourly rollups for long ranges.
+// buckets when raw would exceed ~1,000 points, hourly rollups merged into 1-hour, 6-hour or 1-day
+// buckets for long ranges.
 import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb } from "@/db";
@@ -42,17 +43,18 @@ const q = (fromMs: number, toMs: number) =>
 const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
 
 describe("series for charts", () => {
-  it("a 90-day range is answered from hourly rollups with at most about 1,000 points a series", async () => {
+  it("a 90-day range is answered from hourly rollups in 6-hour buckets", async () => {
     const a = await getZoneSeries(farm.zones.fresh!, q(END - 90 * 24 * HOUR, END));
     expect(a.source).toBe("rollup");
-    expect(a.bucketSeconds).toBe(3 * 3600);
+    expect(a.bucketSeconds).toBe(6 * 3600);
     const line = a.series.find((s) => s.probeId === farm.probes[0]!.id)!;
     expect(line.t.length).toBeLessThanOrEqual(MAX_POINTS);
-    expect(line.t.length).toBe(720);
-    // Each 3-h point is the mean, min and max of the 36 readings inside it.
+    expect(line.t.length).toBe(360);
+    // Each 6-h point is the mean, min and max of the 72 readings inside it.
     const start = line.t[100]! * 1000;
+    expect(start % (6 * HOUR)).toBe(0);
     const inside: number[] = [];
-    for (let t = start; t < start + 3 * HOUR; t += 5 * 60_000) inside.push(temperatureAt(t, 0));
+    for (let t = start; t < start + 6 * HOUR; t += 5 * 60_000) inside.push(temperatureAt(t, 0));
     expect(line.mean[100]).toBeCloseTo(mean(inside), 9);
     expect(line.min[100]).toBeCloseTo(Math.min(...inside), 9);
     expect(line.max[100]).toBeCloseTo(Math.max(...inside), 9);
@@ -66,10 +68,13 @@ describe("series for charts", () => {
     expect(b.series.find((s) => s.probeId === farm.probes[0]!.id)!.min[100]).toBe(-40);
   });
 
-  it("a 20-day range reads the rollups hour by hour", async () => {
+  it("a 7-day range reads the rollups hour by hour, a 20-day range in 6-hour buckets", async () => {
+    const week = await getProbeSeries(farm.probes[0]!.id, q(END - 7 * 24 * HOUR, END));
+    expect(week).toMatchObject({ source: "rollup", bucketSeconds: 3600 });
+    expect(week.series[0]!.t.length).toBe(168);
     const a = await getProbeSeries(farm.probes[0]!.id, q(END - 20 * 24 * HOUR, END));
-    expect(a).toMatchObject({ source: "rollup", bucketSeconds: 3600 });
-    expect(a!.series[0]!.t.length).toBe(480);
+    expect(a).toMatchObject({ source: "rollup", bucketSeconds: 6 * 3600 });
+    expect(a!.series[0]!.t.length).toBe(80);
   });
 
   it("a short range is answered from raw readings, one point per reading", async () => {

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { SWRConfig } from "swr";
 import { formatMetric, metricStatus, METRIC_TITLES } from "@/components/charts/metric-words";
+import { BinChart } from "@/components/charts/bin-chart";
 import { ZoneCharts } from "@/components/charts/zone-charts";
 import { clockFormat, zoneWords } from "@/components/logbook/format";
 import { StatusMark } from "@/components/ui/status-mark";
@@ -186,6 +187,16 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
           )}
         />
       </SWRConfig>
+
+      {/* The zone beside its neighbours: every zone of the bin on one chart. */}
+      {binZones.length > 1 && (
+        <section aria-labelledby="bin-zones-h" className="space-y-2">
+          <h2 id="bin-zones-h" className="text-xl font-bold">
+            All zones of this bin
+          </h2>
+          <BinChart farmId={farmId} binId={bin.id} zones={binZones} system={system} timezone={timezone} />
+        </section>
+      )}
 
       <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="alerts-h" className="text-xl font-bold">
