@@ -68,51 +68,55 @@ export function LogbookFilters({
           );
         })}
       </nav>
-      <form method="get" action={`/farms/${farmId}/logbook`} className="grid grid-cols-2 gap-2">
-        {current.kind && <input type="hidden" name="kind" value={current.kind} />}
-        <label className="col-span-2 block">
-          <span className="mb-1 block font-bold">Bin</span>
-          <select name="bin" defaultValue={current.bin ?? ""} className={INPUT_CLASS}>
-            <option value="">Any bin</option>
-            {bins.map((b) => (
-              <option key={b.id} value={b.id}>
-                {b.name}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="block">
-          <span className="mb-1 block font-bold">Zone</span>
-          <select name="zone" defaultValue={current.zone ?? ""} className={INPUT_CLASS}>
-            <option value="">Any zone</option>
-            {zoneChoices.map((z) => (
-              <option key={z.id} value={z.id}>
-                {current.bin ? zoneWords(z) : `${binName.get(z.binId) ?? "Bin"}: ${zoneWords(z)}`}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="block">
-          <span className="mb-1 block font-bold">Who</span>
-          <select name="who" defaultValue={current.who ?? ""} className={INPUT_CLASS}>
-            <option value="">Anyone</option>
-            {people.map((p) => (
-              <option key={p.id} value={p.id}>
-                {p.name}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="block">
-          <span className="mb-1 block font-bold">From</span>
-          <input type="date" name="from" defaultValue={current.from ?? ""} className={`${INPUT_CLASS} tabular`} />
-        </label>
-        <label className="block">
-          <span className="mb-1 block font-bold">To</span>
-          <input type="date" name="to" defaultValue={current.to ?? ""} className={`${INPUT_CLASS} tabular`} />
-        </label>
-        <button className="col-span-2 min-h-12 rounded-xl bg-soil-800 px-4 font-bold text-white">Show these entries</button>
-      </form>
+      {/* On a phone the list matters more than the form: it stays folded unless one of its filters is on. */}
+      <details open={Boolean(current.bin || current.zone || current.who || current.from || current.to)} className="group">
+        <summary className="flex min-h-11 cursor-pointer items-center font-bold underline underline-offset-4">Bin, zone, who and dates</summary>
+        <form method="get" action={`/farms/${farmId}/logbook`} className="mt-2 grid grid-cols-2 gap-2">
+          {current.kind && <input type="hidden" name="kind" value={current.kind} />}
+          <label className="col-span-2 block">
+            <span className="mb-1 block font-bold">Bin</span>
+            <select name="bin" defaultValue={current.bin ?? ""} className={INPUT_CLASS}>
+              <option value="">Any bin</option>
+              {bins.map((b) => (
+                <option key={b.id} value={b.id}>
+                  {b.name}
+                </option>
+              ))}
+            </select>
+          </label>
+          <label className="block">
+            <span className="mb-1 block font-bold">Zone</span>
+            <select name="zone" defaultValue={current.zone ?? ""} className={INPUT_CLASS}>
+              <option value="">Any zone</option>
+              {zoneChoices.map((z) => (
+                <option key={z.id} value={z.id}>
+                  {current.bin ? zoneWords(z) : `${binName.get(z.binId) ?? "Bin"}: ${zoneWords(z)}`}
+                </option>
+              ))}
+            </select>
+          </label>
+          <label className="block">
+            <span className="mb-1 block font-bold">Who</span>
+            <select name="who" defaultValue={current.who ?? ""} className={INPUT_CLASS}>
+              <option value="">Anyone</option>
+              {people.map((p) => (
+                <option key={p.id} value={p.id}>
+                  {p.name}
+                </option>
+              ))}
+            </select>
+          </label>
+          <label className="block">
+            <span className="mb-1 block font-bold">From</span>
+            <input type="date" name="from" defaultValue={current.from ?? ""} className={`${INPUT_CLASS} tabular`} />
+          </label>
+          <label className="block">
+            <span className="mb-1 block font-bold">To</span>
+            <input type="date" name="to" defaultValue={current.to ?? ""} className={`${INPUT_CLASS} tabular`} />
+          </label>
+          <button className="col-span-2 min-h-12 rounded-xl bg-soil-800 px-4 font-bold text-white">Show these entries</button>
+        </form>
+      </details>
     </section>
   );
 }

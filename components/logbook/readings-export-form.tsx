@@ -79,7 +79,7 @@ export function ReadingsExportForm({ farmId, bins, timezone, initialPlace }: { f
             <label key={m.key} className="flex min-h-11 items-center gap-2">
               <input
                 type="checkbox"
-                className="size-5"
+                className="size-5 accent-leaf-700"
                 checked={metrics.includes(m.key)}
                 onChange={(e) => setMetrics((ms) => (e.target.checked ? [...ms, m.key] : ms.filter((x) => x !== m.key)))}
               />
@@ -91,11 +91,11 @@ export function ReadingsExportForm({ farmId, bins, timezone, initialPlace }: { f
       <fieldset>
         <legend className="font-bold">Format</legend>
         <label className="flex min-h-11 items-center gap-2">
-          <input type="radio" name="readings-format" className="size-5" checked={format === "csv"} onChange={() => setFormat("csv")} />
+          <input type="radio" name="readings-format" className="size-5 accent-leaf-700" checked={format === "csv"} onChange={() => setFormat("csv")} />
           CSV, for a spreadsheet (farm units and time zone)
         </label>
         <label className="flex min-h-11 items-center gap-2">
-          <input type="radio" name="readings-format" className="size-5" checked={format === "senml"} onChange={() => setFormat("senml")} />
+          <input type="radio" name="readings-format" className="size-5 accent-leaf-700" checked={format === "senml"} onChange={() => setFormat("senml")} />
           SenML JSON, for other software (SI units, Unix times)
         </label>
       </fieldset>
