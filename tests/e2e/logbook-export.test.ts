@@ -14,6 +14,8 @@ let crew: Crew;
 let binA: Awaited<ReturnType<typeof newBin>>;
 let binB: Awaited<ReturnType<typeof newBin>>;
 const NOTE = '=HYPERLINK("http://x")';
+// A link's soft navigation changes the URL before the new page has streamed in; a loaded machine may take a while.
+const SLOW = { timeout: 20_000 };
 const hoursAgo = (h: number) => new Date(Date.now() - h * 3600_000).toISOString();
 
 beforeAll(async () => {
@@ -80,7 +82,7 @@ describe("the farm logbook on a phone", () => {
     await page.getByRole("navigation", { name: "Farm" }).getByRole("link", { name: "Logbook" }).click();
     await page.waitForURL(/\/logbook$/);
 
-    await expect.poll(() => kindsShown(page)).toEqual(["note", "harvest", "shift", "watering", "feeding"]);
+    await expect.poll(() => kindsShown(page), SLOW).toEqual(["note", "harvest", "shift", "watering", "feeding"]);
     const feeding = page.locator('li[data-kind="feeding"]');
     expect(await feeding.getByRole("list", { name: "Items" }).locator("li").count()).toBe(2);
     expect(await feeding.textContent()).toMatch(/Mix check:/);
@@ -92,7 +94,7 @@ describe("the farm logbook on a phone", () => {
     // By kind: one tap on a link.
     await page.getByRole("navigation", { name: "Kind" }).getByRole("link", { name: "Notes" }).click();
     await page.waitForURL(/kind=note/);
-    await expect.poll(() => kindsShown(page)).toEqual(["note"]);
+    await expect.poll(() => kindsShown(page), SLOW).toEqual(["note"]);
     expect(await page.locator('li[data-kind="note"]').textContent()).toContain(NOTE);
 
     // Notes of bin A: none, said in words. The bin, zone, who and date filters are folded until one is on.
@@ -101,7 +103,7 @@ describe("the farm logbook on a phone", () => {
     await page.getByLabel("Bin").selectOption(binA.id);
     await page.getByRole("button", { name: "Show these entries" }).click();
     await page.waitForURL(/bin=/);
-    await expect.poll(() => page.getByText("No entries match these filters.").isVisible()).toBe(true);
+    await expect.poll(() => page.getByText("No entries match these filters.").isVisible(), SLOW).toBe(true);
     await page.screenshot({ path: screenshotPath("logbook-empty-filter"), fullPage: false });
 
     // Every kind in bin B; the URL keeps it across a reload.
@@ -111,9 +113,9 @@ describe("the farm logbook on a phone", () => {
     await page.getByLabel("Bin").selectOption(binB.id);
     await page.getByRole("button", { name: "Show these entries" }).click();
     await page.waitForURL(new RegExp(`bin=${binB.id}`));
-    await expect.poll(() => kindsShown(page)).toEqual(["note", "harvest"]);
+    await expect.poll(() => kindsShown(page), SLOW).toEqual(["note", "harvest"]);
     await page.reload();
-    await expect.poll(() => kindsShown(page)).toEqual(["note", "harvest"]);
+    await expect.poll(() => kindsShown(page), SLOW).toEqual(["note", "harvest"]);
     expect(await page.getByLabel("Bin").inputValue()).toBe(binB.id);
 
     // The CSV holds what the list shows, and the formula comes back as text.
