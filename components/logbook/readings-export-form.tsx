@@ -43,7 +43,7 @@ export function ReadingsExportForm({ farmId, bins, timezone, initialPlace }: { f
         : null;
 
   return (
-    <section aria-labelledby="readings-export-h" className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+    <section id="readings-export" aria-labelledby="readings-export-h" className="space-y-3 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
       <h2 id="readings-export-h" className="text-xl font-bold">
         Download readings
       </h2>

@@ -5,6 +5,7 @@ import fs from "node:fs";
 import { parse } from "csv-parse/sync";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { parseSenml } from "@/lib/domain/senml";
 import { appUrl } from "../helpers/app";
 import { launchBrowser, PHONE, screenshotPath } from "../helpers/browser";
 import { crewFarm, json, newBin, type Crew } from "../integration/logbook/helpers";
@@ -140,7 +141,7 @@ describe("the farm logbook on a phone", () => {
     await context.close();
   });
 
-  it("downloads a zone's readings as CSV, negative temperatures as numbers", async () => {
+  it("downloads a zone's readings as CSV from the zone page's link, negative temperatures as numbers", async () => {
     const context = await browser.newContext({ ...PHONE, acceptDownloads: true });
     const page = await context.newPage();
     await page.goto(`${appUrl()}/sign-in`);
@@ -148,9 +149,12 @@ describe("the farm logbook on a phone", () => {
     await page.getByLabel("Password").fill("alder-row-demo");
     await page.getByRole("button", { name: "Sign in" }).click();
     await page.waitForURL(/\/farms\//);
-    await page.goto(`${appUrl()}/farms/${crew.farmId}/logbook`);
+    // The zone page links to the form, set on that zone.
+    await page.goto(`${appUrl()}/farms/${crew.farmId}/zones/${binA.zones[0]!.id}`);
+    await page.getByRole("link", { name: "Download this zone's readings (CSV or SenML)" }).click();
+    await page.waitForURL(/\/logbook\?place=zone/);
     const form = page.getByRole("region", { name: "Download readings" });
-    await form.getByLabel("Where").selectOption(`zone:${binA.zones[0]!.id}`);
+    await expect.poll(() => form.getByLabel("Where").inputValue(), SLOW).toBe(`zone:${binA.zones[0]!.id}`);
     await form.scrollIntoViewIfNeeded();
     await page.screenshot({ path: screenshotPath("logbook-readings-export"), fullPage: false });
     const file = await downloadText(page, () => form.getByRole("link", { name: "Download readings" }).click());
@@ -159,6 +163,15 @@ describe("the farm logbook on a phone", () => {
     expect(rows.map((r) => [r.metric, r.value, r.unit])).toEqual([
       ["Temperature", "22.5", "°C"],
       ["Temperature", "-1.25", "°C"],
+    ]);
+    // The same readings as SenML, read back with the parser the ingest uses.
+    await form.getByLabel(/^SenML JSON/).check();
+    const senml = await downloadText(page, () => form.getByRole("link", { name: "Download readings" }).click());
+    expect(senml.name).toMatch(/\.senml\.json$/);
+    const parsed = parseSenml(senml.text);
+    expect(parsed.ok && parsed.records.map((r) => [r.unit, r.value])).toEqual([
+      ["Cel", 22.5],
+      ["Cel", -1.25],
     ]);
     await context.close();
   });

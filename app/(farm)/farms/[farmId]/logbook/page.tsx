@@ -40,6 +40,9 @@ export default async function LogbookPage({ params, searchParams }: { params: Pr
   const search = [logbookSearch({ ...current, before: raw.before }), `limit=${LOGBOOK_PAGE}`].filter(Boolean).join("&");
   const fallback = { [farmLogbookKey(farmId, search)!]: toWire({ entries: view.entries, older: view.older }) };
   const liveBins = view.bins.filter((b) => !b.archived);
+  // A zone page links here with ?place=zone:<id> to start the readings form on that zone.
+  const asked = (await searchParams).place;
+  const place = liveBins.flatMap((b) => [`bin:${b.id}`, ...b.zones.map((z) => `zone:${z.id}`)]).find((p) => p === asked);
 
   return (
     <main className="space-y-4 p-3 pb-10">
@@ -108,7 +111,7 @@ export default async function LogbookPage({ params, searchParams }: { params: Pr
           Back to the newest
         </Link>
       )}
-      {liveBins.length > 0 && <ReadingsExportForm farmId={farmId} bins={liveBins} timezone={view.timezone} />}
+      {liveBins.length > 0 && <ReadingsExportForm farmId={farmId} bins={liveBins} timezone={view.timezone} initialPlace={place} />}
     </main>
   );
 }

@@ -186,6 +186,14 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
           )}
         />
       </SWRConfig>
+      <p className="px-1 text-sm">
+        <Link
+          href={`/farms/${farmId}/logbook?place=zone:${zone.id}#readings-export`}
+          className="inline-flex min-h-11 items-center underline underline-offset-4"
+        >
+          Download this zone&apos;s readings (CSV or SenML)
+        </Link>
+      </p>
 
       <section aria-labelledby="alerts-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="alerts-h" className="text-xl font-bold">
