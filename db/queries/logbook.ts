@@ -74,6 +74,8 @@ export type LogbookEntry = {
   kind: LogKind;
   id: string;
   at: Date;
+  /** `at` to the microsecond as ISO text (a Date keeps milliseconds): the paging cursor's time. */
+  atExact: string;
   binId: string;
   binName: string;
   zoneId: string | null;
@@ -107,8 +109,8 @@ export type LogbookFilter = {
   /** Inclusive start and exclusive end instants. */
   from?: Date;
   to?: Date;
-  /** Only entries older than this one in (at, id) order: the next older page. */
-  before?: { at: Date; id: string };
+  /** Only entries older than this one in (at, id) order: the next older page (`at` as ISO text, microseconds kept). */
+  before?: { at: string; id: string };
   limit: number;
 };
 
@@ -127,9 +129,8 @@ function narrowed(table: LogTable, f: LogbookFilter) {
     f.byUserId ? eq(t.byUserId, f.byUserId) : undefined,
     f.from ? gte(t.at, f.from) : undefined,
     f.to ? lt(t.at, f.to) : undefined,
-    // Row comparison: a keyset cursor over (at, id), both descending. Times are logged from
-    // JavaScript Dates (millisecond precision), so the cursor's ISO string holds them exactly.
-    f.before ? sql`(${t.at}, ${t.id}) < (${f.before.at.toISOString()}::timestamptz, ${f.before.id}::uuid)` : undefined,
+    // Row comparison: a keyset cursor over (at, id), both descending, so entries at one instant are each shown once.
+    f.before ? sql`(${t.at}, ${t.id}) < (${f.before.at}::timestamptz, ${f.before.id}::uuid)` : undefined,
   );
 }
 
@@ -149,6 +150,7 @@ function readKind(kind: LogKind, f: LogbookFilter) {
     .select({
       id: t.id,
       at: t.at,
+      atExact: sql<string>`to_char(${t.at} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"')`,
       binId: t.binId,
       binName: bins.name,
       zoneId: t.zoneId,
@@ -166,7 +168,9 @@ function readKind(kind: LogKind, f: LogbookFilter) {
     .limit(f.limit);
 }
 
-const newestFirst = (a: LogbookEntry, b: LogbookEntry) => b.at.getTime() - a.at.getTime() || (a.id < b.id ? 1 : a.id > b.id ? -1 : 0);
+// Fixed-width UTC text compares as the instants do; ids as PostgreSQL orders uuids (lowercase hex).
+const desc2 = (a: string, b: string) => (a < b ? 1 : a > b ? -1 : 0);
+const newestFirst = (a: LogbookEntry, b: LogbookEntry) => desc2(a.atExact, b.atExact) || desc2(a.id, b.id);
 
 // Every kind asked for, merged newest first. Each kind is read newest first with the same limit,
 // so the merged head is exact; the union is then cut to the limit. Feedings come with their items.

@@ -26,7 +26,7 @@ const day = (what: string) =>
 
 /** `before`: where the next older page begins, as the list's last entry (its time and id). */
 export const LOGBOOK_CURSOR = /^(\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(?:\.\d{1,6})?Z)~([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})$/i;
-export const logbookCursor = (e: { at: Date; id: string }) => `${e.at.toISOString()}~${e.id}`;
+export const logbookCursor = (e: { atExact: string; id: string }) => `${e.atExact}~${e.id}`;
 
 const fromTo = <T extends { from?: string; to?: string }>(v: T) => !v.from || !v.to || v.from <= v.to;
 const fromToIssue = { message: "The end date is before the start date; swap them.", path: ["to"] };
@@ -53,7 +53,7 @@ export const farmLogbookQuery = z
         .regex(LOGBOOK_CURSOR, "Use the “older entries” link to page back.")
         .transform((s) => {
           const m = LOGBOOK_CURSOR.exec(s)!;
-          return { at: new Date(m[1]!), id: m[2]!.toLowerCase() };
+          return { at: m[1]!, id: m[2]!.toLowerCase() };
         })
         .optional(),
     ),

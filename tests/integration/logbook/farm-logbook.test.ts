@@ -128,6 +128,33 @@ describe("one logbook for the farm", () => {
   });
 });
 
+describe("paging at one instant", () => {
+  it("shows entries logged within one millisecond, or at the very same instant, each once", async () => {
+    const made = await crew.db.query(
+      `insert into log_notes (farm_id, bin_id, at, text) values
+         ($1, $2, '2024-01-01T12:00:00.000100Z', 'a'), ($1, $2, '2024-01-01T12:00:00.000200Z', 'b'),
+         ($1, $2, '2024-01-01T12:00:00.000200Z', 'c'), ($1, $2, '2024-01-01T12:00:00.000300Z', 'd')
+       returning id`,
+      [crew.farmId, binB.id],
+    );
+    try {
+      const seen: string[] = [];
+      let q = "limit=1&to=2024-01-01";
+      for (let i = 0; i < 10; i++) {
+        const page = await list(crew.viewer, q);
+        seen.push(...page.entries.map((e) => e.text ?? ""));
+        if (!page.older) break;
+        q = `limit=1&to=2024-01-01&before=${encodeURIComponent(page.older)}`;
+      }
+      expect(seen.slice(0, 1)).toEqual(["d"]);
+      expect([...seen.slice(1, 3)].sort()).toEqual(["b", "c"]);
+      expect(seen.slice(3)).toEqual(["a"]);
+    } finally {
+      await crew.db.query(`delete from log_notes where id = any($1::uuid[])`, [made.rows.map((r) => r.id)]);
+    }
+  });
+});
+
 describe("another farm", () => {
   it("answers 404 for its logbook, its exports, and its zone or bin named on one's own farm", async () => {
     const theirs = other.farmId;
