@@ -10,6 +10,7 @@ export function FarmNav({ farmId, role }: { farmId: string; role: string }) {
   const links = [
     { href: base, label: "Today" },
     { href: `${base}/alerts`, label: "Alerts" },
+    { href: `${base}/logbook`, label: "Logbook" },
     { href: `${base}/probes`, label: "Probes" },
     ...(role === "owner" ? [{ href: `${base}/imports`, label: "Import" }] : []),
     { href: `${base}/team`, label: "Team" },

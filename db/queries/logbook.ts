@@ -1,7 +1,20 @@
-import { and, asc, desc, eq, gte, lte, sql } from "drizzle-orm";
+import { and, asc, desc, eq, gte, inArray, lt, lte, or, sql } from "drizzle-orm";
 import { db } from "@/db";
 import type { LogKind } from "@/lib/domain/vocabulary";
-import { feedings, harvests, logNotes, ovenDrySamples, probes, readings, shifts, users, waterings as wateringsTable, zones } from "@/db/schema";
+import {
+  bins,
+  feedingItems,
+  feedings,
+  harvests,
+  logNotes,
+  ovenDrySamples,
+  probes,
+  readings,
+  shifts,
+  users,
+  waterings as wateringsTable,
+  zones,
+} from "@/db/schema";
 
 const tables = { feeding: feedings, watering: wateringsTable, shift: shifts, harvest: harvests, note: logNotes, sample: ovenDrySamples } as const;
 
@@ -61,6 +74,10 @@ export type LogbookEntry = {
   kind: LogKind;
   id: string;
   at: Date;
+  /** `at` to the microsecond as ISO text (a Date keeps milliseconds): the paging cursor's time. */
+  atExact: string;
+  binId: string;
+  binName: string;
   zoneId: string | null;
   byUserId: string | null;
   byName: string | null;
@@ -71,72 +88,107 @@ export type LogbookEntry = {
   massKg?: number;
   text?: string;
   volumeL?: number | null;
+  toZoneId?: string | null;
   moistureWbPct?: number;
   rawReading?: number | null;
   mixMoisturePct?: number | null;
   mixCn?: number | null;
+  /** A feeding's items, so its mix check can be shown (and recomputed) beside it. */
+  items?: FeedingItemRow[];
+};
+type FeedingItemRow = typeof feedingItems.$inferSelect;
+
+/** What a logbook list may be narrowed by; every filter is optional, `limit` is not. */
+export type LogbookFilter = {
+  farmId?: string;
+  binId?: string;
+  /** The entry's zone (or, for a shift, either of its zones). */
+  zoneId?: string;
+  byUserId?: string;
+  kinds?: readonly LogKind[];
+  /** Inclusive start and exclusive end instants. */
+  from?: Date;
+  to?: Date;
+  /** Only entries older than this one in (at, id) order: the next older page (`at` as ISO text, microseconds kept). */
+  before?: { at: string; id: string };
+  limit: number;
 };
 
-// Every kind of a bin's logbook, merged newest first. Each kind is read newest first with the same
-// limit, so the merged head is exact; the union is then cut to the limit.
+type LogTable = (typeof tables)[LogKind];
+// Every log table is made of the same logColumns() (db/schema.ts), so one of them stands for the
+// shared columns' types; the columns used are each table's own.
+type Shared = typeof wateringsTable;
+
+function narrowed(table: LogTable, f: LogbookFilter) {
+  const t = table as unknown as Shared;
+  const zone = f.zoneId ? (table === shifts ? or(eq(shifts.zoneId, f.zoneId), eq(shifts.toZoneId, f.zoneId)) : eq(t.zoneId, f.zoneId)) : undefined;
+  return and(
+    f.farmId ? eq(t.farmId, f.farmId) : undefined,
+    f.binId ? eq(t.binId, f.binId) : undefined,
+    zone,
+    f.byUserId ? eq(t.byUserId, f.byUserId) : undefined,
+    f.from ? gte(t.at, f.from) : undefined,
+    f.to ? lt(t.at, f.to) : undefined,
+    // Row comparison: a keyset cursor over (at, id), both descending, so entries at one instant are each shown once.
+    f.before ? sql`(${t.at}, ${t.id}) < (${f.before.at}::timestamptz, ${f.before.id}::uuid)` : undefined,
+  );
+}
+
+const OWN = {
+  feeding: { totalKg: feedings.totalKg, mixMoisturePct: feedings.mixMoisturePct, mixCn: feedings.mixCn },
+  watering: { litres: wateringsTable.litres },
+  shift: { volumeL: shifts.volumeL, toZoneId: shifts.toZoneId },
+  harvest: { massKg: harvests.massKg },
+  note: { text: logNotes.text },
+  sample: { moistureWbPct: ovenDrySamples.moistureWbPct, rawReading: ovenDrySamples.rawReading },
+} as const;
+
+function readKind(kind: LogKind, f: LogbookFilter) {
+  const table = tables[kind];
+  const t = table as unknown as Shared;
+  return db()
+    .select({
+      id: t.id,
+      at: t.at,
+      atExact: sql<string>`to_char(${t.at} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"')`,
+      binId: t.binId,
+      binName: bins.name,
+      zoneId: t.zoneId,
+      byUserId: t.byUserId,
+      createdAt: t.createdAt,
+      notes: t.notes,
+      byName: users.name,
+      ...OWN[kind],
+    })
+    .from(t)
+    .innerJoin(bins, eq(bins.id, t.binId))
+    .leftJoin(users, eq(users.id, t.byUserId))
+    .where(narrowed(table, f))
+    .orderBy(desc(t.at), desc(t.id))
+    .limit(f.limit);
+}
+
+// Fixed-width UTC text compares as the instants do; ids as PostgreSQL orders uuids (lowercase hex).
+const desc2 = (a: string, b: string) => (a < b ? 1 : a > b ? -1 : 0);
+const newestFirst = (a: LogbookEntry, b: LogbookEntry) => desc2(a.atExact, b.atExact) || desc2(a.id, b.id);
+
+// Every kind asked for, merged newest first. Each kind is read newest first with the same limit,
+// so the merged head is exact; the union is then cut to the limit. Feedings come with their items.
+export async function listLogEntries(f: LogbookFilter): Promise<LogbookEntry[]> {
+  const kinds = f.kinds ?? (Object.keys(tables) as LogKind[]);
+  const read = await Promise.all(kinds.map(async (kind) => (await readKind(kind, f)).map((r) => ({ ...r, kind }) as Record<string, unknown>)));
+  const all = read.flat().map(({ totalKg, ...r }) => ({ ...r, ...(totalKg !== undefined ? { massKg: totalKg ?? undefined } : {}) }) as unknown as LogbookEntry);
+  all.sort(newestFirst);
+  const page = all.slice(0, f.limit);
+  const fed = page.filter((e) => e.kind === "feeding").map((e) => e.id);
+  const items = fed.length ? await db().select().from(feedingItems).where(inArray(feedingItems.feedingId, fed)) : [];
+  for (const e of page) if (e.kind === "feeding") e.items = items.filter((i) => i.feedingId === e.id);
+  return page;
+}
+
+/** A bin's whole logbook, every kind merged newest first. */
 export async function listLogbook(binId: string, opts: { limit?: number } = {}): Promise<LogbookEntry[]> {
-  const limit = opts.limit ?? 100;
-  const base = (t: typeof feedings | typeof wateringsTable | typeof harvests | typeof logNotes | typeof ovenDrySamples) => ({
-    id: t.id,
-    at: t.at,
-    zoneId: t.zoneId,
-    byUserId: t.byUserId,
-    createdAt: t.createdAt,
-    notes: t.notes,
-    byName: users.name,
-  });
-  const d = db();
-  const [f, w, h, n, s] = await Promise.all([
-    d
-      .select({ ...base(feedings), totalKg: feedings.totalKg, mixMoisturePct: feedings.mixMoisturePct, mixCn: feedings.mixCn })
-      .from(feedings)
-      .leftJoin(users, eq(users.id, feedings.byUserId))
-      .where(eq(feedings.binId, binId))
-      .orderBy(desc(feedings.at))
-      .limit(limit),
-    d
-      .select({ ...base(wateringsTable), litres: wateringsTable.litres })
-      .from(wateringsTable)
-      .leftJoin(users, eq(users.id, wateringsTable.byUserId))
-      .where(eq(wateringsTable.binId, binId))
-      .orderBy(desc(wateringsTable.at))
-      .limit(limit),
-    d
-      .select({ ...base(harvests), massKg: harvests.massKg })
-      .from(harvests)
-      .leftJoin(users, eq(users.id, harvests.byUserId))
-      .where(eq(harvests.binId, binId))
-      .orderBy(desc(harvests.at))
-      .limit(limit),
-    d
-      .select({ ...base(logNotes), text: logNotes.text })
-      .from(logNotes)
-      .leftJoin(users, eq(users.id, logNotes.byUserId))
-      .where(eq(logNotes.binId, binId))
-      .orderBy(desc(logNotes.at))
-      .limit(limit),
-    d
-      .select({ ...base(ovenDrySamples), moistureWbPct: ovenDrySamples.moistureWbPct, rawReading: ovenDrySamples.rawReading })
-      .from(ovenDrySamples)
-      .leftJoin(users, eq(users.id, ovenDrySamples.byUserId))
-      .where(eq(ovenDrySamples.binId, binId))
-      .orderBy(desc(ovenDrySamples.at))
-      .limit(limit),
-  ]);
-  const all: LogbookEntry[] = [
-    ...f.map(({ totalKg, ...r }) => ({ ...r, kind: "feeding" as const, massKg: totalKg ?? undefined })),
-    ...w.map((r) => ({ ...r, kind: "watering" as const })),
-    ...h.map((r) => ({ ...r, kind: "harvest" as const })),
-    ...n.map((r) => ({ ...r, kind: "note" as const })),
-    ...s.map((r) => ({ ...r, kind: "sample" as const })),
-  ];
-  all.sort((a, b) => b.at.getTime() - a.at.getTime() || b.createdAt.getTime() - a.createdAt.getTime());
-  return all.slice(0, limit);
+  return listLogEntries({ binId, limit: opts.limit ?? 100 });
 }
 
 /** The bin, author and creation time of one logbook entry, or null. */
@@ -215,4 +267,21 @@ export type StoredCalibration = { slope: number; intercept: number; r2: number; 
 
 export async function setProbeCalibration(probeId: number, cal: StoredCalibration | null) {
   await db().update(probes).set({ calibration: cal }).where(eq(probes.id, probeId));
+}
+
+/** Every zone of a farm's bins, archived ones too (old entries still name them), in bin order. */
+export async function listFarmZones(farmId: string) {
+  return db()
+    .select({
+      id: zones.id,
+      binId: zones.binId,
+      kind: zones.kind,
+      name: zones.name,
+      position: zones.position,
+      archived: sql<boolean>`${zones.archivedAt} is not null`,
+    })
+    .from(zones)
+    .innerJoin(bins, eq(bins.id, zones.binId))
+    .where(eq(bins.farmId, farmId))
+    .orderBy(asc(bins.name), asc(zones.position));
 }

@@ -4,6 +4,10 @@ export const todayKey = (farmId: string | null) => (farmId ? `/api/farms/${farmI
 export const feedingsKey = (binId: string | null) => (binId ? `/api/bins/${binId}/feedings` : null);
 export const ingredientsKey = (farmId: string | null) => (farmId ? `/api/farms/${farmId}/ingredients` : null);
 export const logbookKey = (binId: string | null) => (binId ? `/api/bins/${binId}/logbook` : null);
+/** The farm logbook with its filters as a query string (without "?"), as the page's URL has them. */
+export const farmLogbookKey = (farmId: string | null, search = "") => (farmId ? `/api/farms/${farmId}/logbook${search ? `?${search}` : ""}` : null);
+/** Matches any farm logbook key, whatever its filters. */
+export const isFarmLogbookKey = (key: unknown): boolean => typeof key === "string" && /^\/api\/farms\/[^/?]+\/logbook(\?|$)/.test(key);
 export const probeCalibrationKey = (probeId: number | null) => (probeId != null ? `/api/probes/${probeId}/calibration` : null);
 export const probeHealthKey = (probeId: number | null) => (probeId != null ? `/api/probes/${probeId}/health` : null);
 export const probesKey = (farmId: string | null) => (farmId ? `/api/farms/${farmId}/probes` : null);

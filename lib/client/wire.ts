@@ -12,6 +12,8 @@ import type { Wire } from "@/lib/domain/wire";
 import type { addBin } from "@/lib/server/bins/add-bin";
 import type { ImportOutcome } from "@/lib/server/imports/import-csv";
 import type { logFeeding } from "@/lib/server/logbook/log-feeding";
+import type { farmLogbookPage } from "@/lib/server/logbook/farm-logbook";
+import type { logShift } from "@/lib/server/logbook/log-shift";
 import type { addSample } from "@/lib/server/probes/add-sample";
 import type { calibrationView } from "@/lib/server/probes/calibration-view";
 import type { fitProbeCalibration } from "@/lib/server/probes/fit-calibration";
@@ -37,6 +39,10 @@ export type ZoneChoice = Pick<Wire<Zone>, "id" | "kind" | "name">;
 export type IngredientRow = Answer<typeof listIngredients>[number];
 /** One entry of a bin's merged logbook. */
 export type LogbookItem = Wire<LogbookEntry>;
+/** One page of the farm logbook: entries and the next older page's cursor (null at the end). */
+export type FarmLogbookPage = Answer<typeof farmLogbookPage>;
+/** What logging a shift answers. */
+export type LoggedShift = Answer<typeof logShift>;
 /** A zone's or probe's series for one metric and window. */
 export type Series = Wire<SeriesAnswer>;
 /** A bin's series for one metric and window: one line per zone, with the bin's logbook marks. */

@@ -72,6 +72,7 @@ const PAGES = [
   { name: "bin", path: () => `/farms/${farmId}/bins/${binId}`, ready: "#zones-h" },
   { name: "zone", path: () => `/farms/${farmId}/zones/${zoneId}`, ready: "figure[data-metric] canvas" },
   { name: "probes", path: () => `/farms/${farmId}/probes`, ready: "main h2, main li" },
+  { name: "logbook", path: () => `/farms/${farmId}/logbook`, ready: "#entries-h" },
   { name: "rules", path: () => `/farms/${farmId}/bins/${binId}/rules`, ready: "main section" },
   { name: "you", path: () => `/me`, ready: "main h1" },
 ] as const;

@@ -19,6 +19,27 @@ export const wateringCreateFor = perUnitSystem((system: UnitSystem) =>
 export const harvestCreateFor = perUnitSystem((system: UnitSystem) =>
   z.object({ ...logCommon, massKg: measured("Mass", "mass", system, { min: 0.001, max: 100_000, minWords: "1 g" }) }),
 );
+// A shift moves material from one zone of the bin toward another (usually toward the harvest side).
+// The amount is an optional estimate: a scoop (0.1 L) to a large bed's whole zone, 10 m³ (common practice).
+export const shiftCreateFor = perUnitSystem((system: UnitSystem) =>
+  z
+    .object({
+      zoneId: z.string({ message: "Pick the zone the material came from." }).uuid("Pick the zone the material came from."),
+      toZoneId: z.string({ message: "Pick the zone it went to." }).uuid("Pick the zone it went to."),
+      at: logCommon.at,
+      notes: logCommon.notes,
+      volumeL: measured("Moved", "volume", system, { min: 0.1, max: 10_000 }).nullable().optional(),
+    })
+    .refine((s) => s.zoneId !== s.toZoneId, { message: "Pick two different zones: material moves from one to another.", path: ["toZoneId"] }),
+);
+export const shiftCreate = shiftCreateFor("metric");
+export type ShiftCreate = z.output<typeof shiftCreate>;
+/** The Idempotency-Key header of a log POST: 8–100 of [A-Za-z0-9_-]; absent means none. */
+export const idempotencyKeyHeader = z
+  .string()
+  .regex(/^[A-Za-z0-9_-]{8,100}$/, "The Idempotency-Key header must be 8 to 100 letters, digits, _ or -.")
+  .nullable()
+  .transform((v) => v ?? undefined);
 export const wateringCreate = wateringCreateFor("metric");
 export const harvestCreate = harvestCreateFor("metric");
 export const noteCreate = z.object({ ...logCommon, text: longText("The note", { min: 1, max: 4000, empty: "Write the note." }) });

@@ -9,12 +9,12 @@ import { newSubscriber } from "../../helpers/push";
 import { hashPassword } from "@/lib/server/auth/password";
 
 type Role = "owner" | "keeper" | "viewer";
-type Ids = { farm: string; bin: string; zone: string; alert: string; probe: number };
+type Ids = { farm: string; bin: string; zone: string; zone2: string; alert: string; probe: number };
 type Row = {
   method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
   route: string; // file path under app/api, e.g. "farms/[farmId]/bins"
   path: (ids: Ids) => string;
-  body?: () => unknown;
+  body?: (ids: Ids) => unknown;
   setup?: (s: Session) => Promise<void>;
   allowed: Role[];
   farmScoped: boolean;
@@ -240,6 +240,30 @@ const rows: Row[] = [
     farmScoped: true,
   },
   { method: "GET", route: "bins/[binId]/logbook", path: (i) => `/api/bins/${i.bin}/logbook`, allowed: ALL, farmScoped: true },
+  { method: "GET", route: "bins/[binId]/shifts", path: (i) => `/api/bins/${i.bin}/shifts`, allowed: ALL, farmScoped: true },
+  {
+    method: "POST",
+    route: "bins/[binId]/shifts",
+    path: (i) => `/api/bins/${i.bin}/shifts`,
+    body: (i) => ({ zoneId: i.zone, toZoneId: i.zone2, volumeL: 10 }),
+    allowed: CREW,
+    farmScoped: true,
+  },
+  { method: "GET", route: "farms/[farmId]/logbook", path: (i) => `/api/farms/${i.farm}/logbook?kind=note`, allowed: ALL, farmScoped: true },
+  {
+    method: "GET",
+    route: "farms/[farmId]/logbook/export",
+    path: (i) => `/api/farms/${i.farm}/logbook/export?format=csv&bin=${i.bin}`,
+    allowed: ALL,
+    farmScoped: true,
+  },
+  {
+    method: "GET",
+    route: "farms/[farmId]/readings/export",
+    path: (i) => `/api/farms/${i.farm}/readings/export?zoneId=${i.zone}&from=2025-05-01&to=2025-05-02`,
+    allowed: ALL,
+    farmScoped: true,
+  },
   {
     method: "DELETE",
     route: "logbook/[kind]/[entryId]",
@@ -365,7 +389,7 @@ async function scratch(owner: Session, farm: string): Promise<Ids> {
     bin.zones[0]!.id,
     `auth-${Math.random().toString(36).slice(2, 10)}`,
   ]);
-  return { farm, bin: bin.id, zone: bin.zones[0]!.id, alert: a.rows[0].id, probe: p.rows[0].id };
+  return { farm, bin: bin.id, zone: bin.zones[0]!.id, zone2: bin.zones[1]!.id, alert: a.rows[0].id, probe: p.rows[0].id };
 }
 
 beforeAll(async () => {
@@ -403,7 +427,7 @@ describe("every route handler checks the session and the role", () => {
     describe(`${row.method} /api/${row.route}`, () => {
       it("signed out gets 401", async () => {
         const ids = await scratch(sessions.owner, demoFarm);
-        const res = await anonymous().fetch(row.path(ids), { method: row.method, json: row.body?.() });
+        const res = await anonymous().fetch(row.path(ids), { method: row.method, json: row.body?.(ids) });
         expect(res.status).toBe(401);
         expect(((await res.json()) as { error: { code: string } }).error.code).toBe("unauthenticated");
       });
@@ -413,7 +437,7 @@ describe("every route handler checks the session and the role", () => {
         it(`${role} ${allowed ? "is allowed" : "gets 403"}`, async () => {
           const ids = await scratch(sessions.owner, demoFarm);
           await row.setup?.(sessions[role]);
-          const res = await sessions[role].fetch(row.path(ids), { method: row.method, json: row.body?.() });
+          const res = await sessions[role].fetch(row.path(ids), { method: row.method, json: row.body?.(ids) });
           if (allowed) expect(res.status, await res.clone().text()).toBeLessThan(300);
           else {
             expect(res.status).toBe(403);
@@ -425,7 +449,7 @@ describe("every route handler checks the session and the role", () => {
       if (row.farmScoped) {
         it("another farm's ids get 404, even for an owner", async () => {
           for (const role of ALL) {
-            const res = await sessions[role].fetch(row.path(other), { method: row.method, json: row.body?.() });
+            const res = await sessions[role].fetch(row.path(other), { method: row.method, json: row.body?.(other) });
             expect(res.status, `${role}`).toBe(404);
           }
         });

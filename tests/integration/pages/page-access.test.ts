@@ -44,6 +44,7 @@ const pagesOf = (f: TestFarm, under = f.farmId) => [
   `/farms/${under}/team`,
   `/farms/${under}/settings`,
   `/farms/${under}/imports`,
+  `/farms/${under}/logbook`,
   `/farms/${under}/bins/${f.binId}`,
   `/farms/${under}/bins/${f.binId}/rules`,
   `/farms/${under}/zones/${f.zones.working}`,

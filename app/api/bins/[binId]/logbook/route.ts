@@ -5,7 +5,7 @@ import { logbookQuery } from "@/lib/domain/validation/logbook";
 
 type Ctx = { params: Promise<{ binId: string }> };
 
-// GET /api/bins/[binId]/logbook — feedings, waterings, harvests, notes and samples, newest first, with who
+// GET /api/bins/[binId]/logbook — feedings (with items), waterings, shifts, harvests, notes and samples, newest first, with who
 export const GET = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   await requireMember({ binId }, "read");

@@ -187,6 +187,14 @@ export default async function ZonePage({ params }: { params: Promise<{ farmId: s
           )}
         />
       </SWRConfig>
+      <p className="px-1 text-sm">
+        <Link
+          href={`/farms/${farmId}/logbook?place=zone:${zone.id}#readings-export`}
+          className="inline-flex min-h-11 items-center underline underline-offset-4"
+        >
+          Download this zone&apos;s readings (CSV or SenML)
+        </Link>
+      </p>
 
       {/* The zone beside its neighbours: every zone of the bin on one chart. */}
       {binZones.length > 1 && (
