@@ -1,6 +1,8 @@
 "use client";
 
 import { useRouter } from "next/navigation";
+import { useSWRConfig } from "swr";
+import { binKey } from "@/lib/client/hooks/use-bin";
 import { useId, useRef, useState } from "react";
 import { send } from "@/lib/client/fetcher";
 import { useSend } from "@/lib/client/use-send";
@@ -109,6 +111,7 @@ export function BinSizeForm({
   size: { lengthCm: number | null; widthCm: number | null; depthCm: number | null };
 }) {
   const router = useRouter();
+  const { mutate } = useSWRConfig();
   const [values, setValues] = useState(() => emptySize(system, size));
   const { busy, errors, run } = useSend();
   const [done, setDone] = useState<string | null>(null);
@@ -124,6 +127,7 @@ export function BinSizeForm({
     }
     const floor = floorWords(sent.value.bin.lengthCm, sent.value.bin.widthCm, system);
     setDone(floor ? `Saved. Floor: ${floor}.` : "Saved. Without a length and width, feedings are weighed by mass alone.");
+    await mutate(binKey(binId));
     router.refresh();
   }
 

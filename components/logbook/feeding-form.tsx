@@ -4,10 +4,11 @@ import { useEffect, useMemo, useRef, useState } from "react";
 import { MixVerdictMark } from "@/components/logbook/mix-verdict";
 import { zoneWords } from "@/components/logbook/format";
 import { useIngredients } from "@/lib/client/hooks/use-ingredients";
+import { useBin } from "@/lib/client/hooks/use-bin";
 import type { IngredientRow, LoggedFeeding, ZoneChoice } from "@/lib/client/wire";
 import Link from "next/link";
 import { amendmentForMoisture, beddingForCn, checkMixAsFarAsKnown, WATER, WORM_BED_TARGET, type Amendment, type MixItem } from "@/lib/domain/mix";
-import { feedingLoadWords, loadForBin, type BinForLoad } from "@/lib/domain/feeding-load";
+import { feedingLoadWords, floorAreaM2, loadForBin, type BinForLoad } from "@/lib/domain/feeding-load";
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
 import { feedingsKey } from "@/lib/client/swr-keys";
@@ -72,6 +73,11 @@ export function FeedingForm({
   bin?: BinForLoad;
 }) {
   const { data: lib } = useIngredients(farmId);
+  // Without the page's word on the bin's size, the form reads it itself (and then knows no farm interval).
+  const { data: read } = useBin(bin ? null : binId);
+  const size = read?.bin;
+  const forLoad: BinForLoad | undefined =
+    bin ?? (size ? { areaM2: floorAreaM2(size.lengthCm, size.widthCm), intervalDays: size.feedingIntervalDays ?? null } : undefined);
   const refresh = useBinRefresh(binId);
   const [rows, setRows] = useState<Row[]>([]);
   const [zoneId, setZoneId] = useState<string>(defaultZoneId ?? zones.find((z) => z.kind === "fresh")?.id ?? "");
@@ -143,7 +149,7 @@ export function FeedingForm({
 
   // The load counts every mass typed, whether or not the item's other values are known yet.
   const kg = items.reduce((sum, it) => sum + (Number.isFinite(it.massKg) && it.massKg > 0 ? it.massKg : 0), 0);
-  const load = kg > 0 ? loadForBin(kg, bin ?? { areaM2: null, intervalDays: 21 }, { zoneCount: zones.length, toOneZone: !!zoneId }) : null;
+  const load = kg > 0 ? loadForBin(kg, forLoad ?? { areaM2: null, intervalDays: null }, { zoneCount: zones.length, toOneZone: !!zoneId }) : null;
   const loadWords = load ? feedingLoadWords(load, system, zoneWords(zones.find((z) => z.id === zoneId))) : null;
   const sizeHref = `/farms/${farmId}/bins/${binId}#bin-size`;
 
@@ -412,14 +418,14 @@ export function FeedingForm({
             <p className="flex items-start gap-1">
               {loadWords.heavy && <Mark name="heat" />}
               <span>
-                <span className="font-bold">{loadWords.heavy ? "Heavy for this bin. " : "Load: "}</span>
+                <span className="font-bold">Load: </span>
                 {loadWords.lines.join(" ")}
               </span>
             </p>
             {loadWords.heavy && (
               <p className="mt-1">Watch the zone&apos;s temperature for a day or two; a heating bed can give off ammonia, so air a closed room.</p>
             )}
-            {(!bin || bin.areaM2 === null) && (
+            {(!forLoad || forLoad.areaM2 === null) && (
               <p className="mt-1">
                 <Link href={sizeHref} className="underline underline-offset-4">
                   Add the bin&apos;s size to weigh feedings against it
@@ -428,7 +434,7 @@ export function FeedingForm({
             )}
           </div>
         ) : (
-          (!bin || bin.areaM2 === null) && (
+          (!forLoad || forLoad.areaM2 === null) && (
             <p className="mt-2 text-sm">
               <Link href={sizeHref} className="underline underline-offset-4">
                 Add the bin&apos;s size to weigh feedings against it

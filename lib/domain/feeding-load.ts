@@ -35,8 +35,8 @@ export function floorAreaM2(lengthCm: number | null | undefined, widthCm: number
 export type BinForLoad = {
   /** The bin's floor, m²; null when its size is not known. */
   areaM2: number | null;
-  /** Days between feedings (the bin's, else the farm's). */
-  intervalDays: number;
+  /** Days between feedings (the bin's, else the farm's); null when not known (no rate is said). */
+  intervalDays: number | null;
   /** The heat rule's line for this bin when an owner changed it; default HEAVY_FEED_KG_PER_M2. */
   heavyKgPerM2?: number;
   heavyKg?: number;
@@ -55,8 +55,8 @@ export type FeedingLoad =
       /** kgPerM2 / heavyKgPerM2; heavy from 1, as the heat rule arms its watch. */
       times: number;
       heavy: boolean;
-      /** The bin's whole floor spread over its feeding interval, kg/m² a week. */
-      weeklyKgPerM2: number;
+      /** The bin's whole floor spread over its feeding interval, kg/m² a week; null without an interval. */
+      weeklyKgPerM2: number | null;
       aboveWeeklyRate: boolean;
     };
 
@@ -76,8 +76,7 @@ export function loadForBin(kg: number, bin: BinForLoad, where: { zoneCount: numb
   const onM2 = zoneShare ? bin.areaM2 / where.zoneCount : bin.areaM2;
   const kgPerM2 = kg / onM2;
   const times = heavyKgPerM2 > 0 ? kgPerM2 / heavyKgPerM2 : Number.POSITIVE_INFINITY;
-  const weeks = Math.max(bin.intervalDays, 1) / 7;
-  const weeklyKgPerM2 = kg / bin.areaM2 / weeks;
+  const weeklyKgPerM2 = bin.intervalDays != null && bin.intervalDays > 0 ? kg / bin.areaM2 / (bin.intervalDays / 7) : null;
   return {
     sized: true,
     kg,
@@ -88,7 +87,7 @@ export function loadForBin(kg: number, bin: BinForLoad, where: { zoneCount: numb
     times,
     heavy: times >= 1,
     weeklyKgPerM2,
-    aboveWeeklyRate: weeklyKgPerM2 > WEEKLY_RATE_KG_PER_M2,
+    aboveWeeklyRate: weeklyKgPerM2 !== null && weeklyKgPerM2 > WEEKLY_RATE_KG_PER_M2,
   };
 }
 
@@ -115,7 +114,7 @@ export function feedingLoadWords(load: FeedingLoad, system: UnitSystem, zoneLabe
       ],
     };
   }
-  const on = `${areaWords(load.onM2, system)}${load.zoneShare ? ` (${zoneLabel}'s share of the bin)` : ""}`;
+  const on = `${areaWords(load.onM2, system)}${load.zoneShare ? ` (${zoneLabel}, its share of the bin)` : ""}`;
   const lines: string[] = [];
   if (load.heavy) {
     const feedings = Math.ceil(load.times);
@@ -129,7 +128,7 @@ export function feedingLoadWords(load: FeedingLoad, system: UnitSystem, zoneLabe
       `${massWords(load.kg, system)} on ${on} is ${perAreaWords(load.kgPerM2, system)}, under the heat rule's heavy line of ${perAreaWords(load.heavyKgPerM2, system)}.`,
     );
   }
-  if (load.aboveWeeklyRate) {
+  if (load.aboveWeeklyRate && load.weeklyKgPerM2 !== null) {
     lines.push(
       `Over the feeding interval that is ${perAreaWords(load.weeklyKgPerM2, system)} a week, more than a guide's ${perAreaWords(WEEKLY_RATE_KG_PER_M2, system)} a week (${WEEKLY_RATE_SOURCE}).`,
     );

@@ -45,7 +45,7 @@ describe("feeding load against the bin", () => {
     expect(loadForBin(6, bin, { zoneCount: 3, toOneZone: false })).toMatchObject({ kgPerM2: 2, heavy: false });
     const zone = loadForBin(6, bin, { zoneCount: 3, toOneZone: true })!;
     expect(zone).toMatchObject({ kgPerM2: 6, heavy: true, zoneShare: true });
-    expect(feedingLoadWords(zone, "metric", "the fresh zone").lines[0]).toContain("6 kg on 1 m² (the fresh zone's share of the bin) is 6 kg/m²");
+    expect(feedingLoadWords(zone, "metric", "Fresh zone").lines[0]).toContain("6 kg on 1 m² (Fresh zone, its share of the bin) is 6 kg/m²");
   });
 
   it("agrees with the heat rule on every feeding: heavy here exactly when the rule arms its watch", () => {
