@@ -91,10 +91,22 @@ export async function seedIngredients(d: Db) {
         note: i.note ?? null,
       })),
     )
-    // A database seeded before takes the library's current sources and notes (the values stay).
+    // A database seeded before takes the library's current values, sources and notes: the row (and
+    // its id, which old feedings name) stays. A row with no published value keeps its place with null
+    // values and status "gap", which the feeding form does not offer.
     .onConflictDoUpdate({
       target: [ingredients.farmId, ingredients.key],
-      set: { source: sql`excluded.source`, sourceStatus: sql`excluded.source_status`, note: sql`excluded.note` },
+      set: {
+        name: sql`excluded.name`,
+        kind: sql`excluded.kind`,
+        moisturePct: sql`excluded.moisture_pct`,
+        carbonPct: sql`excluded.carbon_pct`,
+        nitrogenPct: sql`excluded.nitrogen_pct`,
+        cn: sql`excluded.cn`,
+        source: sql`excluded.source`,
+        sourceStatus: sql`excluded.source_status`,
+        note: sql`excluded.note`,
+      },
     });
 }
 

@@ -11,6 +11,8 @@ import { defaultZoneKinds, MAX_ZONES } from "@/lib/domain/validation/farm";
 import { zoneName } from "@/lib/domain/zone-words";
 import { FieldError, INPUT_CLASS } from "@/components/ui/form-parts";
 import { Mark } from "@/components/ui/marks";
+import { BinSizeFields, emptySize, SIZE_FIELDS, sizeForApi } from "@/components/bins/bin-size-form";
+import type { UnitSystem } from "@/lib/domain/units";
 
 const SPECIES = [
   ["eisenia-fetida", "Eisenia fetida / andrei (red wiggler)"],
@@ -19,7 +21,7 @@ const SPECIES = [
   ["perionyx-excavatus", "Perionyx excavatus"],
 ] as const;
 
-const FIELDS = ["name", "style", "species", "zoneCount"] as const;
+const FIELDS = ["name", "style", "species", "zoneCount", ...SIZE_FIELDS] as const;
 
 /** A labelled select or input with its error tied to it, so a refusal reads under its own field. */
 function Field({
@@ -51,17 +53,21 @@ export function AddBinForm({
   startOpen = false,
   thenGoTo,
   heading: Heading = "h2",
+  system = "metric",
 }: {
   farmId: string;
   startOpen?: boolean;
   /** Where to go after the bin is added (the form's own page goes back to Today). */
   thenGoTo?: string;
   heading?: "h1" | "h2";
+  /** The farm's units: the size is typed in cm or inches and stored in cm. */
+  system?: UnitSystem;
 }) {
   const router = useRouter();
   const refreshToday = useTodayRefresh(farmId);
   const [open, setOpen] = useState(startOpen);
   const [zoneCount, setZoneCount] = useState(3);
+  const [size, setSize] = useState(() => emptySize(system));
   const { busy, errors, run } = useSend();
   const [done, setDone] = useState<string | null>(null);
   const formRef = useRef<HTMLFormElement>(null);
@@ -75,6 +81,7 @@ export function AddBinForm({
         style: f.get("style"),
         species: f.get("species"),
         zoneCount: Number(f.get("zoneCount")),
+        ...sizeForApi(size, system),
       }),
     );
     if (!sent.ok) {
@@ -86,6 +93,7 @@ export function AddBinForm({
     const body = sent.value;
     setDone(`Added ${body.bin.name} with ${body.bin.zones.length} zone${body.bin.zones.length === 1 ? "" : "s"}.`);
     setOpen(false);
+    setSize(emptySize(system));
     await refreshToday();
     // The setup checklist on Today is drawn on the server: refresh it so "Add a bin" ticks.
     if (thenGoTo) router.push(thenGoTo);
@@ -154,6 +162,7 @@ export function AddBinForm({
               </li>
             ))}
           </ol>
+          <BinSizeFields system={system} values={size} onChange={setSize} errors={errors} />
           <div className="flex gap-2">
             <button disabled={busy} className="min-h-12 rounded-xl bg-leaf-700 px-4 font-bold text-white disabled:opacity-60">
               {busy ? "Adding…" : "Add"}

@@ -4,14 +4,18 @@ import { useEffect, useMemo, useRef, useState } from "react";
 import { MixVerdictMark } from "@/components/logbook/mix-verdict";
 import { zoneWords } from "@/components/logbook/format";
 import { useIngredients } from "@/lib/client/hooks/use-ingredients";
+import { useBin } from "@/lib/client/hooks/use-bin";
 import type { IngredientRow, LoggedFeeding, ZoneChoice } from "@/lib/client/wire";
-import { amendmentForMoisture, beddingForCn, checkMix, WATER, WORM_BED_TARGET, type Amendment, type MixItem } from "@/lib/domain/mix";
+import Link from "next/link";
+import { amendmentForMoisture, beddingForCn, checkMixAsFarAsKnown, WATER, WORM_BED_TARGET, type Amendment, type MixItem } from "@/lib/domain/mix";
+import { feedingLoadWords, floorAreaM2, loadForBin, type BinForLoad } from "@/lib/domain/feeding-load";
 import { failureOf, send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
 import { feedingsKey } from "@/lib/client/swr-keys";
 import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import { LogStatus } from "@/components/ui/form-parts";
-import { ingredientSourceWords } from "@/lib/domain/ingredients";
+import { Mark } from "@/components/ui/marks";
+import { ingredients as published, ingredientSourceWords, isOffered } from "@/lib/domain/ingredients";
 import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
 
 type Row = {
@@ -48,20 +52,32 @@ const amendmentOf = (i: IngredientRow): Amendment => ({ name: i.name, moisturePc
 
 let nextKey = 1;
 
+// Library rows with no published value, named so a keeper knows why they are not offered.
+const NOT_OFFERED = published.filter((i) => i.excluded).map((i) => i.name);
+
 export function FeedingForm({
   farmId,
   binId,
   zones,
   defaultZoneId,
   system,
+  bin,
 }: {
   farmId: string;
   binId: string;
   zones: ZoneChoice[];
   defaultZoneId: string | null;
   system: UnitSystem;
+  /** The bin's floor and feeding interval, to weigh a feeding against the bin; without it the form
+   * says where to set the bin's size. */
+  bin?: BinForLoad;
 }) {
   const { data: lib } = useIngredients(farmId);
+  // Without the page's word on the bin's size, the form reads it itself (and then knows no farm interval).
+  const { data: read } = useBin(bin ? null : binId);
+  const size = read?.bin;
+  const forLoad: BinForLoad | undefined =
+    bin ?? (size ? { areaM2: floorAreaM2(size.lengthCm, size.widthCm), intervalDays: size.feedingIntervalDays ?? null } : undefined);
   const refresh = useBinRefresh(binId);
   const [rows, setRows] = useState<Row[]>([]);
   const [zoneId, setZoneId] = useState<string>(defaultZoneId ?? zones.find((z) => z.kind === "fresh")?.id ?? "");
@@ -80,7 +96,7 @@ export function FeedingForm({
     focusNext.current = null;
   });
 
-  const library = useMemo(() => (lib?.ingredients ?? []).filter((i) => i.kind !== "water"), [lib]);
+  const library = useMemo(() => (lib?.ingredients ?? []).filter((i) => i.kind !== "water" && isOffered(i)), [lib]);
   const matches = useMemo(() => {
     const q = query.trim().toLowerCase();
     return q ? library.filter((i) => i.name.toLowerCase().includes(q)) : library;
@@ -125,12 +141,21 @@ export function FeedingForm({
     nitrogenPct: opt(r.nitrogen),
     cn: opt(r.cn),
   }));
-  const mix = rows.length ? checkMix(items) : null;
-  const failedRow = mix && !mix.ok ? rows[Number(/^items\.(\d+)/.exec(mix.error.field)?.[1] ?? -1)] : undefined;
+  const known = rows.length ? checkMixAsFarAsKnown(items) : null;
+  const check = known?.check ?? null;
+  const counted = known ? known.counted.map((i) => items[i]!) : [];
+  const waitingOf = (i: number) => known?.waiting.find((w) => w.index === i);
+  const rowName = (i: number) => rows[i]?.name || `Item ${i + 1}`;
+
+  // The load counts every mass typed, whether or not the item's other values are known yet.
+  const kg = items.reduce((sum, it) => sum + (Number.isFinite(it.massKg) && it.massKg > 0 ? it.massKg : 0), 0);
+  const load = kg > 0 ? loadForBin(kg, forLoad ?? { areaM2: null, intervalDays: null }, { zoneCount: zones.length, toOneZone: !!zoneId }) : null;
+  const loadWords = load ? feedingLoadWords(load, system, zoneWords(zones.find((z) => z.id === zoneId))) : null;
+  const sizeHref = `/farms/${farmId}/bins/${binId}#bin-size`;
 
   const hints: string[] = [];
-  if (mix?.ok) {
-    const m = mix.value;
+  if (check) {
+    const m = check;
     const moistureFix =
       m.issues.includes("too wet") && bedding
         ? { with: amendmentOf(bedding), name: bedding.name }
@@ -138,11 +163,11 @@ export function FeedingForm({
           ? { with: WATER, name: "water" }
           : null;
     if (moistureFix) {
-      const q = amendmentForMoisture(items, moistureFix.with, MOISTURE_AIM);
+      const q = amendmentForMoisture(counted, moistureFix.with, MOISTURE_AIM);
       if (q.ok) hints.push(`Add ${formatMass(q.value, system, { digits: 2 })} of ${moistureFix.name} to reach ${MOISTURE_AIM} % moisture.`);
     }
     if (m.issues.includes("too rich in nitrogen") && bedding) {
-      const q = beddingForCn(items, amendmentOf(bedding), CN_AIM);
+      const q = beddingForCn(counted, amendmentOf(bedding), CN_AIM);
       if (q.ok) hints.push(`Add ${formatMass(q.value, system, { digits: 2 })} of ${bedding.name} to reach C:N ${CN_AIM}.`);
     }
     if (m.issues.includes("too rich in carbon"))
@@ -274,6 +299,12 @@ export function FeedingForm({
         <button type="button" onClick={addByHand} className="min-h-12 w-full rounded-xl px-4 font-bold ring-1 ring-soil-500">
           Add an item by hand
         </button>
+        {NOT_OFFERED.length > 0 && (
+          <p className="text-sm text-soil-700">
+            Not in the library: {NOT_OFFERED.join(", ")}. No published moisture, carbon and nitrogen were found for them; add one by hand with your
+            supplier&apos;s analysis.
+          </p>
+        )}
       </fieldset>
 
       {rows.length > 0 && (
@@ -316,6 +347,11 @@ export function FeedingForm({
                 {numberField(r, i, "nitrogenPct", "Nitrogen (% dry)")}
                 {numberField(r, i, "cn", "C:N")}
               </div>
+              {waitingOf(i) && (
+                <p className="mt-2 text-sm font-bold" id={`item-${r.key}-waiting`}>
+                  Not counted in the mix check yet: {waitingOf(i)!.message}
+                </p>
+              )}
             </li>
           ))}
         </ol>
@@ -331,43 +367,83 @@ export function FeedingForm({
           <h3 id="mix-h" className="font-bold">
             Mix check
           </h3>
-          {mix?.ok && (
+          {check && (
             <div className="flex flex-wrap items-center gap-1" id="mix-verdict">
-              {mix.value.issues.length === 0 ? <MixVerdictMark verdict="balanced" /> : mix.value.issues.map((w) => <MixVerdictMark key={w} verdict={w} />)}
+              {check.issues.length === 0 ? <MixVerdictMark verdict="balanced" /> : check.issues.map((w) => <MixVerdictMark key={w} verdict={w} />)}
             </div>
           )}
         </div>
-        {!mix ? (
-          <p className="text-sm text-soil-700">Add items to see the mix&apos;s moisture and C:N.</p>
-        ) : !mix.ok ? (
-          <p className="text-sm" id="mix-waiting">
-            Can&apos;t check the mix yet. {failedRow ? `${failedRow.name || "The unnamed item"}: ` : ""}
-            {mix.error.message}
+        {known && known.waiting.length > 0 && (
+          <ul id="mix-waiting" aria-label="Not counted yet" className="text-sm">
+            {known.waiting.map((w) => (
+              <li key={w.index}>
+                Not counted yet: {rowName(w.index)}: {w.message}
+              </li>
+            ))}
+          </ul>
+        )}
+        {!check ? (
+          <p className="text-sm text-soil-700">
+            {rows.length ? "Give the values asked for above to see the mix's moisture and C:N." : "Add items to see the mix's moisture and C:N."}
           </p>
         ) : (
           <dl className="mt-1 grid grid-cols-3 gap-2">
             <div>
               <dt className="text-xs tracking-wide text-soil-700 uppercase">Total</dt>
               <dd id="mix-total" className="tabular text-xl font-bold">
-                {formatMass(mix.value.totalMassKg, system, { digits: 2 })}
+                {formatMass(check.totalMassKg, system, { digits: 2 })}
               </dd>
             </div>
             <div>
               <dt className="text-xs tracking-wide text-soil-700 uppercase">Moisture</dt>
               <dd className="tabular text-xl font-bold">
-                <span id="mix-moisture">{formatNumber(mix.value.moisturePct, 1)}</span> %
+                <span id="mix-moisture">{formatNumber(check.moisturePct, 1)}</span> %
               </dd>
             </div>
             <div>
               <dt className="text-xs tracking-wide text-soil-700 uppercase">C:N</dt>
               <dd id="mix-cn" className="tabular text-xl font-bold">
-                {mix.value.cn == null ? "—" : formatNumber(mix.value.cn, 1)}
+                {check.cn == null ? "—" : formatNumber(check.cn, 1)}
               </dd>
             </div>
           </dl>
         )}
+        {loadWords ? (
+          <div
+            id="feeding-load"
+            role="group"
+            aria-label="Load for this bin"
+            className={`mt-2 rounded-lg p-2 text-sm ${loadWords.heavy ? "bg-clay-100 ring-1 ring-clay-700" : "bg-paper"}`}
+          >
+            <p className="flex items-start gap-1">
+              {loadWords.heavy && <Mark name="heat" />}
+              <span>
+                <span className="font-bold">Load: </span>
+                {loadWords.lines.join(" ")}
+              </span>
+            </p>
+            {loadWords.heavy && (
+              <p className="mt-1">Watch the zone&apos;s temperature for a day or two; a heating bed can give off ammonia, so air a closed room.</p>
+            )}
+            {(!forLoad || forLoad.areaM2 === null) && (
+              <p className="mt-1">
+                <Link href={sizeHref} className="underline underline-offset-4">
+                  Add the bin&apos;s size to weigh feedings against it
+                </Link>
+              </p>
+            )}
+          </div>
+        ) : (
+          (!forLoad || forLoad.areaM2 === null) && (
+            <p className="mt-2 text-sm">
+              <Link href={sizeHref} className="underline underline-offset-4">
+                Add the bin&apos;s size to weigh feedings against it
+              </Link>
+            </p>
+          )
+        )}
       </section>
-      {mix?.ok && (
+      {check && (
         <div aria-label="What would balance the mix" role="group" className="rounded-xl p-3 ring-1 ring-soil-300">
           <p className="text-sm text-soil-700">
             Worm bed aim: moisture {WORM_BED_TARGET.moisturePct.low}–{WORM_BED_TARGET.moisturePct.high} %, C:N {WORM_BED_TARGET.cn.low}–

@@ -8,6 +8,9 @@
 //   V = read in the source; V-2nd = seen only in a copy of the source's table; M = a usual value,
 //   not checked against a published table; gap = no published value found (measure it, or use a
 //   supplier's analysis). ingredientSourceWords says each to a keeper.
+// Every row the library offers has moisture, carbon and nitrogen, so the mix check always runs on it;
+// a row with no published value is kept (old feedings may name it) but `excluded` and never offered:
+// the keeper adds their supplier's analysis as the farm's own ingredient instead.
 // Published values spread widely (coffee grounds C:N 12 vs 20): keepers override per batch.
 
 export type IngredientKind = "bedding" | "feedstock" | "water";
@@ -24,11 +27,15 @@ export type Ingredient = {
   source: string;
   sourceStatus: SourceStatus;
   note?: string;
+  /** Why the library does not offer it (no published value); the form offers only rows without it. */
+  excluded?: string;
 };
 
 const RYNK = "On-Farm Composting Handbook (NRAES-54), Rynk et al. 1992, Appendix A table of raw materials";
 const COMMON = "common practice";
 const CORNELL_CHEM = "Cornell Waste Management Institute, 'Compost Chemistry' (c. 1996)";
+const NO_VALUE = "No published value verified";
+const NOT_OFFERED = "No published moisture, carbon and nitrogen: add your supplier's analysis, or your own measurement, as your farm's own ingredient.";
 
 export const ingredients: readonly Ingredient[] = [
   {
@@ -59,13 +66,13 @@ export const ingredients: readonly Ingredient[] = [
     key: "mixed-paper",
     name: "Mixed paper",
     kind: "bedding",
-    moisturePct: null,
-    carbonPct: null,
-    nitrogenPct: null,
+    moisturePct: 19,
+    carbonPct: 39.375,
+    nitrogenPct: 0.225,
     cn: 175,
-    source: `${CORNELL_CHEM}: 150–200 (midpoint shown)`,
-    sourceStatus: "V",
-    note: "No published moisture or nitrogen found; office paper specifically has no verified value.",
+    source: `${CORNELL_CHEM}: C:N 150–200 (midpoint); ${RYNK}, paper from domestic refuse: moisture 18–20 %, 0.2–0.25 % N (midpoints); %C derived (C:N × %N)`,
+    sourceStatus: "V-2nd",
+    note: "The handbook's paper from domestic refuse has C:N 127–178. Office paper specifically has no verified value.",
   },
   {
     key: "straw",
@@ -121,9 +128,11 @@ export const ingredients: readonly Ingredient[] = [
     moisturePct: null,
     carbonPct: null,
     nitrogenPct: null,
-    cn: 58,
-    source: COMMON,
-    sourceStatus: "M",
+    cn: null,
+    source: NO_VALUE,
+    sourceStatus: "gap",
+    note: "A C:N of 58 circulates in lists without a source; no moisture or nitrogen was found.",
+    excluded: NOT_OFFERED,
   },
   {
     key: "coconut-coir",
@@ -133,9 +142,10 @@ export const ingredients: readonly Ingredient[] = [
     carbonPct: null,
     nitrogenPct: null,
     cn: null,
-    source: "No published value verified",
+    source: NO_VALUE,
     sourceStatus: "gap",
     note: "Measure it, or use the supplier's analysis.",
+    excluded: NOT_OFFERED,
   },
   {
     key: "vegetable-scraps",
@@ -154,12 +164,13 @@ export const ingredients: readonly Ingredient[] = [
     name: "Fruit waste",
     kind: "feedstock",
     moisturePct: 80,
-    carbonPct: null,
-    nitrogenPct: null,
+    carbonPct: 56,
+    nitrogenPct: 1.4,
     cn: 40,
-    source: RYNK,
-    sourceStatus: "V-2nd",
-    note: "The handbook's range: C:N 20–49, moisture 62–88 %. No %N found.",
+    // %N 1.4 is recalled from the same handbook table (typical of 0.9–2.6), not read in it: status M.
+    source: `${RYNK} (C:N, moisture); %N common practice; %C derived (C:N × %N)`,
+    sourceStatus: "M",
+    note: "The handbook's range: C:N 20–49, moisture 62–88 %.",
   },
   {
     key: "coffee-grounds",
@@ -231,6 +242,25 @@ export const ingredients: readonly Ingredient[] = [
     sourceStatus: "V",
   },
 ];
+
+/** The rows the library offers in the feeding form: all three values, none excluded. */
+export const offeredIngredients: readonly Ingredient[] = ingredients.filter((i) => !i.excluded);
+
+/** Whether a row of the ingredients table may be offered in the feeding form: a farm's own always
+ * (the form asks for what it lacks); the shared library's only with moisture, nitrogen and carbon or
+ * C:N, and not marked as having no published value. */
+export function isOffered(row: {
+  farmId: string | null;
+  sourceStatus: string | null;
+  moisturePct: number | null;
+  carbonPct: number | null;
+  nitrogenPct: number | null;
+  cn: number | null;
+}): boolean {
+  if (row.farmId !== null) return true;
+  if (row.sourceStatus === "gap") return false;
+  return row.moisturePct != null && row.nitrogenPct != null && (row.carbonPct != null || row.cn != null);
+}
 
 /** Where an ingredient's values come from, worded for a keeper: "Checked against: …", "A usual
  * value; not checked against a published table", and so on. */

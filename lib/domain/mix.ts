@@ -173,6 +173,47 @@ export function checkMix(items: readonly MixItem[], target: MixTarget = WORM_BED
   });
 }
 
+/** An item the mix check could not count yet, and what it needs, in a keeper's words. */
+export type MixWaiting = { index: number; field: string; message: string };
+/** The check over every item whose values are known; the others wait, each saying what it lacks. */
+export type MixAsFarAsKnown = { check: MixCheck | null; counted: number[]; waiting: MixWaiting[] };
+
+const missing = (v: unknown) => v === undefined || (typeof v === "number" && Number.isNaN(v));
+
+/** What an item lacks, asked for in plain words, or null when nothing is missing (a value may still be wrong). */
+function askFor(item: MixItem): { field: string; message: string } | null {
+  if (missing(item.massKg)) return { field: "massKg", message: "type its mass." };
+  if (missing(item.moisturePct)) return { field: "moisturePct", message: "give its moisture (the % of its weight that is water)." };
+  if (item.moisturePct === 100) return null;
+  if (missing(item.nitrogenPct)) return { field: "nitrogenPct", message: "give its nitrogen (% of dry mass), from the supplier's analysis or a lab report." };
+  if (missing(item.carbonPct) && missing(item.cn)) return { field: "cn", message: "give its C:N (or its carbon, % of dry mass)." };
+  return null;
+}
+
+/**
+ * The mix check for a form being filled in: it runs over the items whose values are known, and
+ * names each other item with what it needs, so one blank field never hides the whole check.
+ * An item left out changes the answer: the form says which items are not counted yet.
+ */
+export function checkMixAsFarAsKnown(items: readonly MixItem[], target: MixTarget = WORM_BED_TARGET): MixAsFarAsKnown {
+  const counted: number[] = [];
+  const waiting: MixWaiting[] = [];
+  items.forEach((item, index) => {
+    const ask = askFor(item);
+    if (ask) return waiting.push({ index, field: `items.${index}.${ask.field}`, message: ask.message });
+    const r = checkItem(item, `items.${index}`, true);
+    if (!r.ok) return waiting.push({ index, ...r.error });
+    if (r.value.massKg > 0) counted.push(index);
+  });
+  const result = counted.length
+    ? checkMix(
+        counted.map((i) => items[i]!),
+        target,
+      )
+    : null;
+  return { check: result?.ok ? result.value : null, counted, waiting };
+}
+
 /** F2, for a whole mix: kg of `amendment` (a dry bedding, or WATER) that brings it to the target moisture. */
 export function amendmentForMoisture(items: readonly MixItem[], amendment: Amendment, targetPct: number): Result<number> {
   const checked = checkItems(items, false);

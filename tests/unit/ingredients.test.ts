@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { ingredientSourceWords, ingredients } from "@/lib/domain/ingredients";
+import { ingredientSourceWords, ingredients, isOffered, offeredIngredients } from "@/lib/domain/ingredients";
 import { checkMix, type MixItem } from "@/lib/domain/mix";
 
 describe("ingredient library", () => {
@@ -61,11 +61,43 @@ describe("ingredient library", () => {
     for (const i of ingredients) expect(ingredientSourceWords(i.source, i.sourceStatus), i.key).not.toMatch(/read in the source|from memory|\(V(-2nd)?\)/);
   });
 
-  it("every complete row works in a mix check", () => {
+  it("every row the library offers has moisture, carbon and nitrogen, and works in a mix check; the rest are excluded", () => {
     for (const i of ingredients) {
-      if (i.moisturePct === null || i.nitrogenPct === null || i.cn === null) continue;
-      const item: MixItem = { name: i.name, massKg: 1, moisturePct: i.moisturePct, nitrogenPct: i.nitrogenPct, cn: i.cn };
+      if (i.kind === "water") continue;
+      if (i.excluded) {
+        // excluded = no published value: status "gap", no numbers, never offered
+        expect(i, i.key).toMatchObject({ sourceStatus: "gap", moisturePct: null, carbonPct: null, nitrogenPct: null });
+        expect(offeredIngredients, i.key).not.toContain(i);
+        continue;
+      }
+      expect([i.moisturePct, i.carbonPct, i.nitrogenPct, i.cn], i.key).not.toContain(null);
+      expect(i.sourceStatus, i.key).not.toBe("gap");
+      const item: MixItem = { name: i.name, massKg: 1, moisturePct: i.moisturePct!, nitrogenPct: i.nitrogenPct!, carbonPct: i.carbonPct! };
       expect(checkMix([item]).ok, i.key).toBe(true);
+      expect(isOffered({ ...i, farmId: null }), i.key).toBe(true);
     }
+  });
+
+  it("the ingredients a keeper found missing: fruit waste, mixed paper offered with sources; peat moss and coconut coir excluded", () => {
+    const byKey = new Map(ingredients.map((i) => [i.key, i]));
+    // Rynk et al. NRAES-54 App. A, fruit wastes: C:N 40, moisture 80 % (V-2nd); %N 1.4 from memory (so status M); %C derived
+    expect(byKey.get("fruit-waste")).toMatchObject({ cn: 40, moisturePct: 80, nitrogenPct: 1.4, carbonPct: 56, sourceStatus: "M" });
+    expect(byKey.get("fruit-waste")!.source).toMatch(/%N common practice.*derived/);
+    // Cornell "Compost Chemistry": mixed paper 150–200 (V); Rynk App. A paper from domestic refuse: 18–20 %, 0.2–0.25 % N (V-2nd)
+    expect(byKey.get("mixed-paper")).toMatchObject({ cn: 175, moisturePct: 19, nitrogenPct: 0.225, sourceStatus: "V-2nd" });
+    expect(byKey.get("mixed-paper")!.source).toMatch(/Cornell.*domestic refuse.*derived/);
+    // no published moisture, carbon and nitrogen found for coconut coir; peat moss's C:N 58 only from an unattributed list
+    expect(byKey.get("coconut-coir")!.excluded).toMatch(/supplier's analysis/);
+    expect(byKey.get("peat-moss")!.excluded).toMatch(/supplier's analysis/);
+  });
+
+  it("the feeding form offers a farm's own ingredient even with a value missing, and no library row without values", () => {
+    const row = { farmId: null, sourceStatus: "V", moisturePct: 80, carbonPct: null, nitrogenPct: 1, cn: 20 };
+    expect(isOffered(row)).toBe(true);
+    expect(isOffered({ ...row, nitrogenPct: null })).toBe(false);
+    expect(isOffered({ ...row, sourceStatus: "gap" })).toBe(false);
+    // a database seeded before this change still holds peat moss's old C:N: its status says gap, so it is not offered
+    expect(isOffered({ ...row, sourceStatus: "gap", moisturePct: null, nitrogenPct: null, cn: 58 })).toBe(false);
+    expect(isOffered({ ...row, farmId: "f1", moisturePct: 70, nitrogenPct: null, cn: null })).toBe(true);
   });
 });

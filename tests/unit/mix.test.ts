@@ -1,6 +1,17 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { WATER, WORM_BED_TARGET, amendmentForMoisture, beddingForCn, checkMix, mixCarbonToNitrogen, mixMoisture, type MixItem } from "@/lib/domain/mix";
+import {
+  WATER,
+  WORM_BED_TARGET,
+  amendmentForMoisture,
+  beddingForCn,
+  checkMix,
+  checkMixAsFarAsKnown,
+  mixCarbonToNitrogen,
+  mixMoisture,
+  type MixItem,
+} from "@/lib/domain/mix";
+import { ingredients } from "@/lib/domain/ingredients";
 import type { Result } from "@/lib/domain/result";
 
 function value<T>(r: Result<T>): T {
@@ -233,5 +244,60 @@ describe("properties", () => {
         },
       ),
     );
+  });
+});
+
+describe("the mix check always runs for the library", () => {
+  const lib = (key: string, massKg: number): MixItem => {
+    const i = ingredients.find((x) => x.key === key)!;
+    return { name: i.name, massKg, moisturePct: i.moisturePct!, carbonPct: i.carbonPct!, nitrogenPct: i.nitrogenPct! };
+  };
+
+  it("fruit waste with mixed paper: moisture 69.8 %, C:N 55.5", () => {
+    // Inputs: Rynk et al. NRAES-54 App. A fruit wastes (C:N 40, 80 %; %N 1.4 from memory) and mixed paper
+    // (Cornell C:N 175; Rynk paper from domestic refuse 19 %, 0.225 % N). Recomputed by hand (F1, F3):
+    // water 10·0.80 + 2·0.19 = 8.38 of 12 kg; C 2·0.56 + 1.62·0.39375 = 1.757875, N 2·0.014 + 1.62·0.00225 = 0.031645
+    const check = value(checkMix([lib("fruit-waste", 10), lib("mixed-paper", 2)]));
+    expect(check.moisturePct).toBeCloseTo(69.8333, 3);
+    expect(check.carbonKg).toBeCloseTo(1.757875, 9);
+    expect(check.nitrogenKg).toBeCloseTo(0.031645, 9);
+    expect(check.cn).toBeCloseTo(55.5498, 3);
+    expect(check.issues).toEqual(["too dry", "too rich in carbon"]);
+  });
+
+  it("peat moss, with no published value, is asked for rather than stopping the check", () => {
+    // a keeper's own peat moss entry with moisture but no nitrogen yet (no published values found)
+    const peat: MixItem = { name: "Peat moss", massKg: 1, moisturePct: 45 };
+    const known = checkMixAsFarAsKnown([lib("fruit-waste", 10), peat, lib("mixed-paper", 2)]);
+    expect(known.counted).toEqual([0, 2]);
+    expect(known.waiting).toEqual([{ index: 1, field: "items.1.nitrogenPct", message: expect.stringMatching(/^give its nitrogen \(% of dry mass\)/) }]);
+    expect(known.check!.cn).toBeCloseTo(55.5498, 3);
+    // with its values given it is counted like any other item
+    const given = checkMixAsFarAsKnown([lib("fruit-waste", 10), { ...peat, nitrogenPct: 1, cn: 50 }, lib("mixed-paper", 2)]);
+    expect(given.waiting).toEqual([]);
+    expect(given.check!.totalMassKg).toBe(13);
+  });
+
+  it("asks in plain words for a blank mass, moisture or C:N, and still names a wrong value", () => {
+    const known = checkMixAsFarAsKnown([
+      { name: "a", massKg: Number.NaN, moisturePct: 80, nitrogenPct: 1, cn: 20 },
+      { name: "b", massKg: 1, moisturePct: Number.NaN, nitrogenPct: 1, cn: 20 },
+      { name: "c", massKg: 1, moisturePct: 80, nitrogenPct: 1 },
+      { name: "d", massKg: 1, moisturePct: 180, nitrogenPct: 1, cn: 20 },
+      { name: "e", massKg: 1, moisturePct: 80, nitrogenPct: 1, cn: 20 },
+    ]);
+    expect(known.waiting.map((w) => [w.field, w.message])).toEqual([
+      ["items.0.massKg", "type its mass."],
+      ["items.1.moisturePct", "give its moisture (the % of its weight that is water)."],
+      ["items.2.cn", "give its C:N (or its carbon, % of dry mass)."],
+      ["items.3.moisturePct", "Moisture must be between 0 and 100 %."],
+    ]);
+    expect(known.counted).toEqual([4]);
+    expect(known.check!.cn).toBeCloseTo(20, 10);
+  });
+
+  it("with nothing countable there is no check, and no NaN", () => {
+    const known = checkMixAsFarAsKnown([{ name: "a", massKg: 0, moisturePct: 80, nitrogenPct: 1, cn: 20 }]);
+    expect(known).toEqual({ check: null, counted: [], waiting: [] });
   });
 });

@@ -4,7 +4,7 @@ import { readJson } from "@/lib/web/errors";
 import { archiveBinAs } from "@/lib/server/bins/archive-bin";
 import { editBin } from "@/lib/server/bins/edit-bin";
 import { readBin } from "@/lib/server/bins/read-bin";
-import { binPatch } from "@/lib/domain/validation/farm";
+import { binPatchFor } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ binId: string }> };
 
@@ -18,8 +18,8 @@ export const GET = route(async (_req, { params }: Ctx) => {
 // PATCH /api/bins/[binId] — owners edit a bin; {"archived": false} brings an archived bin back
 export const PATCH = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
-  await requireMember({ binId }, "manage");
-  const input = binPatch.parse(await readJson(req));
+  const who = await requireMember({ binId }, "manage");
+  const input = binPatchFor(who.units).parse(await readJson(req));
   return Response.json(await editBin(binId, input));
 });
 

@@ -3,7 +3,7 @@ import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
 import { addBin } from "@/lib/server/bins/add-bin";
 import { listFarmBins } from "@/lib/server/bins/list-bins";
-import { binCreate, binListQuery } from "@/lib/domain/validation/farm";
+import { binCreateFor, binListQuery } from "@/lib/domain/validation/farm";
 
 type Ctx = { params: Promise<{ farmId: string }> };
 
@@ -19,6 +19,6 @@ export const GET = route(async (req, { params }: Ctx) => {
 export const POST = route(async (req, { params }: Ctx) => {
   const { farmId } = await params;
   const who = await requireMember({ farmId }, "manage");
-  const input = binCreate.parse(await readJson(req));
+  const input = binCreateFor(who.units).parse(await readJson(req));
   return Response.json(await addBin(who, input), { status: 201 });
 });

@@ -8,7 +8,7 @@ export const metadata: Metadata = { title: "Add a bin" };
 // Where the setup checklist's "Add a bin" leads: the form alone, open, and back to Today after.
 export default async function NewBinPage({ params }: { params: Promise<{ farmId: string }> }) {
   const { farmId } = await params;
-  await requirePageMember({ farmId }, "manage");
+  const who = await requirePageMember({ farmId }, "manage");
   return (
     <main className="space-y-3 p-3">
       <p className="px-1 pt-1">
@@ -16,7 +16,7 @@ export default async function NewBinPage({ params }: { params: Promise<{ farmId:
           Back to Today
         </Link>
       </p>
-      <AddBinForm farmId={farmId} startOpen heading="h1" thenGoTo={`/farms/${farmId}`} />
+      <AddBinForm farmId={farmId} startOpen heading="h1" thenGoTo={`/farms/${farmId}`} system={who.units} />
     </main>
   );
 }
