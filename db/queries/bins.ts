@@ -134,8 +134,8 @@ export async function listProbesOfBin(binId: string) {
 
 /** What a bin's cycle is told from: its last feeding; for its harvest side (null: none) the last
  * feeding there or over the whole bin, the last shift of material into it and its daily mean
- * moisture since `since`; and its harvests since `harvestsSince`, oldest first. */
-export async function getBinCycleFacts(binId: string, harvestZoneId: string | null, since: Date, harvestsSince: Date) {
+ * moisture over [since, until); and its harvests since `harvestsSince`, oldest first. */
+export async function getBinCycleFacts(binId: string, harvestZoneId: string | null, w: { since: Date; until: Date; harvestsSince: Date }) {
   const d = db();
   const [[fed], sideFed, shiftIn, daily, harvested] = await Promise.all([
     d
@@ -161,14 +161,14 @@ export async function getBinCycleFacts(binId: string, harvestZoneId: string | nu
           select to_timestamp(avg(extract(epoch from r.hour)) + 1800) as at, (sum(r.sum) / sum(r.count))::float8 as pct
           from reading_rollups r join probes p on p.id = r.probe_id
           where p.zone_id = ${harvestZoneId} and p.archived_at is null and r.metric = 'moisture'
-            and r.hour >= ${since.toISOString()}::timestamptz
-          group by date_bin('1 day', r.hour, ${new Date().toISOString()}::timestamptz)
+            and r.hour >= ${w.since.toISOString()}::timestamptz and r.hour < ${w.until.toISOString()}::timestamptz
+          group by date_bin('1 day', r.hour, ${w.until.toISOString()}::timestamptz)
           order by 1`)
       : Promise.resolve({ rows: [] }),
     d
       .select({ at: harvests.at, massKg: harvests.massKg })
       .from(harvests)
-      .where(and(eq(harvests.binId, binId), gte(harvests.at, harvestsSince)))
+      .where(and(eq(harvests.binId, binId), gte(harvests.at, w.harvestsSince)))
       .orderBy(asc(harvests.at)),
   ]);
   const at = (v: Date | string | null | undefined) => (v == null ? null : new Date(v));

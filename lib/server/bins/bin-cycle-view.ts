@@ -24,12 +24,11 @@ export async function readBinCycle(bin: CycleBin, place: { timezone: string; fee
   const farm = { ...place, timezone: timeZoneOrUtc(place.timezone) };
   const today = localDate(now, farm.timezone);
   const side = harvestSideZone(bin.style, bin.zones);
-  const facts = await getBinCycleFacts(
-    bin.id,
-    side?.id ?? null,
-    new Date(now.getTime() - TREND_DAYS * 86_400_000),
-    new Date(now.getTime() - YIELD_DAYS * 86_400_000),
-  );
+  const facts = await getBinCycleFacts(bin.id, side?.id ?? null, {
+    since: new Date(now.getTime() - TREND_DAYS * 86_400_000),
+    until: now,
+    harvestsSince: new Date(now.getTime() - YIELD_DAYS * 86_400_000),
+  });
   const interval = feedingInterval(bin.feedingIntervalDays, farm.feedingIntervalDays);
   const feeding = nextFeeding({ lastFeedingAt: facts.lastFeedingAt, intervalDays: interval.days, today, timeZone: farm.timezone });
   const estimate =
