@@ -3,7 +3,7 @@ import { Mark } from "@/components/ui/marks";
 import type { FeedingDue, HarvestEstimate } from "@/lib/domain/bin-cycle";
 import { zoneName } from "@/lib/domain/zone-words";
 
-const FEEDING_WORD: Record<FeedingDue["status"], string> = { never: "Not fed yet", later: "Next feeding", today: "Due today", overdue: "Overdue" };
+const FEEDING_WORD: Record<FeedingDue["status"], string> = { never: "Feeding", later: "Feeding", today: "Feeding: due today", overdue: "Feeding: overdue" };
 const FROM_WORDS = { bin: "this bin's own interval", farm: "the farm's interval", default: "the usual interval" } as const;
 
 /** What the bin asks of the crew next: the feeding due or overdue, the harvest side's estimate with

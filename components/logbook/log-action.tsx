@@ -63,7 +63,7 @@ export function LogAction({ choices, open, closeHref, children }: { choices: Log
         </details>
       )}
       <LogDone.Provider value={done}>{open && children}</LogDone.Provider>
-      <p role="status" aria-live="polite" className="min-h-6 text-sm font-bold text-leaf-700">
+      <p role="status" aria-live="polite" className="text-sm font-bold text-leaf-700 empty:hidden">
         {!open && said && (
           <span className="inline-flex items-center gap-1">
             <Mark name="done" />

@@ -20,7 +20,10 @@ const numberFromText = (v: unknown) =>
 const ISO_DAY = /^(\d{4})-(\d{2})-(\d{2})$/;
 const realDay = (s: string) => {
   const m = ISO_DAY.exec(s);
-  return !!m && new Date(`${s}T00:00:00Z`).toISOString().slice(0, 10) === s;
+  if (!m) return false;
+  const [y, mo, d] = [Number(m[1]), Number(m[2]), Number(m[3])];
+  const t = new Date(Date.UTC(y, mo - 1, d));
+  return t.getUTCFullYear() === y && t.getUTCMonth() === mo - 1 && t.getUTCDate() === d;
 };
 // A planned harvest within a sensible span: from 2000 to five years ahead (a bin takes months to fill).
 const plannedHarvestOn = z
