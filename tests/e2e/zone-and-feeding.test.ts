@@ -233,6 +233,10 @@ describe("the zone page and logging a feeding", () => {
     const page = await signedIn("tomas@alder-row.example");
     await page.getByRole("region", { name: "Long Bed North" }).getByRole("link", { name: "Long Bed North" }).click();
     await page.waitForURL(/\/bins\//);
+    // The feeding form opens from the bin page's Log button.
+    await page.locator('section[aria-labelledby="log-h"] summary').click();
+    await page.getByRole("list", { name: "What to log" }).getByRole("link", { name: /^Feeding/ }).click();
+    await page.waitForURL(/\?log=feeding/);
     const form = page.locator("form#log");
     const binId = page.url().split("/bins/")[1]!.split(/[?#]/)[0]!;
     const keeper = await signIn("tomas@alder-row.example", "alder-row-demo");
@@ -280,13 +284,14 @@ describe("the zone page and logging a feeding", () => {
     const page = await signedIn("class5b@alder-row.example");
     await page.getByRole("region", { name: "Long Bed North" }).getByRole("link", { name: "Long Bed North" }).click();
     await page.waitForURL(/\/bins\//);
-    const logbook = page.getByRole("list", { name: "Feedings, newest first" });
+    // The bin page's one logbook: the feeding first, with its total and mix moisture, for the whole bin.
+    const logbook = page.getByRole("list", { name: "Logbook, newest first" });
     const first = logbook.getByRole("listitem").first();
-    await expect.poll(() => first.textContent()).toContain(straw.name);
+    await expect.poll(() => first.getAttribute("data-kind")).toBe("feeding");
     const entry = (await first.textContent())!;
     expect(entry).toContain("Whole bin");
-    expect(entry).toContain(`${formatMass(0.75, "metric", { digits: 2 })} in all`);
-    expect(entry).toContain(straws.verdict);
+    expect(entry).toContain(formatMass(0.75, "metric", { digits: 2 }));
+    expect(entry).toContain(`moisture ${formatNumber(straws.moisturePct, 1)} %`);
     expect(await page.locator("form#log").count()).toBe(0);
     expect(await page.getByRole("button", { name: "Log this feeding" }).count()).toBe(0);
     await page.screenshot({ path: screenshotPath("bin-viewer"), fullPage: true });
