@@ -235,7 +235,10 @@ describe("the zone page and logging a feeding", () => {
     await page.waitForURL(/\/bins\//);
     // The feeding form opens from the bin page's Log button.
     await page.locator('section[aria-labelledby="log-h"] summary').click();
-    await page.getByRole("list", { name: "What to log" }).getByRole("link", { name: /^Feeding/ }).click();
+    await page
+      .getByRole("list", { name: "What to log" })
+      .getByRole("link", { name: /^Feeding/ })
+      .click();
     await page.waitForURL(/\?log=feeding/);
     const form = page.locator("form#log");
     const binId = page.url().split("/bins/")[1]!.split(/[?#]/)[0]!;
