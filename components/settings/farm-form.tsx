@@ -11,6 +11,7 @@ type Props = {
   name: string;
   unitSystem: UnitSystem;
   timezone: string;
+  feedingIntervalDays: number;
   zones: string[];
 };
 
@@ -19,7 +20,7 @@ const UNITS = [
   { value: "imperial", label: "Imperial (°F, lb, US gal)" },
 ] as const;
 
-export function FarmForm({ action, farmId, name, unitSystem, timezone, zones }: Props) {
+export function FarmForm({ action, farmId, name, unitSystem, timezone, feedingIntervalDays, zones }: Props) {
   const [state, formAction, pending] = useActionState(action, {});
   const [units, setUnits] = useState<UnitSystem>(unitSystem);
   const err = (f: string) => state.fieldErrors?.[f];
@@ -55,6 +56,16 @@ export function FarmForm({ action, farmId, name, unitSystem, timezone, zones }: 
           ))}
         </datalist>
       </TextField>
+      <TextField
+        label="Days between feedings"
+        hint="When each bin's next feeding is due, unless the bin has its own interval. Every few weeks is usual."
+        error={err("feedingIntervalDays")}
+        name="feedingIntervalDays"
+        inputMode="numeric"
+        defaultValue={feedingIntervalDays}
+        required
+        className="tabular h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-lg"
+      />
       <SubmitButton pending={pending} busy="Saving…" quiet>
         Save farm settings
       </SubmitButton>

@@ -189,6 +189,13 @@ export function TodayBoard({ farmId, units, canLog }: { farmId: string; units: U
                   ? ` · comfortable ${formatTemperature(species.temperatureC.comfortLow, units, { digits: 0 })}–${formatTemperature(species.temperatureC.comfortHigh, units, { digits: 0 })}`
                   : ""}
               </p>
+              <p
+                data-cycle="feeding"
+                className={`mt-1 flex items-start gap-1.5 text-sm ${bin.feeding.status === "overdue" || bin.feeding.status === "today" ? "font-bold text-clay-700" : "text-soil-700"}`}
+              >
+                <Mark name="feeding" className="mt-1 shrink-0" />
+                <span>{bin.feeding.words}</span>
+              </p>
             </header>
             {bin.zones.length === 0 ? (
               <p className="text-soil-700">This bin has no zones.</p>

@@ -1,6 +1,6 @@
-import { and, asc, eq, isNull, sql } from "drizzle-orm";
+import { and, asc, eq, gte, isNull, max, or, sql } from "drizzle-orm";
 import { db } from "@/db";
-import { bins, zones, type BinStyle, type Zone, type ZoneKind } from "@/db/schema";
+import { bins, feedings, harvests, probes, shifts, zones, type BinStyle, type Zone, type ZoneKind } from "@/db/schema";
 import { hasChanges } from "./patch";
 
 export async function listBins(farmId: string, opts: { includeArchived?: boolean } = {}) {
@@ -110,4 +110,77 @@ export async function archiveZone(id: string) {
 export async function binOfZone(zoneId: string): Promise<string | null> {
   const [z] = await db().select({ binId: zones.binId }).from(zones).where(eq(zones.id, zoneId));
   return z?.binId ?? null;
+}
+
+/** When each bin of a farm was last fed, in any zone: Today and the digest count the next feeding from it. */
+export async function lastFeedingsOfFarm(farmId: string): Promise<Map<string, Date>> {
+  const rows = await db()
+    .select({ binId: feedings.binId, at: max(feedings.at) })
+    .from(feedings)
+    .where(eq(feedings.farmId, farmId))
+    .groupBy(feedings.binId);
+  return new Map(rows.filter((r) => r.at).map((r) => [r.binId, new Date(r.at!)]));
+}
+
+/** The live probes placed in a bin's zones, for a form that records a sample beside one. */
+export async function listProbesOfBin(binId: string) {
+  return db()
+    .select({ id: probes.id, code: probes.code, label: probes.label, zoneId: probes.zoneId })
+    .from(probes)
+    .innerJoin(zones, eq(zones.id, probes.zoneId))
+    .where(and(eq(zones.binId, binId), isNull(zones.archivedAt), isNull(probes.archivedAt)))
+    .orderBy(asc(zones.position), asc(probes.code));
+}
+
+/** What a bin's cycle is told from: its last feeding; for its harvest side (null: none) the last
+ * feeding there or over the whole bin, the last shift of material into it and its daily mean
+ * moisture over [since, until); and its harvests since `harvestsSince`, oldest first. */
+export async function getBinCycleFacts(binId: string, harvestZoneId: string | null, w: { since: Date; until: Date; harvestsSince: Date }) {
+  const d = db();
+  const [[fed], sideFed, shiftIn, daily, harvested] = await Promise.all([
+    d
+      .select({ at: max(feedings.at) })
+      .from(feedings)
+      .where(eq(feedings.binId, binId)),
+    harvestZoneId
+      ? d
+          .select({ at: max(feedings.at) })
+          .from(feedings)
+          .where(and(eq(feedings.binId, binId), or(eq(feedings.zoneId, harvestZoneId), isNull(feedings.zoneId))))
+      : Promise.resolve([]),
+    harvestZoneId
+      ? d
+          .select({ at: max(shifts.at) })
+          .from(shifts)
+          .where(and(eq(shifts.binId, binId), eq(shifts.toZoneId, harvestZoneId)))
+      : Promise.resolve([]),
+    // Daily means from the hourly rollups, in 24-hour windows ending now (date_bin has no Drizzle
+    // word), each dated at the mean of its hours so a part-day window sits where its readings are.
+    harvestZoneId
+      ? d.execute(sql`
+          select to_timestamp(avg(extract(epoch from r.hour)) + 1800) as at, (sum(r.sum) / sum(r.count))::float8 as pct
+          from reading_rollups r join probes p on p.id = r.probe_id
+          where p.zone_id = ${harvestZoneId} and p.archived_at is null and r.metric = 'moisture'
+            and r.hour >= ${w.since.toISOString()}::timestamptz and r.hour < ${w.until.toISOString()}::timestamptz
+          group by date_bin('1 day', r.hour, ${w.until.toISOString()}::timestamptz)
+          order by 1`)
+      : Promise.resolve({ rows: [] }),
+    d
+      .select({ at: harvests.at, massKg: harvests.massKg })
+      .from(harvests)
+      .where(and(eq(harvests.binId, binId), gte(harvests.at, w.harvestsSince)))
+      .orderBy(asc(harvests.at)),
+  ]);
+  const at = (v: Date | string | null | undefined) => (v == null ? null : new Date(v));
+  return {
+    lastFeedingAt: at(fed?.at),
+    harvestSide: harvestZoneId
+      ? {
+          lastFeedingAt: at(sideFed[0]?.at),
+          lastShiftInAt: at(shiftIn[0]?.at),
+          moisture: (daily.rows as { at: Date | string; pct: number }[]).map((r) => ({ at: new Date(r.at), pct: Number(r.pct) })),
+        }
+      : null,
+    harvests: harvested,
+  };
 }

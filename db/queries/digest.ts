@@ -1,6 +1,7 @@
 import { and, eq, inArray, isNull, or, lt, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { bins, farms, zones } from "@/db/schema";
+import { lastFeedingsOfFarm } from "./bins";
 
 export async function listFarmsForDigest(farmIds?: string[]) {
   return db()
@@ -32,12 +33,13 @@ export type DigestAlertCount = { binId: string; kind: string; level: string; rai
 export type DigestFeedings = { binId: string; count: number; totalKg: number | null };
 
 // One farm's day, [from, to): bins and zones, per-zone ranges from the hourly rollups, alerts raised
-// and settled, feedings logged.
+// and settled, feedings logged; and for the next feeding, each bin's interval, the farm's and the
+// last feeding of each bin, whenever it was.
 export async function getDigestData(farmId: string, from: Date, to: Date) {
   const d = db();
-  const [binRows, zoneRows, ranges, alertRows, feedingRows] = await Promise.all([
+  const [binRows, zoneRows, ranges, alertRows, feedingRows, lastFed, [farm]] = await Promise.all([
     d
-      .select({ id: bins.id, name: bins.name })
+      .select({ id: bins.id, name: bins.name, feedingIntervalDays: bins.feedingIntervalDays })
       .from(bins)
       .where(and(eq(bins.farmId, farmId), isNull(bins.archivedAt)))
       .orderBy(bins.name),
@@ -69,6 +71,8 @@ export async function getDigestData(farmId: string, from: Date, to: Date) {
       from feedings
       where farm_id = ${farmId} and at >= ${from.toISOString()} and at < ${to.toISOString()}
       group by 1`),
+    lastFeedingsOfFarm(farmId),
+    d.select({ feedingIntervalDays: farms.feedingIntervalDays }).from(farms).where(eq(farms.id, farmId)),
   ]);
   return {
     bins: binRows,
@@ -76,6 +80,8 @@ export async function getDigestData(farmId: string, from: Date, to: Date) {
     ranges: ranges.rows as DigestZoneRange[],
     alerts: alertRows.rows as DigestAlertCount[],
     feedings: feedingRows.rows as DigestFeedings[],
+    lastFeedings: [...lastFed].map(([binId, at]) => ({ binId, at })),
+    farmFeedingIntervalDays: farm?.feedingIntervalDays ?? null,
   };
 }
 

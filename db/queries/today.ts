@@ -1,7 +1,10 @@
 import { sql } from "drizzle-orm";
 import { db } from "@/db";
+import { feedingInterval, localDate, nextFeeding } from "@/lib/domain/bin-cycle";
+import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 import { listAlerts } from "./alerts";
-import { listBins } from "./bins";
+import { lastFeedingsOfFarm, listBins } from "./bins";
+import { getFarm } from "./farms";
 
 export type ZoneLatest = { zoneId: string; metric: string; ts: string; value: number };
 export type SparkPoint = { zoneId: string; metric: string; t: string; v: number };
@@ -57,18 +60,31 @@ export function sparkEndingAt(buckets: SparkSeries, latest: { ts: string; value:
   return [...before, [latest.ts, latest.value] as const];
 }
 
-export async function getToday(farmId: string, hours = 24) {
-  const since = new Date(Date.now() - hours * 3_600_000);
-  const [binList, latest, spark, open] = await Promise.all([
+export async function getToday(farmId: string, hours = 24, now = new Date()) {
+  const since = new Date(now.getTime() - hours * 3_600_000);
+  const [binList, latest, spark, open, farm, lastFed] = await Promise.all([
     listBins(farmId),
     latestByZone(farmId),
     sparklines(farmId, since),
     listAlerts(farmId, { open: true }),
+    getFarm(farmId),
+    lastFeedingsOfFarm(farmId),
   ]);
+  const timeZone = timeZoneOrUtc(farm?.timezone ?? "UTC");
+  const today = localDate(now, timeZone);
+  // Each bin's next feeding, on its own interval or the farm's (lib/domain/bin-cycle.ts).
+  const feedingOf = (b: { id: string; feedingIntervalDays: number | null }) =>
+    nextFeeding({
+      lastFeedingAt: lastFed.get(b.id) ?? null,
+      intervalDays: feedingInterval(b.feedingIntervalDays, farm?.feedingIntervalDays).days,
+      today,
+      timeZone,
+    });
   const series = (zoneId: string, metric: string) => spark.filter((s) => s.zoneId === zoneId && s.metric === metric).map((s) => [s.t, s.v] as const);
   return {
     bins: binList.map((b) => ({
       ...b,
+      feeding: feedingOf(b),
       zones: b.zones.map((z) => {
         const mine: Record<string, { ts: string; value: number }> = Object.fromEntries(
           latest.filter((l) => l.zoneId === z.id).map((l) => [l.metric, { ts: l.ts, value: l.value }]),

@@ -35,7 +35,8 @@ describe("logging water on the bin page", () => {
     await page.getByLabel("Password").fill("alder-row-demo");
     await page.getByRole("button", { name: "Sign in" }).click();
     await page.waitForURL(/\/farms\//);
-    await page.goto(`${appUrl()}/farms/${crew.farmId}/bins/${bin.id}`);
+    // The water form opens from the bin page's Log button; its kind is in the address.
+    await page.goto(`${appUrl()}/farms/${crew.farmId}/bins/${bin.id}?log=water`);
 
     const form = page.locator("form", { has: page.getByRole("heading", { name: "Log water" }) });
     await form.getByLabel(/^Water \(L\)/).fill("-2");
@@ -46,8 +47,12 @@ describe("logging water on the bin page", () => {
     await form.getByLabel("Where").selectOption({ label: "Working zone" });
     await form.getByLabel(/^Water \(L\)/).fill("1,5");
     await form.getByLabel("Notes (optional)").fill("bed felt dry");
+    await form.scrollIntoViewIfNeeded();
+    await page.screenshot({ path: screenshotPath("log-water-form"), fullPage: false });
     await form.getByRole("button", { name: "Log water" }).click();
-    await expect.poll(() => form.getByRole("status").textContent()).toContain("Water logged.");
+    // Once logged the form closes and the Log panel says what was logged.
+    await expect.poll(() => page.getByRole("region", { name: "Log work" }).getByRole("status").textContent()).toContain("Water logged.");
+    await expect.poll(() => form.count()).toBe(0);
 
     const log = page.getByRole("list", { name: "Logbook, newest first" });
     const first = log.locator("li").first();
@@ -66,8 +71,6 @@ describe("logging water on the bin page", () => {
 
     await first.scrollIntoViewIfNeeded();
     await page.screenshot({ path: screenshotPath("log-water-logbook"), fullPage: false });
-    await form.scrollIntoViewIfNeeded();
-    await page.screenshot({ path: screenshotPath("log-water-form"), fullPage: false });
 
     // Undo takes it away again.
     await first.getByRole("button", { name: /Undo/ }).click();

@@ -39,7 +39,7 @@ describe("farm-local days", () => {
 
 describe("the digest text", () => {
   const data: DigestData = {
-    bins: [{ id: "b1", name: "Shed Tote" }],
+    bins: [{ id: "b1", name: "Shed Tote", feedingIntervalDays: null }],
     zones: [
       { id: "z1", binId: "b1", kind: "working", name: null, position: 1 },
       { id: "z2", binId: "b1", kind: "curing", name: "Harvest end", position: 2 },
@@ -53,6 +53,9 @@ describe("the digest text", () => {
       { binId: "b1", kind: "heat", level: "heads_up", raised: 2, settled: 1 },
     ],
     feedings: [{ binId: "b1", count: 1, totalKg: 4.5359237 }],
+    // 10:00Z on 20 Jan is 04:00 on 20 Jan in Chicago; on the farm's 21 days the next is due 10 Feb.
+    lastFeedings: [{ binId: "b1", at: new Date("2026-01-20T10:00:00Z") }],
+    farmFeedingIntervalDays: 21,
   };
 
   it("uses the farm's units: °F and lb for an imperial farm", () => {
@@ -68,6 +71,8 @@ describe("the digest text", () => {
     expect(d.text).toContain("  Harvest end: no readings\n");
     expect(d.text).toContain(`  Alerts: 3 raised (2 heads-up heat, 1 heads-up soggy), 1 settled\n  ${cautionFor("heat")}\n`);
     expect(d.text).toContain("  Feedings: 1 logged, 10.0 lb in all\n");
+    // The digest of 3 Feb is read on 4 Feb: 6 days before 10 Feb.
+    expect(d.text).toContain("  Next feeding due 10 Feb, in 6 days (last fed 20 Jan, every 21 days).\n");
     expect(d.text).toContain("Open Today: http://app.test/farms/f1");
     // The handling cautions close every digest.
     expect(d.text).toContain(`${CASTINGS_NOT_FOOD} ${WASH_HANDS} ${LOCAL_CODES}`);
@@ -90,6 +95,21 @@ describe("the digest text", () => {
     expect(render([{ binId: "b1", kind: "soggy", level: "heads_up", raised: 1, settled: 0 }]).text).not.toContain("closed room");
     // Settled only, none raised that day: nothing to warn of.
     expect(render([{ binId: "b1", kind: "heat", level: "heads_up", raised: 0, settled: 1 }]).text).not.toContain("closed room");
+  });
+
+  it("says a bin's feeding overdue on its own interval, or that it was never fed", () => {
+    const render = (over: Partial<DigestData>) =>
+      renderDigest({
+        farm: { id: "f1", name: "Back Yard", unitSystem: "metric", timezone: "UTC" },
+        date: "2026-02-03",
+        data: { ...data, ...over },
+        appUrl: "http://app.test",
+      });
+    // Own interval 10 days: 20 Jan + 10 = 30 Jan; read on 4 Feb, 5 days late.
+    expect(render({ bins: [{ id: "b1", name: "Shed Tote", feedingIntervalDays: 10 }] }).text).toContain(
+      "  Feeding overdue by 5 days: it was due 30 Jan (last fed 20 Jan, every 10 days).\n",
+    );
+    expect(render({ lastFeedings: [] }).text).toContain("  No feeding logged yet (fed every 21 days).\n");
   });
 
   it("escapes names in the HTML part", () => {

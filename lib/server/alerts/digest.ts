@@ -10,6 +10,8 @@ import { localClock, zonedToUtc } from "@/lib/domain/clock";
 import { KIND_WORDS, LEVEL_WORDS, cautionFor } from "../../domain/alert-words";
 import { zoneName } from "@/lib/domain/zone-words";
 import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
+import { feedingInterval, nextFeeding } from "@/lib/domain/bin-cycle";
+import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 
 export { localClock };
 
@@ -35,7 +37,9 @@ function range(min: number, max: number, unit: string, digits: number) {
 
 type BinSummary = { name: string; lines: string[] };
 
-export function summarize(data: DigestData, units: UnitSystem): BinSummary[] {
+/** Each bin's lines; `readOn` is the farm-local day the digest is read (the day after the one it
+ * tells), from which the next feeding is counted. */
+export function summarize(data: DigestData, units: UnitSystem, readOn: { today: string; timeZone: string }): BinSummary[] {
   return data.bins.map((bin) => {
     const lines: string[] = [];
     const counts = data.alerts.filter((a) => a.binId === bin.id);
@@ -63,6 +67,12 @@ export function summarize(data: DigestData, units: UnitSystem): BinSummary[] {
     }
     const f = data.feedings.find((x) => x.binId === bin.id);
     lines.push(f ? `Feedings: ${f.count} logged${f.totalKg ? `, ${formatMass(f.totalKg, units)} in all` : ""}` : "Feedings: none logged");
+    const due = nextFeeding({
+      lastFeedingAt: data.lastFeedings.find((x) => x.binId === bin.id)?.at ?? null,
+      intervalDays: feedingInterval(bin.feedingIntervalDays, data.farmFeedingIntervalDays).days,
+      ...readOn,
+    });
+    lines.push(due.words);
     return { name: bin.name, lines };
   });
 }
@@ -73,7 +83,7 @@ export function renderDigest(p: { farm: Pick<Farm, "id" | "name" | "unitSystem" 
   const word = (o: Intl.DateTimeFormatOptions) => d.toLocaleDateString("en-GB", { timeZone: "UTC", ...o });
   const dayWords = `${word({ weekday: "long" })} ${d.getUTCDate()} ${word({ month: "long" })} ${d.getUTCFullYear()}`;
   const subject = `[Wormward] ${p.farm.name}: your day, ${dayWords}`;
-  const bins = summarize(p.data, p.farm.unitSystem);
+  const bins = summarize(p.data, p.farm.unitSystem, { today: addDays(p.date, 1), timeZone: timeZoneOrUtc(p.farm.timezone) });
   const link = `${p.appUrl}/farms/${p.farm.id}`;
   const footer = `${CASTINGS_NOT_FOOD} ${WASH_HANDS} ${LOCAL_CODES}`;
   const text = [

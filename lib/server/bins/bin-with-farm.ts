@@ -6,5 +6,5 @@ import type { Who } from "@/lib/server/auth/authorize";
 export async function binWithFarm(who: Pick<Who, "farmId">, binId: string) {
   const [bin, farm] = await Promise.all([getBin(binId), getFarm(who.farmId)]);
   if (!bin || !farm) return null;
-  return { bin, farm: { name: farm.name, unitSystem: farm.unitSystem, timezone: farm.timezone } };
+  return { bin, farm: { name: farm.name, unitSystem: farm.unitSystem, timezone: farm.timezone, feedingIntervalDays: farm.feedingIntervalDays } };
 }

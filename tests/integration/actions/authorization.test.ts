@@ -53,8 +53,10 @@ type Row = {
 };
 
 const OWNER: Role[] = ["owner"];
+const CREW: Role[] = ["owner", "keeper"];
 const settings = "app/(farm)/farms/[farmId]/settings/actions.ts";
 const team = "app/(farm)/farms/[farmId]/team/actions.ts";
+const binPage = "app/(farm)/farms/[farmId]/bins/[binId]/actions.ts";
 
 let db: pg.Client;
 const q = async (sql: string, params: unknown[]) => (await db.query(sql, params)).rows;
@@ -81,6 +83,16 @@ const rows: Row[] = [
     allowed: OWNER,
     // The scratch bin starts archived for this row (see archived below).
     changed: async (i) => (await q(`select archived_at from bins where id = $1`, [i.bin]))[0].archived_at === null,
+  },
+  {
+    action: `${binPage}#saveBinCycle`,
+    page: (i) => `/farms/${i.farm}/bins/${i.bin}`,
+    fields: (i) => ({ binId: i.bin, feedingIntervalDays: "9", plannedHarvestOn: "2027-01-15" }),
+    allowed: CREW,
+    changed: async (i) => {
+      const [b] = await q(`select feeding_interval_days, planned_harvest_on::text as planned from bins where id = $1`, [i.bin]);
+      return b.feeding_interval_days === 9 && b.planned === "2027-01-15";
+    },
   },
   {
     action: `${team}#invite`,

@@ -146,14 +146,22 @@ describe("the daily digest", () => {
     expect(bed).toBeGreaterThan(-1);
     expect(tote).toBeGreaterThan(-1);
     // Bins in name order: Kitchen Tote, then Long Bed East.
-    expect(lines.slice(tote, tote + 4)).toEqual(["Kitchen Tote", "Alerts: none", "Working zone: no readings", "Feedings: none logged"]);
-    expect(lines.slice(bed, bed + 6)).toEqual([
+    expect(lines.slice(tote, tote + 5)).toEqual([
+      "Kitchen Tote",
+      "Alerts: none",
+      "Working zone: no readings",
+      "Feedings: none logged",
+      "No feeding logged yet (fed every 21 days).",
+    ]);
+    // Last fed 18:00 on 14 July (Dublin), the farm's 21 days: due 4 August, 20 days after the morning of 15 July.
+    expect(lines.slice(bed, bed + 7)).toEqual([
       "Long Bed East",
       "Alerts: 2 raised (1 act now heat, 1 heads-up drying), 2 settled",
       cautionFor("heat"),
       "Fresh zone: temperature 21.0–27.5 °C, moisture 78–82 %",
       "Curing zone: temperature 19.0–20.5 °C",
       "Feedings: 2 logged, 12.5 kg in all",
+      "Next feeding due 4 Aug, in 20 days (last fed 14 Jul, every 21 days).",
     ]);
     expect(mail!.text).toContain(`/farms/${farmId}`);
     expect(mail!.html).toContain("<h2");

@@ -15,12 +15,13 @@ export const GET = route(async (_req, { params }: Ctx) => {
   return Response.json(await readBin(binId));
 });
 
-// PATCH /api/bins/[binId] — owners edit a bin; {"archived": false} brings an archived bin back
+// PATCH /api/bins/[binId] — owners edit a bin, keepers its feeding interval and planned harvest;
+// {"archived": false} brings an archived bin back
 export const PATCH = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
-  const who = await requireMember({ binId }, "manage");
+  const who = await requireMember({ binId }, "log");
   const input = binPatchFor(who.units).parse(await readJson(req));
-  return Response.json(await editBin(binId, input));
+  return Response.json(await editBin(who, binId, input));
 });
 
 // DELETE /api/bins/[binId] — owners archive a bin (its readings and logbook stay)

@@ -14,9 +14,9 @@ const refreshFarm = (farmId: string) => revalidatePath(`/farms/${farmId}`, "layo
 
 export const saveFarm = validatedAction(farmForm, async ({ farmId, ...patch }) => {
   const who = await requireMember({ farmId }, "manage");
-  await updateFarmSettings(who, patch);
+  const farm = await updateFarmSettings(who, patch);
   refreshFarm(farmId);
-  return `Saved. Temperatures in ${UNIT_LABELS[patch.unitSystem].temperature}, times in ${patch.timezone}.`;
+  return `Saved. Temperatures in ${UNIT_LABELS[farm.unitSystem].temperature}, times in ${farm.timezone}, bins fed every ${farm.feedingIntervalDays} days unless a bin says otherwise.`;
 });
 
 export const archiveBinAction = validatedAction(binOfFarmForm, async ({ farmId, binId }) => {

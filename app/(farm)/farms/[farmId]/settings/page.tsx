@@ -42,6 +42,7 @@ export default async function SettingsPage({ params }: { params: Promise<{ farmI
         name={farm.name}
         unitSystem={farm.unitSystem}
         timezone={farm.timezone}
+        feedingIntervalDays={farm.feedingIntervalDays}
         zones={Intl.supportedValuesOf("timeZone")}
       />
       <BinArchive farmId={farmId} live={live} archived={archived} archive={archiveBinAction} bringBack={bringBackBin} />

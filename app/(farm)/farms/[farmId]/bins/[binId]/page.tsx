@@ -2,11 +2,13 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { SWRConfig } from "swr";
+import { BinCycleForm } from "@/components/bins/bin-cycle-form";
+import { BinCyclePanel } from "@/components/bins/bin-cycle-panel";
+import { YieldsChart } from "@/components/bins/yields-chart";
 import { zoneWords } from "@/components/logbook/format";
-import { FeedingForm } from "@/components/logbook/feeding-form";
-import { FeedingLog } from "@/components/logbook/feeding-log";
+import { LogAction } from "@/components/logbook/log-action";
+import { logKindsFor, type LogFormProps } from "@/components/logbook/log-kinds";
 import { LogbookList } from "@/components/logbook/logbook-list";
-import { QuickLogForms } from "@/components/logbook/quick-log-forms";
 import { StatusMark } from "@/components/ui/status-mark";
 import { AlertCard } from "@/components/alerts/alert-card";
 import { formatMetric } from "@/components/charts/metric-words";
@@ -15,9 +17,10 @@ import { zonedFormat } from "@/lib/domain/clock";
 import { oncePerRequest, requirePageMember } from "@/lib/web/session";
 import { binPageView } from "@/lib/server/bins/bin-page-view";
 import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/species";
-import { feedingsKey, ingredientsKey, logbookKey } from "@/lib/client/swr-keys";
+import { ingredientsKey, logbookKey } from "@/lib/client/swr-keys";
 import { formatPercent, formatTemperature } from "@/lib/domain/units";
 import { toWire } from "@/lib/domain/wire";
+import { saveBinCycle } from "./actions";
 
 export async function generateMetadata({ params }: { params: Promise<{ farmId: string; binId: string }> }): Promise<Metadata> {
   const { farmId, binId } = await params;
@@ -33,21 +36,29 @@ export default async function BinPage({
   searchParams,
 }: {
   params: Promise<{ farmId: string; binId: string }>;
-  searchParams: Promise<{ zone?: string | string[] }>;
+  searchParams: Promise<{ zone?: string | string[]; log?: string | string[] }>;
 }) {
   const { farmId, binId } = await params;
   const who = await requirePageMember({ farmId, binId }, "read");
   const view = await pageView(who, binId);
   if (!view) notFound();
-  const { bin, farm, latest, canLog, openAlerts } = view;
+  const { bin, farm, latest, canLog, openAlerts, cycle } = view;
   const clock = zonedFormat(farm.timezone, { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
   const profile = getSpecies(bin.species);
   const zones = bin.zones.map((z) => ({ id: z.id, kind: z.kind, name: z.name }));
-  const asked = (await searchParams).zone;
-  const defaultZoneId = typeof asked === "string" && zones.some((z) => z.id === asked) ? asked : null;
+  const query = await searchParams;
+  const one = (v: string | string[] | undefined) => (typeof v === "string" ? v : undefined);
+  const asked = one(query.zone);
+  const defaultZoneId = asked && zones.some((z) => z.id === asked) ? asked : null;
   // Prime SWR with the server's answers so the logbook and the library paint at once.
-  const fallback: Record<string, unknown> = { [feedingsKey(binId)!]: toWire(view.feedings), [logbookKey(binId)!]: toWire(view.logbook) };
+  const fallback: Record<string, unknown> = { [logbookKey(binId)!]: toWire(view.logbook) };
   if (view.library) fallback[ingredientsKey(farmId)!] = toWire(view.library);
+  // The "Log" button's kinds; the chosen one (?log=…) is rendered here and shown below the button.
+  const here = `/farms/${farmId}/bins/${binId}`;
+  const formProps: LogFormProps = { farmId, binId, zones, system: farm.unitSystem, probes: view.probes, defaultZoneId, harvestSide: !!cycle.harvestSide };
+  const log = logKindsFor(formProps, { log: one(query.log), zone: asked });
+  const withLog = (key: string) => `${here}?${new URLSearchParams({ log: key, ...(defaultZoneId ? { zone: defaultZoneId } : {}) })}`;
+  const choices = log.offered.map((k) => ({ key: k.key, label: k.label, hint: k.hint, mark: k.mark, href: withLog(k.key) }));
 
   return (
     <main className="space-y-4 p-3 pb-10">
@@ -90,6 +101,24 @@ export default async function BinPage({
         </section>
       )}
 
+      <BinCyclePanel
+        feeding={cycle.feeding}
+        interval={cycle.interval}
+        harvestSide={cycle.harvestSide}
+        planned={cycle.planned}
+        form={
+          canLog && (
+            <BinCycleForm
+              action={saveBinCycle}
+              binId={binId}
+              intervalDays={bin.feedingIntervalDays}
+              farmIntervalDays={farm.feedingIntervalDays}
+              plannedHarvestOn={bin.plannedHarvestOn}
+            />
+          )
+        }
+      />
+
       <section aria-labelledby="zones-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 id="zones-h" className="text-xl font-bold">
           Zones
@@ -131,16 +160,14 @@ export default async function BinPage({
         )}
       </section>
 
+      {/* BIN CHART — the lead puts the bin-wide <BinChart> here, after the zones. */}
+
       <SWRConfig value={{ fallback }}>
-        {canLog && <FeedingForm farmId={farmId} binId={binId} zones={zones} defaultZoneId={defaultZoneId} system={farm.unitSystem} />}
-        <section aria-labelledby="feedings-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
-          <h2 id="feedings-h" className="text-xl font-bold">
-            Feedings
-          </h2>
-          <p className="mb-2 text-sm text-soil-700">Feedings, newest first, each with the mix check made when it was logged.</p>
-          <FeedingLog binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} />
-        </section>
-        {canLog && <QuickLogForms binId={binId} zones={zones} system={farm.unitSystem} />}
+        {canLog && (
+          <LogAction choices={choices} open={choices.find((c) => c.key === log.open?.key) ?? null} closeHref={here}>
+            {log.open?.render(formProps)}
+          </LogAction>
+        )}
         <section aria-labelledby="logbook-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
           <h2 id="logbook-h" className="text-xl font-bold">
             Logbook
@@ -151,6 +178,13 @@ export default async function BinPage({
           <LogbookList binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} userId={who.userId} isOwner={who.role === "owner"} />
         </section>
       </SWRConfig>
+
+      <section aria-labelledby="yields-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+        <h2 id="yields-h" className="text-xl font-bold">
+          Castings harvested
+        </h2>
+        <YieldsChart perHarvest={cycle.yields.perHarvest} perMonth={cycle.yields.perMonth} system={farm.unitSystem} today={cycle.today} />
+      </section>
     </main>
   );
 }
