@@ -2,9 +2,8 @@
 
 import { useState } from "react";
 import { zoneWords } from "@/components/logbook/format";
-import { send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
-import { useSend } from "@/lib/client/use-send";
+import { SAVED_ON_PHONE, useSend } from "@/lib/client/use-send";
 import type { ZoneChoice } from "@/lib/client/wire";
 import { massToKg, UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/domain/units";
 import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
@@ -14,10 +13,10 @@ type Kind = "watering" | "harvest" | "note";
 
 const num = (s: string) => (s.trim() === "" ? NaN : Number(s.trim().replace(",", ".")));
 
-const TITLES: Record<Kind, { title: string; button: string; done: string; path: string }> = {
-  watering: { title: "Log water", button: "Log water", done: "Water logged.", path: "waterings" },
-  harvest: { title: "Log harvest", button: "Log harvest", done: "Harvest logged.", path: "harvests" },
-  note: { title: "Add a note", button: "Add note", done: "Note added.", path: "notes" },
+const TITLES: Record<Kind, { title: string; button: string; done: string; path: string; what: string }> = {
+  watering: { title: "Log water", button: "Log water", done: "Water logged.", path: "waterings", what: "Water" },
+  harvest: { title: "Log harvest", button: "Log harvest", done: "Harvest logged.", path: "harvests", what: "Harvest" },
+  note: { title: "Add a note", button: "Add note", done: "Note added.", path: "notes", what: "Note" },
 };
 
 // One compact form per kind: where, an amount in the farm's units (or the note's text), optional notes.
@@ -26,7 +25,7 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
   const [zoneId, setZoneId] = useState("");
   const [amount, setAmount] = useState("");
   const [notes, setNotes] = useState("");
-  const { busy, errors, setErrors, run } = useSend();
+  const { busy, errors, setErrors, log } = useSend();
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
   const t = TITLES[kind];
   const unit = kind === "watering" ? UNIT_LABELS[system].volume : UNIT_LABELS[system].mass;
@@ -47,13 +46,17 @@ function QuickForm({ kind, binId, zones, system }: { kind: Kind; binId: string; 
       }
       value = kind === "watering" ? volumeToLitres(n, system) : massToKg(n, system);
     }
-    const sent = await run(() =>
-      send("POST", `/api/bins/${binId}/${t.path}`, { zoneId: zoneId || null, notes: kind === "note" ? null : notes.trim() || null, [field]: value }),
-    );
+    const where = zoneWords(zones.find((z) => z.id === zoneId));
+    const sent = await log({
+      url: `/api/bins/${binId}/${t.path}`,
+      body: { zoneId: zoneId || null, notes: kind === "note" ? null : notes.trim() || null, [field]: value },
+      binId,
+      what: `${t.what} · ${kind === "note" ? amount.trim().slice(0, 40) : `${amount.trim()} ${unit}`} · ${where}`,
+    });
     if (!sent.ok) return setStatus({ ok: false, text: `Not logged: ${sent.message}` });
     setAmount("");
     setNotes("");
-    setStatus({ ok: true, text: t.done });
+    setStatus({ ok: true, text: sent.kept ? SAVED_ON_PHONE : t.done });
     await refresh();
   }
 
