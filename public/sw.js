@@ -75,16 +75,24 @@ async function remember(url, res) {
 
 async function page(event, url) {
   const kept = keptPage(url);
-  const network = fetch(event.request).then((res) => {
-    if (kept) event.waitUntil(remember(url, res.clone()).catch(() => undefined));
+  const copy = kept ? await (await caches.open(PAGES)).match(pageKey(url)) : undefined;
+  const network = fetch(event.request).then(async (res) => {
     // Redirected to sign-in (or opened it): the session is over, and so are its pages.
     const landed = res.type === "opaqueredirect" ? null : new URL(res.url || url.href);
     if (SIGNED_OUT.test(url.pathname) || (landed && SIGNED_OUT.test(landed.pathname))) event.waitUntil(forgetPages());
-    return res;
+    if (!kept || !res.ok || res.type !== "basic") return res;
+    if (!copy) {
+      event.waitUntil(remember(url, res.clone()).catch(() => undefined));
+      return res;
+    }
+    // With a copy to fall back on, the race is against the whole page, not its first bytes: on a weak
+    // signal the headers come quickly and the rest trickles in for seconds.
+    const whole = new Response(await res.blob(), { status: res.status, statusText: res.statusText, headers: res.headers });
+    event.waitUntil(remember(url, whole.clone()).catch(() => undefined));
+    return whole;
   });
   event.waitUntil(network.catch(() => undefined));
 
-  const copy = kept ? await (await caches.open(PAGES)).match(pageKey(url)) : undefined;
   if (!copy) return network.catch(() => offline(url));
   const fromPhone = () => {
     servedFromPhone.set(event.resultingClientId, copy.headers.get(SAVED_AT));

@@ -7,6 +7,7 @@
 // (DevTools' Network.emulateNetworkConditions on a page does not reach its worker). For comparison,
 // the same pages with no service worker (the phone as it was before), and with the phone offline.
 import net from "node:net";
+import os from "node:os";
 import pg from "pg";
 import { chromium, type BrowserContext } from "playwright-core";
 import setup from "../setup/global";
@@ -55,8 +56,9 @@ async function main() {
   const db = new pg.Client({ connectionString: provided.appDbUrl as string });
   await db.connect();
   const farm = (await db.query(`select id from farms where name = 'Alder Row Worm Farm' order by created_at limit 1`)).rows[0].id as string;
-  const zone = (await db.query(`select z.id, z.bin_id from zones z join bins b on b.id = z.bin_id where b.farm_id = $1 order by b.name, z.position limit 1`, [farm]))
-    .rows[0] as { id: string; bin_id: string };
+  const zone = (
+    await db.query(`select z.id, z.bin_id from zones z join bins b on b.id = z.bin_id where b.farm_id = $1 order by b.name, z.position limit 1`, [farm])
+  ).rows[0] as { id: string; bin_id: string };
   await db.end();
 
   const app = new URL(appUrl);
@@ -96,17 +98,27 @@ async function main() {
     const shown = performance.now() - t0;
     await page.waitForLoadState("load", { timeout: 60_000 }).catch(() => undefined);
     const loaded = performance.now() - t0;
+    // When the document's first byte came (from the network or the worker), apart from parsing it.
+    const answered = await page.evaluate(() => (performance.getEntriesByType("navigation")[0] as PerformanceNavigationTiming).responseStart);
     const banner = await page
       .getByText("Offline — values from")
       .isVisible()
       .catch(() => false);
     await page.close();
-    return { shown, loaded, banner };
+    return { shown, loaded, answered, banner };
   }
 
   const fmt = (n: number) => `${(n / 1000).toFixed(2)} s`;
   const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
-  console.log(`weak signal: ${KBIT_S} kbit/s each way, ${RTT_MS} ms round trip; median of ${RUNS} opens (document shown / load event)`);
+  console.log(
+    `load average ${os
+      .loadavg()
+      .map((l) => l.toFixed(1))
+      .join(" ")} on ${os.cpus().length} cores`,
+  );
+  console.log(
+    `weak signal: ${KBIT_S} kbit/s each way, ${RTT_MS} ms round trip; median of ${RUNS} opens (first byte of the page / document shown / load event)`,
+  );
   for (const sw of ["block", "allow"] as const) {
     const { context } = await signedIn(sw);
     proxy.set(true);
@@ -114,13 +126,15 @@ async function main() {
       const runs = [];
       for (let i = 0; i < RUNS; i++) runs.push(await open(context, path));
       console.log(
-        `${sw === "allow" ? "with the service worker   " : "without a service worker  "} ${name.padEnd(5)}  shown ${fmt(median(runs.map((r) => r.shown)))}  loaded ${fmt(median(runs.map((r) => r.loaded)))}${runs.some((r) => r.banner) ? "  (from the phone, with the banner)" : ""}`,
+        `${sw === "allow" ? "with the service worker   " : "without a service worker  "} ${name.padEnd(5)}  answered ${fmt(median(runs.map((r) => r.answered)))}  shown ${fmt(median(runs.map((r) => r.shown)))}  loaded ${fmt(median(runs.map((r) => r.loaded)))}${runs.some((r) => r.banner) ? "  (from the phone, with the banner)" : ""}`,
       );
     }
     if (sw === "allow") {
       await context.setOffline(true);
       const r = await open(context, pages.bin);
-      console.log(`offline, with the service worker  bin    shown ${fmt(r.shown)}  loaded ${fmt(r.loaded)}${r.banner ? "  (from the phone, with the banner)" : ""}`);
+      console.log(
+        `offline, with the service worker  bin    answered ${fmt(r.answered)}  shown ${fmt(r.shown)}  loaded ${fmt(r.loaded)}${r.banner ? "  (from the phone, with the banner)" : ""}`,
+      );
     }
     proxy.set(false);
     await context.close();
