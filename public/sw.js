@@ -14,7 +14,7 @@ const SAVED_AT = "x-wormward-saved-at";
 const KEPT_PAGES = [/^\/farms\/[^/]+\/?$/, /^\/farms\/[^/]+\/bins\/[^/]+\/?$/, /^\/farms\/[^/]+\/zones\/[^/]+\/?$/];
 const TODAY = /^\/farms\/[^/]+\/?$/;
 const SIGNED_OUT = /^\/(sign-in|sign-up|check-mail|verify|forgot|reset|join)(\/|$)/;
-const STATIC = (p) => p.startsWith("/_next/static/") || p === "/icon.svg" || p === "/manifest.webmanifest";
+const STATIC = (p) => p.startsWith("/_next/static/") || /^\/icon[\w-]*\.(svg|png)$/.test(p) || p === "/manifest.webmanifest";
 
 // Which new page (client id) was answered from the phone, and from when; asked by the page's banner.
 const servedFromPhone = new Map();
@@ -43,13 +43,22 @@ self.addEventListener("fetch", (event) => {
     if (url.pathname.startsWith("/api/auth/callback/") || url.pathname === "/api/auth/signout") event.waitUntil(forgetPages());
     return;
   }
-  if (STATIC(url.pathname)) return event.respondWith(fromShell(req));
+  if (STATIC(url.pathname)) return event.respondWith(fromShell(event, req, url));
   if (req.mode === "navigate") return event.respondWith(page(event, url));
 });
 
-async function fromShell(req) {
+async function fromShell(event, req, url) {
   const cache = await caches.open(SHELL);
   const hit = await cache.match(req);
+  // Hashed files never change; the icon and the manifest keep their names, so they are fetched
+  // again behind the copy for next time.
+  if (hit && !url.pathname.startsWith("/_next/static/")) {
+    event.waitUntil(
+      fetch(req)
+        .then((res) => (res.ok ? cache.put(req, res) : undefined))
+        .catch(() => undefined),
+    );
+  }
   if (hit) return hit;
   const res = await fetch(req);
   if (res.ok && res.type === "basic") await keepInShell(cache, req, res.clone());
@@ -95,6 +104,7 @@ async function page(event, url) {
 
   if (!copy) return network.catch(() => offline(url));
   const fromPhone = () => {
+    if (servedFromPhone.size > 50) servedFromPhone.delete(servedFromPhone.keys().next().value);
     servedFromPhone.set(event.resultingClientId, copy.headers.get(SAVED_AT));
     return copy;
   };

@@ -1,5 +1,7 @@
 "use client";
 
+import Link from "next/link";
+import { usePathname } from "next/navigation";
 import { useCallback, useEffect, useState } from "react";
 import { Mark } from "@/components/ui/marks";
 import { discardEntry, listEntries, onQueueChange, sendWaiting, setQueueOwner, type WaitingEntry } from "@/lib/client/offline-queue";
@@ -31,6 +33,7 @@ const timeOf = (iso: string) => new Date(iso).toLocaleString([], { weekday: "sho
 export function WaitingEntries({ userId, farmId }: { userId: string; farmId: string }) {
   const [entries, setEntries] = useState<WaitingEntry[]>([]);
   const refresh = usePageRefresh();
+  const path = usePathname();
 
   const reload = useCallback(() => {
     listEntries(userId, farmId)
@@ -73,12 +76,26 @@ export function WaitingEntries({ userId, farmId }: { userId: string; farmId: str
         <Mark name="toSend" />
         Waiting to send ({entries.length})
       </h2>
-      <p className="text-sm text-soil-700">Kept on this phone. They are sent by themselves when there is signal.</p>
+      <p className="text-sm text-soil-700">
+        {waiting > 0
+          ? "Kept on this phone. They are sent by themselves when there is signal."
+          : "The server would not store these: make them again by hand, then discard them."}
+      </p>
       <ul aria-label="Entries on this phone" className="mt-2 space-y-2">
         {entries.map((e) => (
           <li key={e.key} data-key={e.key} className="rounded-xl bg-paper p-3 ring-1 ring-soil-300">
             <p className="font-bold">{e.what}</p>
-            <p className="text-sm text-soil-700">Made {timeOf(e.madeAt)}</p>
+            <p className="text-sm text-soil-700">
+              Made {timeOf(e.madeAt)}
+              {e.page !== path && (
+                <>
+                  {" · "}
+                  <Link href={e.page} className="underline underline-offset-4">
+                    its page
+                  </Link>
+                </>
+              )}
+            </p>
             {e.state === "waiting" && <p className="text-sm font-bold">Waiting to send</p>}
             {e.state === "signed-out" && <p className="text-sm font-bold">Waiting to send: sign in again on this phone to send it.</p>}
             {e.state === "refused" && (

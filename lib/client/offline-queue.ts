@@ -79,7 +79,10 @@ async function post(url: string, body: unknown, key: string): Promise<Response> 
 
 async function refusalOf(res: Response): Promise<{ status: number; message: string; field?: string }> {
   const e = ((await res.json().catch(() => null)) as { error?: { message?: string; field?: string } } | null)?.error;
-  return { status: res.status, message: e?.message ? plainSentence(e.message, e.field) : `The server refused it (${res.status}).`, field: e?.field };
+  const said = e?.message ? plainSentence(e.message, e.field) : `The server refused it (${res.status}).`;
+  // An entry sent long after it was made most often finds its bin archived or removed meanwhile.
+  const message = res.status === 404 ? `${said} The bin may have been archived or removed since.` : said;
+  return { status: res.status, message, field: e?.field };
 }
 
 /** A network failure (fetch's TypeError, or a phone that knows it is offline), as opposed to an answer. */

@@ -175,11 +175,38 @@ describe("logging with no signal", () => {
     await context.setOffline(false);
     const waiting = page.getByRole("region", { name: /Waiting to send/ });
     await expect.poll(() => waiting.textContent(), { timeout: 15_000 }).toContain("Not stored:");
+    expect(await waiting.textContent()).toContain("archived or removed");
     expect(await waiting.getByRole("button", { name: "Send now" }).count()).toBe(0);
     await waiting.scrollIntoViewIfNeeded();
     await page.screenshot({ path: screenshotPath("offline-entry-refused") });
     await waiting.getByRole("button", { name: "Discard" }).click();
     await expect.poll(() => waiting.count()).toBe(0);
+    await context.close();
+  });
+
+  it("signing out empties the pages kept on the phone: the next person offline gets none of them", async () => {
+    const context = await browser.newContext(PHONE);
+    const page = await context.newPage();
+    await signInAsKeeper(page);
+    const binUrl = `${appUrl()}/farms/${crew.farmId}/bins/${bin.id}`;
+    await page.goto(binUrl);
+    await keptOnPhone(page);
+
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.waitForURL(/\/sign-in/);
+    const kept = () => page.evaluate(async () => (await (await caches.open("wormward-pages-v1")).keys()).length);
+    await expect.poll(kept).toBe(0);
+
+    // The owner signs in on the same phone, then loses the signal and opens the keeper's last page.
+    await page.getByLabel("E-mail").fill("noor@alder-row.example");
+    await page.getByLabel("Password").fill("alder-row-demo");
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.waitForURL(/\/farms\//);
+    await context.setOffline(true);
+    await page.goto(binUrl).catch(() => undefined);
+    await expect.poll(() => page.getByRole("heading", { level: 1 }).textContent()).toBe("No signal");
+    expect(await page.getByText("This page is not saved on this phone yet.").isVisible()).toBe(true);
+    await page.screenshot({ path: screenshotPath("offline-page-not-kept") });
     await context.close();
   });
 });
