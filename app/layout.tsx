@@ -1,6 +1,7 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
 import { connection } from "next/server";
+import { RegisterServiceWorker } from "@/components/pwa/register-service-worker";
 import "./globals.css";
 
 // Atkinson Hyperlegible (SIL OFL 1.1, shipped in app/fonts): clear digits for a glance in a dim shed.
@@ -17,7 +18,7 @@ export const metadata: Metadata = {
   title: { default: "Wormward", template: "%s · Wormward" },
   description: "Watches your worm bins: temperature, moisture and ammonia by zone, with alerts to your phone.",
   manifest: "/manifest.webmanifest",
-  icons: { icon: "/icon.svg" },
+  icons: { icon: "/icon.svg", apple: "/icon-192.png" },
 };
 
 // The browser's bar takes the header's colour, light theme and dark (app/globals.css).
@@ -36,7 +37,10 @@ export default async function RootLayout({ children }: { children: React.ReactNo
   await connection();
   return (
     <html lang="en" className={atkinson.variable}>
-      <body className="min-h-dvh font-sans antialiased">{children}</body>
+      <body className="min-h-dvh font-sans antialiased">
+        {children}
+        <RegisterServiceWorker />
+      </body>
     </html>
   );
 }

@@ -2,9 +2,21 @@
 
 import { signOut } from "next-auth/react";
 
+/** Pages this phone kept for a basement with no signal are this person's: they go at sign-out (the
+ * service worker drops them too when it sees the sign-out). Entries waiting to send stay, and go
+ * when the same person signs in again. */
+async function forgetKeptPages() {
+  if (!("caches" in window)) return;
+  for (const name of await caches.keys()) if (name.startsWith("wormward-pages")) await caches.delete(name);
+}
+
 export function SignOutButton() {
   return (
-    <button type="button" onClick={() => signOut({ callbackUrl: "/sign-in" })} className="min-h-11 rounded-lg px-2 underline-offset-4 hover:underline">
+    <button
+      type="button"
+      onClick={() => void forgetKeptPages().finally(() => signOut({ callbackUrl: "/sign-in" }))}
+      className="min-h-11 rounded-lg px-2 underline-offset-4 hover:underline"
+    >
       Sign out
     </button>
   );

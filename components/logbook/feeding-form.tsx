@@ -9,7 +9,8 @@ import type { IngredientRow, LoggedFeeding, ZoneChoice } from "@/lib/client/wire
 import Link from "next/link";
 import { amendmentForMoisture, beddingForCn, checkMixAsFarAsKnown, WATER, WORM_BED_TARGET, type Amendment, type MixItem } from "@/lib/domain/mix";
 import { feedingLoadWords, floorAreaM2, loadForBin, type BinForLoad } from "@/lib/domain/feeding-load";
-import { failureOf, send } from "@/lib/client/fetcher";
+import { failureOf } from "@/lib/client/fetcher";
+import { SAVED_ON_PHONE, sendOrKeep } from "@/lib/client/use-send";
 import { useBinRefresh } from "@/lib/client/revalidate";
 import { feedingsKey } from "@/lib/client/swr-keys";
 import { formatMass, formatNumber, massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
@@ -191,10 +192,14 @@ export function FeedingForm({
         cn: orNull(items[i]!.cn),
       })),
     };
+    const where = zoneWords(zones.find((z) => z.id === zoneId));
     try {
-      const out = await send<LoggedFeeding>("POST", feedingsKey(binId)!, body);
-      const where = zoneWords(zones.find((z) => z.id === zoneId));
-      setStatus({ ok: true, text: `Logged ${formatMass(out.mix.totalMassKg, system, { digits: 2 })} for ${where}: ${out.mix.verdict}.` });
+      const what = `Feeding · ${check ? formatMass(check.totalMassKg, system, { digits: 2 }) : `${rows.length} items`} · ${where}`;
+      const out = await sendOrKeep<LoggedFeeding>({ url: feedingsKey(binId)!, body, binId, what });
+      setStatus({
+        ok: true,
+        text: out.kept ? SAVED_ON_PHONE : `Logged ${formatMass(out.value.mix.totalMassKg, system, { digits: 2 })} for ${where}: ${out.value.mix.verdict}.`,
+      });
       setRows([]);
       setNotes("");
       await refresh();

@@ -2,11 +2,11 @@
 
 import { useRouter } from "next/navigation";
 import { useState } from "react";
+import { zoneWords } from "@/components/logbook/format";
 import { useLogDone } from "@/components/logbook/log-action";
 import { INPUT, LogFormFrame, num, NumberField, ZoneSelect } from "@/components/logbook/log-form-parts";
-import { send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
-import { useSend } from "@/lib/client/use-send";
+import { SAVED_ON_PHONE, useSend } from "@/lib/client/use-send";
 import type { ZoneChoice } from "@/lib/client/wire";
 import { massToKg, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import { CASTINGS_NOT_FOOD, LOCAL_CODES, WASH_HANDS } from "@/lib/domain/safety-words";
@@ -19,7 +19,7 @@ export function HarvestForm({ binId, zones, system }: { binId: string; zones: Zo
   const [zoneId, setZoneId] = useState(zones.findLast((z) => z.kind === "curing")?.id ?? "");
   const [amount, setAmount] = useState("");
   const [notes, setNotes] = useState("");
-  const { busy, errors, setErrors, run } = useSend();
+  const { busy, errors, setErrors, log } = useSend();
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
   const unit = UNIT_LABELS[system].mass;
 
@@ -32,17 +32,21 @@ export function HarvestForm({ binId, zones, system }: { binId: string; zones: Zo
       setErrors({ massKg: `Give an amount above 0 ${unit}.` });
       return setStatus({ ok: false, text: "Not logged: check the amount." });
     }
-    const sent = await run(() =>
-      send("POST", `/api/bins/${binId}/harvests`, { zoneId: zoneId || null, notes: notes.trim() || null, massKg: massToKg(n, system) }),
-    );
+    const sent = await log({
+      url: `/api/bins/${binId}/harvests`,
+      body: { zoneId: zoneId || null, notes: notes.trim() || null, massKg: massToKg(n, system) },
+      binId,
+      what: `Harvest · ${amount.trim()} ${unit} · ${zoneWords(zones.find((z) => z.id === zoneId))}`,
+    });
     if (!sent.ok) return setStatus({ ok: false, text: `Not logged: ${sent.message}` });
     setAmount("");
     setNotes("");
-    setStatus({ ok: true, text: "Harvest logged." });
+    const said = sent.kept ? SAVED_ON_PHONE : "Harvest logged.";
+    setStatus({ ok: true, text: said });
     await refresh();
     // The yields chart is drawn on the server.
     router.refresh();
-    done("Harvest logged.");
+    done(said);
   }
 
   return (

@@ -5,9 +5,11 @@ import { FeedingForm } from "@/components/logbook/feeding-form";
 import { HarvestForm } from "@/components/logbook/harvest-form";
 import { NoteForm } from "@/components/logbook/note-form";
 import { SampleForm, type BinProbe } from "@/components/logbook/sample-form";
+import { ShiftForm } from "@/components/logbook/shift-form";
 import { WaterForm } from "@/components/logbook/water-form";
 import type { MarkName } from "@/components/ui/mark-shapes";
 import type { ZoneChoice } from "@/lib/client/wire";
+import type { BinForLoad } from "@/lib/domain/feeding-load";
 import type { UnitSystem } from "@/lib/domain/units";
 
 export type LogFormProps = {
@@ -19,6 +21,8 @@ export type LogFormProps = {
   defaultZoneId: string | null;
   /** The bin has a harvest side (flow-through or windrow with a curing zone). */
   harvestSide: boolean;
+  /** The bin's floor and feeding interval, to weigh a feeding against before it is logged. */
+  feedingBin?: BinForLoad;
 };
 
 export type LogFormKind = {
@@ -37,7 +41,7 @@ export const LOG_FORM_KINDS: readonly LogFormKind[] = [
     label: "Feeding",
     hint: "Food and bedding, with the mix check",
     mark: "feeding",
-    render: (p) => <FeedingForm farmId={p.farmId} binId={p.binId} zones={p.zones} defaultZoneId={p.defaultZoneId} system={p.system} />,
+    render: (p) => <FeedingForm farmId={p.farmId} binId={p.binId} zones={p.zones} defaultZoneId={p.defaultZoneId} system={p.system} bin={p.feedingBin} />,
   },
   {
     key: "water",
@@ -46,15 +50,14 @@ export const LOG_FORM_KINDS: readonly LogFormKind[] = [
     mark: "watering",
     render: (p) => <WaterForm binId={p.binId} zones={p.zones} system={p.system} />,
   },
-  // SHIFT — the lead adds this entry once components/logbook/shift-form.tsx is in (and its import above):
-  // {
-  //   key: "shift",
-  //   label: "Shift",
-  //   hint: "Material moved toward the harvest side",
-  //   mark: "shift",
-  //   shows: (p) => p.harvestSide,
-  //   render: (p) => <ShiftForm binId={p.binId} zones={p.zones} system={p.system} />,
-  // },
+  {
+    key: "shift",
+    label: "Shift",
+    hint: "Material moved toward the harvest side",
+    mark: "shift",
+    shows: (p) => p.harvestSide,
+    render: (p) => <ShiftForm binId={p.binId} zones={p.zones} system={p.system} />,
+  },
   {
     key: "harvest",
     label: "Harvest",

@@ -1,11 +1,11 @@
 "use client";
 
 import { useState } from "react";
+import { zoneWords } from "@/components/logbook/format";
 import { useLogDone } from "@/components/logbook/log-action";
 import { FieldError, LogFormFrame, ZoneSelect } from "@/components/logbook/log-form-parts";
-import { send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
-import { useSend } from "@/lib/client/use-send";
+import { SAVED_ON_PHONE, useSend } from "@/lib/client/use-send";
 import type { ZoneChoice } from "@/lib/client/wire";
 
 /** A note on the bin or one zone. */
@@ -14,19 +14,25 @@ export function NoteForm({ binId, zones }: { binId: string; zones: ZoneChoice[] 
   const done = useLogDone();
   const [zoneId, setZoneId] = useState("");
   const [text, setText] = useState("");
-  const { busy, errors, setErrors, run } = useSend();
+  const { busy, errors, setErrors, log } = useSend();
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
 
   async function submit(e: React.FormEvent) {
     e.preventDefault();
     setErrors({});
     setStatus(null);
-    const sent = await run(() => send("POST", `/api/bins/${binId}/notes`, { zoneId: zoneId || null, text: text.trim() }));
+    const sent = await log({
+      url: `/api/bins/${binId}/notes`,
+      body: { zoneId: zoneId || null, text: text.trim() },
+      binId,
+      what: `Note · ${text.trim().slice(0, 40)} · ${zoneWords(zones.find((z) => z.id === zoneId))}`,
+    });
     if (!sent.ok) return setStatus({ ok: false, text: `Not logged: ${sent.message}` });
     setText("");
-    setStatus({ ok: true, text: "Note added." });
+    const said = sent.kept ? SAVED_ON_PHONE : "Note added.";
+    setStatus({ ok: true, text: said });
     await refresh();
-    done("Note added.");
+    done(said);
   }
 
   return (

@@ -4,9 +4,8 @@ import Link from "next/link";
 import { useState } from "react";
 import { useLogDone } from "@/components/logbook/log-action";
 import { FieldError, INPUT, LogFormFrame, num } from "@/components/logbook/log-form-parts";
-import { send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
-import { useSend } from "@/lib/client/use-send";
+import { SAVED_ON_PHONE, useSend } from "@/lib/client/use-send";
 import type { RecordedSample, ZoneChoice } from "@/lib/client/wire";
 import { formatNumber, formatTemperature, temperatureForDisplay, temperatureToCelsius, UNIT_LABELS, type UnitSystem } from "@/lib/domain/units";
 import { zoneName } from "@/lib/domain/zone-words";
@@ -45,7 +44,7 @@ export function SampleForm({
   const done = useLogDone();
   const FIELDS = fieldsIn(system);
   const [probeId, setProbeId] = useState(probes[0] ? String(probes[0].id) : "");
-  const { busy, errors, setErrors, run } = useSend();
+  const { busy, errors, setErrors, log } = useSend();
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
   const where = (p: BinProbe) => {
     const z = zones.find((x) => x.id === p.zoneId);
@@ -68,10 +67,10 @@ export function SampleForm({
     setErrors(errs);
     setStatus(null);
     if (Object.keys(errs).length) return setStatus({ ok: false, text: "Not recorded: check the marked fields." });
-    const sent = await run(() => send<RecordedSample>("POST", `/api/probes/${probeId}/samples`, body));
+    const sent = await log<RecordedSample>({ url: `/api/probes/${probeId}/samples`, body, binId, what: "Oven-dry sample" });
     if (!sent.ok) return setStatus({ ok: false, text: `Not recorded: ${sent.message}` });
     form.reset();
-    const said = `Sample recorded: ${formatNumber(sent.value.sample.moistureWbPct, 1)} % moisture (wet basis).`;
+    const said = sent.kept ? SAVED_ON_PHONE : `Sample recorded: ${formatNumber(sent.value.sample.moistureWbPct, 1)} % moisture (wet basis).`;
     setStatus({ ok: true, text: said });
     await refresh();
     done(said);

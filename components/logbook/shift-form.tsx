@@ -2,10 +2,10 @@
 
 import { useState } from "react";
 import { zoneWords } from "@/components/logbook/format";
+import { useLogDone } from "@/components/logbook/log-action";
 import { LogStatus } from "@/components/ui/form-parts";
-import { send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
-import { useSend } from "@/lib/client/use-send";
+import { SAVED_ON_PHONE, useSend } from "@/lib/client/use-send";
 import type { LoggedShift, ZoneChoice } from "@/lib/client/wire";
 import { UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/domain/units";
 import { WASH_HANDS } from "@/lib/domain/safety-words";
@@ -18,11 +18,12 @@ const INPUT = "h-12 w-full rounded-xl border border-soil-300 bg-paper px-3 text-
 // feeding side, so the form starts with the first zone moving to the next.
 export function ShiftForm({ binId, zones, system }: { binId: string; zones: ZoneChoice[]; system: UnitSystem }) {
   const refresh = useBinRefresh(binId);
+  const done = useLogDone();
   const [from, setFrom] = useState(zones[0]?.id ?? "");
   const [to, setTo] = useState(zones[1]?.id ?? "");
   const [amount, setAmount] = useState("");
   const [notes, setNotes] = useState("");
-  const { busy, errors, setErrors, run } = useSend();
+  const { busy, errors, setErrors, log } = useSend();
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
   const unit = UNIT_LABELS[system].volume;
 
@@ -39,19 +40,19 @@ export function ShiftForm({ binId, zones, system }: { binId: string; zones: Zone
       setErrors({ toZoneId: "Pick two different zones: material moves from one to another." });
       return setStatus({ ok: false, text: "Not logged: pick two different zones." });
     }
-    const sent = await run(() =>
-      send<LoggedShift>("POST", `/api/bins/${binId}/shifts`, {
-        zoneId: from,
-        toZoneId: to,
-        volumeL: amount.trim() === "" ? null : volumeToLitres(n, system),
-        notes: notes.trim() || null,
-      }),
-    );
+    const sent = await log<LoggedShift>({
+      url: `/api/bins/${binId}/shifts`,
+      body: { zoneId: from, toZoneId: to, volumeL: amount.trim() === "" ? null : volumeToLitres(n, system), notes: notes.trim() || null },
+      binId,
+      what: `Shift · ${zoneWords(zones.find((z) => z.id === from))} → ${zoneWords(zones.find((z) => z.id === to))}`,
+    });
     if (!sent.ok) return setStatus({ ok: false, text: `Not logged: ${sent.message}` });
     setAmount("");
     setNotes("");
-    setStatus({ ok: true, text: "Shift logged." });
+    const said = sent.kept ? SAVED_ON_PHONE : "Shift logged.";
+    setStatus({ ok: true, text: said });
     await refresh();
+    done(said);
   }
 
   if (zones.length < 2)

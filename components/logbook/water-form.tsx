@@ -1,11 +1,11 @@
 "use client";
 
 import { useState } from "react";
+import { zoneWords } from "@/components/logbook/format";
 import { useLogDone } from "@/components/logbook/log-action";
 import { INPUT, LogFormFrame, num, NumberField, ZoneSelect } from "@/components/logbook/log-form-parts";
-import { send } from "@/lib/client/fetcher";
 import { useBinRefresh } from "@/lib/client/revalidate";
-import { useSend } from "@/lib/client/use-send";
+import { SAVED_ON_PHONE, useSend } from "@/lib/client/use-send";
 import type { ZoneChoice } from "@/lib/client/wire";
 import { UNIT_LABELS, volumeToLitres, type UnitSystem } from "@/lib/domain/units";
 
@@ -16,7 +16,7 @@ export function WaterForm({ binId, zones, system }: { binId: string; zones: Zone
   const [zoneId, setZoneId] = useState("");
   const [amount, setAmount] = useState("");
   const [notes, setNotes] = useState("");
-  const { busy, errors, setErrors, run } = useSend();
+  const { busy, errors, setErrors, log } = useSend();
   const [status, setStatus] = useState<{ ok: boolean; text: string } | null>(null);
   const unit = UNIT_LABELS[system].volume;
 
@@ -29,15 +29,19 @@ export function WaterForm({ binId, zones, system }: { binId: string; zones: Zone
       setErrors({ litres: `Give an amount above 0 ${unit}.` });
       return setStatus({ ok: false, text: "Not logged: check the amount." });
     }
-    const sent = await run(() =>
-      send("POST", `/api/bins/${binId}/waterings`, { zoneId: zoneId || null, notes: notes.trim() || null, litres: volumeToLitres(n, system) }),
-    );
+    const sent = await log({
+      url: `/api/bins/${binId}/waterings`,
+      body: { zoneId: zoneId || null, notes: notes.trim() || null, litres: volumeToLitres(n, system) },
+      binId,
+      what: `Water · ${amount.trim()} ${unit} · ${zoneWords(zones.find((z) => z.id === zoneId))}`,
+    });
     if (!sent.ok) return setStatus({ ok: false, text: `Not logged: ${sent.message}` });
     setAmount("");
     setNotes("");
-    setStatus({ ok: true, text: "Water logged." });
+    const said = sent.kept ? SAVED_ON_PHONE : "Water logged.";
+    setStatus({ ok: true, text: said });
     await refresh();
-    done("Water logged.");
+    done(said);
   }
 
   return (

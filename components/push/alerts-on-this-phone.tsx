@@ -21,7 +21,8 @@ export function AlertsOnThisPhone() {
     (async () => {
       if (!("serviceWorker" in navigator) || !("PushManager" in window)) return setState("unsupported");
       if (Notification.permission === "denied") return setState("denied");
-      const reg = await navigator.serviceWorker.register("/sw.js");
+      // The worker is registered on every page (components/pwa/register-service-worker.tsx).
+      const reg = await navigator.serviceWorker.ready;
       const sub = await reg.pushManager.getSubscription();
       setState(sub ? "on" : "off");
     })().catch((e) => {

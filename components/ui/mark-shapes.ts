@@ -93,6 +93,12 @@ export const MARKS = {
   waiting: { d: "M1.5 6h1.5M5.25 6h1.5M9 6h1.5", stroke: 1.6, means: "a probe with no reading yet" },
   /** A box with its lid on: a probe put away, its readings kept. */
   archived: { d: "M1.5 2.5h9v2.5h-9ZM2.5 5v4.5h7V5M4.5 7h3", stroke: 1.3, means: "a probe archived" },
+
+  // --- no signal: the phone keeps pages and entries ---
+  /** Signal bars struck through: no signal, values from the copy on the phone. */
+  offline: { d: "M1 9h2v2.5H1ZM4.5 6.5h2v5h-2ZM8 4h2v7.5H8ZM.6 1.7l1.1-1.1 9.7 9.7-1.1 1.1Z", means: "offline: values kept on the phone" },
+  /** An arrow up from a tray: an entry kept on the phone, to be sent. */
+  toSend: { d: "M6 .8l3.5 3.7H7v4H5v-4H2.5ZM1 9.5h10V11H1Z", means: "an entry waiting to be sent" },
 } as const satisfies Record<string, MarkShape>;
 
 export type MarkName = keyof typeof MARKS;

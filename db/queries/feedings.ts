@@ -9,18 +9,38 @@ export type NewFeeding = {
   at: Date;
   byUserId: string;
   notes: string | null;
+  /** The phone's idempotency key: one feeding per farm and key. */
+  clientKey?: string | null;
   mixMoisturePct: number | null;
   mixCn: number | null;
   totalKg: number;
   items: { ingredientId: string | null; name: string; massKg: number; moisturePct: number; carbonPct: number | null; nitrogenPct: number | null }[];
 };
 
+/** Stores a feeding and its items, and answers them as stored. Under a clientKey the farm already
+ * used (`on conflict (farm_id, client_key) do nothing`), nothing is added and the feeding stored the
+ * first time is answered, with `created` false. */
 export async function insertFeeding(f: NewFeeding) {
   return db().transaction(async (tx) => {
     const { items, ...row } = f;
-    const [feeding] = await tx.insert(feedings).values(row).returning();
-    await tx.insert(feedingItems).values(items.map((i) => ({ ...i, feedingId: feeding!.id })));
-    return feeding!;
+    const [feeding] = await tx
+      .insert(feedings)
+      .values(row)
+      .onConflictDoNothing({ target: [feedings.farmId, feedings.clientKey] })
+      .returning();
+    if (feeding) {
+      const stored = await tx
+        .insert(feedingItems)
+        .values(items.map((i) => ({ ...i, feedingId: feeding.id })))
+        .returning();
+      return { feeding, items: stored, created: true };
+    }
+    const [existing] = await tx
+      .select()
+      .from(feedings)
+      .where(and(eq(feedings.farmId, f.farmId), eq(feedings.clientKey, f.clientKey ?? "")));
+    const stored = await tx.select().from(feedingItems).where(eq(feedingItems.feedingId, existing!.id));
+    return { feeding: existing!, items: stored, created: false };
   });
 }
 

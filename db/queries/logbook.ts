@@ -20,19 +20,49 @@ const tables = { feeding: feedings, watering: wateringsTable, shift: shifts, har
 
 type Common = { farmId: string; binId: string; zoneId: string | null; at: Date; byUserId: string; notes: string | null };
 
-export async function insertWatering(w: Common & { litres: number }) {
-  const [row] = await db().insert(wateringsTable).values(w).returning();
-  return row!;
+type Stored<R> = { row: R; created: boolean };
+type InsertTable = typeof wateringsTable | typeof harvests | typeof logNotes | typeof ovenDrySamples;
+
+/** A log entry insert runs `on conflict (farm_id, client_key) do nothing`: when the farm already has
+ * an entry under the phone's key, that entry is read back and returned instead of a second one. */
+export async function storedOnce<R>(inserted: R[], existing: () => Promise<R[]>): Promise<Stored<R>> {
+  if (inserted[0]) return { row: inserted[0], created: true };
+  const [row] = await existing();
+  return { row: row!, created: false };
 }
 
-export async function insertHarvest(h: Common & { massKg: number }) {
-  const [row] = await db().insert(harvests).values(h).returning();
-  return row!;
+const byKey = (t: InsertTable, v: { farmId: string; clientKey?: string | null }) => and(eq(t.farmId, v.farmId), eq(t.clientKey, v.clientKey ?? ""));
+
+type Keyed = { clientKey?: string | null };
+
+export async function insertWatering(w: Common & Keyed & { litres: number }) {
+  const t = wateringsTable;
+  const inserted = await db()
+    .insert(t)
+    .values(w)
+    .onConflictDoNothing({ target: [t.farmId, t.clientKey] })
+    .returning();
+  return storedOnce(inserted, () => db().select().from(t).where(byKey(t, w)));
 }
 
-export async function insertNote(n: Common & { text: string }) {
-  const [row] = await db().insert(logNotes).values(n).returning();
-  return row!;
+export async function insertHarvest(h: Common & Keyed & { massKg: number }) {
+  const t = harvests;
+  const inserted = await db()
+    .insert(t)
+    .values(h)
+    .onConflictDoNothing({ target: [t.farmId, t.clientKey] })
+    .returning();
+  return storedOnce(inserted, () => db().select().from(t).where(byKey(t, h)));
+}
+
+export async function insertNote(n: Common & Keyed & { text: string }) {
+  const t = logNotes;
+  const inserted = await db()
+    .insert(t)
+    .values(n)
+    .onConflictDoNothing({ target: [t.farmId, t.clientKey] })
+    .returning();
+  return storedOnce(inserted, () => db().select().from(t).where(byKey(t, n)));
 }
 
 type ListOpts = { limit?: number };
@@ -239,18 +269,24 @@ export async function nearestRawReading(probeId: number, at: Date, windowMs = 10
 }
 
 export async function insertSample(
-  s: Common & {
-    probeId: number;
-    wetMassG: number;
-    dryMassG: number;
-    tareG: number;
-    ovenTempC: number | null;
-    rawReading: number | null;
-    moistureWbPct: number;
-  },
+  s: Common &
+    Keyed & {
+      probeId: number;
+      wetMassG: number;
+      dryMassG: number;
+      tareG: number;
+      ovenTempC: number | null;
+      rawReading: number | null;
+      moistureWbPct: number;
+    },
 ) {
-  const [row] = await db().insert(ovenDrySamples).values(s).returning();
-  return row!;
+  const t = ovenDrySamples;
+  const inserted = await db()
+    .insert(t)
+    .values(s)
+    .onConflictDoNothing({ target: [t.farmId, t.clientKey] })
+    .returning();
+  return storedOnce(inserted, () => db().select().from(t).where(byKey(t, s)));
 }
 
 export async function listProbeSamples(probeId: number) {

@@ -1,11 +1,36 @@
 // Everything of one person and of the farms they own, for "download my data". Secrets (password
 // hash, token hashes, push keys) stay out.
-import { and, eq, inArray } from "drizzle-orm";
+import { and, eq, inArray, sql } from "drizzle-orm";
 import { db } from "@/db";
 import * as s from "@/db/schema";
 
 const omit = <T extends Record<string, unknown>, K extends keyof T>(rows: T[], ...keys: K[]) =>
   rows.map((r) => Object.fromEntries(Object.entries(r).filter(([k]) => !keys.includes(k as K))) as Omit<T, K>);
+
+/** For each zone with readings, the months (farm-local) that hold them, each as a readings-export link. */
+async function readingsDownloads(farmId: string, timezone: string, zones: { id: string }[]) {
+  if (zones.length === 0) return [];
+  // The first and last hour per zone from the hourly rollups (one row per hour, not per reading).
+  const r = await db().execute<{ zone_id: string; first: string; last: string }>(sql`
+    select p.zone_id, to_char(min(r.hour) at time zone ${timezone}, 'YYYY-MM') as first, to_char(max(r.hour) at time zone ${timezone}, 'YYYY-MM') as last
+    from reading_rollups r join probes p on p.id = r.probe_id
+    where p.farm_id = ${farmId} and p.zone_id is not null
+    group by p.zone_id`);
+  const out: { zoneId: string; month: string; csv: string; senml: string }[] = [];
+  for (const row of r.rows) {
+    let [y, m] = row.first.split("-").map(Number) as [number, number];
+    const [ly, lm] = row.last.split("-").map(Number) as [number, number];
+    while (y < ly || (y === ly && m <= lm)) {
+      const month = `${y}-${String(m).padStart(2, "0")}`;
+      const last = new Date(Date.UTC(y, m, 0)).getUTCDate();
+      const q = `zoneId=${row.zone_id}&from=${month}-01&to=${month}-${String(last).padStart(2, "0")}`;
+      const base = `/api/farms/${farmId}/readings/export?${q}`;
+      out.push({ zoneId: row.zone_id, month, csv: `${base}&format=csv`, senml: `${base}&format=senml` });
+      [y, m] = m === 12 ? [y + 1, 1] : [y, m + 1];
+    }
+  }
+  return out;
+}
 
 async function farmData(farmId: string) {
   const d = db();
@@ -42,7 +67,9 @@ async function farmData(farmId: string) {
     ovenDrySamples: await d.select().from(s.ovenDrySamples).where(eq(s.ovenDrySamples.farmId, farmId)),
     imports: await d.select().from(s.imports).where(eq(s.imports.farmId, farmId)),
     refusedMessages: await d.select().from(s.rejectedMessages).where(eq(s.rejectedMessages.farmId, farmId)),
-    readings: probeIds.length ? await d.select().from(s.readings).where(inArray(s.readings.probeId, probeIds)) : [],
+    // Raw readings run to millions of rows after a few months (a 96 MB answer for the demo's half
+    // year), so they come as files from the readings export, one link per zone and month.
+    readingsDownloads: await readingsDownloads(farmId, farm?.timezone ?? "UTC", zones),
     hourlyRollups: probeIds.length ? await d.select().from(s.readingRollups).where(inArray(s.readingRollups.probeId, probeIds)) : [],
   };
 }

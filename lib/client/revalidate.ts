@@ -1,4 +1,5 @@
 import { useCallback } from "react";
+import { useRouter } from "next/navigation";
 import { useSWRConfig } from "swr";
 import { feedingsKey, isTodayKey, logbookKey, todayKey } from "@/lib/client/swr-keys";
 
@@ -17,4 +18,15 @@ export function useBinRefresh(binId: string) {
 export function useTodayRefresh(farmId: string) {
   const { mutate } = useSWRConfig();
   return useCallback(() => mutate(todayKey(farmId)), [mutate, farmId]);
+}
+
+/** Every SWR key on the page and the server-rendered parts, after entries kept on the phone were sent
+ * (they may belong to any bin the page shows). */
+export function usePageRefresh() {
+  const { mutate } = useSWRConfig();
+  const router = useRouter();
+  return useCallback(async () => {
+    router.refresh();
+    await mutate(() => true);
+  }, [mutate, router]);
 }

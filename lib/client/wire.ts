@@ -32,7 +32,7 @@ type Answer<F extends (...args: never[]) => unknown> = Wire<Awaited<ReturnType<F
 export type Feeding = Wire<FeedingEntry>;
 export type FeedingItem = Feeding["items"][number];
 /** What logging a feeding answers: the feeding and its mix check. */
-export type LoggedFeeding = Answer<typeof logFeeding>;
+export type LoggedFeeding = Answer<typeof logFeeding>["answer"];
 /** A zone of a bin as the logbook forms offer it. */
 export type ZoneChoice = Pick<Wire<Zone>, "id" | "kind" | "name">;
 /** A library or farm ingredient. */
@@ -61,7 +61,7 @@ export type CalibrationView = Answer<typeof calibrationView>;
 /** What registering a probe answers: the probe and its one-time token. */
 export type RegisteredProbe = Answer<typeof registerProbe>;
 /** What recording an oven-dry sample answers. */
-export type RecordedSample = Answer<typeof addSample>;
+export type RecordedSample = Answer<typeof addSample>["answer"];
 /** What fitting a probe's calibration answers: the line, its residuals and the raw range sampled. */
 export type FittedCalibration = Answer<typeof fitProbeCalibration>;
 /** A probe's new token, shown once. */

@@ -3,7 +3,9 @@ import type { Who } from "@/lib/server/auth/authorize";
 import type { WateringCreate } from "@/lib/domain/validation/log-entries";
 import { entryRow } from "./entry-row";
 
-/** A keeper or owner logs water given to the bin. */
-export async function logWatering(who: Pick<Who, "farmId" | "userId">, binId: string, input: WateringCreate) {
-  return { watering: await insertWatering(await entryRow(who, binId, input)) };
+/** A keeper or owner logs water given to the bin; a clientKey the farm used before answers the entry stored
+ * then (`created` false). */
+export async function logWatering(who: Pick<Who, "farmId" | "userId">, binId: string, input: WateringCreate & { clientKey?: string }) {
+  const { row, created } = await insertWatering(await entryRow(who, binId, input));
+  return { answer: { watering: row }, created };
 }

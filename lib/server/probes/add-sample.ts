@@ -4,8 +4,9 @@ import { moistureWetBasis } from "@/lib/domain/calibration";
 import { AppError } from "@/lib/domain/errors";
 import type { SampleCreate } from "@/lib/domain/validation/log-entries";
 
-/** Records an oven-dry sample taken beside the probe, with its wet-basis moisture and the probe's raw reading. */
-export async function addSample(who: Pick<Who, "farmId" | "userId">, probeId: number, input: SampleCreate) {
+/** Records an oven-dry sample taken beside the probe, with its wet-basis moisture and the probe's raw
+ * reading. A clientKey the farm used before answers the sample stored then (`created` false). */
+export async function addSample(who: Pick<Who, "farmId" | "userId">, probeId: number, input: SampleCreate & { clientKey?: string }) {
   const place = await getProbePlace(probeId);
   if (!place?.binId) throw new AppError("invalid", "Place the probe in a zone of a bin before sampling beside it.", "probeId");
   const wb = moistureWetBasis({ wetMassG: input.wetMassG, dryMassG: input.dryMassG, tareG: input.tareG });
@@ -13,7 +14,7 @@ export async function addSample(who: Pick<Who, "farmId" | "userId">, probeId: nu
   const at = input.at ?? new Date();
   // When the keeper did not read the probe, take what it reported nearest the sampling time.
   const raw = input.rawReading ?? (await nearestRawReading(probeId, at))?.value ?? null;
-  const sample = await insertSample({
+  const { row: sample, created } = await insertSample({
     farmId: who.farmId,
     binId: place.binId,
     zoneId: place.zoneId,
@@ -27,6 +28,10 @@ export async function addSample(who: Pick<Who, "farmId" | "userId">, probeId: nu
     ovenTempC: input.ovenTempC ?? null,
     rawReading: raw,
     moistureWbPct: wb.value,
+    clientKey: input.clientKey ?? null,
   });
-  return { sample, rawFrom: input.rawReading != null ? "given" : raw != null ? "probe" : "none" };
+  // A replay under a stored key is said of the stored sample, as the first request said it.
+  const given = created ? input.rawReading != null : input.rawReading != null && input.rawReading === sample.rawReading;
+  const rawFrom = given ? "given" : sample.rawReading != null ? "probe" : "none";
+  return { answer: { sample, rawFrom }, created };
 }

@@ -232,7 +232,12 @@ describe("my data", () => {
     expect(data.memberships.map((m) => m.farmId).sort()).toEqual([mine.id, elsewhere.id].sort());
     expect(data.farmsYouOwn.map((f) => f.farm?.id)).toEqual([mine.id]);
     const [farm] = data.farmsYouOwn;
-    expect(farm!.readings).toHaveLength(1);
+    // Raw readings come as one export link per zone and month (this month here), beside the hourly rollups.
+    expect(farm!.hourlyRollups).toHaveLength(1);
+    expect(farm!.readingsDownloads).toHaveLength(1);
+    expect(farm!.readingsDownloads[0]!.csv).toMatch(
+      new RegExp(`^/api/farms/${mine.id}/readings/export\\?zoneId=[0-9a-f-]{36}&from=\\d{4}-\\d{2}-01&to=\\d{4}-\\d{2}-\\d{2}&format=csv$`),
+    );
     expect(farm!.bins).toHaveLength(1);
     expect(farm!.feedingItems).toHaveLength(1);
   });

@@ -32,7 +32,7 @@ export default async function TodayPage({ params }: { params: Promise<{ farmId: 
         <TodayBoard farmId={farmId} units={farm.unitSystem} canLog={role !== "viewer"} />
         {role === "owner" && (
           <div className="px-3 pb-6">
-            <AddBinForm farmId={farmId} />
+            <AddBinForm farmId={farmId} system={farm.unitSystem} />
           </div>
         )}
       </SWRConfig>

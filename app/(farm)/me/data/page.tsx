@@ -12,7 +12,8 @@ export default function MyDataPage() {
       <section className="space-y-2 rounded-2xl bg-white p-4 ring-1 ring-soil-300">
         <h2 className="text-xl font-bold">Download</h2>
         <p className="text-soil-700">
-          One JSON file: your account, the farms you are on, and everything of the farms you own (bins, probes, readings, alerts, logbook).
+          One JSON file: your account, the farms you are on, and everything of the farms you own (bins, probes, hourly readings, alerts, logbook), with a
+          download link for each zone’s raw readings, month by month.
         </p>
         <a href="/api/me/data" download className="flex min-h-12 items-center justify-center rounded-xl bg-soil-800 font-bold text-white">
           Download my data

@@ -1,6 +1,7 @@
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
+import { idempotencyKey, loggedResponse } from "@/lib/web/idempotency-key";
 import { listEntries } from "@/lib/server/logbook/list-entries";
 import { logNote } from "@/lib/server/logbook/log-note";
 import { logEntryListQuery, noteCreate } from "@/lib/domain/validation/log-entries";
@@ -15,10 +16,11 @@ export const GET = route(async (req, { params }: Ctx) => {
   return Response.json(await listEntries("notes", binId, q));
 });
 
-// POST /api/bins/[binId]/notes — keepers and owners log one
+// POST /api/bins/[binId]/notes — keepers and owners log one;
+// a repeated Idempotency-Key answers 200 with the entry stored the first time
 export const POST = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   const who = await requireMember({ binId }, "log");
-  const input = noteCreate.parse(await readJson(req));
-  return Response.json(await logNote(who, binId, input), { status: 201 });
+  const input = { ...noteCreate.parse(await readJson(req)), clientKey: idempotencyKey(req) };
+  return loggedResponse(await logNote(who, binId, input));
 });

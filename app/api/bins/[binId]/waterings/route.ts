@@ -1,6 +1,7 @@
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
+import { idempotencyKey, loggedResponse } from "@/lib/web/idempotency-key";
 import { listEntries } from "@/lib/server/logbook/list-entries";
 import { logWatering } from "@/lib/server/logbook/log-watering";
 import { logEntryListQuery, wateringCreateFor } from "@/lib/domain/validation/log-entries";
@@ -15,10 +16,11 @@ export const GET = route(async (req, { params }: Ctx) => {
   return Response.json(await listEntries("waterings", binId, q));
 });
 
-// POST /api/bins/[binId]/waterings — keepers and owners log one
+// POST /api/bins/[binId]/waterings — keepers and owners log one;
+// a repeated Idempotency-Key answers 200 with the entry stored the first time
 export const POST = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   const who = await requireMember({ binId }, "log");
-  const input = wateringCreateFor(who.units).parse(await readJson(req));
-  return Response.json(await logWatering(who, binId, input), { status: 201 });
+  const input = { ...wateringCreateFor(who.units).parse(await readJson(req)), clientKey: idempotencyKey(req) };
+  return loggedResponse(await logWatering(who, binId, input));
 });

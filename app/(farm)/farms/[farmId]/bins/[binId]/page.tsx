@@ -4,7 +4,9 @@ import { notFound } from "next/navigation";
 import { SWRConfig } from "swr";
 import { BinCycleForm } from "@/components/bins/bin-cycle-form";
 import { BinCyclePanel } from "@/components/bins/bin-cycle-panel";
+import { BinSizeForm } from "@/components/bins/bin-size-form";
 import { YieldsChart } from "@/components/bins/yields-chart";
+import { BinChart } from "@/components/charts/bin-chart";
 import { zoneWords } from "@/components/logbook/format";
 import { LogAction } from "@/components/logbook/log-action";
 import { logKindsFor, type LogFormProps } from "@/components/logbook/log-kinds";
@@ -20,6 +22,7 @@ import { classifyMoisture, classifyTemperature, getSpecies } from "@/lib/domain/
 import { ingredientsKey, logbookKey } from "@/lib/client/swr-keys";
 import { formatPercent, formatTemperature } from "@/lib/domain/units";
 import { toWire } from "@/lib/domain/wire";
+import { floorAreaM2 } from "@/lib/domain/feeding-load";
 import { saveBinCycle } from "./actions";
 
 export async function generateMetadata({ params }: { params: Promise<{ farmId: string; binId: string }> }): Promise<Metadata> {
@@ -55,7 +58,16 @@ export default async function BinPage({
   if (view.library) fallback[ingredientsKey(farmId)!] = toWire(view.library);
   // The "Log" button's kinds; the chosen one (?log=…) is rendered here and shown below the button.
   const here = `/farms/${farmId}/bins/${binId}`;
-  const formProps: LogFormProps = { farmId, binId, zones, system: farm.unitSystem, probes: view.probes, defaultZoneId, harvestSide: !!cycle.harvestSide };
+  const formProps: LogFormProps = {
+    farmId,
+    binId,
+    zones,
+    system: farm.unitSystem,
+    probes: view.probes,
+    defaultZoneId,
+    harvestSide: !!cycle.harvestSide,
+    feedingBin: { areaM2: floorAreaM2(bin.lengthCm, bin.widthCm), intervalDays: cycle.interval.days },
+  };
   const log = logKindsFor(formProps, { log: one(query.log), zone: asked });
   const withLog = (key: string) => `${here}?${new URLSearchParams({ log: key, ...(defaultZoneId ? { zone: defaultZoneId } : {}) })}`;
   const choices = log.offered.map((k) => ({ key: k.key, label: k.label, hint: k.hint, mark: k.mark, href: withLog(k.key) }));
@@ -160,7 +172,14 @@ export default async function BinPage({
         )}
       </section>
 
-      {/* BIN CHART — the lead puts the bin-wide <BinChart> here, after the zones. */}
+      {zones.length > 1 && (
+        <section aria-labelledby="bin-chart-h" className="rounded-2xl bg-white p-4 ring-1 ring-soil-300">
+          <h2 id="bin-chart-h" className="text-xl font-bold">
+            All zones on one chart
+          </h2>
+          <BinChart farmId={farmId} binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} />
+        </section>
+      )}
 
       <SWRConfig value={{ fallback }}>
         {canLog && (
@@ -173,7 +192,7 @@ export default async function BinPage({
             Logbook
           </h2>
           <p className="mb-2 text-sm text-soil-700">
-            Feedings, water, harvests, notes and oven-dry samples, newest first. Undo is open for 24 hours to whoever logged it.
+            Feedings with their mix check, water, shifts, harvests, notes and oven-dry samples, newest first. Undo is open for 24 hours to whoever logged it.
           </p>
           <LogbookList binId={binId} zones={zones} system={farm.unitSystem} timezone={farm.timezone} userId={who.userId} isOwner={who.role === "owner"} />
         </section>
@@ -185,6 +204,10 @@ export default async function BinPage({
         </h2>
         <YieldsChart perHarvest={cycle.yields.perHarvest} perMonth={cycle.yields.perMonth} system={farm.unitSystem} today={cycle.today} />
       </section>
+
+      {who.role === "owner" && (
+        <BinSizeForm binId={binId} system={farm.unitSystem} size={{ lengthCm: bin.lengthCm, widthCm: bin.widthCm, depthCm: bin.depthCm }} />
+      )}
     </main>
   );
 }
