@@ -20,7 +20,15 @@ const log = createDebug("wormward:fleet");
 export const SCENARIOS = ["steady", "heavy-feed", "drying", "dropout"] as const;
 export type ScenarioName = (typeof SCENARIOS)[number];
 
-export type FleetProbe = { code: string; token: string; zone?: string; bin?: string; metrics?: string[] };
+export type FleetProbe = {
+  code: string;
+  token: string;
+  zone?: string;
+  bin?: string;
+  metrics?: string[];
+  /** Where the zone stood at the end of the seeded history, so the live readings carry on from it. */
+  last?: { temperature: number; moisture: number };
+};
 
 export type FleetOptions = {
   probes: FleetProbe[];
@@ -135,6 +143,8 @@ class KeptStore implements IStore {
 type Sim = {
   probe: FleetProbe;
   zone: string;
+  /** The temperature the daily swing runs around: the zone's default, or where its history ended. */
+  baseTemp: number;
   topics: ReturnType<typeof probeTopics>;
   scenario: ScenarioName;
   /** Simulated hours since the scenario started. */
@@ -193,10 +203,11 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
       probe,
       zone,
       topics,
+      baseTemp: probe.last?.temperature ?? base.temp,
       scenario: "steady",
       scenarioH: 0,
       heatC: 0,
-      moisture: base.wet + rnd.gauss() * 0.5,
+      moisture: (probe.last?.moisture ?? base.wet) + rnd.gauss() * 0.5,
       ammoniaPpm: 2,
       batteryV: 3.95 - rnd.next() * 0.1,
       signalBase: -60 - rnd.next() * 20,
@@ -290,12 +301,11 @@ export async function startFleet(opts: FleetOptions): Promise<Fleet> {
   }
 
   function reading(s: Sim, at: number) {
-    const base = ZONE_BASE[s.zone] ?? ZONE_BASE.working!;
     const hourOfDay = (at / 3_600_000) % 24;
     // Warmest mid-afternoon (UTC hours, the same curve as the demo seed's history).
     const swing = DAILY_SWING_C * Math.sin((2 * Math.PI * hourOfDay) / 24 - 2 + s.phase * 0.05);
     return {
-      temperature: base.temp + swing + s.heatC + rnd.gauss() * 0.08,
+      temperature: s.baseTemp + swing + s.heatC + rnd.gauss() * 0.08,
       moisture: Math.min(100, s.moisture + rnd.gauss() * 0.3),
       ammonia: Math.max(0, s.ammoniaPpm + rnd.gauss() * 0.2),
       batteryV: s.batteryV + rnd.gauss() * 0.005,
