@@ -42,13 +42,39 @@ const METRIC_CHOICES = [
 
 // Each zone's line has its own dash as well as its own colour, so zones are told apart without
 // colour; the legend shows each line's sample beside the zone's name. From the feeding side.
-const LINE_STYLES: { color: string; stroke: string; dash: number[] | undefined; dashWords: string }[] = [
-  { color: "--color-clay-700", stroke: "stroke-clay-700", dash: undefined, dashWords: "solid" },
-  { color: "--color-leaf-700", stroke: "stroke-leaf-700", dash: [8, 4], dashWords: "dashed" },
-  { color: "--color-slate-700", stroke: "stroke-slate-700", dash: [2, 3], dashWords: "dotted" },
-  { color: "--color-straw-800", stroke: "stroke-straw-800", dash: [10, 3, 2, 3], dashWords: "dash-dot" },
-  { color: "--color-soil-700", stroke: "stroke-soil-700", dash: [4, 4], dashWords: "short dashes" },
-  { color: "--color-soil-500", stroke: "stroke-soil-500", dash: [12, 6], dashWords: "long dashes" },
+// `sample` draws the same dash in CSS for the legend (Tailwind needs whole class names, so each is spelled out).
+const LINE_STYLES: { color: string; sample: string; dash: number[] | undefined; dashWords: string }[] = [
+  { color: "--color-clay-700", sample: "bg-clay-700", dash: undefined, dashWords: "solid" },
+  {
+    color: "--color-leaf-700",
+    sample: "bg-[repeating-linear-gradient(90deg,var(--color-leaf-700)_0_8px,transparent_8px_12px)]",
+    dash: [8, 4],
+    dashWords: "dashed",
+  },
+  {
+    color: "--color-slate-700",
+    sample: "bg-[repeating-linear-gradient(90deg,var(--color-slate-700)_0_2px,transparent_2px_5px)]",
+    dash: [2, 3],
+    dashWords: "dotted",
+  },
+  {
+    color: "--color-straw-800",
+    sample: "bg-[repeating-linear-gradient(90deg,var(--color-straw-800)_0_10px,transparent_10px_13px,var(--color-straw-800)_13px_15px,transparent_15px_18px)]",
+    dash: [10, 3, 2, 3],
+    dashWords: "dash-dot",
+  },
+  {
+    color: "--color-soil-700",
+    sample: "bg-[repeating-linear-gradient(90deg,var(--color-soil-700)_0_4px,transparent_4px_8px)]",
+    dash: [4, 4],
+    dashWords: "short dashes",
+  },
+  {
+    color: "--color-soil-500",
+    sample: "bg-[repeating-linear-gradient(90deg,var(--color-soil-500)_0_12px,transparent_12px_18px)]",
+    dash: [12, 6],
+    dashWords: "long dashes",
+  },
 ];
 const styleOf = (k: number) => LINE_STYLES[k % LINE_STYLES.length]!;
 // Only the band's words are read for these two metrics; the ammonia lines are never drawn here.
@@ -59,11 +85,7 @@ const MAX_MARK_BUTTONS = 24;
 /** A short sample of a zone's line, for the legend. */
 function Swatch({ k }: { k: number }) {
   const s = styleOf(k);
-  return (
-    <svg width="28" height="10" aria-hidden="true" className="shrink-0 self-center">
-      <line x1="1" y1="5" x2="27" y2="5" className={s.stroke} strokeWidth="3" strokeDasharray={s.dash?.join(" ")} />
-    </svg>
-  );
+  return <span aria-hidden="true" className={`inline-block h-[3px] w-7 shrink-0 self-center ${s.sample}`} />;
 }
 
 type Geom = { left: number; top: number; width: number; height: number; xMin: number; xMax: number };

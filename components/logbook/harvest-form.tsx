@@ -46,7 +46,8 @@ export function HarvestForm({ binId, zones, system }: { binId: string; zones: Zo
     await refresh();
     // The yields chart is drawn on the server.
     router.refresh();
-    done(said);
+    // Kept on the phone: the form stays open with its answer, since closing it would load a page with no signal.
+    if (!sent.kept) done(said);
   }
 
   return (

@@ -32,7 +32,8 @@ export function NoteForm({ binId, zones }: { binId: string; zones: ZoneChoice[] 
     const said = sent.kept ? SAVED_ON_PHONE : "Note added.";
     setStatus({ ok: true, text: said });
     await refresh();
-    done(said);
+    // Kept on the phone: the form stays open with its answer, since closing it would load a page with no signal.
+    if (!sent.kept) done(said);
   }
 
   return (

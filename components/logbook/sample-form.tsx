@@ -73,7 +73,8 @@ export function SampleForm({
     const said = sent.kept ? SAVED_ON_PHONE : `Sample recorded: ${formatNumber(sent.value.sample.moistureWbPct, 1)} % moisture (wet basis).`;
     setStatus({ ok: true, text: said });
     await refresh();
-    done(said);
+    // Kept on the phone: the form stays open with its answer, since closing it would load a page with no signal.
+    if (!sent.kept) done(said);
   }
 
   if (probes.length === 0) {

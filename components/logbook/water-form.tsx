@@ -41,7 +41,8 @@ export function WaterForm({ binId, zones, system }: { binId: string; zones: Zone
     const said = sent.kept ? SAVED_ON_PHONE : "Water logged.";
     setStatus({ ok: true, text: said });
     await refresh();
-    done(said);
+    // Kept on the phone: the form stays open with its answer, since closing it would load a page with no signal.
+    if (!sent.kept) done(said);
   }
 
   return (

@@ -103,6 +103,8 @@ describe("the bin page's Log button", () => {
     expect(await kinds.getByRole("link").allTextContents()).toEqual([
       expect.stringContaining("Feeding"),
       expect.stringContaining("Water"),
+      // This bin has a harvest side, so material can be shifted toward it.
+      expect.stringContaining("Shift"),
       expect.stringContaining("Harvest"),
       expect.stringContaining("Oven-dry sample"),
       expect.stringContaining("Note"),

@@ -78,7 +78,7 @@ describe("a feeding weighed against the bin", () => {
     made.push(bin.id);
     expect(bin).toMatchObject({ lengthCm: 80, widthCm: 50, depthCm: 30 });
 
-    await page.goto(`${appUrl()}/farms/${farmId}/bins/${bin.id}`);
+    await page.goto(`${appUrl()}/farms/${farmId}/bins/${bin.id}?log=feeding`);
     const form = page.locator("form#log");
     // the library offers fruit waste and mixed paper, not peat moss or coconut coir
     const offered = form.getByRole("list", { name: "Library ingredients" });
@@ -125,7 +125,7 @@ describe("a feeding weighed against the bin", () => {
     const { page, errors } = await signedIn("tomas@alder-row.example");
     const bins = (await (await owner.fetch(`/api/farms/${farmId}/bins`)).json()) as { bins: { id: string; lengthCm: number | null }[] };
     const bin = bins.bins.find((b) => b.lengthCm != null)!;
-    await page.goto(`${appUrl()}/farms/${farmId}/bins/${bin.id}`);
+    await page.goto(`${appUrl()}/farms/${farmId}/bins/${bin.id}?log=feeding`);
     const form = page.locator("form#log");
     await form
       .getByRole("list", { name: "Library ingredients" })

@@ -52,7 +52,8 @@ describe("logging with no signal", () => {
     const errors: string[] = [];
     page.on("pageerror", (e) => errors.push(e.message));
     await signInAsKeeper(page);
-    const binUrl = `${appUrl()}/farms/${crew.farmId}/bins/${bin.id}`;
+    // The bin page's Log button, on Feeding (?log=feeding): the address keeps the open form.
+    const binUrl = `${appUrl()}/farms/${crew.farmId}/bins/${bin.id}?log=feeding`;
     await page.goto(binUrl);
     await keptOnPhone(page);
 
@@ -149,19 +150,19 @@ describe("logging with no signal", () => {
 
     // Sent, it shows in the bin's feedings like any other.
     await expect
-      .poll(() => page.getByRole("list", { name: "Feedings, newest first" }).getByRole("listitem").first().textContent(), { timeout: 15_000 })
+      .poll(() => page.getByRole("list", { name: "Logbook, newest first" }).getByRole("listitem").first().textContent(), { timeout: 15_000 })
       .toContain("Pumpkin rinds");
     await page.screenshot({ path: screenshotPath("offline-feeding-sent") });
     expect(errors).toEqual([]);
     await context.close();
-  });
+  }, 120_000);
 
   it("an entry the server refuses on resend stays in the list, marked, until discarded", async () => {
     const context = await browser.newContext(PHONE);
     const page = await context.newPage();
     await signInAsKeeper(page);
     const doomed = await newBin(crew.owner, crew.farmId);
-    await page.goto(`${appUrl()}/farms/${crew.farmId}/bins/${doomed.id}`);
+    await page.goto(`${appUrl()}/farms/${crew.farmId}/bins/${doomed.id}?log=water`);
     await keptOnPhone(page);
 
     await context.setOffline(true);
@@ -182,7 +183,7 @@ describe("logging with no signal", () => {
     await waiting.getByRole("button", { name: "Discard" }).click();
     await expect.poll(() => waiting.count()).toBe(0);
     await context.close();
-  });
+  }, 120_000);
 
   it("signing out empties the pages kept on the phone: the next person offline gets none of them", async () => {
     const context = await browser.newContext(PHONE);

@@ -173,6 +173,7 @@ const rows: Row[] = [
   { method: "GET", route: "farms/[farmId]/imports", path: (i) => `/api/farms/${i.farm}/imports`, allowed: ALL, farmScoped: true },
   { method: "POST", route: "farms/[farmId]/imports", path: (i) => `/api/farms/${i.farm}/imports`, body: () => csvImport(), allowed: OWNER, farmScoped: true },
   { method: "GET", route: "zones/[zoneId]/series", path: (i) => `/api/zones/${i.zone}/series?metric=temperature`, allowed: ALL, farmScoped: true },
+  { method: "GET", route: "bins/[binId]/series", path: (i) => `/api/bins/${i.bin}/series?metric=temperature`, allowed: ALL, farmScoped: true },
   // Another farm's probe gets 404: tests/integration/series/.
   { method: "GET", route: "probes/[probeId]/health", path: (i) => `/api/probes/${i.probe}/health`, allowed: ALL, farmScoped: true },
   { method: "GET", route: "probes/[probeId]/series", path: (i) => `/api/probes/${i.probe}/series?metric=temperature`, allowed: ALL, farmScoped: true },
