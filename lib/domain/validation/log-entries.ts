@@ -34,12 +34,6 @@ export const shiftCreateFor = perUnitSystem((system: UnitSystem) =>
 );
 export const shiftCreate = shiftCreateFor("metric");
 export type ShiftCreate = z.output<typeof shiftCreate>;
-/** The Idempotency-Key header of a log POST: 8–100 of [A-Za-z0-9_-]; absent means none. */
-export const idempotencyKeyHeader = z
-  .string()
-  .regex(/^[A-Za-z0-9_-]{8,100}$/, "The Idempotency-Key header must be 8 to 100 letters, digits, _ or -.")
-  .nullable()
-  .transform((v) => v ?? undefined);
 export const wateringCreate = wateringCreateFor("metric");
 export const harvestCreate = harvestCreateFor("metric");
 export const noteCreate = z.object({ ...logCommon, text: longText("The note", { min: 1, max: 4000, empty: "Write the note." }) });

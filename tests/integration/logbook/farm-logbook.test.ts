@@ -217,6 +217,7 @@ describe("shifts", () => {
       headers: { "Idempotency-Key": "no spaces!" },
     });
     expect(bad.status).toBe(422);
+    expect((await json<ErrorBody>(bad)).error.field).toBe("Idempotency-Key");
     const same = await crew.keeper.fetch(`/api/bins/${binA.id}/shifts`, { method: "POST", json: { zoneId: binA.zones[0]!.id, toZoneId: binA.zones[0]!.id } });
     expect(same.status).toBe(422);
     expect((await json<ErrorBody>(same)).error.field).toBe("toZoneId");

@@ -3,7 +3,8 @@ import { requireMember } from "@/lib/web/session";
 import { readJson } from "@/lib/web/errors";
 import { listBinShifts } from "@/lib/server/logbook/list-shifts";
 import { logShift } from "@/lib/server/logbook/log-shift";
-import { idempotencyKeyHeader, logEntryListQuery, shiftCreateFor } from "@/lib/domain/validation/log-entries";
+import { logEntryListQuery, shiftCreateFor } from "@/lib/domain/validation/log-entries";
+import { idempotencyKey } from "@/lib/web/idempotency-key";
 
 type Ctx = { params: Promise<{ binId: string }> };
 
@@ -21,6 +22,6 @@ export const POST = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   const who = await requireMember({ binId }, "log");
   const input = shiftCreateFor(who.units).parse(await readJson(req));
-  const { created, shift } = await logShift(who, binId, input, idempotencyKeyHeader.parse(req.headers.get("Idempotency-Key")));
+  const { created, shift } = await logShift(who, binId, input, idempotencyKey(req));
   return Response.json({ shift }, { status: created ? 201 : 200 });
 });
