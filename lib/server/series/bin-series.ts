@@ -1,9 +1,8 @@
 import { getBinSeriesPlace, listBinSeriesProbeIds, listChartEvents, type BinSeriesAnswer } from "@/db/queries/series";
 import { AppError } from "@/lib/domain/errors";
-import { METRICS } from "@/lib/domain/metrics";
 import { timeZoneOrUtc } from "@/lib/domain/validation/fields";
 import type { SeriesQuery } from "@/lib/domain/validation/series";
-import { columnsOf, pointsOf } from "./read-series";
+import { answerHead, columnsOf, pointsOf } from "./read-series";
 
 // Raw readings of a bin's zones are merged into buckets of at least 5 minutes: two probes of one
 // zone then make one line, and the comparison stays light (common practice, our choice).
@@ -18,17 +17,10 @@ export async function getBinSeries(binId: string, q: SeriesQuery): Promise<BinSe
   const [ids, events] = await Promise.all([listBinSeriesProbeIds(binId, q.from), listChartEvents({ binId, from: q.from, to: q.to })]);
   const got = await pointsOf(ids, q, { by: "zone", timezone: timeZoneOrUtc(place.timezone), minRawBucketS: MIN_RAW_BUCKET_S });
   const cols = columnsOf(got.rows);
-  const spec = METRICS[q.metric];
   return {
-    metric: q.metric,
-    unit: spec.unit,
-    displayUnit: spec.displayUnit,
-    from: q.from.toISOString(),
-    to: q.to.toISOString(),
-    source: got.source,
-    bucketSeconds: got.bucketSeconds,
+    ...answerHead(q, got),
     species: place.species,
-    zones: place.zones.map((z) => ({ zoneId: z.id, kind: z.kind, name: z.name, ...(cols.get(z.id) ?? { t: [], mean: [], min: [], max: [] }) })),
+    zones: place.zones.map((z) => ({ zoneId: z.id, kind: z.kind, name: z.name, ...cols.of(z.id) })),
     events,
   };
 }

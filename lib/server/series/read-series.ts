@@ -8,6 +8,7 @@ import {
   type SeriesPoint,
   type SeriesRange,
 } from "@/db/queries/series";
+import { METRICS } from "@/lib/domain/metrics";
 
 /** About this many points per series at most from raw readings. */
 export const MAX_POINTS = 1000;
@@ -55,8 +56,11 @@ export async function pointsOf(ids: number[], q: SeriesRange, opts: { by: LineKe
 }
 
 /** Rows into columns per line key: t in Unix seconds, mean, min and max. */
+type Columns = { t: number[]; mean: number[]; min: number[]; max: number[] };
+
+/** Each line's points as columns, keyed by probe id or zone id; `of(key)` is an empty line when it has none. */
 export function columnsOf(rows: SeriesPoint[]) {
-  const out = new Map<string, { t: number[]; mean: number[]; min: number[]; max: number[] }>();
+  const out = new Map<string, Columns>();
   for (const row of rows) {
     let c = out.get(row.key);
     if (!c) out.set(row.key, (c = { t: [], mean: [], min: [], max: [] }));
@@ -65,5 +69,19 @@ export function columnsOf(rows: SeriesPoint[]) {
     c.min.push(Number(row.min));
     c.max.push(Number(row.max));
   }
-  return out;
+  return { of: (key: string): Columns => out.get(key) ?? { t: [], mean: [], min: [], max: [] } };
+}
+
+/** What every series answer starts with: the metric, its units, the range and where the points came from. */
+export function answerHead<M extends keyof typeof METRICS>(q: { metric: M; from: Date; to: Date }, got: Pick<Points, "source" | "bucketSeconds">) {
+  const spec = METRICS[q.metric];
+  return {
+    metric: q.metric,
+    unit: spec.unit,
+    displayUnit: spec.displayUnit,
+    from: q.from.toISOString(),
+    to: q.to.toISOString(),
+    source: got.source,
+    bucketSeconds: got.bucketSeconds,
+  };
 }
