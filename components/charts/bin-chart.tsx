@@ -10,6 +10,8 @@ import { getSpecies } from "@/lib/domain/species";
 import { formatNumber, temperatureForDisplay } from "@/lib/domain/units";
 import {
   bindTouch,
+  keepCursor,
+  type HeldCursor,
   CHART_RANGES,
   cursorWhen,
   drawMarks,
@@ -101,6 +103,7 @@ export function BinChart(p: Props) {
   const box = useRef<HTMLDivElement>(null);
   const [geom, setGeom] = useState<Geom | null>(null);
   const [cursor, setCursor] = useState<CursorWords | null>(null);
+  const held = useRef<HeldCursor>(null);
   const [picked, setPicked] = useState<string | null>(null);
   const scheme = useColorScheme();
 
@@ -135,6 +138,7 @@ export function BinChart(p: Props) {
     const el = box.current;
     if (!el || !data || !drawn || drawn.tables.length === 0) return;
     const aligned = drawn.tables.length === 1 ? drawn.tables[0]! : uPlot.join(drawn.tables);
+    const keep = keepCursor(held);
     const dark = scheme === "dark";
     const ink = paletteColor("--color-soil-800");
     const bandFill = withAlpha(paletteColor("--color-leaf-500"), dark ? 0.24 : 0.18);
@@ -195,12 +199,13 @@ export function BinChart(p: Props) {
             drawMarks(u, marks, ink);
           },
         ],
-        ready: [measure],
+        ready: [measure, keep.ready],
         setSize: [measure],
         setCursor: [
           (u) => {
             const i = u.cursor.idx;
             const t = i == null ? undefined : u.data[0][i];
+            if (!keep.follow(u, t)) return;
             if (t == null) {
               setCursor(null);
               return;

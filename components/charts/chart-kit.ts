@@ -195,6 +195,35 @@ export function bindTouch(u: uPlot): () => void {
   };
 }
 
+/** Where a finger left the cursor, kept across the plot being rebuilt: a data refresh makes a new
+ * uPlot, whose first (empty) cursor must not wipe the legend the keeper is reading. */
+export type HeldCursor = { t: number; top: number } | null;
+
+/** Hooks that keep the cursor on the same moment through a rebuild. `held` outlives each plot. */
+export function keepCursor(held: { current: HeldCursor }) {
+  return {
+    /** After a rebuild: put the cursor back on its moment when that moment is still drawn. */
+    ready(u: uPlot) {
+      const h = held.current;
+      const min = u.scales.x?.min;
+      const max = u.scales.x?.max;
+      if (!h || min == null || max == null || h.t < min || h.t > max) return;
+      u.setCursor({ left: u.valToPos(h.t, "x"), top: h.top });
+    },
+    /** On each cursor move: whether the legend should follow it (false for the new plot's empty
+     * first cursor, which is not the keeper moving away). */
+    follow(u: uPlot, t: number | null | undefined): boolean {
+      if (t == null) {
+        if (u.status === 0) return false;
+        held.current = null;
+        return true;
+      }
+      held.current = { t, top: u.cursor.top ?? 0 };
+      return true;
+    },
+  };
+}
+
 /** The ranges a chart offers; the window's start is fixed when it is chosen. */
 export const CHART_RANGES = [
   { value: "24h", label: "24 h", days: 1, words: "last 24 hours" },

@@ -9,6 +9,8 @@ import { formatNumber, temperatureForDisplay, type UnitSystem } from "@/lib/doma
 import { Mark } from "@/components/ui/marks";
 import {
   bindTouch,
+  keepCursor,
+  type HeldCursor,
   cursorWhen,
   drawMarks,
   eventMarks,
@@ -86,6 +88,7 @@ export function ZoneChart(p: Props) {
   const box = useRef<HTMLDivElement>(null);
   const [geom, setGeom] = useState<Geom | null>(null);
   const [cursor, setCursor] = useState<CursorWords | null>(null);
+  const held = useRef<HeldCursor>(null);
   const [picked, setPicked] = useState<string | null>(null);
   const scheme = useColorScheme();
 
@@ -153,6 +156,7 @@ export function ZoneChart(p: Props) {
     if (!el || !data || !drawn || drawn.tables.length === 0 || !summary) return;
     const tables = drawn.tables;
     const aligned = tables.length === 1 ? tables[0]! : uPlot.join(tables);
+    const keep = keepCursor(held);
     const per = aggregated ? 3 : 1;
     // Colours from the palette as it is now (light or dark).
     const dark = scheme === "dark";
@@ -269,13 +273,14 @@ export function ZoneChart(p: Props) {
             ctx.restore();
           },
         ],
-        ready: [measure],
+        ready: [measure, keep.ready],
         setSize: [measure],
         setCursor: [
           (u) => {
             const i = u.cursor.idx;
             const t = i == null ? undefined : u.data[0][i];
             const v = i == null ? undefined : u.data[1]?.[i];
+            if (!keep.follow(u, v === undefined ? null : t)) return;
             if (t == null || v === undefined) {
               setCursor(null);
               return;

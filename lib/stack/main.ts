@@ -165,20 +165,35 @@ async function test(extra: string[]) {
   process.exit(r.status ?? 1);
 }
 
-async function bench() {
-  ensureOsPackages(["openssl"]);
-  // Each bench starts its own throwaway cluster; they run one after the other.
-  for (const file of ["tests/bench/ingest.bench.ts", "tests/bench/preview.bench.ts"]) {
+// `npm run bench [name…]`: every benchmark (or the named ones) one after the other, each on its own
+// throwaway services; at the end one table and `.data/bench/latest.json`. Nothing here fails the build
+// on a figure: a bench file that crashes is reported and the others still run.
+const BENCHES: Record<string, string> = {
+  ingest: "tests/bench/ingest.bench.ts",
+  preview: "tests/bench/preview.bench.ts",
+};
+async function bench(names: string[]) {
+  ensureOsPackages(["openssl", "chromium"]);
+  const { beginRun, table, LATEST } = await import("@/tests/bench/report");
+  const chosen = names.length ? names : Object.keys(BENCHES).filter((n) => n !== "soak");
+  for (const n of chosen) if (!BENCHES[n]) throw new Error(`unknown bench ${n}; there are: ${Object.keys(BENCHES).join(", ")}`);
+  beginRun();
+  const failed: string[] = [];
+  for (const n of chosen) {
+    const file = BENCHES[n]!;
     if (!exists(file)) throw new Error(`${file} is missing`);
-    run(bin("tsx"), [file]);
+    const r = spawnSync(bin("tsx"), [file], { cwd: root, stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
+    if (r.status !== 0) failed.push(n);
   }
+  console.log(`\n${table()}\n\nFigures: ${path.relative(root, LATEST)}`);
+  if (failed.length) console.log(`These benchmarks stopped before the end: ${failed.join(", ")}`);
 }
 
 const [cmd = "start", ...rest] = process.argv.slice(2);
 try {
   if (cmd === "start") await start();
   else if (cmd === "test") await test(rest);
-  else if (cmd === "bench") await bench();
+  else if (cmd === "bench") await bench(rest);
   else throw new Error(`unknown command ${cmd}`);
 } catch (err) {
   console.error(err instanceof Error ? err.message : err);
