@@ -20,8 +20,9 @@ const ingest = await startIngest({
   port: e.MQTT_PORT,
   host: e.MQTT_HOST,
   db: db(),
+  redisUrl: e.REDIS_URL,
 });
-console.log(`ingest: MQTT on ${e.MQTT_HOST}:${ingest.port}`);
+console.log(`ingest: MQTT on ${e.MQTT_HOST}:${ingest.port}${e.REDIS_URL ? ` (node ${ingest.nodeId}, shared through Redis)` : ""}`);
 
 let stopping = false;
 async function stop(signal: string) {

@@ -11,6 +11,8 @@ import { recordDoorRefusal } from "@/lib/server/probes/record-door-refusal";
 import type { Probe } from "@/db/schema";
 import { PRESENCE_GONE, PRESENCE_HERE, probeTopics } from "@/lib/domain/vocabulary";
 import { DEFAULT_LIMITS, excerptOf, rejectionText, summarizeRejections, validateSenmlPayload, type TelemetryLimits } from "@/lib/domain/telemetry";
+import { syncProbesOnline } from "@/db/queries/probes-presence";
+import { createBrokerBackends } from "./broker-backends";
 import { createConnectionLimits, DEFAULT_CONNECTION_LIMITS, type ConnectionLimits } from "./connection-limits";
 import { FrameGuard, PacketTooLarge } from "./frame-guard";
 import { createWriter, type BatchOptions, type RetryOptions } from "./writer";
@@ -31,6 +33,14 @@ export type IngestOptions = {
   connectTimeoutMs?: number;
   /** Largest CONNECT packet read before one is accepted. */
   connectMaxBytes?: number;
+  /** Shares sessions, fan-out and presence with other nodes through this Redis (ingest/broker-backends.ts). */
+  redisUrl?: string;
+  /** This node's name in the shared registry and aedes' id (default: host, pid and a random part). */
+  nodeId?: string;
+  /** With Redis: how often probes.online is made to agree with the registry (default 5 s). */
+  presenceSyncMs?: number;
+  /** With Redis: how long a silent node's connections still count (default 15 s). */
+  nodeTtlMs?: number;
 };
 
 // A probe's CONNECT holds a client id, a user name (its code), a 43-character token and a short
@@ -42,6 +52,7 @@ const CONNECT_TIMEOUT_MS = 10_000;
 
 export type Ingest = {
   port: number;
+  nodeId: string;
   close(): Promise<void>;
   stats(): { batches: number; rows: number; retries: number; refusedConnections: number; cutPackets: number };
 };
@@ -70,7 +81,41 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   const sessions = new WeakMap<Client, Session>();
   const limits = { ...DEFAULT_LIMITS, ...opts.limits };
   const admission = createConnectionLimits({ ...DEFAULT_CONNECTION_LIMITS, ...opts.connections });
-  const live = new Map<string, Set<Client>>();
+  // Which connections a probe holds, on this node or (with Redis) on any: one key per connection.
+  const connKeys = new WeakMap<Client, string>();
+  let connSerial = 0;
+  const connKey = (client: Client) => {
+    let k = connKeys.get(client);
+    if (!k) connKeys.set(client, (k = String(++connSerial)));
+    return k;
+  };
+  const backends = await createBrokerBackends({
+    redisUrl: opts.redisUrl,
+    nodeId: opts.nodeId,
+    nodeTtlMs: opts.nodeTtlMs,
+    onOrphaned: () => void syncPresence(),
+  });
+  const { presence } = backends;
+  // Presence work (a Redis round trip, then a status row) still under way; close() waits for it.
+  const presenceWork = new Set<Promise<unknown>>();
+  const track = <T>(p: Promise<T>) => {
+    presenceWork.add(p);
+    void p.finally(() => presenceWork.delete(p)).catch(() => {});
+    return p;
+  };
+  // With several nodes, each node's own writes of probes.online can land out of order; the
+  // registry is the truth, and this makes the column agree with it every few seconds.
+  async function syncPresence() {
+    if (!backends.shared) return;
+    try {
+      const changed = await syncProbesOnline(await presence.connectedCodes(), d);
+      if (changed) log("presence: %d probe row(s) brought in line with the registry", changed);
+    } catch (err) {
+      log("presence not synced: %s", (err as Error).message);
+    }
+  }
+  const presenceSync = backends.shared ? setInterval(() => void syncPresence(), opts.presenceSyncMs ?? 5_000) : null;
+  presenceSync?.unref();
 
   const refuse = (client: Client | null, what: string, cb: (err: Error) => void) => {
     log("refused %s from %s", what, client?.id ?? "(no client)");
@@ -134,8 +179,8 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
       return;
     }
     // A will from a connection the probe has since replaced must not mark it as gone.
-    const replaced = [...(live.get(probe.code) ?? [])].some((c) => c !== client);
-    const online = said === PRESENCE_HERE ? true : replaced ? null : false;
+    const gone = said === PRESENCE_GONE && (await presence.goneMeansOffline(probe.code, connKey(client)));
+    const online = said === PRESENCE_HERE ? true : gone ? false : null;
     await writer.submit(statusJob(probe, { online, seenAt: new Date() }));
   }
 
@@ -226,28 +271,34 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
     },
   };
 
-  const broker = await Aedes.createBroker(handlers);
+  const broker = await Aedes.createBroker({ ...handlers, ...backends.aedes });
   // aedes emits "error" (untyped) when clearing stored wills fails; unhandled, it would end the process.
   (broker as unknown as NodeJS.EventEmitter).on("error", (err: Error) => log("broker error: %s", err.message));
   broker.on("clientError", (client, err) => log("client %s error: %s", client.id, err.message));
   broker.on("clientReady", (client) => {
     const s = sessions.get(client);
     if (!s) return;
-    const set = live.get(s.probe.code) ?? new Set<Client>();
-    set.add(client);
-    live.set(s.probe.code, set);
     log("probe %s connected as %s", s.probe.code, client.id);
-    setConnected(s.probe, true);
+    track(
+      presence.opened(s.probe.code, connKey(client)).then(
+        () => setConnected(s.probe, true),
+        (err: Error) => log("connection of %s not registered: %s", s.probe.code, err.message),
+      ),
+    );
   });
   broker.on("clientDisconnect", (client) => {
     const s = sessions.get(client);
     if (!s) return;
-    const set = live.get(s.probe.code);
-    set?.delete(client);
-    if (set && set.size > 0) return;
-    live.delete(s.probe.code);
-    log("probe %s disconnected", s.probe.code);
-    setConnected(s.probe, false);
+    track(
+      presence.closed(s.probe.code, connKey(client)).then(
+        (elsewhere) => {
+          if (elsewhere) return;
+          log("probe %s disconnected", s.probe.code);
+          setConnected(s.probe, false);
+        },
+        (err: Error) => log("disconnection of %s not registered: %s", s.probe.code, err.message),
+      ),
+    );
   });
   broker.on("keepaliveTimeout", (client) => log("keep-alive of %s ran out", client.id));
 
@@ -300,13 +351,18 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   let closed: Promise<void> | null = null;
   return {
     port,
+    nodeId: backends.nodeId,
     stats: () => ({ ...writer.stats(), ...counts }),
     close() {
       closed ??= (async () => {
         const serverClosed = new Promise<void>((r) => server.close(() => r()));
         await new Promise<void>((r) => broker.close(() => r()));
         await serverClosed;
+        if (presenceSync) clearInterval(presenceSync);
+        // The disconnections of the closed clients reach the registry and the writer before it closes.
+        while (presenceWork.size) await Promise.allSettled([...presenceWork]);
         await writer.close();
+        await backends.close();
         log("ingest closed");
       })();
       return closed;

@@ -7,6 +7,11 @@ const envSchema = z.object({
   NEXTAUTH_URL: z.string().url().optional(),
   MQTT_PORT: z.coerce.number().int().min(0).max(65535).default(18830),
   MQTT_HOST: z.string().default("127.0.0.1"),
+  // Set: the ingest node shares sessions, fan-out and probe presence with other nodes through this Redis (ingest/broker-backends.ts).
+  REDIS_URL: z
+    .string()
+    .regex(/^redis:\/\//, { message: "REDIS_URL must be a redis:// URL" })
+    .optional(),
   VAPID_PUBLIC_KEY: z.string().optional(),
   VAPID_PRIVATE_KEY: z.string().optional(),
   VAPID_SUBJECT: z.string().default("mailto:alerts@wormward.invalid"),

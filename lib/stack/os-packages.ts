@@ -6,6 +6,8 @@ const wanted: Record<string, string> = {
   chromium: "/usr/bin/chromium",
   "mosquitto-clients": "/usr/bin/mosquitto_pub",
   openssl: "/usr/bin/openssl",
+  "redis-server": "/usr/bin/redis-server",
+  haproxy: "/usr/sbin/haproxy",
 };
 
 export function ensureOsPackages(names: (keyof typeof wanted)[]) {
