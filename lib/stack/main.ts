@@ -5,7 +5,9 @@ import path from "node:path";
 import { startCluster, stopCluster } from "@/db/local-pg";
 import { runMigrations } from "@/db/migrate";
 import { buildUnlessCurrent } from "./build-cache";
+import { startHaproxy, stopHaproxy } from "./haproxy";
 import { ensureOsPackages } from "./os-packages";
+import { startRedis, stopRedis } from "./redis-server";
 import { loadSecrets } from "./secrets";
 
 const root = path.resolve(import.meta.dirname, "../..");
@@ -29,11 +31,20 @@ function service(name: string, cmd: string, args: string[], env: NodeJS.ProcessE
 }
 
 let shuttingDown = false;
+// Servers started for --nodes (HAProxy, Redis), stopped before the database.
+const stopAlso: (() => void)[] = [];
 function shutdown(stopDb: boolean) {
   if (shuttingDown) return;
   shuttingDown = true;
   console.log("\nStopping Wormward…");
   for (const c of children) c.kill("SIGTERM");
+  for (const stop of stopAlso) {
+    try {
+      stop();
+    } catch (err) {
+      console.error((err as Error).message);
+    }
+  }
   if (stopDb && !process.env.DATABASE_URL) stopCluster("pg");
   process.exit(0);
 }
@@ -54,8 +65,24 @@ async function waitForHttp(url: string, timeoutMs = 60_000) {
 
 const exists = (rel: string) => fs.existsSync(path.join(root, rel));
 
-async function start() {
+// `npm start -- --nodes N`: N ingest nodes sharing through Redis behind HAProxy (README, "Beyond one machine").
+function nodeCount(args: string[]): number {
+  const i = args.indexOf("--nodes");
+  if (i < 0) return 1;
+  const n = Number(args[i + 1]);
+  if (!Number.isInteger(n) || n < 1 || n > 16) throw new Error("--nodes takes a whole number from 1 to 16");
+  return n;
+}
+
+// The read replica of the multi-node layout (issue 15 item 5) is built in db/local-pg.ts by another
+// change. TODO: when it lands, start it here and return its URL for DATABASE_REPLICA_URL.
+async function startReadReplica(_primaryUrl: string): Promise<string | null> {
+  return null;
+}
+
+async function start(args: string[]) {
   const startedAt = Date.now();
+  const nodes = nodeCount(args);
   ensureOsPackages(["openssl"]);
   fs.mkdirSync(dataDir, { recursive: true });
   let databaseUrl = process.env.DATABASE_URL;
@@ -104,9 +131,29 @@ async function start() {
     service("mailbox", bin("tsx"), ["fakes/mailbox.ts", "--smtp-port", env.SMTP_PORT!, "--http-port", "8025"], env);
     lines.push("Fake mailbox: http://127.0.0.1:8025/");
   }
-  if (exists("ingest/main.ts")) {
+  if (exists("ingest/main.ts") && nodes === 1) {
     service("ingest", bin("tsx"), ["ingest/main.ts"], env);
     lines.push(`MQTT broker (ingest): mqtt://127.0.0.1:${env.MQTT_PORT}`);
+  } else if (exists("ingest/main.ts")) {
+    const redis = await startRedis({ name: "redis" });
+    stopAlso.unshift(() => stopRedis("redis"));
+    const front = Number(env.MQTT_PORT);
+    const backends = Array.from({ length: nodes }, (_, i) => ({ name: `ingest-${i + 1}`, port: front + 1 + i }));
+    for (const b of backends) service(b.name, bin("tsx"), ["ingest/main.ts"], { ...env, MQTT_PORT: String(b.port), REDIS_URL: redis.url });
+    const statsPort = Number(process.env.HAPROXY_STATS_PORT ?? 8404);
+    await startHaproxy({ name: "haproxy", port: front, backends, statsPort });
+    stopAlso.unshift(() => stopHaproxy("haproxy"));
+    lines.push(
+      `MQTT (HAProxy, TCP): mqtt://127.0.0.1:${front} → ${backends.map((b) => `${b.name} on ${b.port}`).join(", ")}; its stats at http://127.0.0.1:${statsPort}/`,
+    );
+    lines.push(`Redis (sessions, fan-out, probe presence): 127.0.0.1:${redis.port}, data in .data/redis/`);
+    const replicaUrl = await startReadReplica(databaseUrl);
+    if (replicaUrl) env.DATABASE_REPLICA_URL = replicaUrl;
+    lines.push(
+      replicaUrl
+        ? `PostgreSQL read replica: ${new URL(replicaUrl).host}`
+        : "PostgreSQL read replica: not started yet (lib/stack/main.ts startReadReplica is a TODO)",
+    );
   }
   // The simulated probes are the demo farm's; without the demo they have nothing to report to.
   if (demo && exists("fakes/probe-fleet.ts")) {
@@ -191,12 +238,19 @@ async function bench(names: string[]) {
 
 const [cmd = "start", ...rest] = process.argv.slice(2);
 try {
-  if (cmd === "start") await start();
+  if (cmd === "start") await start(rest);
   else if (cmd === "test") await test(rest);
   else if (cmd === "bench") await bench(rest);
   else throw new Error(`unknown command ${cmd}`);
 } catch (err) {
   console.error(err instanceof Error ? err.message : err);
   for (const c of children) c.kill("SIGTERM");
+  for (const stop of stopAlso) {
+    try {
+      stop();
+    } catch {
+      /* stopping what we can */
+    }
+  }
   process.exit(1);
 }

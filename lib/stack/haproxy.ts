@@ -1,0 +1,114 @@
+// HAProxy from Debian in front of the ingest nodes: TCP mode on 127.0.0.1, the config we write under
+// .data/<name>/, a health check of each node, stopped cleanly. Probes see one MQTT address; a node
+// that stops answering is taken out until it answers again, and its probes reconnect to another.
+import { spawnSync } from "node:child_process";
+import fs from "node:fs";
+import net from "node:net";
+import path from "node:path";
+import { ensureOsPackages } from "./os-packages";
+
+const projectRoot = path.resolve(import.meta.dirname, "../..");
+
+export type Backend = { name: string; port: number };
+export type BalancerOptions = { name?: string; port: number; backends: Backend[]; statsPort?: number };
+
+const paths = (name: string) => {
+  const dir = path.join(projectRoot, ".data", name);
+  return { dir, cfg: path.join(dir, "haproxy.cfg"), pid: path.join(dir, "haproxy.pid") };
+};
+
+export function haproxyConfig(opts: BalancerOptions): string {
+  return `# Written by lib/stack/haproxy.ts on every start; edits are lost.
+global
+  # Each connection takes two descriptors (client and node side); 8000 fit the usual limit of 20000.
+  maxconn 8000
+
+defaults
+  mode tcp
+  timeout connect 5s
+  # Longer than 1.5 keep-alives of any probe (MQTT 3.1.1 §3.1.2.10: the server closes after 1.5 x
+  # Keep Alive), so HAProxy never cuts a quiet but live connection before the broker would.
+  timeout client 15m
+  timeout server 15m
+
+frontend mqtt
+  bind 127.0.0.1:${opts.port}
+  default_backend ingest
+
+backend ingest
+  # Long-lived connections: the node with the fewest takes the next (HAProxy manual, "balance leastconn").
+  balance leastconn
+  # A TCP connect every 2 s; two misses take a node out, one answer brings it back.
+  default-server inter 2s fall 2 rise 1 on-marked-down shutdown-sessions
+${opts.backends.map((b) => `  server ${b.name} 127.0.0.1:${b.port} check`).join("\n")}
+${
+  opts.statsPort
+    ? `
+listen stats
+  mode http
+  bind 127.0.0.1:${opts.statsPort}
+  stats enable
+  stats uri /
+`
+    : ""
+}`;
+}
+
+function pidOf(pidFile: string): number | null {
+  if (!fs.existsSync(pidFile)) return null;
+  const pid = Number(fs.readFileSync(pidFile, "utf8").trim());
+  try {
+    process.kill(pid, 0);
+    return pid;
+  } catch {
+    return null;
+  }
+}
+
+async function listening(port: number): Promise<boolean> {
+  return new Promise((resolve) => {
+    const s = net.connect(port, "127.0.0.1");
+    s.once("connect", () => {
+      s.destroy();
+      resolve(true);
+    });
+    s.once("error", () => resolve(false));
+  });
+}
+
+/** Writes the config, checks it (haproxy -c) and starts HAProxy as a daemon; replaces one left running. */
+export async function startHaproxy(opts: BalancerOptions): Promise<{ cfg: string; pid: number }> {
+  const name = opts.name ?? "haproxy";
+  ensureOsPackages(["haproxy"]);
+  const p = paths(name);
+  fs.mkdirSync(p.dir, { recursive: true });
+  stopHaproxy(name);
+  fs.writeFileSync(p.cfg, haproxyConfig(opts));
+  const check = spawnSync("haproxy", ["-c", "-q", "-f", p.cfg], { encoding: "utf8" });
+  if (check.status !== 0) throw new Error(`haproxy refused ${p.cfg}: ${check.stderr || check.stdout}`);
+  const r = spawnSync("haproxy", ["-D", "-f", p.cfg, "-p", p.pid], { encoding: "utf8" });
+  if (r.status !== 0) throw new Error(`haproxy did not start (${r.status}): ${r.stderr || r.stdout}`);
+  const until = Date.now() + 10_000;
+  while (!(await listening(opts.port))) {
+    if (Date.now() > until) throw new Error(`haproxy is not listening on 127.0.0.1:${opts.port}`);
+    await new Promise((res) => setTimeout(res, 100));
+  }
+  return { cfg: p.cfg, pid: pidOf(p.pid)! };
+}
+
+/** Stops HAProxy `name` (SIGTERM: at once, connections closed) and waits for it to exit. */
+export function stopHaproxy(name = "haproxy", timeoutMs = 5_000) {
+  const pid = pidOf(paths(name).pid);
+  if (!pid) return;
+  process.kill(pid, "SIGTERM");
+  const until = Date.now() + timeoutMs;
+  while (Date.now() < until) {
+    try {
+      process.kill(pid, 0);
+    } catch {
+      return;
+    }
+    spawnSync("sleep", ["0.1"]);
+  }
+  throw new Error(`haproxy ${name} (pid ${pid}) did not stop within ${timeoutMs / 1000} s`);
+}
