@@ -5,10 +5,11 @@
 import { Aedes } from "aedes";
 import { eq, sql } from "drizzle-orm";
 import mqtt, { type MqttClient } from "mqtt";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
 import { alertEvents, alerts, memberships, probes, users } from "@/db/schema";
 import { createBrokerBackends, type BrokerBackends } from "@/ingest/broker-backends";
+import { startHaproxy, stopHaproxy } from "@/lib/stack/haproxy";
 import { probeTopics } from "@/lib/domain/vocabulary";
 import { connectProbe, countReadings, createProbes, freePort, tempPack, waitFor, type TestProbe } from "../ingest/helpers";
 import { startNode, startTestRedis, stopNode, type Node } from "./helpers";
@@ -208,4 +209,43 @@ describe("rules across nodes", () => {
     expect(ev.filter((e) => e.type === "raised")).toHaveLength(1);
     expect(ev.filter((e) => e.type === "sent" && e.channel === "email")).toHaveLength(1);
   }, 60_000);
+});
+
+describe("behind HAProxy", () => {
+  it("a probe given one address stays reachable while each node in turn is killed and restarted", async () => {
+    const name = `${inject("clusterName")}-haproxy-nodes`;
+    const front = await freePort();
+    await startHaproxy({
+      name,
+      port: front,
+      backends: [
+        { name: "a", port: a.port },
+        { name: "b", port: b.port },
+      ],
+    });
+    try {
+      const [p] = (await createProbes(1)) as [TestProbe];
+      const c = await connectProbe(front, p, { clean: false, reconnectPeriod: 300, connectTimeout: 2000 });
+      c.on("error", () => {});
+      clients.push(c);
+      let reconnects = 0;
+      c.on("connect", () => reconnects++);
+      const t = Math.floor(Date.now() / 1000) - 3600;
+      for (const [i, which] of (["a", "b"] as const).entries()) {
+        const node = which === "a" ? a : b;
+        await stopNode(node, "SIGKILL");
+        // HAProxy's check (every 2 s, two misses) takes the dead node out; the probe's retries land on the other.
+        await c.publishAsync(probeTopics(p.code).readings, tempPack(p.code, t + i, 20), { qos: 1 });
+        const restarted = await startNode(node.port, redis.url);
+        if (which === "a") a = restarted;
+        else b = restarted;
+      }
+      // One of the two kills held the probe's connection, so it came back at least once.
+      expect(reconnects).toBeGreaterThanOrEqual(1);
+      expect((await countReadings([p.id])).rows).toBe(2);
+      expect(await waitFor("registry", () => view.presence.isConnected(p.code), Boolean, 10_000)).toBe(true);
+    } finally {
+      stopHaproxy(name);
+    }
+  }, 120_000);
 });
