@@ -347,7 +347,7 @@ describe("API bodies, over the network to the running app", () => {
         expect(res.status, context).toBeLessThan(500);
         if (res.status >= 400) expectClearError(res.status, JSON.parse(answer), context);
       }),
-      runs(12, 300 + r.n),
+      runs(10, 300 + r.n),
     );
   });
 

@@ -303,7 +303,7 @@ describe("CSV uploads over the network to the running app", () => {
         expect(out.import.rowsRejected, text).toBe(file.bad);
         expect((await readingsOf()) - before).toBe(file.good);
       }),
-      runs(25, 44),
+      runs(15, 44),
     );
   });
 
@@ -323,7 +323,13 @@ describe("CSV uploads over the network to the running app", () => {
       ["NUL bytes only", () => post(form(Buffer.alloc(1000, 0))), 422],
       [
         "a mapping nested 5,000 deep",
-        () => post("", { fileName: "x.csv", csv: "time,value\n", mapping: { time: JSON.parse(`${"[".repeat(5000)}${"]".repeat(5000)}`) } }),
+        // Written as text: JSON.stringify itself recurses and runs out of stack that deep.
+        () =>
+          owner.fetch(`/api/farms/${farm.farmId}/imports`, {
+            method: "POST",
+            headers: { "content-type": "application/json" },
+            body: `{"fileName":"x.csv","csv":"time,value\\n","mapping":{"time":${"[".repeat(5000)}${"]".repeat(5000)}}}`,
+          }),
         422,
       ],
     ];

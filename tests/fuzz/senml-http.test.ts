@@ -146,7 +146,7 @@ describe("SenML over HTTP, in process without a database", () => {
         }
         await checkAnswer(Response.json(answer, { status }), c, JSON.stringify(c.headers));
       }),
-      runs(9_400, 21),
+      runs(10_600, 21),
     );
   });
 });
@@ -170,7 +170,7 @@ describe("SenML over HTTP, the real route handler in process", () => {
         total.stored += got.stored;
         total.refused += got.refused;
       }),
-      runs(600, 22),
+      runs(300, 22),
     );
     const r = await db().execute<{ stored: number; refused: number }>(sql`
       select (select count(*)::int from readings where probe_id = ${probe.id}) as stored,
@@ -205,7 +205,7 @@ describe("SenML over HTTP, through the network to the running app", () => {
         total.stored += got.stored;
         total.refused += got.refused;
       }),
-      runs(150, 23),
+      runs(120, 23),
     );
     const r = await c.query(
       `select (select count(*)::int from readings where probe_id = $1) as stored,

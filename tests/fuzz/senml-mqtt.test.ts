@@ -62,7 +62,7 @@ describe("SenML over MQTT (real broker and client, in PostgreSQL)", () => {
         expect({ stored: after.stored - before.stored, refused: after.refused - before.refused }).toEqual(want);
         expect(client.connected).toBe(true);
       }),
-      runs(200, 11),
+      runs(150, 11),
     );
     // Every refusal row says why in readable words, and the ingest still takes a good pack from a new connection.
     const rows = await db().execute<{ reason: string }>(sql`select reason from rejected_messages where probe_id = ${probe.id}`);
