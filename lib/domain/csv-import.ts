@@ -125,8 +125,12 @@ export function sameMapping(a: Record<string, string>, b: Record<string, string>
   return [...keys].every((k) => a[k] === b[k]);
 }
 
-/** Text of an uploaded file: UTF-8, or Windows-1252 as older logger software writes it. */
+/** Text of an uploaded file: UTF-16 when it opens with its byte-order mark (a spreadsheet's
+ * "Unicode text"), else UTF-8, or Windows-1252 as older logger software writes it. */
 export function decodeFile(bytes: Uint8Array): string {
+  // WHATWG Encoding §6 (BOM sniff): FF FE is UTF-16LE, FE FF UTF-16BE; the decoder drops the mark.
+  if (bytes[0] === 0xff && bytes[1] === 0xfe) return new TextDecoder("utf-16le").decode(bytes);
+  if (bytes[0] === 0xfe && bytes[1] === 0xff) return new TextDecoder("utf-16be").decode(bytes);
   try {
     return new TextDecoder("utf-8", { fatal: true }).decode(bytes);
   } catch {
@@ -263,8 +267,10 @@ export type ImportedReading = { line: number; probeId: number; metric: Metric; t
 export type MappedRows = { readings: ImportedReading[]; bad: BadRow[]; repeats: number; total: number };
 
 // Control characters shown as U+XXXX: a report is read by people and stored as jsonb, which
-// cannot hold U+0000 (PostgreSQL 22P05).
-const visible = (s: string) => s.replace(/[\p{Cc}\p{Cs}]/gu, (c) => `U+${c.codePointAt(0)!.toString(16).toUpperCase().padStart(4, "0")}`);
+// cannot hold U+0000 (PostgreSQL 22P05). Bidirectional controls too: quoted raw, one turns the rest
+// of the reason around on the screen (Unicode UAX #9).
+const visible = (s: string) =>
+  s.replace(/[\p{Cc}\p{Cs}\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/gu, (c) => `U+${c.codePointAt(0)!.toString(16).toUpperCase().padStart(4, "0")}`);
 const quote = (s: string) => `"${visible(s.length > 40 ? `${s.slice(0, 40)}…` : s)}"`;
 
 /** Applies a mapping to a read table: readings to store and bad rows with line and reason. */

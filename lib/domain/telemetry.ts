@@ -90,9 +90,15 @@ export function summarizeRejections(rs: readonly Rejection[]): { reason: string;
   };
 }
 
+// A reason quotes what was sent (a name, a unit, a cell). Control characters (PostgreSQL text cannot
+// hold U+0000), lone surrogates and bidirectional controls (which turn the rest of a line around,
+// Unicode UAX #9) are shown as U+XXXX instead.
+const UNREADABLE = /[\p{Cc}\p{Cs}\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/gu;
+export const readable = (s: string) => s.replace(UNREADABLE, (c) => `U+${c.codePointAt(0)!.toString(16).toUpperCase().padStart(4, "0")}`);
+
 /** The first reasons, one a line and each clipped, and how many more there were out of `total`. */
 export function reasonLines(first: readonly string[], total: number): string {
-  const lines = first.slice(0, REASONS_KEPT).map((l) => clip(l, REASON_LINE_MAX));
+  const lines = first.slice(0, REASONS_KEPT).map((l) => clip(readable(l), REASON_LINE_MAX));
   const more = total - lines.length;
   if (more > 0) lines.push(`and ${more} more record${more === 1 ? "" : "s"} refused`);
   return lines.join("\n");
@@ -156,6 +162,12 @@ function checkRecord(probe: TelemetryProbe, rec: ResolvedRecord, limits: Telemet
   return { ok: true, key: metric, value, time: ms };
 }
 
+// probes.battery_v and signal_dbm are real (float4), which refuses a non-zero value that would round
+// to 0 (SQLSTATE 22003, e.g. 5e-324 V) and took the message's good readings down with it. Below
+// float4's smallest normal (IEEE 754 binary32) the status says 0; the reading keeps its double.
+const FLOAT4_MIN_NORMAL = 1.1754943508222875e-38;
+const asReal = (v: number) => (Math.abs(v) < FLOAT4_MIN_NORMAL ? 0 : v);
+
 const validCalibration = (c: TelemetryProbe["calibration"]) => (c && Number.isFinite(c.slope) && Number.isFinite(c.intercept) ? c : null);
 
 export function validateSenmlPayload(probe: TelemetryProbe, payload: Buffer | string, opts: ValidateOptions = {}): ValidatedPayload {
@@ -208,8 +220,8 @@ export function validateSenmlPayload(probe: TelemetryProbe, payload: Buffer | st
     }
     const value = c.value as number;
     const metric: Metric = c.key;
-    if (metric === "battery-voltage" && newer("battery", c.time)) status.batteryV = value;
-    if (metric === "signal" && newer("signal", c.time)) status.signalDbm = value;
+    if (metric === "battery-voltage" && newer("battery", c.time)) status.batteryV = asReal(value);
+    if (metric === "signal" && newer("signal", c.time)) status.signalDbm = asReal(value);
     readings.push({ probeId: probe.id, metric, ts: new Date(c.time), value });
     if (metric === "moisture") explicitMoisture.add(c.time);
     if (metric === "moisture-raw") raws.push({ ts: c.time, raw: value });
