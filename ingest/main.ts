@@ -31,6 +31,11 @@ function roleFromArgs(argv: string[]): Role {
 const log = createDebug("wormward:ingest");
 const role = roleFromArgs(process.argv.slice(2));
 const e = env();
+// A connection the server ends while it is checked out between two statements (the postmaster
+// killed mid-transaction) emits "error" on its client, which pg's pool only listens for while the
+// client is idle: unheard, it would end the process. The statement under way fails on its own and
+// its caller retries; this only keeps the process standing.
+pool().on("connect", (client) => client.on("error", (err) => log("database connection lost: %s", err.message)));
 const withWorkers = role !== "broker";
 const withBroker = role !== "workers";
 
