@@ -85,6 +85,21 @@ export function createDeliveryWorker(opts: DeliveryWorkerOptions = {}): Delivery
     };
   }
 
+  // A send that went out must be recorded as sent, or its lease runs out and it goes out again: while
+  // the database is away (a restart, a failover) the ending is tried again, within half the lease.
+  async function endSent(d: ClaimedDelivery, end: Ending) {
+    const until = Date.now() + leaseMs / 2;
+    for (let attempt = 0; ; attempt++) {
+      try {
+        return await endDelivery(d, end);
+      } catch (err) {
+        if (stopped || Date.now() > until) throw err;
+        log("delivery %d sent but not yet recorded (%s); trying again", d.id, (err as Error).message);
+        await new Promise((r) => setTimeout(r, Math.min(5_000, 200 * 2 ** attempt)));
+      }
+    }
+  }
+
   async function sendPushRow(d: ClaimedDelivery) {
     const options = pushOptions();
     if (!options || !d.endpoint || !d.p256dh || !d.auth) {
@@ -98,7 +113,7 @@ export function createDeliveryWorker(opts: DeliveryWorkerOptions = {}): Delivery
       topic: topicOf(d.dedupeKey),
     });
     if (r.ok) {
-      await endDelivery(d, { state: "sent", status: r.status, reason: null, event: event(d, true, { status: r.status }) });
+      await endSent(d, { state: "sent", status: r.status, reason: null, event: event(d, true, { status: r.status }) });
       log("delivery %d (push, %s) sent after %d attempt(s)", d.id, d.reason, d.attempts);
       return;
     }
@@ -129,14 +144,15 @@ export function createDeliveryWorker(opts: DeliveryWorkerOptions = {}): Delivery
     }
     try {
       await mailer.send({ to: d.email, subject: mail.subject, text: mail.text });
-      await endDelivery(d, { state: "sent", status: null, reason: null, event: event(d, true, {}) });
     } catch (err) {
       // Our words, not the mail server's: its reply can carry addresses and host names.
       const why = "the mail server did not take the message";
       log("delivery %d (e-mail) attempt %d failed: %s", d.id, d.attempts, (err as Error).message);
       if (d.attempts < maxAttempts) await retryDelivery(d, backoff(d.attempts), null, why);
       else await endDelivery(d, { state: "failed", status: null, reason: why, event: event(d, false, { why }) });
+      return;
     }
+    await endSent(d, { state: "sent", status: null, reason: null, event: event(d, true, {}) });
   }
 
   function start(d: ClaimedDelivery) {

@@ -26,6 +26,11 @@ export type RuleRunnerOptions = {
   // The process's one pool (the writer's too); one of its connections LISTENs for committed
   // readings from any writer: this node, other nodes, the app's HTTP ingest, CSV imports.
   pool?: pg.Pool;
+  // Evaluate every monitored zone each time the LISTEN is (re)established: a NOTIFY sent while no
+  // runner listened (this process starting again after a crash, the database restarting under it)
+  // is never heard, and nothing else would judge those readings until the zone's next one.
+  // ingest/main.ts turns it on; a runner made by a test hears only what it is told, unless asked.
+  catchUp?: boolean;
 };
 
 export type RuleRunner = {
@@ -132,11 +137,31 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
       await c.query(`listen ${READINGS_CHANNEL}; listen ${FENCE_CHANNEL}`);
       if (stopped) return drop(new Error("stopped"));
       listener = c;
+      // Queued before `ready` resolves, so any idle() fence is handled after it.
+      if (opts.catchUp) handling = handling.then(catchUpAll);
       isReady = true;
       heard();
       log("listening for committed readings");
     } catch (err) {
       drop(err as Error);
+    }
+  }
+  // Every monitored zone, once; tried again (a second later, then less often) while the database
+  // cannot list them, unless a newer LISTEN has queued its own catch-up meanwhile.
+  let catchUps = 0;
+  async function catchUpAll(): Promise<void> {
+    const mine = ++catchUps;
+    for (let attempt = 0; !stopped && mine === catchUps; attempt++) {
+      try {
+        const zones = await listMonitoredZones();
+        for (const z of zones) dirty.add(z);
+        log("catching up: %d monitored zone(s) to evaluate", zones.length);
+        flushSoon();
+        return;
+      } catch (err) {
+        log("catch-up not listed (%s); again shortly", (err as Error).message);
+        await new Promise((r) => setTimeout(r, Math.min(5_000, 1_000 * 2 ** attempt)).unref());
+      }
     }
   }
   void listen();

@@ -1,5 +1,5 @@
 // The launcher behind `npm start`, `npm test` and `npm run bench`.
-import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import { startCluster, stopCluster } from "@/db/local-pg";
@@ -9,22 +9,35 @@ import { startHaproxy, stopHaproxy } from "./haproxy";
 import { ensureOsPackages } from "./os-packages";
 import { startRedis, stopRedis } from "./redis-server";
 import { loadSecrets } from "./secrets";
+import { supervise, watchCluster, type ClusterWatch, type Supervised } from "./supervise";
 
 const root = path.resolve(import.meta.dirname, "../..");
 const dataDir = path.join(root, ".data");
 const bin = (name: string) => path.join(root, "node_modules", ".bin", name);
-const children: ChildProcess[] = [];
+const children: Supervised[] = [];
+let clusterWatch: ClusterWatch | null = null;
 
 function run(cmd: string, args: string[], env: NodeJS.ProcessEnv = process.env) {
   const r = spawnSync(cmd, args, { cwd: root, stdio: "inherit", env });
   if (r.status !== 0) throw new Error(`${path.basename(cmd)} ${args.join(" ")} exited with ${r.status}`);
 }
 
+// A service the launcher keeps running: one that dies unexpectedly is started again after a
+// back-off (lib/stack/supervise.ts), its output appended to .data/<name>.log.
 function service(name: string, cmd: string, args: string[], env: NodeJS.ProcessEnv) {
-  const logFile = fs.openSync(path.join(dataDir, `${name}.log`), "a");
-  const child = spawn(cmd, args, { cwd: root, env, stdio: ["ignore", logFile, logFile] });
-  child.on("exit", (code, signal) => {
-    if (!shuttingDown) console.error(`[${name}] stopped (${signal ?? code}); see .data/${name}.log`);
+  // `tsx file` runs the file in a second node process; `node --import tsx file` in one, so the
+  // supervisor watches (and a kill hits) the service itself, and no orphan keeps its port.
+  const viaNode = cmd === bin("tsx");
+  const child = supervise({
+    name,
+    cmd: viaNode ? process.execPath : cmd,
+    args: viaNode ? ["--import", "tsx", ...args] : args,
+    env,
+    cwd: root,
+    logFile: path.join(dataDir, `${name}.log`),
+    onExit: ({ code, signal, restartInMs }) => {
+      if (!shuttingDown) console.error(`[${name}] stopped (${signal ?? code}); starting it again in ${restartInMs} ms; see .data/${name}.log`);
+    },
   });
   children.push(child);
   return child;
@@ -33,11 +46,8 @@ function service(name: string, cmd: string, args: string[], env: NodeJS.ProcessE
 let shuttingDown = false;
 // Servers started for --nodes (HAProxy, Redis), stopped before the database.
 const stopAlso: (() => void)[] = [];
-function shutdown(stopDb: boolean) {
-  if (shuttingDown) return;
-  shuttingDown = true;
-  console.log("\nStopping Wormward…");
-  for (const c of children) c.kill("SIGTERM");
+// HAProxy and Redis (multi-node layout) stop after the services that use them.
+function stopExtras() {
   for (const stop of stopAlso) {
     try {
       stop();
@@ -45,8 +55,18 @@ function shutdown(stopDb: boolean) {
       console.error((err as Error).message);
     }
   }
-  if (stopDb && !process.env.DATABASE_URL) stopCluster("pg");
-  process.exit(0);
+}
+
+function shutdown(stopDb: boolean) {
+  if (shuttingDown) return;
+  shuttingDown = true;
+  console.log("\nStopping Wormward…");
+  clusterWatch?.stop();
+  void Promise.all(children.map((c) => c.stop())).then(() => {
+    stopExtras();
+    if (stopDb && !process.env.DATABASE_URL) stopCluster("pg");
+    process.exit(0);
+  });
 }
 
 async function waitForHttp(url: string, timeoutMs = 60_000) {
@@ -91,6 +111,11 @@ async function start(args: string[]) {
     const c = await startCluster({ name: "pg" });
     databaseUrl = c.url;
     console.log(`PostgreSQL: 127.0.0.1:${c.port}${c.note ? ` (${c.note})` : ""}`);
+    // Our own cluster is started again when its postmaster dies (the services reconnect by themselves).
+    clusterWatch = watchCluster(c, "pg", {
+      onRestart: (ms) => console.error(`[postgres] its postmaster had stopped; started it again in ${ms} ms`),
+      onError: (err) => console.error(`[postgres] not started again yet: ${err.message.split("\n")[0]}`),
+    });
   }
   await runMigrations(databaseUrl);
   const { seedForStart, seedSummary } = await import("./seed-demo");
@@ -212,6 +237,26 @@ async function test(extra: string[]) {
   process.exit(r.status ?? 1);
 }
 
+// `npm run test:faults`: the fault suite alone (tests/faults: kill -9 of the broker, the web app, the
+// rule runner and PostgreSQL under a load of probes). It needs the built web app, which it restarts,
+// and openssl for the fake push service; the harness's own app database gets 2 demo days, as the
+// suite runs on a cluster of its own. `npm test` runs it with everything else.
+async function faults(extra: string[]) {
+  ensureOsPackages(["openssl"]);
+  fs.mkdirSync(dataDir, { recursive: true });
+  const built = buildUnlessCurrent(root, () => {
+    console.log("Building the web app the suite kills and restarts (next build)…");
+    run(bin("next"), ["build"], { ...process.env, NEXT_TELEMETRY_DISABLED: "1" });
+  });
+  if (built === "reused") console.log("Web app: sources unchanged since the last build, reusing it.");
+  const r = spawnSync(bin("vitest"), ["run", "tests/faults", ...extra], {
+    cwd: root,
+    stdio: "inherit",
+    env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1", WORMWARD_TEST_DEMO_DAYS: process.env.WORMWARD_TEST_DEMO_DAYS ?? "2" },
+  });
+  process.exit(r.status ?? 1);
+}
+
 // `npm run bench [name…]`: every benchmark (or the named ones) one after the other, each on its own
 // throwaway services; at the end one table and `.data/bench/latest.json`. Nothing here fails the build
 // on a figure: a bench file that crashes is reported and the others still run.
@@ -242,16 +287,12 @@ try {
   if (cmd === "start") await start(rest);
   else if (cmd === "test") await test(rest);
   else if (cmd === "bench") await bench(rest);
+  else if (cmd === "faults") await faults(rest);
   else throw new Error(`unknown command ${cmd}`);
 } catch (err) {
   console.error(err instanceof Error ? err.message : err);
-  for (const c of children) c.kill("SIGTERM");
-  for (const stop of stopAlso) {
-    try {
-      stop();
-    } catch {
-      /* stopping what we can */
-    }
-  }
+  (clusterWatch as ClusterWatch | null)?.stop();
+  await Promise.all(children.map((c) => c.stop(5_000)));
+  stopExtras();
   process.exit(1);
 }

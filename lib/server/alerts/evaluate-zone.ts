@@ -81,19 +81,35 @@ export async function evaluateZoneNow(
   return transitions;
 }
 
+// The alert row is committed before its deliveries are queued: if the database goes away between the
+// two, queueing is tried again (for up to a minute; the dedupe keys make a repeat add nothing), since
+// the next evaluation sees the alert open and would never queue them.
+async function notifySurely(row: Parameters<typeof notifyAlert>[0], reason: Parameters<typeof notifyAlert>[1], at: Date) {
+  const until = Date.now() + 60_000;
+  for (let attempt = 0; ; attempt++) {
+    try {
+      return await notifyAlert(row, reason, at);
+    } catch (err) {
+      if (Date.now() > until) throw err;
+      log("alert %s %s not queued yet (%s); trying again", row.id, reason, (err as Error).message);
+      await new Promise((r) => setTimeout(r, Math.min(5_000, 200 * 2 ** attempt)));
+    }
+  }
+}
+
 async function apply(t: Transition, farmId: string, binId: string, at: Date) {
   const update = { value: t.value, message: t.message, details: t.details };
   if (t.type === "raise") {
     const row = await raiseAlert({ farmId, binId, zoneId: t.zoneId, probeId: t.probeId, subject: t.subject, kind: t.kind, level: t.level, ...update }, at);
     if (row) {
       log("raised %s %s: %s", t.level, t.subject, t.message);
-      await notifyAlert(row, "raised", at);
+      await notifySurely(row, "raised", at);
     }
   } else if (t.type === "escalate") {
     const row = await escalateAlert(t.subject, update, at);
     if (row) {
       log("escalated %s: %s", t.subject, t.message);
-      await notifyAlert(row, "escalated", at);
+      await notifySurely(row, "escalated", at);
     }
   } else if (t.type === "update") {
     await updateOpenAlert(t.subject, update);
