@@ -282,13 +282,14 @@ export async function startReplica(opts: ReplicaOptions): Promise<Replica> {
   for (;;) {
     if (fresh) await baseBackup(binDir, home, opts.primary.adminUrl, name);
     fs.writeFileSync(statePath, JSON.stringify(state), { mode: 0o600 });
+    const logFrom = fs.existsSync(logFile) ? fs.statSync(logFile).size : 0;
     if (runPg(path.join(binDir, "pg_ctl"), ["-D", dataDir, "status"], { allowFail: true }).status === 0) {
       log("replica %s already running", dataDir);
     } else {
       startServer(binDir, home, state.port);
       log("started replica %s on port %d, streaming from %d", dataDir, state.port, primaryPort);
     }
-    if (await streams(opts.primary.adminUrl, name, fresh ? 30_000 : 15_000)) break;
+    if (await streams(opts.primary.adminUrl, name, { ms: fresh ? 30_000 : 15_000, logFile, logFrom })) break;
     if (fresh) throw new Error(`The new replica does not stream from its primary; see ${logFile}.`);
     console.log(`The replica in ${dataDir} cannot catch up with its primary (see ${logFile}); making it anew.`);
     fresh = true;
@@ -299,14 +300,28 @@ export async function startReplica(opts: ReplicaOptions): Promise<Replica> {
 }
 
 // Whether the primary streams to the replica, caught up, within `ms` (its walsender's own word: a
-// replica whose WAL is gone connects, fails and retries, and never gets there).
-async function streams(primaryAdminUrl: string, name: string, ms: number): Promise<boolean> {
-  const until = Date.now() + ms;
+// replica whose WAL is gone connects, fails and retries, and never gets there). Its log saying
+// the WAL is gone ends the wait at once.
+async function streams(primaryAdminUrl: string, name: string, o: { ms: number; logFile: string; logFrom: number }): Promise<boolean> {
+  const until = Date.now() + o.ms;
+  const q = "select 1 from pg_stat_replication where application_name = $1 and state = 'streaming'";
   for (;;) {
-    const q = "select 1 from pg_stat_replication where application_name = $1 and state = 'streaming'";
     if (await withServer(primaryAdminUrl, async (c) => (await c.query(q, [name])).rowCount === 1)) return true;
-    if (Date.now() > until) return false;
+    if (Date.now() > until || walGone(o.logFile, o.logFrom)) return false;
     await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+function walGone(logFile: string, from: number): boolean {
+  if (!fs.existsSync(logFile)) return false;
+  const fd = fs.openSync(logFile, "r");
+  try {
+    const size = fs.fstatSync(fd).size;
+    const buf = Buffer.alloc(Math.max(0, size - from));
+    fs.readSync(fd, buf, 0, buf.length, from);
+    return buf.toString("utf8").includes("has already been removed");
+  } finally {
+    fs.closeSync(fd);
   }
 }
 
