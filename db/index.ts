@@ -41,7 +41,7 @@ function replica(): Replica | null {
     const { DATABASE_REPLICA_URL: url, REPLICA_MAX_LAG_MS: maxLagMs, REPLICA_CHECK_MS: checkMs } = env();
     if (!url) return (g.__wormwardReplica = null);
     // Its own name, so the replica's pg_stat_activity tells our reads apart; a replica that does not
-    // answer is given up after 2 s (connect) or 15 s (a query), and the read goes to the primary.
+    // answer is given up after 2 s (connect) or 15 s (a query), our choice, and the read goes to the primary.
     const p = new pg.Pool({ connectionString: url, max: 10, connectionTimeoutMillis: 2_000, query_timeout: 15_000, application_name: "wormward-read" });
     p.on("error", (err) => console.error("[wormward:db] idle replica client error:", err.message));
     g.__wormwardReplica = { pool: p, db: drizzle(p, { schema }), guard: new ReplicaGuard(pool(), p, { maxLagMs, checkMs }) };

@@ -26,13 +26,14 @@ export function heldSince(samples: readonly LsnSample[], replayed: bigint): numb
 }
 
 // Errors of the replica rather than of the read: no connection, a server shutting down or out of
-// resources, a query cancelled by the standby's replay (SQLSTATE classes 08, 53, 57, 58 and 40001,
-// PostgreSQL docs Appendix A), and the pool's own connect and read timeouts.
+// resources, a login or a database it does not have (yet), a query cancelled by the standby's
+// replay (SQLSTATE classes 08, 28, 53, 57, 58, 3D000 and 40001, PostgreSQL docs Appendix A), and the
+// pool's own connect and read timeouts.
 const NET_CODES = /^(ECONNREFUSED|ECONNRESET|ETIMEDOUT|EPIPE|EHOSTUNREACH|ENETUNREACH)$/;
 export function isReplicaTrouble(err: unknown): boolean {
   for (let e = err; e instanceof Error; e = e.cause) {
     const code = (e as { code?: unknown }).code;
-    if (typeof code === "string" && (NET_CODES.test(code) || /^(08|53|57|58)[0-9A-Z]{3}$/.test(code) || code === "40001")) return true;
+    if (typeof code === "string" && (NET_CODES.test(code) || /^(08|28|53|57|58)[0-9A-Z]{3}$/.test(code) || code === "3D000" || code === "40001")) return true;
     if (/^(Connection terminated|timeout exceeded when trying to connect|Query read timeout)/.test(e.message)) return true;
   }
   return false;

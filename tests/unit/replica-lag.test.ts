@@ -39,6 +39,7 @@ describe("errors of the replica, not of the read", () => {
     expect(isReplicaTrouble(pgError("57P01"))).toBe(true); // admin_shutdown
     expect(isReplicaTrouble(pgError("08006"))).toBe(true); // connection_failure
     expect(isReplicaTrouble(pgError("40001"))).toBe(true); // conflict with recovery
+    expect(isReplicaTrouble(pgError("3D000"))).toBe(true); // a database the replica does not have yet
     expect(isReplicaTrouble(new Error("Connection terminated unexpectedly"))).toBe(true);
     expect(isReplicaTrouble(new Error("timeout exceeded when trying to connect"))).toBe(true);
   });
