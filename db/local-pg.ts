@@ -289,7 +289,8 @@ export async function startReplica(opts: ReplicaOptions): Promise<Replica> {
       startServer(binDir, home, state.port);
       log("started replica %s on port %d, streaming from %d", dataDir, state.port, primaryPort);
     }
-    if (await streams(opts.primary.adminUrl, name, { ms: fresh ? 30_000 : 15_000, logFile, logFrom })) break;
+    // A minute to catch up (our choice); a log saying its WAL is gone cuts it short.
+    if (await streams({ primary: opts.primary.adminUrl, replica: adminUrl.toString(), name, ms: 60_000, logFile, logFrom })) break;
     if (fresh) throw new Error(`The new replica does not stream from its primary; see ${logFile}.`);
     console.log(`The replica in ${dataDir} cannot catch up with its primary (see ${logFile}); making it anew.`);
     fresh = true;
@@ -299,14 +300,19 @@ export async function startReplica(opts: ReplicaOptions): Promise<Replica> {
   return { url: url.toString(), adminUrl: adminUrl.toString(), dataDir, port: state.port, note, primaryPort };
 }
 
-// Whether the primary streams to the replica, caught up, within `ms` (its walsender's own word: a
-// replica whose WAL is gone connects, fails and retries, and never gets there). Its log saying
-// the WAL is gone ends the wait at once.
-async function streams(primaryAdminUrl: string, name: string, o: { ms: number; logFile: string; logFrom: number }): Promise<boolean> {
+// Whether the primary streams to the replica and the replica has replayed what the primary had
+// when we began to wait, within `ms` (the walsender's own word: a replica whose WAL is gone
+// connects, fails and retries, and never gets there). Its log saying the WAL is gone ends the wait.
+async function streams(o: { primary: string; replica: string; name: string; ms: number; logFile: string; logFrom: number }): Promise<boolean> {
   const until = Date.now() + o.ms;
-  const q = "select 1 from pg_stat_replication where application_name = $1 and state = 'streaming'";
+  const target = await withServer(o.primary, async (c) => (await c.query<{ lsn: string }>("select pg_current_wal_lsn()::text as lsn")).rows[0]!.lsn);
+  const streaming = "select 1 from pg_stat_replication where application_name = $1 and state = 'streaming'";
+  const replayed = "select 1 where pg_last_wal_replay_lsn() >= $1::pg_lsn";
   for (;;) {
-    if (await withServer(primaryAdminUrl, async (c) => (await c.query(q, [name])).rowCount === 1)) return true;
+    const ok =
+      (await withServer(o.primary, async (c) => (await c.query(streaming, [o.name])).rowCount === 1)) &&
+      (await withServer(o.replica, async (c) => (await c.query(replayed, [target])).rowCount === 1));
+    if (ok) return true;
     if (Date.now() > until || walGone(o.logFile, o.logFrom)) return false;
     await new Promise((r) => setTimeout(r, 200));
   }

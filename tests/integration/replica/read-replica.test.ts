@@ -86,6 +86,7 @@ beforeAll(async () => {
      select $1, 'temperature', g, 21 from generate_series(now() - interval '1 hour', now() - interval '2 minutes', interval '1 minute') g`,
     [farm.probes[0]!.id],
   );
+  standby.on("error", (err) => console.warn("the test's replica client:", err.message));
   await standby.connect();
   await until("the replica holds the farm", async () => (await on(standby, "select 1 from farms where id = $1", [farm.farmId])).length === 1);
 
@@ -182,9 +183,11 @@ describe("a read replica", () => {
       const page = await keeper.fetch(`/farms/${farm.farmId}/zones/${farm.zones.working}`);
       expect(page.status).toBe(200);
       expect(await page.text()).toContain("33.5");
+      expect(app!.exitCode).toBeNull();
     } finally {
       pgCtl(REPLICA, "start");
       standby = new pg.Client({ connectionString: replica.url.replace(/\/wormward$/, `/${dbName}`) });
+      standby.on("error", (err) => console.warn("the test's replica client:", err.message));
       await standby.connect();
     }
     // Back up, it serves chart reads again.

@@ -28,7 +28,12 @@ export async function signInAt(base: string, email: string, password: string): P
       const headers = new Headers(rest.headers);
       headers.set("cookie", cookie());
       if (json !== undefined) headers.set("content-type", "application/json");
-      return fetch(`${base}${p}`, { ...rest, headers, redirect: "manual", body: json !== undefined ? JSON.stringify(json) : rest.body });
+      const send = () => fetch(`${base}${p}`, { ...rest, headers, redirect: "manual", body: json !== undefined ? JSON.stringify(json) : rest.body });
+      // A kept-alive socket the server closed as it was reused ("other side closed") is the client's
+      // race, not the app's answer: a GET is sent once more. An app that is down refuses it again.
+      return (rest.method ?? "GET") === "GET"
+        ? send().catch((err: Error) => (/other side closed/.test(String(err.cause)) ? send() : Promise.reject(err)))
+        : send();
     },
   };
 }
