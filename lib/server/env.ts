@@ -3,6 +3,12 @@ import { z } from "zod";
 // One schema for the app and the ingest service; read once, lazily, so tests can set the env first.
 const envSchema = z.object({
   DATABASE_URL: z.string().url({ message: "DATABASE_URL must be a postgres:// URL" }),
+  // A streaming replica of DATABASE_URL for chart reads (db/replica.ts); unset, they read the primary.
+  DATABASE_REPLICA_URL: z.string().url({ message: "DATABASE_REPLICA_URL must be a postgres:// URL" }).optional(),
+  // Reads leave the replica while it is more than this far behind (our choice: charts of readings a
+  // few minutes apart do not show 5 s), and its lag is measured at most this often.
+  REPLICA_MAX_LAG_MS: z.coerce.number().int().min(100).max(3_600_000).default(5_000),
+  REPLICA_CHECK_MS: z.coerce.number().int().min(50).max(60_000).default(1_000),
   NEXTAUTH_SECRET: z.string().min(16).optional(),
   NEXTAUTH_URL: z.string().url().optional(),
   MQTT_PORT: z.coerce.number().int().min(0).max(65535).default(18830),

@@ -4,7 +4,7 @@ import { getBin } from "@/db/queries/bins";
 import type { Who } from "@/lib/server/auth/authorize";
 import { listBinFeedings } from "@/lib/server/logbook/list-feedings";
 import { binOverrides } from "@/lib/server/rules/bin-overrides";
-import { getZoneSeries } from "@/lib/server/series/zone-series";
+import { readZoneSeries } from "@/lib/server/replica/chart-reads";
 import { resolveRules } from "@/lib/domain/rules";
 import { getSpecies } from "@/lib/domain/species";
 import { latestValueOf, metricOfAlert } from "@/lib/domain/alert-metric";
@@ -86,7 +86,7 @@ export async function alertPageView(who: Pick<Who, "farmId">, alertId: string) {
   const from = new Date(raised - BEFORE_MS);
   const to = alert.settledAt ? new Date(Math.min(now, alert.settledAt.getTime() + AFTER_MS)) : null;
   const [series, feedings] = await Promise.all([
-    alert.zoneId ? getZoneSeries(alert.zoneId, seriesQuery.parse({ metric, from: from.toISOString(), ...(to ? { to: to.toISOString() } : {}) })) : null,
+    alert.zoneId ? readZoneSeries(alert.zoneId, seriesQuery.parse({ metric, from: from.toISOString(), ...(to ? { to: to.toISOString() } : {}) })) : null,
     listBinFeedings(alert.binId, feedingListQuery.parse({ since: from.toISOString(), limit: 100 })),
   ]);
 

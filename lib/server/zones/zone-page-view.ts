@@ -4,7 +4,7 @@ import { getZoneView, listZoneAlerts } from "@/db/queries/zone-view";
 import type { Who } from "@/lib/server/auth/authorize";
 import { listBinFeedings } from "@/lib/server/logbook/list-feedings";
 import { binOverrides } from "@/lib/server/rules/bin-overrides";
-import { getZoneSeries } from "@/lib/server/series/zone-series";
+import { readZoneSeries } from "@/lib/server/replica/chart-reads";
 import { resolveRules } from "@/lib/domain/rules";
 import { latestValueOf, metricOfAlert } from "@/lib/domain/alert-metric";
 import { getSpecies } from "@/lib/domain/species";
@@ -34,7 +34,7 @@ export async function zonePageView(who: Pick<Who, "farmId">, zoneId: string) {
     listBinFeedings(bin.id, feedingListQuery.parse({})),
     listZoneAlerts(zoneId, { since }),
     listOpenZoneAlerts(zoneId),
-    ...metrics.map((metric) => getZoneSeries(zoneId, seriesQuery.parse({ metric }))),
+    ...metrics.map((metric) => readZoneSeries(zoneId, seriesQuery.parse({ metric }))),
   ]);
   return {
     ...view,

@@ -1,7 +1,7 @@
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { seriesQuery } from "@/lib/domain/validation/series";
-import { getBinSeries } from "@/lib/server/series/bin-series";
+import { readBinSeries } from "@/lib/server/replica/chart-reads";
 
 type Ctx = { params: Promise<{ binId: string }> };
 
@@ -10,5 +10,5 @@ export const GET = route(async (req, { params }: Ctx) => {
   const { binId } = await params;
   await requireMember({ binId }, "read");
   const query = seriesQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
-  return Response.json(await getBinSeries(binId, query));
+  return Response.json(await readBinSeries(binId, query));
 });

@@ -1,7 +1,7 @@
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { seriesQuery } from "@/lib/domain/validation/series";
-import { getProbeSeries } from "@/lib/server/series/probe-series";
+import { readProbeSeries } from "@/lib/server/replica/chart-reads";
 
 type Ctx = { params: Promise<{ probeId: string }> };
 
@@ -12,5 +12,5 @@ export const GET = route(async (req, { params }: Ctx) => {
   const id = /^\d{1,9}$/.test(probeId) ? Number(probeId) : Number.NaN;
   await requireMember({ probeId: id }, "read");
   const query = seriesQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
-  return Response.json(await getProbeSeries(id, query));
+  return Response.json(await readProbeSeries(id, query));
 });

@@ -1,7 +1,7 @@
 import { route } from "@/lib/web/api/route";
 import { requireMember } from "@/lib/web/session";
 import { seriesQuery } from "@/lib/domain/validation/series";
-import { getZoneSeries } from "@/lib/server/series/zone-series";
+import { readZoneSeries } from "@/lib/server/replica/chart-reads";
 
 type Ctx = { params: Promise<{ zoneId: string }> };
 
@@ -10,5 +10,5 @@ export const GET = route(async (req, { params }: Ctx) => {
   const { zoneId } = await params;
   await requireMember({ zoneId }, "read");
   const query = seriesQuery.parse(Object.fromEntries(new URL(req.url).searchParams));
-  return Response.json(await getZoneSeries(zoneId, query));
+  return Response.json(await readZoneSeries(zoneId, query));
 });
