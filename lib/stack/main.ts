@@ -2,7 +2,7 @@
 import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
-import { startCluster, stopCluster } from "@/db/local-pg";
+import { startCluster, startReplica, stopCluster, type Cluster } from "@/db/local-pg";
 import { runMigrations } from "@/db/migrate";
 import { buildUnlessCurrent } from "./build-cache";
 import { startHaproxy, stopHaproxy } from "./haproxy";
@@ -94,10 +94,13 @@ function nodeCount(args: string[]): number {
   return n;
 }
 
-// The read replica of the multi-node layout (issue 15 item 5) is built in db/local-pg.ts by another
-// change. TODO: when it lands, start it here and return its URL for DATABASE_REPLICA_URL.
-async function startReadReplica(_primaryUrl: string): Promise<string | null> {
-  return null;
+// The read replica of the multi-node layout: a hot standby of our own cluster (pg_basebackup -R,
+// db/local-pg.ts startReplica). With an outside DATABASE_URL there is no primary of ours to copy.
+async function startReadReplica(primary: Cluster | null): Promise<string | null> {
+  if (!primary) return null;
+  const r = await startReplica({ name: "pg-replica", primary });
+  stopAlso.push(() => stopCluster("pg-replica"));
+  return r.url;
 }
 
 async function start(args: string[]) {
@@ -107,8 +110,10 @@ async function start(args: string[]) {
   fs.mkdirSync(dataDir, { recursive: true });
   let databaseUrl = process.env.DATABASE_URL;
   const ownCluster = !databaseUrl;
+  let primary: Cluster | null = null;
   if (!databaseUrl) {
     const c = await startCluster({ name: "pg" });
+    primary = c;
     databaseUrl = c.url;
     console.log(`PostgreSQL: 127.0.0.1:${c.port}${c.note ? ` (${c.note})` : ""}`);
     // Our own cluster is started again when its postmaster dies (the services reconnect by themselves).
@@ -172,12 +177,12 @@ async function start(args: string[]) {
       `MQTT (HAProxy, TCP): mqtt://127.0.0.1:${front} → ${backends.map((b) => `${b.name} on ${b.port}`).join(", ")}; its stats at http://127.0.0.1:${statsPort}/`,
     );
     lines.push(`Redis (sessions, fan-out, probe presence): 127.0.0.1:${redis.port}, data in .data/redis/`);
-    const replicaUrl = await startReadReplica(databaseUrl);
+    const replicaUrl = await startReadReplica(primary);
     if (replicaUrl) env.DATABASE_REPLICA_URL = replicaUrl;
     lines.push(
       replicaUrl
         ? `PostgreSQL read replica: ${new URL(replicaUrl).host}`
-        : "PostgreSQL read replica: not started yet (lib/stack/main.ts startReadReplica is a TODO)",
+        : "PostgreSQL read replica: none (DATABASE_URL is not a cluster of ours, so there is nothing to copy)",
     );
   }
   // The simulated probes are the demo farm's; without the demo they have nothing to report to.
