@@ -1,5 +1,5 @@
-// The rule runner: evaluates the zones touched by each committed batch (coalesced, so a busy zone
-// is evaluated at most once per `coalesceMs`), sweeps every minute for silent probes and for
+// The rule runner: evaluates the zones touched by each committed batch (at once, then coalesced, so a
+// busy zone is evaluated at most once per `coalesceMs`), sweeps every minute for silent probes and for
 // unclaimed act-now alerts, and applies the rules' transitions to the alerts table. All state is
 // in the database; the open-alert unique index keeps two ingest nodes from raising one alert twice.
 // Notifying only queues deliveries (lib/server/alerts/notify.ts); the delivery worker sends them, so no
@@ -48,23 +48,42 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
 
   const evaluate = (zoneId: string, kinds?: RuleKind[]) => evaluateZoneNow(zoneId, now(), { kinds, onTransition: opts.onTransition });
 
+  // A zone is evaluated as soon as it is heard of, then at most once per coalesceMs while its
+  // readings keep coming: the first reading over a line raises its alert at once, and a busy zone
+  // costs one evaluation per window however many batches touch it.
+  const lastAt = new Map<string, number>();
+  let timerAt = Infinity;
   function flushSoon() {
-    if (timer || stopped) return;
-    timer = setTimeout(() => {
-      timer = null;
-      const zones = [...dirty];
-      dirty.clear();
-      running = running.then(async () => {
-        for (const z of zones) {
-          try {
-            await evaluate(z);
-          } catch (err) {
-            log("zone %s not evaluated: %s", z, (err as Error).message);
-            dirty.add(z); // try again with the next batch or sweep
-          }
+    if (stopped || dirty.size === 0) return;
+    let next = Infinity;
+    for (const z of dirty) next = Math.min(next, (lastAt.get(z) ?? -Infinity) + coalesceMs);
+    if (timer && timerAt <= next) return;
+    if (timer) clearTimeout(timer);
+    timerAt = next;
+    timer = setTimeout(flush, Math.max(0, next - Date.now()));
+  }
+
+  function flush() {
+    timer = null;
+    timerAt = Infinity;
+    const t = Date.now();
+    for (const [z, at] of lastAt) if (at + coalesceMs <= t) lastAt.delete(z);
+    const zones = [...dirty].filter((z) => !lastAt.has(z));
+    for (const z of zones) {
+      dirty.delete(z);
+      lastAt.set(z, t);
+    }
+    running = running.then(async () => {
+      for (const z of zones) {
+        try {
+          await evaluate(z);
+        } catch (err) {
+          log("zone %s not evaluated: %s", z, (err as Error).message);
+          dirty.add(z); // try again with the next batch or sweep
         }
-      });
-    }, coalesceMs);
+      }
+    });
+    flushSoon();
   }
 
   async function sweep() {
