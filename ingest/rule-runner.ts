@@ -52,11 +52,13 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
   // readings keep coming: the first reading over a line raises its alert at once, and a busy zone
   // costs one evaluation per window however many batches touch it.
   const lastAt = new Map<string, number>();
+  const queued = new Set<string>();
   let timerAt = Infinity;
   function flushSoon() {
     if (stopped || dirty.size === 0) return;
     let next = Infinity;
-    for (const z of dirty) next = Math.min(next, (lastAt.get(z) ?? -Infinity) + coalesceMs);
+    for (const z of dirty) if (!queued.has(z)) next = Math.min(next, (lastAt.get(z) ?? -Infinity) + coalesceMs);
+    if (next === Infinity) return; // every dirty zone is waiting for its own evaluation to end
     if (timer && timerAt <= next) return;
     if (timer) clearTimeout(timer);
     timerAt = next;
@@ -67,21 +69,30 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
     timer = null;
     timerAt = Infinity;
     const t = Date.now();
-    for (const [z, at] of lastAt) if (at + coalesceMs <= t) lastAt.delete(z);
+    for (const [z, at] of lastAt) if (at + coalesceMs <= t && !queued.has(z)) lastAt.delete(z);
+    // A zone whose evaluation is still waiting or running stays dirty until it is done: when
+    // evaluating takes longer than coalesceMs, the work waiting is one evaluation a zone, not a pile.
     const zones = [...dirty].filter((z) => !lastAt.has(z));
     for (const z of zones) {
       dirty.delete(z);
       lastAt.set(z, t);
+      queued.add(z);
     }
     running = running.then(async () => {
+      const failed: string[] = [];
       for (const z of zones) {
         try {
           await evaluate(z);
         } catch (err) {
           log("zone %s not evaluated: %s", z, (err as Error).message);
-          dirty.add(z); // try again with the next batch or sweep
+          failed.push(z);
+        } finally {
+          queued.delete(z);
+          if (lastAt.get(z)! + coalesceMs <= Date.now()) lastAt.delete(z);
         }
       }
+      flushSoon(); // what came in for these zones meanwhile
+      for (const z of failed) dirty.add(z); // tried again with the next batch or sweep
     });
     flushSoon();
   }
