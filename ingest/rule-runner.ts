@@ -1,5 +1,5 @@
-// The rule runner: evaluates the zones touched by each committed batch (coalesced, so a busy zone
-// is evaluated at most once per `coalesceMs`), sweeps every minute for silent probes and for
+// The rule runner: evaluates the zones touched by each committed batch (at once, then coalesced, so a
+// busy zone is evaluated at most once per `coalesceMs`), sweeps every minute for silent probes and for
 // unclaimed act-now alerts, and applies the rules' transitions to the alerts table. All state is
 // in the database; the open-alert unique index keeps two ingest nodes from raising one alert twice.
 // Notifying only queues deliveries (lib/server/alerts/notify.ts); the delivery worker sends them, so no
@@ -53,23 +53,53 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
 
   const evaluate = (zoneId: string, kinds?: RuleKind[]) => evaluateZoneNow(zoneId, now(), { kinds, onTransition: opts.onTransition });
 
+  // A zone is evaluated as soon as it is heard of, then at most once per coalesceMs while its
+  // readings keep coming: the first reading over a line raises its alert at once, and a busy zone
+  // costs one evaluation per window however many batches touch it.
+  const lastAt = new Map<string, number>();
+  const queued = new Set<string>();
+  let timerAt = Infinity;
   function flushSoon() {
-    if (timer || stopped) return;
-    timer = setTimeout(() => {
-      timer = null;
-      const zones = [...dirty];
-      dirty.clear();
-      running = running.then(async () => {
-        for (const z of zones) {
-          try {
-            await evaluate(z);
-          } catch (err) {
-            log("zone %s not evaluated: %s", z, (err as Error).message);
-            dirty.add(z); // try again with the next batch or sweep
-          }
+    if (stopped || dirty.size === 0) return;
+    let next = Infinity;
+    for (const z of dirty) if (!queued.has(z)) next = Math.min(next, (lastAt.get(z) ?? -Infinity) + coalesceMs);
+    if (next === Infinity) return; // every dirty zone is waiting for its own evaluation to end
+    if (timer && timerAt <= next) return;
+    if (timer) clearTimeout(timer);
+    timerAt = next;
+    timer = setTimeout(flush, Math.max(0, next - Date.now()));
+  }
+
+  function flush() {
+    timer = null;
+    timerAt = Infinity;
+    const t = Date.now();
+    for (const [z, at] of lastAt) if (at + coalesceMs <= t && !queued.has(z)) lastAt.delete(z);
+    // A zone whose evaluation is still waiting or running stays dirty until it is done: when
+    // evaluating takes longer than coalesceMs, the work waiting is one evaluation a zone, not a pile.
+    const zones = [...dirty].filter((z) => !lastAt.has(z));
+    for (const z of zones) {
+      dirty.delete(z);
+      lastAt.set(z, t);
+      queued.add(z);
+    }
+    running = running.then(async () => {
+      const failed: string[] = [];
+      for (const z of zones) {
+        try {
+          await evaluate(z);
+        } catch (err) {
+          log("zone %s not evaluated: %s", z, (err as Error).message);
+          failed.push(z);
+        } finally {
+          queued.delete(z);
+          if (lastAt.get(z)! + coalesceMs <= Date.now()) lastAt.delete(z);
         }
-      });
-    }, coalesceMs);
+      }
+      flushSoon(); // what came in for these zones meanwhile
+      for (const z of failed) dirty.add(z); // tried again with the next batch or sweep
+    });
+    flushSoon();
   }
 
   async function sweep() {

@@ -158,7 +158,13 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
 
   async function onReadings(probe: Probe, _client: Client, topic: string, payload: Buffer) {
     const v = validateSenmlPayload(probe, payload, { limits });
-    const origin = originOf(probe, topic, payload);
+    // The excerpt is cut only for a message that gets a rejections row (most never do).
+    const origin = {
+      ...originOf(probe, topic),
+      get excerpt() {
+        return excerptOf(payload);
+      },
+    };
     if (v.rejections.length) {
       log("probe %s: %d record(s) refused (%s)", probe.code, v.rejections.length, [...new Set(v.rejections.map((r) => r.code))].join(", "));
     }

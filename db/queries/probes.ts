@@ -1,4 +1,4 @@
-import { and, eq, getTableColumns, sql } from "drizzle-orm";
+import { and, eq, getTableColumns, sql, type SQL } from "drizzle-orm";
 import { db } from "@/db";
 import { probes, type Probe } from "@/db/schema";
 import { hasChanges } from "./patch";
@@ -20,6 +20,13 @@ export type ProbeStatusUpdate = {
 
 // One statement; a probe's updates merge in order (last value wins), last_seen_at never goes back.
 export async function updateProbeStatus(updates: readonly ProbeStatusUpdate[], ex: Executor = db()): Promise<void> {
+  const update = probeStatusUpdateSql(updates);
+  if (update) await ex.execute(update);
+}
+
+/** The UPDATE of updateProbeStatus, or null when there is nothing to update (the ingest writer runs
+ * it inside its one statement per batch, db/queries/readings.ts storeBatch). */
+export function probeStatusUpdateSql(updates: readonly ProbeStatusUpdate[]): SQL | null {
   const merged = new Map<number, ProbeStatusUpdate>();
   for (const u of updates) {
     const m = merged.get(u.probeId) ?? { probeId: u.probeId };
@@ -30,9 +37,9 @@ export async function updateProbeStatus(updates: readonly ProbeStatusUpdate[], e
     merged.set(u.probeId, m);
   }
   const rows = [...merged.values()].sort((a, b) => a.probeId - b.probeId);
-  if (rows.length === 0) return;
+  if (rows.length === 0) return null;
   const col = <T>(f: (u: ProbeStatusUpdate) => T | null | undefined) => sql.param(rows.map((u) => f(u) ?? null));
-  await ex.execute(sql`
+  return sql`
     update probes p set
       last_seen_at = greatest(p.last_seen_at, s.seen),
       battery_v = coalesce(s.battery, p.battery_v),
@@ -47,7 +54,7 @@ export async function updateProbeStatus(updates: readonly ProbeStatusUpdate[], e
       ${col((u) => u.firmware?.replace(/\u0000/g, ""))}::text[],
       ${col((u) => u.online)}::boolean[]
     ) as s(id, seen, battery, signal, firmware, online)
-    where p.id = s.id`);
+    where p.id = s.id`;
 }
 
 export async function setProbeOnline(code: string, online: boolean, ex: Executor = db()): Promise<void> {

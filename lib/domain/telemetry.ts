@@ -170,6 +170,9 @@ const asReal = (v: number) => (Math.abs(v) < FLOAT4_MIN_NORMAL ? 0 : v);
 
 const validCalibration = (c: TelemetryProbe["calibration"]) => (c && Number.isFinite(c.slope) && Number.isFinite(c.intercept) ? c : null);
 
+// One decoder for every payload: a whole-buffer decode keeps no state between calls.
+const utf8 = new TextDecoder("utf-8", { fatal: true });
+
 export function validateSenmlPayload(probe: TelemetryProbe, payload: Buffer | string, opts: ValidateOptions = {}): ValidatedPayload {
   const limits = { ...DEFAULT_LIMITS, ...opts.limits };
   const now = opts.now ?? new Date();
@@ -185,7 +188,7 @@ export function validateSenmlPayload(probe: TelemetryProbe, payload: Buffer | st
   }
   let json: unknown;
   try {
-    const text = typeof payload === "string" ? payload : new TextDecoder("utf-8", { fatal: true }).decode(payload);
+    const text = typeof payload === "string" ? payload : utf8.decode(payload);
     json = JSON.parse(text);
   } catch {
     rejections.push({ code: "malformed-json", reason: "payload is not UTF-8 JSON (RFC 8428 §5)", whole: true });

@@ -268,6 +268,7 @@ async function faults(extra: string[]) {
 const BENCHES: Record<string, string> = {
   ingest: "tests/bench/ingest.bench.ts",
   preview: "tests/bench/preview.bench.ts",
+  push: "tests/bench/push.bench.ts",
   soak: "tests/bench/soak.bench.ts",
 };
 async function bench(names: string[]) {
