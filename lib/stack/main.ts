@@ -132,6 +132,12 @@ async function start(args: string[]) {
   const secrets = loadSecrets(dataDir);
   const port = Number(process.env.PORT ?? 3000);
   const appUrl = `http://127.0.0.1:${port}`;
+  // Every port can be moved by the environment, so a second launcher (a benchmark) runs beside `npm start`.
+  const [pushPort, mailboxHttpPort, fleetPort] = [
+    process.env.PUSH_PORT ?? "4431",
+    process.env.MAILBOX_HTTP_PORT ?? "8025",
+    process.env.FLEET_CONTROL_PORT ?? "8099",
+  ];
   const env: NodeJS.ProcessEnv = {
     ...process.env,
     NODE_ENV: "production",
@@ -146,20 +152,20 @@ async function start(args: string[]) {
     // What the connect snippets of the probes page show; set them to this machine's network name for probes elsewhere.
     PUBLIC_MQTT_URL: process.env.PUBLIC_MQTT_URL ?? `mqtt://127.0.0.1:${process.env.MQTT_PORT ?? "18830"}`,
     PUBLIC_INGEST_URL: process.env.PUBLIC_INGEST_URL ?? `${appUrl}/api/ingest`,
-    PUSH_CA_FILE: path.join(dataDir, "push-ca.pem"),
+    PUSH_CA_FILE: process.env.PUSH_CA_FILE ?? path.join(dataDir, "push-ca.pem"),
     // The fake push service below is the only push service on loopback the app may send to.
-    PUSH_FAKE_ORIGIN: "https://127.0.0.1:4431",
+    PUSH_FAKE_ORIGIN: `https://127.0.0.1:${pushPort}`,
     DEBUG: process.env.DEBUG ?? "wormward:*",
   };
 
   const lines: string[] = [];
   if (exists("fakes/push-service.ts")) {
-    service("fake-push", bin("tsx"), ["fakes/push-service.ts", "--port", "4431", "--ca-file", env.PUSH_CA_FILE!], env);
-    lines.push("Fake push service: https://127.0.0.1:4431/messages");
+    service("fake-push", bin("tsx"), ["fakes/push-service.ts", "--port", pushPort, "--ca-file", env.PUSH_CA_FILE!], env);
+    lines.push(`Fake push service: https://127.0.0.1:${pushPort}/messages`);
   }
   if (exists("fakes/mailbox.ts")) {
-    service("mailbox", bin("tsx"), ["fakes/mailbox.ts", "--smtp-port", env.SMTP_PORT!, "--http-port", "8025"], env);
-    lines.push("Fake mailbox: http://127.0.0.1:8025/");
+    service("mailbox", bin("tsx"), ["fakes/mailbox.ts", "--smtp-port", env.SMTP_PORT!, "--http-port", mailboxHttpPort], env);
+    lines.push(`Fake mailbox: http://127.0.0.1:${mailboxHttpPort}/`);
   }
   if (exists("ingest/main.ts") && nodes === 1) {
     service("ingest", bin("tsx"), ["ingest/main.ts"], env);
@@ -187,9 +193,9 @@ async function start(args: string[]) {
   }
   // The simulated probes are the demo farm's; without the demo they have nothing to report to.
   if (demo && exists("fakes/probe-fleet.ts")) {
-    service("probe-fleet", bin("tsx"), ["fakes/probe-fleet.ts", "--probes", path.join(dataDir, "demo-probes.json"), "--control-port", "8099"], env);
+    service("probe-fleet", bin("tsx"), ["fakes/probe-fleet.ts", "--probes", path.join(dataDir, "demo-probes.json"), "--control-port", fleetPort], env);
     lines.push("Simulated probes: the demo farm's probes report every minute. Start a heavy feed in Long Bed North's fresh zone:");
-    lines.push(`  curl -X POST http://127.0.0.1:8099/scenario -H 'content-type: application/json' -d '{"code":"alder-01","scenario":"heavy-feed"}'`);
+    lines.push(`  curl -X POST http://127.0.0.1:${fleetPort}/scenario -H 'content-type: application/json' -d '{"code":"alder-01","scenario":"heavy-feed"}'`);
   }
 
   // process.uptime(): since the launcher's own start, so a restart's cost before the build shows.
@@ -269,6 +275,8 @@ const BENCHES: Record<string, string> = {
   ingest: "tests/bench/ingest.bench.ts",
   preview: "tests/bench/preview.bench.ts",
   push: "tests/bench/push.bench.ts",
+  pages: "tests/bench/pages.bench.ts",
+  restart: "tests/bench/restart.bench.ts",
   soak: "tests/bench/soak.bench.ts",
 };
 async function bench(names: string[]) {

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { SWRConfig } from "swr";
-import { AddBinForm } from "@/components/bins/add-bin-form";
+import { AddBinForm } from "@/components/bins/lazy-forms";
 import { SetupChecklist } from "@/components/setup/setup-checklist";
 import { TodayBoard } from "@/components/today/today-board";
 import { requirePageMember } from "@/lib/web/session";
