@@ -3,6 +3,7 @@
 import createDebug from "debug";
 import { db, pool } from "@/db";
 import { env } from "@/lib/server/env";
+import { createSeriesMaintenance } from "@/lib/server/series/maintenance";
 import { createDeliveryWorker } from "./delivery-worker";
 import { createDigestScheduler } from "./digest";
 import { createRuleRunner } from "./rule-runner";
@@ -14,6 +15,8 @@ const e = env();
 // LISTENs on one of its connections, hearing of readings from this node and every other writer.
 const rules = createRuleRunner({ pool: pool() });
 const digests = createDigestScheduler();
+// Daily rollups for long charts and pg_partman's months of readings, hourly (off the writer's path).
+const seriesMaintenance = createSeriesMaintenance();
 // Pushes and alert e-mails leave the rule runner's chain: it queues them, this worker sends them.
 const deliveries = createDeliveryWorker({ listenUrl: e.DATABASE_URL });
 const ingest = await startIngest({
@@ -38,6 +41,7 @@ async function stop(signal: string) {
     await rules.stop();
     await deliveries.stop();
     await digests.stop();
+    await seriesMaintenance.stop();
     process.exit(0);
   } catch (err) {
     console.error("ingest: shutdown failed:", (err as Error).message);
