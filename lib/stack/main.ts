@@ -171,6 +171,7 @@ async function test(extra: string[]) {
 const BENCHES: Record<string, string> = {
   ingest: "tests/bench/ingest.bench.ts",
   preview: "tests/bench/preview.bench.ts",
+  series: "tests/bench/series.bench.ts",
 };
 async function bench(names: string[]) {
   ensureOsPackages(["openssl", "chromium"]);
