@@ -1,5 +1,6 @@
 import { sql } from "drizzle-orm";
 import { db } from "@/db";
+import type { Executor } from "@/db/queries/readings";
 
 // The deferred refresh of reading_daily_rollups from the hourly rollups (never in the ingest
 // writer's path). Each probe's days are cut at its farm's midnight; reading_daily_state says in
@@ -69,9 +70,9 @@ export async function refreshDailyRollups(zones: { stored: string[]; effective: 
 
 /** Readings older than the last refresh arrived (an import): the probes' days from `since` are
  * redone at the next refresh, and charts read those days from the hourly rollups until then. */
-export async function markDailyRollupsStale(probeIds: number[], since: Date): Promise<void> {
+export async function markDailyRollupsStale(probeIds: number[], since: Date, ex: Executor = db()): Promise<void> {
   if (probeIds.length === 0) return;
-  await db().execute(sql`
+  await ex.execute(sql`
     update reading_daily_state set done_through = least(done_through, date_trunc('day', ${since.toISOString()}::timestamptz, timezone))
     where probe_id = any(${sql.param(probeIds)}::int[])`);
 }
