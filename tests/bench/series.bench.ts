@@ -127,8 +127,12 @@ async function main() {
   const cluster = await startCluster({ name: CLUSTER, port: Number(process.env.WORMWARD_BENCH_SERIES_PG_PORT ?? 54364) });
   const admin = new pg.Client({ connectionString: cluster.adminUrl });
   await admin.connect();
-  await admin.query("drop database if exists series_bench with (force)");
-  await admin.query("create database series_bench");
+  // WORMWARD_BENCH_SERIES_KEEP=1 reuses the readings a previous run loaded (a rerun of the timing).
+  const keep = process.env.WORMWARD_BENCH_SERIES_KEEP === "1" && (await admin.query(`select 1 from pg_database where datname = 'series_bench'`)).rowCount === 1;
+  if (!keep) {
+    await admin.query("drop database if exists series_bench with (force)");
+    await admin.query("create database series_bench");
+  }
   await admin.end();
   const url = cluster.adminUrl.replace(/\/postgres$/, "/series_bench");
   await runMigrations(url);
@@ -136,6 +140,7 @@ async function main() {
   // Imported after DATABASE_URL is set: the app's one pool reads it on first use.
   const { db, closeDb } = await import("@/db");
   const { bucketedReadingSql, dailyPointsSql, listBucketedReadingPoints } = await import("@/db/queries/series");
+  const { getZoneSeries } = await import("@/lib/server/series/zone-series");
   const { runSeriesMaintenance } = await import("@/lib/server/series/maintenance");
 
   const c = new pg.Client({ connectionString: url });
@@ -143,60 +148,71 @@ async function main() {
   let app: { url: string; child: ChildProcess } | null = null;
   try {
     await c.query("set synchronous_commit = off");
-    const farmId = (await c.query(`insert into farms (name, timezone) values ('Bench farm', 'Europe/London') returning id`)).rows[0].id as string;
-    const binId = (await c.query(`insert into bins (farm_id, name, style, species) values ($1, 'Bench bin', 'bed', 'eisenia-fetida') returning id`, [farmId]))
-      .rows[0].id as string;
-    const zoneId = (await c.query(`insert into zones (bin_id, position, kind) values ($1, 1, 'working') returning id`, [binId])).rows[0].id as string;
-    const otherZone = (await c.query(`insert into zones (bin_id, position, kind) values ($1, 2, 'curing') returning id`, [binId])).rows[0].id as string;
-    const probe = async (zone: string, code: string) =>
-      (
-        await c.query(`insert into probes (farm_id, zone_id, code, token_hash, metrics) values ($1, $2, $3, 'x', '{temperature,moisture}') returning id`, [
-          farmId,
-          zone,
-          code,
-        ])
-      ).rows[0].id as number;
-    const ids: number[] = [];
-    for (let i = 0; i < ZONE_PROBES; i++) ids.push(await probe(zoneId, `bench-series-${i}`));
-    const others: number[] = [];
-    for (let i = 0; i < FARM_PROBES; i++) others.push(await probe(otherZone, `bench-farm-${i}`));
-    const userId = (
-      await c.query(`insert into users (email, name, password_hash) values ('bench@example.org', 'Bench', $1) returning id`, [await hashPassword(PASSWORD)])
-    ).rows[0].id as string;
-    await c.query(`insert into memberships (user_id, farm_id, role) values ($1, $2, 'owner')`, [userId, farmId]);
+    const kept = keep
+      ? (
+          await c.query(`select z.id as zone, array_agg(p.id order by p.id) as ids, (select max(ts) + interval '1 minute' from readings where probe_id = min(p.id)) as end
+                        from zones z join probes p on p.zone_id = z.id join bins b on b.id = z.bin_id where b.name = 'Bench bin' and z.position = 1 group by z.id`)
+        ).rows[0]
+      : null;
+    const { zoneId, ids, end } = kept ? { zoneId: kept.zone as string, ids: kept.ids as number[], end: kept.end as Date } : await load();
+    if (kept) console.log(`Reusing the readings loaded before (up to ${end.toISOString()})`);
+    async function load() {
+      const farmId = (await c.query(`insert into farms (name, timezone) values ('Bench farm', 'Europe/London') returning id`)).rows[0].id as string;
+      const binId = (await c.query(`insert into bins (farm_id, name, style, species) values ($1, 'Bench bin', 'bed', 'eisenia-fetida') returning id`, [farmId]))
+        .rows[0].id as string;
+      const zoneId = (await c.query(`insert into zones (bin_id, position, kind) values ($1, 1, 'working') returning id`, [binId])).rows[0].id as string;
+      const otherZone = (await c.query(`insert into zones (bin_id, position, kind) values ($1, 2, 'curing') returning id`, [binId])).rows[0].id as string;
+      const probe = async (zone: string, code: string) =>
+        (
+          await c.query(`insert into probes (farm_id, zone_id, code, token_hash, metrics) values ($1, $2, $3, 'x', '{temperature,moisture}') returning id`, [
+            farmId,
+            zone,
+            code,
+          ])
+        ).rows[0].id as number;
+      const ids: number[] = [];
+      for (let i = 0; i < ZONE_PROBES; i++) ids.push(await probe(zoneId, `bench-series-${i}`));
+      const others: number[] = [];
+      for (let i = 0; i < FARM_PROBES; i++) others.push(await probe(otherZone, `bench-farm-${i}`));
+      const userId = (
+        await c.query(`insert into users (email, name, password_hash) values ('bench@example.org', 'Bench', $1) returning id`, [await hashPassword(PASSWORD)])
+      ).rows[0].id as string;
+      await c.query(`insert into memberships (user_id, farm_id, role) values ($1, $2, 'owner')`, [userId, farmId]);
 
-    const end = new Date(Math.floor(Date.now() / 60_000) * 60_000);
-    const yearStart = new Date(end.getTime() - 365 * DAY);
-    console.log(`Loading readings (${ZONE_PROBES} probes × 2 metrics × a year, ${FARM_PROBES} probes × 4 metrics × ${FARM_DAYS} days, one a minute):`);
-    // A daily swing and a slow seasonal drift; moisture apart from temperature.
-    const value = `case when m = 'temperature' then 20 + 3 * sin(extract(epoch from t) / 13751) + 4 * sin(extract(epoch from t) / 5022000) + p % 5
+      const end = new Date(Math.floor(Date.now() / 60_000) * 60_000);
+      const yearStart = new Date(end.getTime() - 365 * DAY);
+      console.log(`Loading readings (${ZONE_PROBES} probes × 2 metrics × a year, ${FARM_PROBES} probes × 4 metrics × ${FARM_DAYS} days, one a minute):`);
+      // A daily swing and a slow seasonal drift; moisture apart from temperature.
+      const value = `case when m = 'temperature' then 20 + 3 * sin(extract(epoch from t) / 13751) + 4 * sin(extract(epoch from t) / 5022000) + p % 5
                    else 70 + 5 * sin(extract(epoch from t) / 90000 + p) end`;
-    await timed("a year for the zone's probes", async () => {
-      for (const id of ids) {
-        await c.query(
-          `insert into readings (probe_id, metric, ts, value)
+      await timed("a year for the zone's probes", async () => {
+        for (const id of ids) {
+          await c.query(
+            `insert into readings (probe_id, metric, ts, value)
            select p, m, t, ${value} from (select $1::int as p) x, unnest('{temperature,moisture}'::metric[]) m,
              generate_series($2::timestamptz, $3::timestamptz - interval '1 minute', interval '1 minute') t`,
-          [id, yearStart.toISOString(), end.toISOString()],
-        );
-      }
-    });
-    await timed(`${FARM_DAYS} days for the farm's other probes`, async () => {
-      for (const id of others) {
-        await c.query(
-          `insert into readings (probe_id, metric, ts, value)
+            [id, yearStart.toISOString(), end.toISOString()],
+          );
+        }
+      });
+      await timed(`${FARM_DAYS} days for the farm's other probes`, async () => {
+        for (const id of others) {
+          await c.query(
+            `insert into readings (probe_id, metric, ts, value)
            select p, m, t, ${value} from (select $1::int as p) x, unnest('{temperature,moisture,ammonia,signal}'::metric[]) m,
              generate_series($2::timestamptz, $3::timestamptz - interval '1 minute', interval '1 minute') t`,
-          [id, new Date(end.getTime() - FARM_DAYS * DAY).toISOString(), end.toISOString()],
-        );
-      }
-    });
-    await timed("hourly rollups", () =>
-      c.query(`insert into reading_rollups (probe_id, metric, hour, min, max, sum, count)
+            [id, new Date(end.getTime() - FARM_DAYS * DAY).toISOString(), end.toISOString()],
+          );
+        }
+      });
+      await timed("hourly rollups", () =>
+        c.query(`insert into reading_rollups (probe_id, metric, hour, min, max, sum, count)
                select probe_id, metric, date_trunc('hour', ts, 'UTC'), min(value), max(value), sum(value), count(*) from readings group by 1, 2, 3`),
-    );
-    await timed("daily rollups (the deferred refresh)", () => runSeriesMaintenance({ retentionMonths: null }));
-    await timed("vacuum analyze", () => c.query("vacuum analyze"));
+      );
+      await timed("daily rollups (the deferred refresh)", () => runSeriesMaintenance({ retentionMonths: null }));
+      await timed("vacuum analyze", () => c.query("vacuum analyze"));
+      return { zoneId, ids, end };
+    }
     const rows = (await c.query(`select count(*)::int as n from readings`)).rows[0].n as number;
     const parts = (await c.query(`select count(*)::int as n from pg_inherits where inhparent = 'public.readings'::regclass`)).rows[0].n as number;
     console.log(`  ${fmt(rows)} readings in ${parts} partitions`);
@@ -242,6 +258,35 @@ async function main() {
       figures[`series_p95_ms_${label}`] = pct(ms, 95);
       table.push({ label, p50: pct(ms, 50), p95: pct(ms, 95) });
       console.log(`series ${label}: p50 ${fmt(pct(ms, 50), 1)} ms, p95 ${fmt(pct(ms, 95), 1)} ms over ${RUNS} requests (${seen.level}, ${seen.points} points)`);
+    }
+    // Where the time goes: the same answers without HTTP (the use case the route calls), and an
+    // authenticated request of the same route family that reads one row (GET /api/zones/<zone>).
+    const floor: number[] = [];
+    for (let i = 0; i < RUNS + WARMUP; i++) {
+      const t0 = performance.now();
+      const res = await fetch(`${app.url}/api/zones/${zoneId}`, { headers: { cookie } });
+      await res.text();
+      if (!res.ok) throw new Error(`GET /api/zones/${zoneId}: ${res.status}`);
+      if (i >= WARMUP) floor.push(performance.now() - t0);
+    }
+    figures.series_http_floor_p50_ms = pct(floor, 50);
+    figures.series_http_floor_p95_ms = pct(floor, 95);
+    console.log(`HTTP floor (GET /api/zones/<zone>, signed in): p50 ${fmt(pct(floor, 50), 1)} ms, p95 ${fmt(pct(floor, 95), 1)} ms`);
+    for (const [label, days] of [
+      ["24h", 1],
+      ["7d", 7],
+      ["30d", 30],
+      ["1y", 365],
+    ] as const) {
+      const ms: number[] = [];
+      for (let i = 0; i < RUNS + WARMUP; i++) {
+        const t0 = performance.now();
+        await getZoneSeries(zoneId, { metric: i % 2 ? "moisture" : "temperature", from: new Date(end.getTime() - days * DAY), to: end });
+        if (i >= WARMUP) ms.push(performance.now() - t0);
+      }
+      figures[`series_usecase_p50_ms_${label}`] = pct(ms, 50);
+      figures[`series_usecase_p95_ms_${label}`] = pct(ms, 95);
+      console.log(`use case alone ${label}: p50 ${fmt(pct(ms, 50), 1)} ms, p95 ${fmt(pct(ms, 95), 1)} ms`);
     }
     const raw: number[] = [];
     for (let i = 0; i < RAW_RUNS + 1; i++) {
