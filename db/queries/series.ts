@@ -130,22 +130,34 @@ const inRange = (ids: number[], r: SeriesRange) =>
 // A zone's line merges its probes; the zone is where the probe is placed now.
 const keyOf = (by: LineKey) => (by === "zone" ? sql`p.zone_id::text` : sql`r.probe_id::text`);
 
-/** The most readings any one of these probes has in the range. */
-export async function maxReadingCount(ids: number[], r: SeriesRange): Promise<number> {
-  const counted = await db().execute<{ n: number }>(sql`
-    select count(*)::int as n from readings r where ${inRange(ids, r)}
-    group by r.probe_id order by n desc limit 1`);
-  return counted.rows[0]?.n ?? 0;
+/** One line per probe in one statement and one read of the readings: each reading a point of its
+ * own while no probe has more than `maxPoints` in the range, else buckets of `bucketS` seconds
+ * (`bucketed` says which). Counting first and then reading took two round trips and two reads. */
+export async function listProbeLinePoints(
+  ids: number[],
+  r: SeriesRange,
+  maxPoints: number,
+  bucketS: number,
+): Promise<{ bucketed: boolean; rows: SeriesPoint[] }> {
+  const got = await db().execute<SeriesPoint & { bucketed: boolean }>(probeLinePointsSql(ids, r, maxPoints, bucketS));
+  return { bucketed: got.rows[0]?.bucketed ?? false, rows: got.rows };
 }
 
-/** Each reading in the range as a point of its own, one line per probe. */
-export async function listReadingPoints(ids: number[], r: SeriesRange): Promise<SeriesPoint[]> {
-  const got = await db().execute<SeriesPoint>(sql`
-    select r.probe_id::text as key, r.ts as t, r.value as mean, r.value as min, r.value as max from readings r
-    where ${inRange(ids, r)}
-    order by r.probe_id, r.ts`);
-  return got.rows;
-}
+/** The statement behind listProbeLinePoints (tests EXPLAIN it for the partitions it reads). */
+export const probeLinePointsSql = (ids: number[], r: SeriesRange, maxPoints: number, bucketS: number) => sql`
+    with pts as materialized (
+      select r.probe_id, r.ts, r.value from readings r where ${inRange(ids, r)}
+    ), many as (
+      select coalesce(max(n), 0) > ${maxPoints} as b from (select count(*) as n from pts group by probe_id) x
+    )
+    select * from (
+      select pts.probe_id::text as key, pts.ts as t, pts.value as mean, pts.value as min, pts.value as max, false as bucketed
+      from pts, many where not many.b
+      union all
+      select pts.probe_id::text, date_bin(make_interval(secs => ${bucketS}), pts.ts, ${ORIGIN}), avg(pts.value), min(pts.value), max(pts.value), true
+      from pts, many where many.b
+      group by 1, 2
+    ) y order by 1, 2`;
 
 // date_bin (PostgreSQL 14+) has no Drizzle word; buckets align to a fixed origin so a chart that
 // slides its window keeps the same bucket edges.

@@ -6,7 +6,7 @@ import pg from "pg";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, db } from "@/db";
 import { insertReadings, type ReadingInput } from "@/db/queries/readings";
-import { bucketedReadingSql } from "@/db/queries/series";
+import { bucketedReadingSql, probeLinePointsSql } from "@/db/queries/series";
 import { seriesQuery } from "@/lib/domain/validation/series";
 import { getZoneSeries } from "@/lib/server/series/zone-series";
 import { makeFarm, type TestFarm } from "../series/fixtures";
@@ -102,5 +102,8 @@ describe("readings across a month edge", () => {
     expect(today.length).toBeGreaterThanOrEqual(1);
     expect(today.length).toBeLessThanOrEqual(2);
     expect(today).not.toContain("readings_default");
+    // A zone's chart reads its probes' lines in one statement: the same partitions.
+    expect(await partitionsRead(probeLinePointsSql(ids, range(EDGE + HOUR), 1000, 120))).toEqual(inside);
+    expect(await partitionsRead(probeLinePointsSql(ids, range(EDGE - 12 * HOUR), 1000, 120))).toEqual(over);
   });
 });
