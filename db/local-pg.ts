@@ -29,7 +29,7 @@ function findBinDir(): string | null {
 
 export function ensureServerBinaries(): string {
   let dir = findBinDir();
-  if (dir) return dir;
+  if (dir) return ensurePartman(dir);
   if (!isRoot()) throw new Error("PostgreSQL server is not installed; run: sudo apt-get install -y postgresql");
   console.log("Installing PostgreSQL from Debian's packages (apt-get install -y postgresql)…");
   const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
@@ -38,7 +38,25 @@ export function ensureServerBinaries(): string {
   if (r.status !== 0) throw new Error("apt-get install postgresql failed");
   dir = findBinDir();
   if (!dir) throw new Error("PostgreSQL installed but no server binaries under /usr/lib/postgresql/*/bin");
-  return dir;
+  return ensurePartman(dir);
+}
+
+// pg_partman for the server's own major version (readings are partitioned by month with it,
+// db/migrations/0007): Debian's postgresql-<major>-partman.
+function ensurePartman(binDir: string): string {
+  const major = path.basename(path.dirname(binDir));
+  if (fs.existsSync(`/usr/share/postgresql/${major}/extension/pg_partman.control`)) return binDir;
+  const pkg = `postgresql-${major}-partman`;
+  if (!isRoot()) throw new Error(`pg_partman is not installed; run: sudo apt-get install -y ${pkg}`);
+  console.log(`Installing pg_partman from Debian's packages (apt-get install -y ${pkg})…`);
+  const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
+  let r = spawnSync("apt-get", ["install", "-y", "--no-install-recommends", pkg], { stdio: "inherit", env });
+  if (r.status !== 0) {
+    spawnSync("apt-get", ["update"], { stdio: "inherit", env });
+    r = spawnSync("apt-get", ["install", "-y", "--no-install-recommends", pkg], { stdio: "inherit", env });
+  }
+  if (r.status !== 0) throw new Error(`apt-get install ${pkg} failed`);
+  return binDir;
 }
 
 // Runs a server binary as the unprivileged `postgres` user when we are root (PostgreSQL refuses root).

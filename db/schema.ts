@@ -232,7 +232,9 @@ export const probes = pgTable(
   (t) => [uniqueIndex("probes_code_uq").on(t.code), index("probes_zone_idx").on(t.zoneId)],
 );
 
-// A repeated reading (same probe, metric, time) is a no-op by this key.
+// A repeated reading (same probe, metric, time) is a no-op by this key. The table is partitioned
+// by month on ts with pg_partman (migration 0007, db/migrations/0007_readings-by-month.sql), which
+// drizzle cannot say: the key holds ts, the partition key, as a partitioned table's key must.
 export const readings = pgTable(
   "readings",
   {
@@ -259,6 +261,33 @@ export const readingRollups = pgTable(
   // Long chart ranges read one row per hour through this key instead of every raw reading.
   (t) => [primaryKey({ columns: [t.probeId, t.metric, t.hour] })],
 );
+
+// Days of the hourly rollups, cut at the probe's farm's midnight, for charts of months and a year
+// (365 rows a line instead of 8,760). Written only by the deferred refresh in
+// db/queries/daily-rollups.ts (never by the ingest writer); a chart reads these for the days the
+// refresh has done (reading_daily_state) and the hourly rollups for the rest.
+export const readingDailyRollups = pgTable(
+  "reading_daily_rollups",
+  {
+    probeId: integer("probe_id").notNull(),
+    metric: metricEnum("metric").notNull(),
+    /** The instant the farm's day starts (its local midnight). */
+    day: ts("day").notNull(),
+    min: doublePrecision("min").notNull(),
+    max: doublePrecision("max").notNull(),
+    sum: doublePrecision("sum").notNull(),
+    count: integer("count").notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.probeId, t.metric, t.day] })],
+);
+
+// How far the daily rollups of each probe are done, and in which time zone they were cut.
+export const readingDailyState = pgTable("reading_daily_state", {
+  probeId: integer("probe_id").primaryKey(),
+  timezone: text("timezone").notNull(),
+  /** A local midnight: every day before it is in reading_daily_rollups. */
+  doneThrough: ts("done_through").notNull(),
+});
 
 export const rejectedMessages = pgTable(
   "rejected_messages",

@@ -9,6 +9,7 @@
 import createDebug from "debug";
 import { db, pool } from "@/db";
 import { env } from "@/lib/server/env";
+import { createSeriesMaintenance, type SeriesMaintenance } from "@/lib/server/series/maintenance";
 import { createDeliveryWorker, type DeliveryWorker } from "./delivery-worker";
 import { createDigestScheduler, type DigestScheduler } from "./digest";
 import { createRuleRunner, type RuleRunner } from "./rule-runner";
@@ -44,6 +45,7 @@ const withBroker = role !== "workers";
 let rules: RuleRunner | null = null;
 let digests: DigestScheduler | null = null;
 let deliveries: DeliveryWorker | null = null;
+let seriesMaintenance: SeriesMaintenance | null = null;
 if (withWorkers) {
   // catchUp: on start and after each lost LISTEN, every monitored zone is evaluated once, so
   // readings committed while no runner listened (this one restarting, the database restarting)
@@ -52,6 +54,8 @@ if (withWorkers) {
   digests = createDigestScheduler();
   // Pushes and alert e-mails leave the rule runner's chain: it queues them, this worker sends them.
   deliveries = createDeliveryWorker({ listenUrl: e.DATABASE_URL });
+  // Daily rollups for long charts and pg_partman's months of readings, hourly (off the writer's path).
+  seriesMaintenance = createSeriesMaintenance();
 }
 // Without the broker's listening socket nothing else holds the process open while the database is
 // away (the runner's and worker's retry timers are unref'd): a workers process would just exit.
@@ -88,6 +92,7 @@ async function stop(signal: string) {
     await rules?.stop();
     await deliveries?.stop();
     await digests?.stop();
+    await seriesMaintenance?.stop();
     process.exit(0);
   } catch (err) {
     console.error("ingest: shutdown failed:", (err as Error).message);

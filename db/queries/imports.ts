@@ -2,6 +2,7 @@ import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { imports, probes } from "@/db/schema";
 import { sameMapping } from "@/lib/domain/csv-import";
+import { markDailyRollupsStale } from "./daily-rollups";
 import { insertReadings, recordRejections, type ReadingInput, type RejectionInput } from "./readings";
 
 export type ImportRecord = typeof imports.$inferSelect;
@@ -39,6 +40,11 @@ export async function storeImport(row: ImportRow, readings: readonly ReadingInpu
 
     let inserted = 0;
     for (let i = 0; i < readings.length; i += CHUNK) inserted += (await insertReadings(readings.slice(i, i + CHUNK), tx)).inserted;
+    // Days of the year charts already made from the hourly rollups are redone from the oldest one.
+    if (inserted > 0) {
+      const oldest = readings.reduce((m, r) => Math.min(m, r.ts.getTime()), Infinity);
+      await markDailyRollupsStale([...new Set(readings.map((r) => r.probeId))], new Date(oldest), tx);
+    }
     if (rejection) await recordRejections([rejection], tx);
     const [stored] = await tx
       .insert(imports)

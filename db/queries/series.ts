@@ -130,35 +130,51 @@ const inRange = (ids: number[], r: SeriesRange) =>
 // A zone's line merges its probes; the zone is where the probe is placed now.
 const keyOf = (by: LineKey) => (by === "zone" ? sql`p.zone_id::text` : sql`r.probe_id::text`);
 
-/** The most readings any one of these probes has in the range. */
-export async function maxReadingCount(ids: number[], r: SeriesRange): Promise<number> {
-  const counted = await db().execute<{ n: number }>(sql`
-    select count(*)::int as n from readings r where ${inRange(ids, r)}
-    group by r.probe_id order by n desc limit 1`);
-  return counted.rows[0]?.n ?? 0;
+/** One line per probe in one statement and one read of the readings: each reading a point of its
+ * own while no probe has more than `maxPoints` in the range, else buckets of `bucketS` seconds
+ * (`bucketed` says which). Counting first and then reading took two round trips and two reads. */
+export async function listProbeLinePoints(
+  ids: number[],
+  r: SeriesRange,
+  maxPoints: number,
+  bucketS: number,
+): Promise<{ bucketed: boolean; rows: SeriesPoint[] }> {
+  const got = await db().execute<SeriesPoint & { bucketed: boolean }>(probeLinePointsSql(ids, r, maxPoints, bucketS));
+  return { bucketed: got.rows[0]?.bucketed ?? false, rows: got.rows };
 }
 
-/** Each reading in the range as a point of its own, one line per probe. */
-export async function listReadingPoints(ids: number[], r: SeriesRange): Promise<SeriesPoint[]> {
-  const got = await db().execute<SeriesPoint>(sql`
-    select r.probe_id::text as key, r.ts as t, r.value as mean, r.value as min, r.value as max from readings r
-    where ${inRange(ids, r)}
-    order by r.probe_id, r.ts`);
-  return got.rows;
-}
+/** The statement behind listProbeLinePoints (tests EXPLAIN it for the partitions it reads). */
+export const probeLinePointsSql = (ids: number[], r: SeriesRange, maxPoints: number, bucketS: number) => sql`
+    with pts as materialized (
+      select r.probe_id, r.ts, r.value from readings r where ${inRange(ids, r)}
+    ), many as (
+      select coalesce(max(n), 0) > ${maxPoints} as b from (select count(*) as n from pts group by probe_id) x
+    )
+    select * from (
+      select pts.probe_id::text as key, pts.ts as t, pts.value as mean, pts.value as min, pts.value as max, false as bucketed
+      from pts, many where not many.b
+      union all
+      select pts.probe_id::text, date_bin(make_interval(secs => ${bucketS}), pts.ts, ${ORIGIN}), avg(pts.value), min(pts.value), max(pts.value), true
+      from pts, many where many.b
+      group by 1, 2
+    ) y order by 1, 2`;
 
 // date_bin (PostgreSQL 14+) has no Drizzle word; buckets align to a fixed origin so a chart that
 // slides its window keeps the same bucket edges.
 const ORIGIN = sql`timestamptz '2000-01-01 00:00:00+00'`;
 
-/** The readings in the range merged into buckets of `bucketS` seconds. */
-export async function listBucketedReadingPoints(ids: number[], r: SeriesRange, bucketS: number, by: LineKey = "probe"): Promise<SeriesPoint[]> {
-  const got = await db().execute<SeriesPoint>(sql`
+/** The statement behind listBucketedReadingPoints (tests EXPLAIN it: it must touch only the
+ * month partitions of readings that the range overlaps). */
+export const bucketedReadingSql = (ids: number[], r: SeriesRange, bucketS: number, by: LineKey = "probe") => sql`
     select ${keyOf(by)} as key, date_bin(make_interval(secs => ${bucketS}), r.ts, ${ORIGIN}) as t,
            avg(r.value) as mean, min(r.value) as min, max(r.value) as max
     from readings r join probes p on p.id = r.probe_id
     where ${inRange(ids, r)}
-    group by 1, 2 order by 1, 2`);
+    group by 1, 2 order by 1, 2`;
+
+/** The readings in the range merged into buckets of `bucketS` seconds. */
+export async function listBucketedReadingPoints(ids: number[], r: SeriesRange, bucketS: number, by: LineKey = "probe"): Promise<SeriesPoint[]> {
+  const got = await db().execute<SeriesPoint>(bucketedReadingSql(ids, r, bucketS, by));
   return got.rows;
 }
 
@@ -178,6 +194,46 @@ export async function listRollupPoints(ids: number[], r: SeriesRange, bucketS: n
     where r.probe_id = any(${sql.param(ids)}::int[]) and r.metric = ${r.metric}
       and r.hour >= date_trunc('hour', ${r.from.toISOString()}::timestamptz, 'UTC') and r.hour < ${r.to.toISOString()}
     group by 1, 2 order by 1, 2`);
+  return got.rows;
+}
+
+/** The statement behind listDailyPoints. Days the deferred refresh has done for a probe in this
+ * time zone (reading_daily_state; db/queries/daily-rollups.ts) come from reading_daily_rollups, one
+ * row a day; the part day at the start of the range and the days since the refresh (today, at
+ * least) come from the hourly rollups. Both are merged into the farm's days exactly as
+ * listRollupPoints merges hours, so the answer is the same, from about 1/24 of the rows. */
+export const dailyPointsSql = (ids: number[], r: SeriesRange, timezone: string, by: LineKey = "probe") => sql`
+    with b as (
+      select date_trunc('hour', f, 'UTC') as h0, t as t1,
+             case when date_trunc('day', f, ${timezone}) = f then f
+                  else ((date_trunc('day', f, ${timezone}) at time zone ${timezone}) + interval '1 day') at time zone ${timezone} end as d0,
+             date_trunc('day', t, ${timezone}) as d1
+      from (select ${r.from.toISOString()}::timestamptz as f, ${r.to.toISOString()}::timestamptz as t) x
+    ), cut as (
+      select p.id as probe_id, b.d0, greatest(b.d0, least(coalesce(s.done_through, b.d0), b.d1)) as c
+      from unnest(${sql.param(ids)}::int[]) as p(id) cross join b
+      left join reading_daily_state s on s.probe_id = p.id and s.timezone = ${timezone}
+    ), pts as (
+      select d.probe_id, d.day as at, d.min, d.max, d.sum, d.count
+      from cut join reading_daily_rollups d on d.probe_id = cut.probe_id and d.metric = ${r.metric} and d.day >= cut.d0 and d.day < cut.c
+      union all
+      select h.probe_id, h.hour, h.min, h.max, h.sum, h.count
+      from cut cross join b join reading_rollups h on h.probe_id = cut.probe_id and h.metric = ${r.metric} and h.hour >= b.h0 and h.hour < least(b.d0, b.t1)
+      union all
+      select h.probe_id, h.hour, h.min, h.max, h.sum, h.count
+      from cut cross join b join reading_rollups h on h.probe_id = cut.probe_id and h.metric = ${r.metric} and h.hour >= greatest(cut.c, b.h0) and h.hour < b.t1
+    )
+    select ${by === "zone" ? sql`p.zone_id::text` : sql`pts.probe_id::text`} as key,
+           date_trunc('day', pts.at, ${timezone}) as t,
+           sum(pts.sum) / sum(pts.count) as mean, min(pts.min) as min, max(pts.max) as max
+    from pts join probes p on p.id = pts.probe_id
+    group by 1, 2 order by 1, 2`;
+
+/** The range in days cut at the farm's midnight (`timezone`), from daily rollups where the deferred
+ * refresh has made them and hourly rollups elsewhere: the same points as listRollupPoints with a
+ * day's bucket. */
+export async function listDailyPoints(ids: number[], r: SeriesRange, timezone: string, by: LineKey = "probe"): Promise<SeriesPoint[]> {
+  const got = await db().execute<SeriesPoint>(dailyPointsSql(ids, r, timezone, by));
   return got.rows;
 }
 

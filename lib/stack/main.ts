@@ -275,6 +275,7 @@ const BENCHES: Record<string, string> = {
   ingest: "tests/bench/ingest.bench.ts",
   preview: "tests/bench/preview.bench.ts",
   push: "tests/bench/push.bench.ts",
+  series: "tests/bench/series.bench.ts",
   pages: "tests/bench/pages.bench.ts",
   restart: "tests/bench/restart.bench.ts",
   soak: "tests/bench/soak.bench.ts",

@@ -1,8 +1,8 @@
 import {
   listBucketedReadingPoints,
-  listReadingPoints,
+  listDailyPoints,
+  listProbeLinePoints,
   listRollupPoints,
-  maxReadingCount,
   type LineKey,
   type SeriesLevel,
   type SeriesPoint,
@@ -48,10 +48,15 @@ export async function pointsOf(ids: number[], q: SeriesRange, opts: { by: LineKe
   if (ids.length === 0) return { source: level.source, bucketSeconds: level.bucketSeconds, rows: [] };
   if (level.source === "rollup") {
     const b = level.bucketSeconds!;
+    // A year in days: the daily rollups (refreshed off the ingest path) and hourly ones for the rest.
+    if (b === DAY_MS / 1000) return { ...level, rows: await listDailyPoints(ids, q, opts.timezone, opts.by) };
     return { ...level, rows: await listRollupPoints(ids, q, b, { by: opts.by, timezone: b > HOUR_S ? opts.timezone : "UTC" }) };
   }
-  if (opts.by === "probe" && (await maxReadingCount(ids, q)) <= MAX_POINTS) return { ...level, rows: await listReadingPoints(ids, q) };
   const bucket = bucketFor(rangeMs, opts.minRawBucketS);
+  if (opts.by === "probe") {
+    const got = await listProbeLinePoints(ids, q, MAX_POINTS, bucket);
+    return { source: "raw", bucketSeconds: got.bucketed ? bucket : null, rows: got.rows };
+  }
   return { source: "raw", bucketSeconds: bucket, rows: await listBucketedReadingPoints(ids, q, bucket, opts.by) };
 }
 
