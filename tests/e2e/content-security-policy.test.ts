@@ -67,7 +67,7 @@ describe("the content security policy", () => {
     await page.getByLabel("Password").fill("alder-row-demo");
     await page.getByRole("button", { name: "Sign in" }).click();
     await page.waitForURL(/\/farms\//);
-    // Today: every bin and zone, with a small chart per zone drawn by uPlot.
+    // Today: every bin and zone, with a small chart per zone drawn on a canvas.
     await page.goto(`${appUrl()}/farms/${farmId}`);
     await page.getByRole("region", { name: "Long Bed North" }).waitFor();
     await expect.poll(() => page.locator("canvas").count()).toBeGreaterThan(0);
