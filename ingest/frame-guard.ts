@@ -53,6 +53,7 @@ export class FrameGuard extends Duplex {
   private length = 0;
   private left = 0; // body bytes of the current packet still to pass or drop
   private topicPart: number[] = []; // topic length, topic and packet id of a PUBLISH read past
+  private corked = false;
 
   constructor(
     private readonly socket: net.Socket,
@@ -219,6 +220,16 @@ export class FrameGuard extends Duplex {
   }
 
   override _write(chunk: Buffer, _enc: BufferEncoding, cb: (err?: Error | null) => void): void {
+    // One commit releases many PUBACKs in the same turn: corked until the next tick, they leave in one
+    // write (one syscall and one TCP segment) instead of one each.
+    if (!this.corked) {
+      this.corked = true;
+      this.socket.cork();
+      process.nextTick(() => {
+        this.corked = false;
+        this.socket.uncork();
+      });
+    }
     if (this.socket.write(chunk)) cb();
     else this.socket.once("drain", () => cb());
   }

@@ -105,7 +105,6 @@ describe("a probe moving from node A to node B", () => {
     );
     await new Promise<void>((r) => operator.close(() => r()));
 
-    // The handler is in place before the CONNACK, so nothing B sends after it is missed.
     const second = mqtt.connect(`mqtt://127.0.0.1:${b.port}`, {
       clientId: p.code,
       username: p.code,
@@ -116,10 +115,14 @@ describe("a probe moving from node A to node B", () => {
     });
     clients.push(second);
     second.on("error", () => {});
-    const ack = await new Promise<{ sessionPresent: boolean }>((resolve) => second.once("connect", resolve));
-    const msg = await new Promise<{ topic: string; payload: string; qos: number }>((resolve) =>
+    // Both listeners before either arrives: the queued PUBLISH can come in the same read as the
+    // CONNACK, and MQTT.js then emits it before an awaited "connect" would let a later listener on.
+    const acked = new Promise<{ sessionPresent: boolean }>((resolve) => second.once("connect", resolve));
+    const received = new Promise<{ topic: string; payload: string; qos: number }>((resolve) =>
       second.on("message", (topic, payload, packet) => resolve({ topic, payload: payload.toString(), qos: packet.qos })),
     );
+    const ack = await acked;
+    const msg = await received;
     expect(ack.sessionPresent).toBe(true);
     expect(msg).toEqual({ topic: probeTopics(p.code).forProbe, payload: "calibrate", qos: 1 });
   });
