@@ -1,8 +1,12 @@
 // The kinds of entry the bin page's "Log" button offers, in the order it lists them. Data, not
 // markup: a new kind is one entry here (its key is the ?log= value in the address).
 import type { ReactNode } from "react";
-import { FeedingForm, HarvestForm, NoteForm, SampleForm, ShiftForm, WaterForm } from "@/components/logbook/lazy-forms";
-import type { BinProbe } from "@/components/logbook/sample-form";
+import { FeedingForm } from "@/components/logbook/feeding-form";
+import { HarvestForm } from "@/components/logbook/harvest-form";
+import { NoteForm } from "@/components/logbook/note-form";
+import { SampleForm, type BinProbe } from "@/components/logbook/sample-form";
+import { ShiftForm } from "@/components/logbook/shift-form";
+import { WaterForm } from "@/components/logbook/water-form";
 import type { MarkName } from "@/components/ui/mark-shapes";
 import type { ZoneChoice } from "@/lib/client/wire";
 import type { BinForLoad } from "@/lib/domain/feeding-load";

@@ -162,7 +162,7 @@ async function seed(url: string) {
 
 beforeAll(async () => {
   fs.mkdirSync(logDir, { recursive: true });
-  for (const f of fs.readdirSync(logDir)) fs.rmSync(path.join(logDir, f));
+  for (const f of fs.readdirSync(logDir)) fs.rmSync(path.join(logDir, f), { recursive: true, force: true });
   cluster = await startCluster({ name: CLUSTER, port: await freePort() });
   const admin = new pg.Client({ connectionString: cluster.adminUrl });
   await admin.connect();

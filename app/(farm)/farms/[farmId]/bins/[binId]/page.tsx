@@ -4,7 +4,7 @@ import { notFound } from "next/navigation";
 import { SWRConfig } from "swr";
 import { BinCycleForm } from "@/components/bins/bin-cycle-form";
 import { BinCyclePanel } from "@/components/bins/bin-cycle-panel";
-import { BinSizeForm } from "@/components/bins/lazy-forms";
+import { BinSizeForm } from "@/components/bins/bin-size-form";
 import { YieldsChart } from "@/components/bins/yields-chart";
 import { BinChart } from "@/components/charts/bin-chart";
 import { zoneWords } from "@/components/logbook/format";
