@@ -9,7 +9,7 @@ import { schema, type Db } from "@/db";
 import { pgCtl, startCluster, stopCluster } from "@/db/local-pg";
 import { runMigrations } from "@/db/migrate";
 import { startIngest, type Ingest } from "@/ingest/service";
-import { connectProbe, countReadings, createProbes, tempPack, type TestProbe } from "./helpers";
+import { connectProbe, countReadings, createProbes, freePort, tempPack, type TestProbe } from "./helpers";
 
 const CLUSTER = "pg-outage";
 const MESSAGES = 1500;
@@ -22,7 +22,8 @@ let client: MqttClient | null = null;
 let probe: TestProbe;
 
 beforeAll(async () => {
-  const cluster = await startCluster({ name: CLUSTER, port: 54359 });
+  // A free port, not a fixed one: another cluster or service on this machine may hold any given port.
+  const cluster = await startCluster({ name: CLUSTER, port: await freePort() });
   const admin = new pg.Client({ connectionString: cluster.adminUrl });
   await admin.connect();
   await admin.query("drop database if exists outage_test with (force)");
