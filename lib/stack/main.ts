@@ -285,7 +285,8 @@ async function bench(names: string[]) {
   const { beginRun, table, LATEST } = await import("@/tests/bench/report");
   const chosen = names.length ? names : Object.keys(BENCHES).filter((n) => n !== "soak");
   for (const n of chosen) if (!BENCHES[n]) throw new Error(`unknown bench ${n}; there are: ${Object.keys(BENCHES).join(", ")}`);
-  beginRun();
+  // The whole set starts the figures afresh; named benches update theirs in the last run's.
+  if (!names.length) beginRun();
   const failed: string[] = [];
   for (const n of chosen) {
     const file = BENCHES[n]!;
