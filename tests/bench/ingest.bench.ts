@@ -16,7 +16,6 @@
 // .data/bench/prof/) and prints pg_stat_statements for the sustained run.
 import { spawn, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
-import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import { Readable } from "node:stream";
@@ -33,7 +32,7 @@ import { insertReadings, type ReadingInput } from "@/db/queries/readings";
 import { bins, farms, probes, zones } from "@/db/schema";
 import { hashToken } from "@/lib/server/auth/tokens";
 import { probeBaseName } from "@/lib/domain/metrics";
-import { BENCH_DIR, percentile, record } from "./report";
+import { BENCH_DIR, freePort, percentile, record } from "./report";
 
 const CLUSTER = process.env.WORMWARD_BENCH_CLUSTER ?? "pg-bench";
 const PG_PORT = Number(process.env.WORMWARD_BENCH_PG_PORT ?? 54349);
@@ -51,14 +50,6 @@ const PACED = [
 type BenchProbe = { id: number; code: string; token: string };
 
 const root = path.resolve(import.meta.dirname, "../..");
-
-async function freePort(): Promise<number> {
-  const s = net.createServer().listen(0, "127.0.0.1");
-  await new Promise((r) => s.once("listening", r));
-  const { port } = s.address() as net.AddressInfo;
-  await new Promise((r) => s.close(r));
-  return port;
-}
 
 async function startChild(script: string, env: Record<string, string>, ready: RegExp, nodeArgs: string[] = []): Promise<ChildProcess> {
   const child = spawn(process.execPath, [...nodeArgs, "--import", "tsx", script], {

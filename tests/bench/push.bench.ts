@@ -11,7 +11,6 @@
 import { spawn, type ChildProcess } from "node:child_process";
 import { createECDH, randomBytes } from "node:crypto";
 import fs from "node:fs";
-import net from "node:net";
 import path from "node:path";
 import { drizzle } from "drizzle-orm/node-postgres";
 import { connectAsync, type MqttClient } from "mqtt";
@@ -25,7 +24,7 @@ import { hashToken } from "@/lib/server/auth/tokens";
 import { probeBaseName } from "@/lib/domain/metrics";
 import { makeVapidKeys } from "@/lib/server/push/push";
 import { startPushService } from "@/fakes/push-service";
-import { BENCH_DIR, percentile, record } from "./report";
+import { BENCH_DIR, freePort, percentile, record } from "./report";
 
 const CLUSTER = process.env.WORMWARD_BENCH_CLUSTER ?? "pg-bench";
 const PG_PORT = Number(process.env.WORMWARD_BENCH_PG_PORT ?? 54349);
@@ -34,14 +33,6 @@ const HOT_C = 33.5; // at or above eisenia fetida's warm-stress line: an act-now
 const GAP_MS = 250; // between one farm's push and the next farm's publish
 
 const root = path.resolve(import.meta.dirname, "../..");
-
-async function freePort(): Promise<number> {
-  const s = net.createServer().listen(0, "127.0.0.1");
-  await new Promise((r) => s.once("listening", r));
-  const { port } = s.address() as net.AddressInfo;
-  await new Promise((r) => s.close(r));
-  return port;
-}
 
 const fmt = (n: number | null, digits = 0) => (n == null ? "—" : n.toLocaleString("en-US", { maximumFractionDigits: digits, minimumFractionDigits: digits }));
 

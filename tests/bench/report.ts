@@ -3,6 +3,7 @@
 // table `npm run bench` prints at the end, each figure beside the ceiling measured in the same run.
 // Benchmarks print; they never fail the build.
 import fs from "node:fs";
+import net from "node:net";
 import path from "node:path";
 
 const root = path.resolve(import.meta.dirname, "../..");
@@ -74,4 +75,13 @@ export function percentile(values: readonly number[], p: number): number | null 
   if (values.length === 0) return null;
   const s = [...values].sort((a, b) => a - b);
   return s[Math.min(s.length - 1, Math.max(0, Math.ceil((p / 100) * s.length) - 1))]!;
+}
+
+/** A port nothing listens on now, on loopback (the OS picks it). */
+export async function freePort(): Promise<number> {
+  const s = net.createServer().listen(0, "127.0.0.1");
+  await new Promise((r) => s.once("listening", r));
+  const { port } = s.address() as net.AddressInfo;
+  await new Promise((r) => s.close(r));
+  return port;
 }

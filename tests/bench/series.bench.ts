@@ -14,7 +14,6 @@
 // The EXPLAIN (ANALYZE) of each range's statement is printed for the reader.
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
-import net from "node:net";
 import path from "node:path";
 import { sql } from "drizzle-orm";
 import pg from "pg";
@@ -22,7 +21,7 @@ import { startCluster, stopCluster } from "@/db/local-pg";
 import { runMigrations } from "@/db/migrate";
 import { hashPassword } from "@/lib/server/auth/password";
 import { buildUnlessCurrent } from "@/lib/stack/build-cache";
-import { record } from "./report";
+import { freePort, record } from "./report";
 
 const CLUSTER = "pg-bench-series";
 const ZONE_PROBES = 3;
@@ -40,14 +39,6 @@ const pct = (xs: number[], p: number) => {
   const s = [...xs].sort((a, b) => a - b);
   return s[Math.min(s.length - 1, Math.ceil((p / 100) * s.length) - 1)]!;
 };
-
-async function freePort(): Promise<number> {
-  const s = net.createServer().listen(0, "127.0.0.1");
-  await new Promise((r) => s.once("listening", r));
-  const { port } = s.address() as net.AddressInfo;
-  await new Promise((r) => s.close(r));
-  return port;
-}
 
 async function timed<T>(what: string, fn: () => Promise<T>): Promise<T> {
   const t0 = performance.now();

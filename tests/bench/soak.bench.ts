@@ -7,7 +7,6 @@
 // resident memory of each process. Printed and recorded (soak_* keys), never asserted.
 import { spawn, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
-import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import { sql } from "drizzle-orm";
@@ -23,7 +22,7 @@ import { probeBaseName } from "@/lib/domain/metrics";
 import { hashToken } from "@/lib/server/auth/tokens";
 import { startHaproxy, stopHaproxy } from "@/lib/stack/haproxy";
 import { startRedis, stopRedis } from "@/lib/stack/redis-server";
-import { percentile, record, type Row } from "./report";
+import { freePort, percentile, record, type Row } from "./report";
 
 const MINUTES = Number(process.env.SOAK_MINUTES ?? 30);
 const READINGS_PER_S = Number(process.env.SOAK_READINGS_PER_S ?? 500);
@@ -31,14 +30,6 @@ const PROBES = 100;
 const READINGS_PER_MESSAGE = 4; // temperature, moisture, ammonia, signal: one probe report
 const CLUSTER = "pg-soak";
 const root = path.resolve(import.meta.dirname, "../..");
-
-async function freePort(): Promise<number> {
-  const s = net.createServer().listen(0, "127.0.0.1");
-  await new Promise((r) => s.once("listening", r));
-  const { port } = s.address() as net.AddressInfo;
-  await new Promise((r) => s.close(r));
-  return port;
-}
 
 async function startNode(databaseUrl: string, redisUrl: string, port: number): Promise<ChildProcess> {
   const child = spawn(process.execPath, ["--import", "tsx", "ingest/main.ts"], {
