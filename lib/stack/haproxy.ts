@@ -6,6 +6,7 @@ import fs from "node:fs";
 import net from "node:net";
 import path from "node:path";
 import { ensureOsPackages } from "./os-packages";
+import { pidOf, stopByPidFile } from "./pid-file";
 
 const projectRoot = path.resolve(import.meta.dirname, "../..");
 
@@ -54,17 +55,6 @@ listen stats
 }`;
 }
 
-function pidOf(pidFile: string): number | null {
-  if (!fs.existsSync(pidFile)) return null;
-  const pid = Number(fs.readFileSync(pidFile, "utf8").trim());
-  try {
-    process.kill(pid, 0);
-    return pid;
-  } catch {
-    return null;
-  }
-}
-
 async function listening(port: number): Promise<boolean> {
   return new Promise((resolve) => {
     const s = net.connect(port, "127.0.0.1");
@@ -98,17 +88,5 @@ export async function startHaproxy(opts: BalancerOptions): Promise<{ cfg: string
 
 /** Stops HAProxy `name` (SIGTERM: at once, connections closed) and waits for it to exit. */
 export function stopHaproxy(name = "haproxy", timeoutMs = 5_000) {
-  const pid = pidOf(paths(name).pid);
-  if (!pid) return;
-  process.kill(pid, "SIGTERM");
-  const until = Date.now() + timeoutMs;
-  while (Date.now() < until) {
-    try {
-      process.kill(pid, 0);
-    } catch {
-      return;
-    }
-    spawnSync("sleep", ["0.1"]);
-  }
-  throw new Error(`haproxy ${name} (pid ${pid}) did not stop within ${timeoutMs / 1000} s`);
+  stopByPidFile(paths(name).pid, `haproxy ${name}`, timeoutMs);
 }

@@ -9,6 +9,7 @@ import path from "node:path";
 import createDebug from "debug";
 import { Redis } from "ioredis";
 import { ensureOsPackages } from "./os-packages";
+import { pidOf, stopByPidFile } from "./pid-file";
 
 const log = createDebug("wormward:redis");
 const projectRoot = path.resolve(import.meta.dirname, "../..");
@@ -33,17 +34,6 @@ const paths = (name: string) => {
   const dataDir = path.join(projectRoot, ".data", name);
   return { dataDir, conf: path.join(dataDir, "redis.conf"), pid: path.join(dataDir, "redis.pid"), state: path.join(projectRoot, ".data", `${name}.json`) };
 };
-
-function pidOf(pidFile: string): number | null {
-  if (!fs.existsSync(pidFile)) return null;
-  const pid = Number(fs.readFileSync(pidFile, "utf8").trim());
-  try {
-    process.kill(pid, 0);
-    return pid;
-  } catch {
-    return null;
-  }
-}
 
 async function ping(url: string): Promise<boolean> {
   const r = new Redis(url, { lazyConnect: true, maxRetriesPerRequest: 0, retryStrategy: () => null, connectTimeout: 1000 });
@@ -103,19 +93,7 @@ export async function startRedis(opts: { name?: string; port?: number } = {}): P
 
 /** Stops the server `name` and waits until it has exited (synchronous, for exit handlers). */
 export function stopRedis(name = "redis", timeoutMs = 10_000) {
-  const pid = pidOf(paths(name).pid);
-  if (!pid) return;
-  process.kill(pid, "SIGTERM");
-  const until = Date.now() + timeoutMs;
-  while (Date.now() < until) {
-    try {
-      process.kill(pid, 0);
-    } catch {
-      return;
-    }
-    spawnSync("sleep", ["0.1"]);
-  }
-  throw new Error(`redis ${name} (pid ${pid}) did not stop within ${timeoutMs / 1000} s`);
+  stopByPidFile(paths(name).pid, `redis ${name}`, timeoutMs);
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
