@@ -52,6 +52,7 @@ export async function createBrokerBackends(opts: BackendOptions = {}): Promise<B
   const nodeId = opts.nodeId ?? `${os.hostname()}-${process.pid}-${randomUUID().slice(0, 8)}`;
   if (!opts.redisUrl) return { nodeId, aedes: {}, presence: localPresence(), shared: false, close: async () => {} };
   const url = opts.redisUrl;
+  await untilRedisAnswers(url);
   // The persistence and the emitter each open their own two connections (their READMEs); presence has one more.
   const persistence = aedesPersistenceRedis(redisOptions(url));
   const mq = mqemitterRedis({ connectionString: url });
@@ -69,6 +70,29 @@ export async function createBrokerBackends(opts: BackendOptions = {}): Promise<B
       await Promise.resolve(persistence.destroy()).catch((err: Error) => log("persistence not closed cleanly: %s", err.message));
     },
   };
+}
+
+// A node started while its Redis is down (a machine booting, Redis restarting) waits for it and
+// says so in words, every attempt, instead of failing on the first refused connection.
+async function untilRedisAnswers(url: string) {
+  const where = new URL(url).host;
+  for (let attempt = 0; ; attempt++) {
+    const r = new Redis(url, { lazyConnect: true, retryStrategy: () => null, maxRetriesPerRequest: 0, connectTimeout: 2_000 });
+    r.on("error", () => {});
+    try {
+      await r.connect();
+      await r.ping();
+      await r.quit();
+      if (attempt > 0) console.error(`ingest: Redis at ${where} answers; going on`);
+      return;
+    } catch (err) {
+      r.disconnect();
+      const waitMs = Math.min(5_000, 250 * 2 ** attempt);
+      const why = (err as Error).message.startsWith("WRONGPASS") ? "refused the password in REDIS_URL" : `is not answering (${(err as Error).message})`;
+      console.error(`ingest: Redis at ${where} ${why}; trying again in ${(waitMs / 1000).toFixed(1)} s`);
+      await new Promise((res) => setTimeout(res, waitMs));
+    }
+  }
 }
 
 function redisOptions(url: string) {

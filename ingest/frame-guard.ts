@@ -59,10 +59,12 @@ export class FrameGuard extends Duplex {
     private readonly socket: net.Socket,
     private readonly limits: FrameLimits,
     private readonly onAccept: () => void = () => {},
+    // The client's own address when a balancer named it (PROXY protocol, proxy-header.ts).
+    from: { address: string | undefined; port: number | undefined } = { address: socket.remoteAddress, port: socket.remotePort },
   ) {
     super({ allowHalfOpen: true });
-    this.remoteAddress = socket.remoteAddress;
-    this.remotePort = socket.remotePort;
+    this.remoteAddress = from.address;
+    this.remotePort = from.port;
     socket.on("data", (chunk: Buffer) => this.arrived(chunk));
     socket.on("end", () => {
       this.ended = true;

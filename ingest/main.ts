@@ -67,6 +67,7 @@ if (withBroker) {
     host: e.MQTT_HOST,
     db: db(),
     redisUrl: e.REDIS_URL,
+    proxyProtocol: e.MQTT_PROXY_PROTOCOL,
   });
   const shared = e.REDIS_URL ? ` (node ${ingest.nodeId}, shared through Redis)` : "";
   console.log(`ingest: MQTT on ${e.MQTT_HOST}:${ingest.port}${role === "broker" ? " (broker only)" : ""}${shared}`);

@@ -14,6 +14,7 @@ import { DEFAULT_LIMITS, excerptOf, rejectionText, summarizeRejections, validate
 import { syncProbesOnline } from "@/db/queries/probes-presence";
 import { createBrokerBackends } from "./broker-backends";
 import { createConnectionLimits, DEFAULT_CONNECTION_LIMITS, type ConnectionLimits } from "./connection-limits";
+import { readProxyHeader, type ProxySource } from "./proxy-header";
 import { FrameGuard, PacketTooLarge } from "./frame-guard";
 import { createWriter, type BatchOptions, type RetryOptions } from "./writer";
 
@@ -35,6 +36,12 @@ export type IngestOptions = {
   connectMaxBytes?: number;
   /** Shares sessions, fan-out and presence with other nodes through this Redis (ingest/broker-backends.ts). */
   redisUrl?: string;
+  /**
+   * Each connection starts with a PROXY protocol v1 line from the balancer in front (HAProxy
+   * `send-proxy`), whose client address the per-address limits count; a connection without one is
+   * closed. Only for a node reached through the balancer alone (ingest/proxy-header.ts).
+   */
+  proxyProtocol?: boolean;
   /** This node's name in the shared registry and aedes' id (default: host, pid and a random part). */
   nodeId?: string;
   /** With Redis: how often probes.online is made to agree with the registry (default 5 s). */
@@ -314,20 +321,31 @@ export async function startIngest(opts: IngestOptions): Promise<Ingest> {
   };
   const counts = { refusedConnections: 0, cutPackets: 0 };
   const server = net.createServer((socket) => {
-    const admitted = admission.admit(socket.remoteAddress);
+    if (!opts.proxyProtocol) return serve(socket, { address: socket.remoteAddress, port: socket.remotePort });
+    void readProxyHeader(socket).then((from) => {
+      if (from) return serve(socket, from);
+      socket.destroy();
+      // The balancer's health check connects and closes without a byte: not a refusal.
+      if (socket.bytesRead === 0) return;
+      counts.refusedConnections++;
+      log("closed a connection from %s: no PROXY protocol line", socket.remoteAddress);
+    });
+  });
+  function serve(socket: net.Socket, from: ProxySource) {
+    const admitted = admission.admit(from.address);
     if (!admitted.ok) {
       counts.refusedConnections++;
       log("refused a connection from %s: too many %s", admitted.key, admitted.why === "attempts" ? "attempts" : `${admitted.why} connections`);
       socket.destroy();
       return;
     }
-    const conn = new FrameGuard(socket, frameLimits, admitted.accepted);
+    const conn = new FrameGuard(socket, frameLimits, admitted.accepted, from);
     conn.on("close", admitted.closed);
     conn.on("error", (err) => {
       if (err instanceof PacketTooLarge) recordCut(conn, err, admitted.key);
     });
     broker.handle(conn as unknown as net.Socket);
-  });
+  }
 
   // A probe's connection cut for an oversized packet that is not a PUBLISH (those are read past)
   // leaves a row its owner can read, one a minute at most; a stranger's, a log line.

@@ -228,8 +228,29 @@ export async function recordAlertEvents(rows: (typeof alertEvents.$inferInsert)[
   if (rows.length) await db().insert(alertEvents).values(rows);
 }
 
-export async function markAlertSent(id: string, at: Date) {
-  await db().update(alerts).set({ lastSentAt: at }).where(eq(alerts.id, id));
+// Open alerts whose raise or escalation committed but whose deliveries were never queued: the
+// process died (kill -9, a lost database) between the two, and no later evaluation would queue them,
+// since it finds the alert already open. Queueing marks last_sent_at in the same transaction
+// (enqueueDeliveries), so "never queued" is exactly last_sent_at unset, or older than act_now_at for
+// an escalation. Only those older than `graceMs` (the raising process may still be retrying) and
+// newer than `withinMs` (a day-old push is news to nobody).
+export async function listUnnotifiedAlerts(graceMs: number, withinMs: number, now = new Date()) {
+  const at = now.toISOString();
+  const r = await db().execute(sql`
+    select a.id, case when a.last_sent_at is null then 'raised' else 'escalated' end as reason
+    from alerts a
+    where a.state <> 'settled'
+      and (
+        (a.last_sent_at is null
+          and a.raised_at <= ${at}::timestamptz - make_interval(secs => ${graceMs / 1000}::float8)
+          and a.raised_at > ${at}::timestamptz - make_interval(secs => ${withinMs / 1000}::float8))
+        or (a.act_now_at > a.raised_at and a.last_sent_at < a.act_now_at
+          and a.act_now_at <= ${at}::timestamptz - make_interval(secs => ${graceMs / 1000}::float8)
+          and a.act_now_at > ${at}::timestamptz - make_interval(secs => ${withinMs / 1000}::float8))
+      )
+    order by a.raised_at`);
+  // A raise never queued is sent as a raise at the alert's present level, escalated or not.
+  return r.rows as { id: string; reason: "raised" | "escalated" }[];
 }
 
 // Act-now alerts nobody has claimed, due a reminder: the first `afterMs` after the alert went act

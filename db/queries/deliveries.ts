@@ -2,9 +2,9 @@
 // any ingest node. A row is claimed with FOR UPDATE SKIP LOCKED and a lease, so two workers never
 // hold one row at once; a worker that dies mid-send leaves a lease that runs out and the row is
 // sent again (the push Topic lets the push service collapse the two).
-import { and, eq, inArray, sql } from "drizzle-orm";
+import { and, eq, inArray, isNull, sql } from "drizzle-orm";
 import { db } from "@/db";
-import { alertEvents, deliveries, pushSubscriptions, users, type Delivery } from "@/db/schema";
+import { alertEvents, alerts, deliveries, pushSubscriptions, users, type Delivery } from "@/db/schema";
 
 export const DELIVERIES_CHANNEL = "wormward_deliveries";
 
@@ -21,11 +21,28 @@ export type NewDelivery = {
 
 type EventRow = typeof alertEvents.$inferInsert;
 
-// One transaction: the rows, the alert events that go with them (e.g. "held"), and a NOTIFY that
+// One transaction: the rows, the alert events that go with them (e.g. "held"), the alert's
+// last_sent_at when `sent` is given (so an alert is marked notified exactly when its rows exist, and
+// the sweep's recovery, listUnnotifiedAlerts, never queues its held events twice), and a NOTIFY that
 // wakes the workers on commit. A repeated dedupe key adds nothing.
-export async function enqueueDeliveries(rows: NewDelivery[], events: EventRow[] = []) {
-  if (rows.length === 0 && events.length === 0) return 0;
+// With `sent.unless`, the mark is a compare-and-set on the last_sent_at the caller read: when another
+// node has queued this alert meanwhile, nothing is added and the result is null.
+export async function enqueueDeliveries(
+  rows: NewDelivery[],
+  events: EventRow[] = [],
+  sent?: { alertId: string; at: Date; unlessSentSince?: { lastSentAt: Date | null } },
+): Promise<number | null> {
+  if (rows.length === 0 && events.length === 0 && !sent) return 0;
   return db().transaction(async (tx) => {
+    if (sent) {
+      const seen = sent.unlessSentSince;
+      const marked = await tx
+        .update(alerts)
+        .set({ lastSentAt: sent.at })
+        .where(and(eq(alerts.id, sent.alertId), seen ? (seen.lastSentAt ? eq(alerts.lastSentAt, seen.lastSentAt) : isNull(alerts.lastSentAt)) : undefined))
+        .returning({ id: alerts.id });
+      if (seen && marked.length === 0) return null;
+    }
     let added = 0;
     if (rows.length) {
       const r = await tx

@@ -29,10 +29,14 @@ export async function loadZoneRuleContext(
   const windows = opts.windows(z.bin.species, ruleRows, z.bin.id);
   const [readingRows, feedingRows, refusalRows, openRows, zoneCountRows] = await Promise.all([
     probeIds.length && opts.readings !== false
-      ? d.execute(sql`
-          select probe_id as "probeId", metric::text as metric, ts, value from readings
+      ? // At most one reading per series and minute, the last of it: the rules fit rates and trends over
+        // an hour or more and hold a state for minutes (lib/domain/rules/params.ts), so a probe that
+        // reports every few seconds says nothing more to them than one that reports every minute,
+        // and it would otherwise send days of its readings into every evaluation of its zone.
+        d.execute(sql`
+          select distinct on (probe_id, metric, date_trunc('minute', ts)) probe_id as "probeId", metric::text as metric, ts, value from readings
           where probe_id = any(${sql.param(probeIds)}::int[]) and ts >= ${since(windows.readingsMs).toISOString()} and ts <= ${now.toISOString()}
-          order by probe_id, metric, ts`)
+          order by probe_id, metric, date_trunc('minute', ts), ts desc`)
       : Promise.resolve({ rows: [] }),
     d
       .select()

@@ -13,6 +13,11 @@ const envSchema = z.object({
   NEXTAUTH_URL: z.string().url().optional(),
   MQTT_PORT: z.coerce.number().int().min(0).max(65535).default(18830),
   MQTT_HOST: z.string().default("127.0.0.1"),
+  // 1: every connection starts with HAProxy's PROXY protocol line (ingest/proxy-header.ts); only behind the balancer.
+  MQTT_PROXY_PROTOCOL: z
+    .enum(["0", "1"], { message: "MQTT_PROXY_PROTOCOL must be 0 or 1" })
+    .default("0")
+    .transform((v) => v === "1"),
   // Set: the ingest node shares sessions, fan-out and probe presence with other nodes through this Redis (ingest/broker-backends.ts).
   REDIS_URL: z
     .string()

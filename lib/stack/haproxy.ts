@@ -11,7 +11,14 @@ import { pidOf, stopByPidFile } from "./pid-file";
 const projectRoot = path.resolve(import.meta.dirname, "../..");
 
 export type Backend = { name: string; port: number };
-export type BalancerOptions = { name?: string; port: number; backends: Backend[]; statsPort?: number };
+export type BalancerOptions = {
+  name?: string;
+  port: number;
+  backends: Backend[];
+  statsPort?: number;
+  /** Each node connection starts with a PROXY protocol v1 line naming the probe's address (the nodes need MQTT_PROXY_PROTOCOL=1). */
+  sendProxy?: boolean;
+};
 
 const paths = (name: string) => {
   const dir = path.join(projectRoot, ".data", name);
@@ -41,7 +48,9 @@ backend ingest
   balance leastconn
   # A TCP connect every 2 s; two misses take a node out, one answer brings it back.
   default-server inter 2s fall 2 rise 1 on-marked-down shutdown-sessions
-${opts.backends.map((b) => `  server ${b.name} 127.0.0.1:${b.port} check`).join("\n")}
+${opts.sendProxy ? '  # The probe\'s own address reaches the node (HAProxy manual, "send-proxy"), so its per-address\n  # limits count each probe\'s address, not 127.0.0.1. "port" keeps the line off the health checks\n  # (manual, "check-send-proxy"): a bare connect is not a client and spends no address\'s budget.\n' : ""}${opts.backends
+    .map((b) => `  server ${b.name} 127.0.0.1:${b.port} check${opts.sendProxy ? ` port ${b.port} send-proxy` : ""}`)
+    .join("\n")}
 ${
   opts.statsPort
     ? `

@@ -175,9 +175,10 @@ async function start(args: string[]) {
     stopAlso.unshift(() => stopRedis("redis"));
     const front = Number(env.MQTT_PORT);
     const backends = Array.from({ length: nodes }, (_, i) => ({ name: `ingest-${i + 1}`, port: front + 1 + i }));
-    for (const b of backends) service(b.name, bin("tsx"), ["ingest/main.ts"], { ...env, MQTT_PORT: String(b.port), REDIS_URL: redis.url });
+    for (const b of backends)
+      service(b.name, bin("tsx"), ["ingest/main.ts"], { ...env, MQTT_PORT: String(b.port), REDIS_URL: redis.url, MQTT_PROXY_PROTOCOL: "1" });
     const statsPort = Number(process.env.HAPROXY_STATS_PORT ?? 8404);
-    await startHaproxy({ name: "haproxy", port: front, backends, statsPort });
+    await startHaproxy({ name: "haproxy", port: front, backends, statsPort, sendProxy: true });
     stopAlso.unshift(() => stopHaproxy("haproxy"));
     lines.push(
       `MQTT (HAProxy, TCP): mqtt://127.0.0.1:${front} → ${backends.map((b) => `${b.name} on ${b.port}`).join(", ")}; its stats at http://127.0.0.1:${statsPort}/`,

@@ -4,7 +4,12 @@
 // to SOAK_READINGS_PER_S (500) in all, through HAProxy. Measured in the first and the last window
 // (a minute, or a quarter of the run when shorter): publish-to-PUBACK latency p50/p95 (the PUBACK
 // leaves only after the commit, service.ts, so it bounds publish-to-commit from above) and the
-// resident memory of each process. Printed and recorded (soak_* keys), never asserted.
+// resident memory of each process. Memory is sampled every 5 s and a window's figure is the median
+// of its samples: one sample moves by tens of MB with the garbage collector's rhythm. Node's heap
+// grows to its working size in the first minutes of a load, so memory growth is also measured
+// from the window that ends SOAK_WARMUP_MINUTES (5) in, and both figures are printed. And each node
+// writes its live heap after a full collection every 30 s (memory-probe.ts): what a leak would grow.
+// Printed and recorded (soak_* keys), never asserted.
 import { spawn, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
@@ -22,19 +27,46 @@ import { probeBaseName } from "@/lib/domain/metrics";
 import { hashToken } from "@/lib/server/auth/tokens";
 import { startHaproxy, stopHaproxy } from "@/lib/stack/haproxy";
 import { startRedis, stopRedis } from "@/lib/stack/redis-server";
-import { freePort, percentile, record, type Row } from "./report";
+import { BENCH_DIR, freePort, percentile, record, type Row } from "./report";
 
 const MINUTES = Number(process.env.SOAK_MINUTES ?? 30);
+const WARMUP_MINUTES = Number(process.env.SOAK_WARMUP_MINUTES ?? 5);
 const READINGS_PER_S = Number(process.env.SOAK_READINGS_PER_S ?? 500);
 const PROBES = 100;
 const READINGS_PER_MESSAGE = 4; // temperature, moisture, ammonia, signal: one probe report
 const CLUSTER = "pg-soak";
 const root = path.resolve(import.meta.dirname, "../..");
 
+// Each node's live heap after a full collection, every 30 s (memory-probe.ts).
+const heapFile = (port: number) => path.join(BENCH_DIR, `soak-heap-${port}.jsonl`);
+type HeapLine = { t: number; rss: number; heapUsed: number; heapTotal: number; external: number };
+function heapLines(port: number): HeapLine[] {
+  try {
+    return fs
+      .readFileSync(heapFile(port), "utf8")
+      .split("\n")
+      .filter(Boolean)
+      .map((l) => JSON.parse(l) as HeapLine);
+  } catch {
+    return [];
+  }
+}
+
 async function startNode(databaseUrl: string, redisUrl: string, port: number): Promise<ChildProcess> {
-  const child = spawn(process.execPath, ["--import", "tsx", "ingest/main.ts"], {
+  fs.mkdirSync(BENCH_DIR, { recursive: true });
+  fs.rmSync(heapFile(port), { force: true });
+  const child = spawn(process.execPath, ["--expose-gc", "--import", "tsx", "--import", "./tests/bench/memory-probe.ts", "ingest/main.ts"], {
     cwd: root,
-    env: { ...process.env, DATABASE_URL: databaseUrl, REDIS_URL: redisUrl, MQTT_PORT: String(port), MQTT_HOST: "127.0.0.1", DEBUG: "" },
+    env: {
+      ...process.env,
+      DATABASE_URL: databaseUrl,
+      REDIS_URL: redisUrl,
+      MQTT_PORT: String(port),
+      MQTT_HOST: "127.0.0.1",
+      MQTT_PROXY_PROTOCOL: "1",
+      DEBUG: "",
+      SOAK_MEMORY_FILE: heapFile(port),
+    },
     stdio: ["ignore", "pipe", "inherit"],
   });
   await new Promise<void>((resolve, reject) => {
@@ -132,7 +164,7 @@ async function main() {
     const ports = [await freePort(), await freePort()];
     for (const port of ports) nodes.push(await startNode(url, redis.url, port));
     const front = await freePort();
-    await startHaproxy({ name: "haproxy-soak", port: front, backends: ports.map((port, i) => ({ name: `node-${i + 1}`, port })) });
+    await startHaproxy({ name: "haproxy-soak", port: front, backends: ports.map((port, i) => ({ name: `node-${i + 1}`, port })), sendProxy: true });
     console.log(
       `Wormward soak: ${MINUTES} min at ${READINGS_PER_S} readings/s from ${PROBES} probes through HAProxy (127.0.0.1:${front}) to two ingest nodes sharing Redis ${redis.port}; ${os.cpus().length} CPU(s), Node ${process.version}`,
     );
@@ -162,9 +194,12 @@ async function main() {
     const seq = new Array<number>(PROBES).fill(0);
     // Each probe's reports one second apart from 4 h ago (never ahead of now, whatever the length).
     const base = Math.floor(Date.now() / 1000) - 4 * 3600 - Math.ceil((durationMs / 1000) * (messagesPerS / PROBES));
-    let memStart: ReturnType<typeof memory> | null = null;
+    type Mem = ReturnType<typeof memory>;
+    const samples: { at: number; mem: Mem }[] = [];
     const t0 = performance.now();
+    const wall0 = Date.now();
     let lastPrint = t0;
+    let lastSample = -Infinity;
     while (performance.now() - t0 < durationMs) {
       const elapsed = performance.now() - t0;
       const due = Math.floor((elapsed / 1000) * messagesPerS);
@@ -181,17 +216,20 @@ async function main() {
           .finally(() => pending.delete(pr));
         pending.add(pr);
       }
-      if (!memStart && elapsed >= windowMs) memStart = memory();
+      if (elapsed - lastSample >= 5_000) {
+        lastSample = elapsed;
+        samples.push({ at: elapsed, mem: memory() });
+      }
       if (performance.now() - lastPrint >= 60_000) {
         lastPrint = performance.now();
-        const m = memory();
+        const m = samples.at(-1)!.mem;
         console.log(
           `  ${fmt(elapsed / 60_000, 1)} min: ${fmt(sent)} messages, ${pending.size} awaiting PUBACK, RSS node1 ${fmt(m.node1, 0)} MB, node2 ${fmt(m.node2, 0)} MB`,
         );
       }
       await new Promise((r) => setTimeout(r, 10));
     }
-    const memEnd = memory();
+    samples.push({ at: performance.now() - t0, mem: memory() });
     await Promise.all(pending);
     const elapsedS = (performance.now() - t0) / 1000;
     const stored = (await d.execute<{ n: number }>(sql`select count(*)::int as n from readings`)).rows[0]!.n;
@@ -204,16 +242,49 @@ async function main() {
       p50End: percentile(endMs, 50),
       p95End: percentile(endMs, 95),
     };
-    const growth = (k: keyof typeof processes) => (memStart?.[k] && memEnd[k] ? ((memEnd[k]! - memStart[k]!) / memStart[k]!) * 100 : null);
+    type Key = keyof typeof processes;
+    const keys = Object.keys(processes) as Key[];
+    // Median of a process's samples in [from, to): the window's resident memory.
+    const windowMem = (from: number, to: number): Record<Key, number | null> =>
+      Object.fromEntries(
+        keys.map((k) => {
+          const v = samples.filter((s) => s.at >= from && s.at < to && s.mem[k] != null).map((s) => s.mem[k]!);
+          return [k, v.length ? percentile(v, 50) : null];
+        }),
+      ) as Record<Key, number | null>;
+    const warmupMs = Math.min(WARMUP_MINUTES * 60_000, durationMs / 2);
+    const memStart = windowMem(0, windowMs);
+    const memWarm = windowMem(Math.max(0, warmupMs - windowMs), warmupMs);
+    const memEnd = windowMem(durationMs - windowMs, Infinity);
+    const pct = (from: number | null, to: number | null) => (from && to ? ((to - from) / from) * 100 : null);
+    const growth = (k: Key) => pct(memStart[k], memEnd[k]);
+    const growthWarm = (k: Key) => pct(memWarm[k], memEnd[k]);
+    // Live heap after a full collection: the median of a node's 30 s lines in the first and the last
+    // 3 minutes (a quarter of the run when shorter).
+    const heapWindowMs = Math.min(3 * 60_000, durationMs / 4);
+    const heapMb = (port: number, from: number, to: number) => {
+      const v = heapLines(port)
+        .filter((l) => l.t - wall0 >= from && l.t - wall0 < to)
+        .map((l) => l.heapUsed / 2 ** 20);
+      return v.length ? percentile(v, 50) : null;
+    };
+    const heap = ports.map((port, i) => ({
+      node: `node${i + 1}`,
+      start: heapMb(port, 0, heapWindowMs),
+      end: heapMb(port, durationMs - heapWindowMs, Infinity),
+    }));
     const expected = sent * READINGS_PER_MESSAGE;
     console.log(
       `\nSent ${fmt(sent)} messages (${fmt(expected)} readings) in ${fmt(elapsedS, 1)} s: ${fmt(expected / elapsedS)} readings/s; stored ${fmt(stored)}, ${failed} publish(es) failed` +
         `\npublish → PUBACK (after the commit), first ${fmt(windowMs / 1000)} s: p50 ${fmt(lat.p50Start, 1)} ms, p95 ${fmt(lat.p95Start, 1)} ms; last ${fmt(windowMs / 1000)} s: p50 ${fmt(lat.p50End, 1)} ms, p95 ${fmt(lat.p95End, 1)} ms` +
-        `\nRSS after the first window → at the end (MB): ${Object.keys(processes)
-          .map(
-            (k) =>
-              `${k} ${fmt(memStart?.[k as keyof typeof processes] ?? null, 1)} → ${fmt(memEnd[k as keyof typeof processes], 1)} (${fmt(growth(k as keyof typeof processes), 1)} %)`,
-          )
+        `\nRSS, median of the 5 s samples, first ${fmt(windowMs / 1000)} s → last (MB): ${keys
+          .map((k) => `${k} ${fmt(memStart[k], 1)} → ${fmt(memEnd[k], 1)} (${fmt(growth(k), 1)} %)`)
+          .join(", ")}` +
+        `\nRSS, the window ending at ${fmt(warmupMs / 60_000, 1)} min (warmed up) → last (MB): ${keys
+          .map((k) => `${k} ${fmt(memWarm[k], 1)} → ${fmt(memEnd[k], 1)} (${fmt(growthWarm(k), 1)} %)`)
+          .join(", ")}` +
+        `\nLive heap after a full collection, median of the first ${fmt(heapWindowMs / 60_000, 1)} min → the last (MB): ${heap
+          .map((h) => `${h.node} ${fmt(h.start, 1)} → ${fmt(h.end, 1)} (${fmt(pct(h.start, h.end), 1)} %)`)
           .join(", ")}`,
     );
 
@@ -229,15 +300,26 @@ async function main() {
       { what: "soak: stored readings", value: stored, unit: "rows", ceiling: expected, ceilingWhat: "sent", target: "all of them" },
       { what: "soak: publish→PUBACK p50, end", value: lat.p50End, unit: "ms", ceiling: lat.p50Start, ceilingWhat: "start", target: "unchanged within noise" },
       { what: "soak: publish→PUBACK p95, end", value: lat.p95End, unit: "ms", ceiling: lat.p95Start, ceilingWhat: "start", target: "unchanged within noise" },
-      ...(Object.keys(processes) as (keyof typeof processes)[]).map((k) => ({
+      ...keys.map((k) => ({
         what: `soak: RSS ${k}, end`,
         value: memEnd[k],
         unit: "MB",
-        ceiling: memStart?.[k] ?? null,
-        ceilingWhat: "after the first window",
+        ceiling: memWarm[k],
+        ceilingWhat: `at ${fmt(warmupMs / 60_000, 1)} min`,
+        target: "growth under 10 %",
+      })),
+      ...heap.map((h) => ({
+        what: `soak: live heap ${h.node}, end`,
+        value: h.end,
+        unit: "MB",
+        ceiling: h.start,
+        ceilingWhat: "first minutes",
         target: "growth under 10 %",
       })),
     ];
+    // Every sample, for a plot or a second look at the trend.
+    fs.mkdirSync(BENCH_DIR, { recursive: true });
+    fs.writeFileSync(path.join(BENCH_DIR, "soak-rss.json"), JSON.stringify(samples.map((s) => ({ at_s: Math.round(s.at / 1000), ...s.mem }))));
     record(
       {
         soak_minutes: MINUTES,
@@ -249,11 +331,21 @@ async function main() {
         soak_p95_start_ms: lat.p95Start,
         soak_p50_end_ms: lat.p50End,
         soak_p95_end_ms: lat.p95End,
+        soak_warmup_minutes: warmupMs / 60_000,
         ...Object.fromEntries(
-          (Object.keys(processes) as (keyof typeof processes)[]).flatMap((k) => [
-            [`soak_rss_${k}_start_mb`, memStart?.[k] ?? null],
+          keys.flatMap((k) => [
+            [`soak_rss_${k}_start_mb`, memStart[k]],
+            [`soak_rss_${k}_warm_mb`, memWarm[k]],
             [`soak_rss_${k}_end_mb`, memEnd[k]],
             [`soak_rss_${k}_growth_pct`, growth(k)],
+            [`soak_rss_${k}_growth_after_warmup_pct`, growthWarm(k)],
+          ]),
+        ),
+        ...Object.fromEntries(
+          heap.flatMap((h) => [
+            [`soak_heap_${h.node}_start_mb`, h.start],
+            [`soak_heap_${h.node}_end_mb`, h.end],
+            [`soak_heap_${h.node}_growth_pct`, pct(h.start, h.end)],
           ]),
         ),
       },

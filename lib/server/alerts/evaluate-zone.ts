@@ -3,7 +3,7 @@
 // each transition applied to the alerts table and queued for the crew. The rule runner in ingest/
 // decides when; this decides what.
 import createDebug from "debug";
-import { escalateAlert, raiseAlert, settleOpenAlert, takeDueReminders, updateOpenAlert } from "@/db/queries/alerts";
+import { escalateAlert, getAlertRow, listUnnotifiedAlerts, raiseAlert, settleOpenAlert, takeDueReminders, updateOpenAlert } from "@/db/queries/alerts";
 import { loadZoneRuleContext } from "@/db/queries/rule-inputs";
 import {
   evaluateZone,
@@ -119,8 +119,19 @@ async function apply(t: Transition, farmId: string, binId: string, at: Date) {
   }
 }
 
-/** Reminds the crew of act-now alerts left unclaimed (after `afterMs`, then twice as long each time, at most three times), and sends what quiet hours held back. */
+// How long a raise may wait for its deliveries before the sweep queues them (the raising process
+// retries for a minute, notifySurely), and how old a raise may be and still be sent.
+const UNNOTIFIED_GRACE_MS = 90_000;
+const UNNOTIFIED_WITHIN_MS = 24 * 3600_000;
+
+/** Reminds the crew of act-now alerts left unclaimed (after `afterMs`, then twice as long each time, at most three times), sends what quiet hours held back, and queues the deliveries of any raise or escalation whose process died before it queued them. */
 export async function remindAndRelease(afterMs: number, at: Date) {
   for (const a of await takeDueReminders(afterMs, at)) await notifyAlert(a, "reminder", at);
   await deliverHeldAlerts(at);
+  for (const { id, reason } of await listUnnotifiedAlerts(UNNOTIFIED_GRACE_MS, UNNOTIFIED_WITHIN_MS, at)) {
+    const row = await getAlertRow(id);
+    if (!row) continue;
+    log("alert %s was %s but never queued; queueing it now", id, reason);
+    await notifyAlert(row, reason, at, { recovering: true });
+  }
 }

@@ -5,7 +5,7 @@
 // the delivery workers (ingest/delivery-worker.ts) take, so the rule runner never waits on a
 // push service.
 import createDebug from "debug";
-import { alertContext, getAlertRow, listHeldDeliveries, markAlertSent, takeHeldDelivery } from "@/db/queries/alerts";
+import { alertContext, getAlertRow, listHeldDeliveries, takeHeldDelivery } from "@/db/queries/alerts";
 import { enqueueDeliveries, type NewDelivery } from "@/db/queries/deliveries";
 import { listCrew, listPushSubscriptions } from "@/db/queries/push";
 import type { Alert } from "@/db/schema";
@@ -84,15 +84,21 @@ async function deliveriesFor(alert: Alert, reason: Reason, people: { id: string;
   return { rows, pushes: subs.length, mails: mailNow.length };
 }
 
-export async function notifyAlert(alert: Alert, reason: NotifyReason, now = new Date()) {
+// `recovering`: queued by the sweep for a raise or escalation whose process died before queueing it;
+// taken only if no other node has queued it since `alert` was read.
+export async function notifyAlert(alert: Alert, reason: NotifyReason, now = new Date(), opts: { recovering?: boolean } = {}) {
   const crew = await listCrew(alert.farmId);
   const awake = crew.filter((p) => alert.level === "act_now" || !inQuietHours(now, p.quietFrom, p.quietTo, p.timezone));
   const held = crew.filter((p) => !awake.includes(p));
   const targets = reason === "reminder" ? crew.filter((p) => p.role === "keeper" || p.role === "owner") : awake;
   const { rows, pushes, mails } = await deliveriesFor(alert, reason, targets);
   const events = held.map((p) => ({ alertId: alert.id, at: now, type: "held", userId: p.id, channel: "push", detail: { reason: "quiet hours" } }));
-  await enqueueDeliveries(rows, events);
-  await markAlertSent(alert.id, now);
+  const added = await enqueueDeliveries(rows, events, {
+    alertId: alert.id,
+    at: now,
+    ...(opts.recovering ? { unlessSentSince: { lastSentAt: alert.lastSentAt } } : {}),
+  });
+  if (added === null) return { queued: 0, mailed: 0, held: 0 };
   log("alert %s %s: %d push(es) and %d mail(s) queued, %d held", alert.id, reason, pushes, mails, held.length);
   return { queued: pushes, mailed: mails, held: held.length };
 }

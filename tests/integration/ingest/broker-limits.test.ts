@@ -5,7 +5,7 @@ import net from "node:net";
 import { connect, type MqttClient } from "mqtt";
 import { afterEach, describe, expect, it } from "vitest";
 import { startIngest, type Ingest, type IngestOptions } from "@/ingest/service";
-import { varint } from "../../helpers/mqtt-bytes";
+import { connectPacket, varint } from "../../helpers/mqtt-bytes";
 import { connectProbe, countReadings, createProbes, rejectionsOf, tempPack, waitFor, type TestProbe } from "./helpers";
 
 const started: Ingest[] = [];
@@ -25,18 +25,6 @@ async function broker(opts: Partial<IngestOptions> = {}) {
 }
 
 const nowS = () => Math.floor(Date.now() / 1000);
-
-const str = (s: string) => {
-  const b = Buffer.from(s, "utf8");
-  return Buffer.concat([Buffer.from([b.length >> 8, b.length & 0xff]), b]);
-};
-
-/** A CONNECT (MQTT 3.1.1 §3.1) with clean session, user name and password. */
-function connectPacket(clientId: string, username: string, password: string): Buffer {
-  const variable = Buffer.concat([str("MQTT"), Buffer.from([4, 0xc2, 0, 60])]);
-  const body = Buffer.concat([variable, str(clientId), str(username), str(password)]);
-  return Buffer.concat([Buffer.from([0x10]), varint(body.length), body]);
-}
 
 type Raw = { socket: net.Socket; opened: Promise<void>; closed: Promise<number>; received: () => Buffer; isClosed: () => boolean };
 
