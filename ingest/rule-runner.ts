@@ -31,6 +31,15 @@ export type RuleRunnerOptions = {
   // is never heard, and nothing else would judge those readings until the zone's next one.
   // ingest/main.ts turns it on; a runner made by a test hears only what it is told, unless asked.
   catchUp?: boolean;
+  /**
+   * The largest share of the runner's time spent evaluating (default 0.25): after an evaluation that
+   * took longer than 20 ms, the next waits three times as long. The rules hold states for minutes,
+   * so a zone judged a few seconds later loses nothing, while evaluations over days of readings
+   * back to back would take the database from the writers and every farm's ingest would slow.
+   */
+  maxShare?: number;
+  /** What evaluates one zone (default evaluateZoneNow); a test may time the runner with its own. */
+  evaluateZone?: typeof evaluateZoneNow;
 };
 
 export type RuleRunner = {
@@ -51,7 +60,23 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
   let running: Promise<void> = Promise.resolve();
   let stopped = false;
 
-  const evaluate = (zoneId: string, kinds?: RuleKind[]) => evaluateZoneNow(zoneId, now(), { kinds, onTransition: opts.onTransition });
+  const evaluateZone = opts.evaluateZone ?? evaluateZoneNow;
+  const evaluate = (zoneId: string, kinds?: RuleKind[]) => evaluateZone(zoneId, now(), { kinds, onTransition: opts.onTransition });
+  const share = Math.min(1, Math.max(0.01, opts.maxShare ?? 0.25));
+  // Evaluations faster than this never wait: a quiet farm's zones are judged back to back.
+  const SLOW_EVALUATION_MS = 20;
+  let endRest: (() => void) | null = null;
+  const restAfter = async (tookMs: number) => {
+    if (tookMs <= SLOW_EVALUATION_MS || share >= 1 || stopped) return;
+    await new Promise<void>((r) => {
+      const t = setTimeout(r, (tookMs * (1 - share)) / share);
+      endRest = () => {
+        clearTimeout(t);
+        r();
+      };
+    });
+    endRest = null;
+  };
 
   // A zone is evaluated as soon as it is heard of, then at most once per coalesceMs while its
   // readings keep coming: the first reading over a line raises its alert at once, and a busy zone
@@ -86,8 +111,11 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
     running = running.then(async () => {
       const failed: string[] = [];
       for (const z of zones) {
+        if (stopped) break;
+        const started = performance.now();
         try {
           await evaluate(z);
+          await restAfter(performance.now() - started);
         } catch (err) {
           log("zone %s not evaluated: %s", z, (err as Error).message);
           failed.push(z);
@@ -230,6 +258,7 @@ export function createRuleRunner(opts: RuleRunnerOptions = {}): RuleRunner {
     },
     async stop() {
       stopped = true;
+      endRest?.();
       clearInterval(sweeper);
       if (timer) clearTimeout(timer);
       if (listener) {
