@@ -200,6 +200,7 @@ async function main() {
     const wall0 = Date.now();
     let lastPrint = t0;
     let lastSample = -Infinity;
+    const minutes: { at_s: number; p50: number | null; p95: number | null }[] = [];
     while (performance.now() - t0 < durationMs) {
       const elapsed = performance.now() - t0;
       const due = Math.floor((elapsed / 1000) * messagesPerS);
@@ -223,8 +224,13 @@ async function main() {
       if (performance.now() - lastPrint >= 60_000) {
         lastPrint = performance.now();
         const m = samples.at(-1)!.mem;
+        // This minute's publish→PUBACK, so the first and last windows can be read against the spread between minutes.
+        const minute = latencies.filter((l) => l.at >= elapsed - 60_000).map((l) => l.ms);
+        const p50 = percentile(minute, 50);
+        const p95 = percentile(minute, 95);
+        minutes.push({ at_s: Math.round(elapsed / 1000), p50, p95 });
         console.log(
-          `  ${fmt(elapsed / 60_000, 1)} min: ${fmt(sent)} messages, ${pending.size} awaiting PUBACK, RSS node1 ${fmt(m.node1, 0)} MB, node2 ${fmt(m.node2, 0)} MB`,
+          `  ${fmt(elapsed / 60_000, 1)} min: ${fmt(sent)} messages, ${pending.size} awaiting PUBACK, p50 ${fmt(p50, 1)} / p95 ${fmt(p95, 1)} ms, RSS node1 ${fmt(m.node1, 0)} MB, node2 ${fmt(m.node2, 0)} MB`,
         );
       }
       await new Promise((r) => setTimeout(r, 10));
@@ -320,6 +326,10 @@ async function main() {
     // Every sample, for a plot or a second look at the trend.
     fs.mkdirSync(BENCH_DIR, { recursive: true });
     fs.writeFileSync(path.join(BENCH_DIR, "soak-rss.json"), JSON.stringify(samples.map((s) => ({ at_s: Math.round(s.at / 1000), ...s.mem }))));
+    fs.writeFileSync(path.join(BENCH_DIR, "soak-latency.json"), JSON.stringify(minutes));
+    const p95s = minutes.map((x) => x.p95).filter((x): x is number => x != null);
+    if (p95s.length)
+      console.log(`Spread of the minutes' p95: ${fmt(Math.min(...p95s), 1)}–${fmt(Math.max(...p95s), 1)} ms, median ${fmt(percentile(p95s, 50), 1)} ms`);
     record(
       {
         soak_minutes: MINUTES,
