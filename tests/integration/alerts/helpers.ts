@@ -14,19 +14,16 @@ export async function addKeeper(probe: TestProbe, email: string, name = "Keeper"
   return u!.id;
 }
 
-export async function raiseActNow(probe: TestProbe, kind: AlertKind, value: number, unit: string) {
+/** An open alert of `kind` on the probe's zone, raised straight into the table (nothing queued). */
+export async function raiseOn(probe: TestProbe, kind: AlertKind, level: "heads_up" | "act_now", value: number, message: string, at = new Date()) {
   const binId = ((await db().execute(`select bin_id as "binId" from zones where id = '${probe.zoneId}'`)).rows[0] as { binId: string }).binId;
-  const alert = await raiseAlert({
-    farmId: probe.farmId,
-    binId,
-    zoneId: probe.zoneId,
-    probeId: null,
-    subject: `zone:${probe.zoneId}:${kind}`,
-    kind,
-    level: "act_now",
-    value,
-    message: `Test bin: ${value} ${unit}`,
-    details: {},
-  });
+  const alert = await raiseAlert(
+    { farmId: probe.farmId, binId, zoneId: probe.zoneId, probeId: null, subject: `zone:${probe.zoneId}:${kind}`, kind, level, value, message, details: {} },
+    at,
+  );
   return alert!;
+}
+
+export function raiseActNow(probe: TestProbe, kind: AlertKind, value: number, unit: string) {
+  return raiseOn(probe, kind, "act_now", value, `Test bin: ${value} ${unit}`);
 }

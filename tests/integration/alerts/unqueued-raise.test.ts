@@ -5,7 +5,7 @@
 import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it, inject } from "vitest";
 import { db } from "@/db";
-import { escalateAlert, getAlertRow, raiseAlert } from "@/db/queries/alerts";
+import { escalateAlert, getAlertRow } from "@/db/queries/alerts";
 import { listDeliveries } from "@/db/queries/deliveries";
 import { savePushSubscription } from "@/db/queries/push";
 import { alertEvents, memberships, users } from "@/db/schema";
@@ -13,6 +13,7 @@ import { remindAndRelease } from "@/lib/server/alerts/evaluate-zone";
 import { notifyAlert } from "@/lib/server/alerts/notify";
 import { makeVapidKeys } from "@/lib/server/push/push";
 import { newSubscriber } from "../../helpers/push";
+import { raiseOn } from "./helpers";
 import { createProbes, type TestProbe } from "../ingest/helpers";
 
 const vapid = makeVapidKeys();
@@ -25,7 +26,6 @@ const MIN = 60_000;
 const REMIND_AFTER = 15 * MIN;
 
 let probe: TestProbe;
-let binId: string;
 let sleeperId: string;
 
 beforeAll(async () => {
@@ -46,28 +46,10 @@ beforeAll(async () => {
     const phone = await newSubscriber();
     await savePushSubscription(u.id, { endpoint: phone.json.endpoint, p256dh: phone.json.keys.p256dh, auth: phone.json.keys.auth });
   }
-  binId = ((await d.execute(`select bin_id as "binId" from zones where id = '${probe.zoneId}'`)).rows[0] as { binId: string }).binId;
 });
 
 // Raised straight into the table, as the rule runner does, and then "killed": nothing queued.
-async function raiseUnqueued(kind: "heat" | "soggy" | "drying" | "chill", level: "heads_up" | "act_now", at: Date) {
-  const a = await raiseAlert(
-    {
-      farmId: probe.farmId,
-      binId,
-      zoneId: probe.zoneId,
-      probeId: null,
-      subject: `zone:${probe.zoneId}:${kind}`,
-      kind,
-      level,
-      value: 30,
-      message: "Test bin",
-      details: {},
-    },
-    at,
-  );
-  return a!;
-}
+const raiseUnqueued = (kind: "heat" | "soggy" | "drying" | "chill", level: "heads_up" | "act_now", at: Date) => raiseOn(probe, kind, level, 30, "Test bin", at);
 const deliveriesOf = async (alertId: string) => (await listDeliveries({ alertId })).map((d) => `${d.reason}:${d.channel}:${d.userId}`).sort();
 const heldOf = async (alertId: string) =>
   (
